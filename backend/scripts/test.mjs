@@ -1,0 +1,81 @@
+// `npm test`: the same set-up as `npm start`, with a test database recreated for the run and fresh
+// fakes on ports of their own (so a running `npm start` is not disturbed), then every test layer.
+// Prints one summary line per layer and exits non-zero when any layer fails.
+import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
+import { join } from 'node:path';
+import { DATA, ROOT, appEnvironment, settings } from './lib/env.mjs';
+import { log, main, run, stopOnSignals } from './lib/proc.mjs';
+
+const TEST = {
+  dbName: process.env.TEST_DB_NAME ?? `${settings.dbName}_test`,
+  appPort: Number(process.env.TEST_APP_PORT ?? 3100),
+  smtpPort: Number(process.env.TEST_SMTP_PORT ?? 2525),
+  mailApiPort: Number(process.env.TEST_MAIL_API_PORT ?? 2580),
+  s3Port: Number(process.env.TEST_S3_PORT ?? 4570),
+};
+const RESULTS = join(DATA, 'test-results');
+const VITEST = join(ROOT, 'node_modules', 'vitest', 'vitest.mjs');
+
+/** Runs one vitest layer; returns its counts from vitest's JSON report. */
+function runLayer(name, cwd, args, env) {
+  const report = join(RESULTS, `${name.replace(/\W+/g, '-')}.json`);
+  rmSync(report, { force: true });
+  log(`layer: ${name}`);
+  let exitCode = 0;
+  try {
+    run(process.execPath, [VITEST, 'run', ...args, '--reporter=default', '--reporter=json', `--outputFile.json=${report}`], { cwd, env });
+  } catch {
+    exitCode = 1;
+  }
+  if (!existsSync(report)) return { name, passed: 0, failed: 0, skipped: 0, ok: false, note: 'no report (the runner failed to start)' };
+  const json = JSON.parse(readFileSync(report, 'utf8'));
+  const passed = json.numPassedTests ?? 0;
+  const failed = (json.numFailedTests ?? 0) + (json.numFailedTestSuites && !json.numFailedTests ? json.numFailedTestSuites : 0);
+  const skipped = (json.numPendingTests ?? 0) + (json.numTodoTests ?? 0);
+  const ok = exitCode === 0 && failed === 0 && passed > 0;
+  return { name, passed, failed, skipped, ok, note: passed === 0 ? 'no test ran' : '' };
+}
+
+stopOnSignals();
+main(async () => {
+  const { ensureNodeModules } = await import('./lib/provision.mjs');
+  ensureNodeModules();
+  const { buildAll, ensureDatabase, ensureDebianPackages, migrateAndSeed, startApp, startFakes, startMariadb } = await import('./lib/provision.mjs');
+  ensureDebianPackages('chromium', ['chromium'], 'the end-to-end tests');
+  ensureDebianPackages('pdfsig', ['poppler-utils'], 'checking package signatures in tests');
+  await startMariadb();
+  ensureDatabase(TEST.dbName, { recreate: true });
+  const s3Dir = join(DATA, 'test-s3');
+  rmSync(s3Dir, { recursive: true, force: true });
+  await startFakes({ smtpPort: TEST.smtpPort, mailApiPort: TEST.mailApiPort, s3Port: TEST.s3Port, s3Dir });
+  buildAll();
+  mkdirSync(RESULTS, { recursive: true });
+
+  const env = {
+    ...appEnvironment({ dbName: TEST.dbName, appPort: TEST.appPort, smtpPort: TEST.smtpPort, s3Port: TEST.s3Port }),
+    NODE_ENV: 'test',
+    MAIL_API_URL: `http://127.0.0.1:${TEST.mailApiPort}`,
+  };
+  migrateAndSeed(env);
+
+  const layers = [];
+  layers.push(runLayer('common unit', join(ROOT, 'common'), [], env));
+  layers.push(runLayer('backend unit', join(ROOT, 'backend'), ['--project', 'unit'], env));
+  layers.push(runLayer('frontend unit', join(ROOT, 'frontend'), ['--project', 'unit'], env));
+  if (existsSync(join(ROOT, 'reference-checks', 'vitest.config.ts'))) {
+    layers.push(runLayer('reference checks', join(ROOT, 'reference-checks'), [], env));
+  }
+  layers.push(runLayer('api integration', join(ROOT, 'backend'), ['--project', 'integration'], env));
+
+  log(`starting the built app for end-to-end tests on 127.0.0.1:${TEST.appPort}`);
+  await startApp(env);
+  layers.push(runLayer('end-to-end', join(ROOT, 'frontend'), ['--project', 'e2e'], { ...env, E2E_BASE_URL: `http://127.0.0.1:${TEST.appPort}` }));
+
+  const total = layers.reduce((acc, l) => ({ passed: acc.passed + l.passed, failed: acc.failed + l.failed, skipped: acc.skipped + l.skipped }), { passed: 0, failed: 0, skipped: 0 });
+  process.stdout.write('\nTest layers\n');
+  for (const l of layers) {
+    process.stdout.write(`  ${l.ok ? 'PASS' : 'FAIL'}  ${l.name.padEnd(18)} ${l.passed} passed, ${l.failed} failed${l.skipped ? `, ${l.skipped} skipped` : ''}${l.note ? `  (${l.note})` : ''}\n`);
+  }
+  process.stdout.write(`${total.passed} passed, ${total.failed} failed${total.skipped ? `, ${total.skipped} skipped` : ''}\n`);
+  return layers.every((l) => l.ok) ? 0 : 1;
+});

@@ -1,0 +1,71 @@
+/**
+ * The app's configuration, read from the environment and validated once at start-up: a missing or
+ * malformed setting stops the app with a list of what is wrong, instead of failing later.
+ */
+import 'reflect-metadata';
+import { plainToInstance, Type } from 'class-transformer';
+import { IsIn, IsInt, IsNotEmpty, IsOptional, IsString, IsUrl, Max, Min, validateSync } from 'class-validator';
+
+export class Environment {
+  @IsIn(['development', 'production', 'test'])
+  NODE_ENV: 'development' | 'production' | 'test' = 'development';
+
+  @IsString() @IsNotEmpty()
+  APP_HOST = '127.0.0.1';
+
+  @Type(() => Number) @IsInt() @Min(1) @Max(65535)
+  APP_PORT = 3000;
+
+  @IsString() @IsNotEmpty()
+  DB_HOST = '127.0.0.1';
+
+  @Type(() => Number) @IsInt() @Min(1) @Max(65535)
+  DB_PORT = 3307;
+
+  @IsString() @IsNotEmpty()
+  DB_NAME = 'ampwright';
+
+  @IsString() @IsNotEmpty()
+  DB_USER = 'ampwright';
+
+  @IsString() @IsNotEmpty({ message: 'DB_PASSWORD must be set (npm start sets a local one)' })
+  DB_PASSWORD: string;
+
+  @IsString() @IsNotEmpty()
+  SMTP_HOST = '127.0.0.1';
+
+  @Type(() => Number) @IsInt() @Min(1) @Max(65535)
+  SMTP_PORT = 1025;
+
+  @IsString() @IsNotEmpty()
+  MAIL_FROM = 'Ampwright <no-reply@ampwright.example>';
+
+  @IsUrl({ require_tld: false, protocols: ['http', 'https'] })
+  S3_ENDPOINT = 'http://127.0.0.1:4569';
+
+  @IsString() @IsNotEmpty()
+  S3_REGION = 'us-east-1';
+
+  @IsString() @IsNotEmpty()
+  S3_BUCKET = 'ampwright-files';
+
+  @IsString() @IsNotEmpty()
+  S3_ACCESS_KEY: string;
+
+  @IsString() @IsNotEmpty()
+  S3_SECRET_KEY: string;
+
+  /** The built front end to serve; empty serves the API only. */
+  @IsOptional() @IsString()
+  STATIC_DIR?: string;
+}
+
+export function validateEnvironment(raw: Record<string, unknown>): Environment {
+  const env = plainToInstance(Environment, raw, { enableImplicitConversion: false, exposeDefaultValues: true });
+  const errors = validateSync(env, { skipMissingProperties: false, whitelist: false });
+  if (errors.length > 0) {
+    const lines = errors.flatMap((e) => Object.values(e.constraints ?? {}).map((m) => `  - ${m}`));
+    throw new Error(`The configuration is not valid:\n${lines.join('\n')}`);
+  }
+  return env;
+}

@@ -1,0 +1,48 @@
+import { ArgumentsHost, Catch, ExceptionFilter, HttpException, HttpStatus, Logger } from '@nestjs/common';
+import type { Response } from 'express';
+import { AppException, ErrorBody, ErrorCode } from '../errors/app-exception';
+import { bodyParserError } from './body-parser-error';
+
+const CODE_BY_STATUS: Record<number, ErrorCode> = {
+  400: ErrorCode.BadRequest,
+  401: ErrorCode.Unauthenticated,
+  403: ErrorCode.Forbidden,
+  404: ErrorCode.NotFound,
+  409: ErrorCode.Conflict,
+  413: ErrorCode.PayloadTooLarge,
+  415: ErrorCode.UnsupportedMediaType,
+  429: ErrorCode.TooManyRequests,
+  503: ErrorCode.ServiceUnavailable,
+};
+
+/** Turns every error into the one JSON shape (ErrorBody). Unknown errors are logged, never shown. */
+@Catch()
+export class AllExceptionsFilter implements ExceptionFilter {
+  private readonly logger = new Logger('Errors');
+
+  catch(exception: unknown, host: ArgumentsHost): void {
+    const response = host.switchToHttp().getResponse<Response>();
+    const body = this.toBody(exception);
+    if (body.statusCode >= 500) this.logger.error(exception instanceof Error ? (exception.stack ?? exception.message) : String(exception));
+    response.status(body.statusCode).json(body);
+  }
+
+  toBody(exception: unknown): ErrorBody {
+    if (exception instanceof AppException) {
+      return { statusCode: exception.status, code: exception.code, message: exception.message, ...(exception.details ? { details: exception.details } : {}) };
+    }
+    if (exception instanceof HttpException) {
+      const status = exception.getStatus();
+      const res = exception.getResponse();
+      const message = typeof res === 'string' ? res : ((res as { message?: unknown }).message ?? exception.message);
+      return {
+        statusCode: status,
+        code: CODE_BY_STATUS[status] ?? (status >= 500 ? ErrorCode.Internal : ErrorCode.BadRequest),
+        message: Array.isArray(message) ? message.join('; ') : String(message),
+      };
+    }
+    const parserError = bodyParserError(exception);
+    if (parserError) return this.toBody(parserError);
+    return { statusCode: HttpStatus.INTERNAL_SERVER_ERROR, code: ErrorCode.Internal, message: 'Something went wrong on the server. It has been logged.' };
+  }
+}

@@ -1,0 +1,17 @@
+import { Controller, Get, Res } from '@nestjs/common';
+import type { Response } from 'express';
+import { HealthService } from './health.service';
+import { HealthResponseDto } from './dto/health-response.dto';
+
+@Controller('health')
+export class HealthController {
+  constructor(private readonly health: HealthService) {}
+
+  @Get()
+  async get(@Res({ passthrough: true }) res: Response): Promise<HealthResponseDto> {
+    const report = await this.health.check();
+    res.status(report.status === 'down' ? 503 : 200);
+    res.setHeader('cache-control', 'no-store');
+    return report;
+  }
+}

@@ -1,0 +1,3 @@
+export * from './sheet/sheet-format';
+export { ENGINE_VERSION } from './version';
+export type { HealthReport, Reachability } from './api/health';

@@ -1,0 +1,25 @@
+import { chromium, type Browser, type Page } from 'playwright-core';
+
+/** Debian's Chromium, driven by playwright-core; no browser is downloaded. */
+export async function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+}
+
+export function baseUrl(): string {
+  const url = process.env.E2E_BASE_URL;
+  if (!url) throw new Error('E2E_BASE_URL is not set: run the end-to-end tests through `npm test`');
+  return url;
+}
+
+/** Collects errors the page logs, so a test can assert the page ran cleanly. */
+export function collectPageErrors(page: Page): string[] {
+  const errors: string[] = [];
+  page.on('pageerror', (err) => errors.push(err.message));
+  page.on('console', (msg) => {
+    if (msg.type() === 'error') errors.push(msg.text());
+  });
+  return errors;
+}

@@ -1,0 +1,26 @@
+import { fileURLToPath } from 'node:url';
+import react from '@vitejs/plugin-react';
+import { defineConfig } from 'vitest/config';
+
+const commonSource = fileURLToPath(new URL('../common/src/index.ts', import.meta.url));
+
+// The front end compiles common/ from source (the same engine code the server runs, built for the browser).
+export default defineConfig({
+  plugins: [react()],
+  resolve: { alias: { '@ampwright/common': commonSource } },
+  server: {
+    host: '127.0.0.1',
+    port: 5173,
+    strictPort: true,
+    proxy: { '/api': { target: 'http://127.0.0.1:3000', changeOrigin: false } },
+  },
+  preview: { host: '127.0.0.1' },
+  build: { outDir: 'dist', sourcemap: true, chunkSizeWarningLimit: 2000 },
+  test: {
+    projects: [
+      { extends: true, test: { name: 'unit', include: ['src/**/*.spec.{ts,tsx}'], environment: 'jsdom', setupFiles: ['src/test-setup.ts'] } },
+      // End-to-end: Debian's Chromium through playwright-core against the built app that scripts/test.mjs starts.
+      { extends: true, test: { name: 'e2e', include: ['e2e/**/*.e2e.ts'], environment: 'node', fileParallelism: false, testTimeout: 60000, hookTimeout: 60000 } },
+    ],
+  },
+});
