@@ -1,0 +1,142 @@
+/**
+ * The calc cell: one statement a line, `name = expression`, optionally ending in `to unit` and a
+ * `# description`. Each line gives its value, and the LaTeX of its formula, working and result.
+ */
+import type { MathNode } from 'mathjs';
+import type { CalcCell } from '../sheet/sheet-format';
+import { EngineError, type Diagnostic } from '../language/errors';
+import { checkNames, evaluateNode, normalizeSource, parseExpression } from '../language/expression';
+import { displayTex, expressionTex, unitTex, variableTex } from '../tex/tex';
+import { formatValue, type DisplayOptions } from '../units/display';
+import { convertTo } from './convert';
+import { describePlace, type SheetScope } from './scope';
+import type { CalcResult } from './types';
+
+type AnyNode = MathNode & Record<string, unknown>;
+
+/** Splits `expr # description` at the first # outside a string. */
+export function splitComment(line: string): { code: string; description?: string } {
+  let quote: string | null = null;
+  for (let i = 0; i < line.length; i++) {
+    const ch = line[i];
+    if (quote) {
+      if (ch === quote) quote = null;
+    } else if (ch === '"') quote = ch;
+    else if (ch === '#') {
+      const description = line.slice(i + 1).trim();
+      return { code: line.slice(0, i), description: description || undefined };
+    }
+  }
+  return { code: line };
+}
+
+export interface ParsedStatement {
+  name: string;
+  expression: MathNode;
+  /** The unit asked for with `to`, in mathjs syntax. */
+  target?: string;
+  description?: string;
+  code: string;
+}
+
+/** Parses one line; undefined for a blank or comment-only line. */
+export function parseStatement(text: string, line: number): ParsedStatement | undefined {
+  const { code, description } = splitComment(text);
+  if (!code.trim()) return undefined;
+  const node = parseExpression(code, line) as AnyNode;
+  if (node.type !== 'AssignmentNode' || (node.object as AnyNode).type !== 'SymbolNode') {
+    const eq = code.indexOf('=');
+    throw new EngineError(
+      node.type === 'FunctionAssignmentNode'
+        ? 'defining functions is not part of the language: write name = expression'
+        : 'each line must be a definition: name = expression (for example I = V / Z)',
+      line,
+      eq >= 0 ? eq + 1 : code.search(/\S/) + 1,
+    );
+  }
+  const name = String((node.object as AnyNode).name);
+  let expression = node.value as AnyNode;
+  let target: string | undefined;
+  if (expression.type === 'OperatorNode' && (expression.fn === 'to' || expression.op === 'in')) {
+    const [value, unit] = expression.args as AnyNode[];
+    target = normalizeSource(code.slice(code.lastIndexOf(String(expression.op)) + String(expression.op).length)).trim();
+    expression = value;
+    if (!target || !(unit.type === 'SymbolNode' || unit.type === 'OperatorNode' || unit.type === 'ParenthesisNode')) {
+      throw new EngineError('after "to" write a unit, for example to mA', line, code.lastIndexOf('to') + 1);
+    }
+  }
+  return { name, expression, target, description, code };
+}
+
+/** w, omega, w_0, omega_d, ...: an angular frequency, shown in rad/s rather than Hz. */
+const isAngularName = (name: string) => /^(w|omega)(_|\d|$)/.test(name);
+const isFrequency = (v: unknown) => {
+  const d = (v as { dimensions?: number[] })?.dimensions;
+  return Array.isArray(d) && d.every((x, i) => x === (i === 2 ? -1 : 0));
+};
+
+const RESERVED = new Set(['pi', 'e', 'i', 'j', 'true', 'false', 'Infinity', 'NaN', 'null', 'end']);
+
+export function evaluateCalcCell(cell: CalcCell, cellIndex: number, scope: SheetScope, display: DisplayOptions): CalcResult {
+  const result: CalcResult = { kind: 'calc', status: 'ok', values: {}, lines: [], errors: [], warnings: [] };
+  const mathScope = scope.asMathScope();
+  const lines = cell.source.split('\n');
+  lines.forEach((text, i) => {
+    const lineNo = i + 1;
+    const place = { cell: cellIndex, line: lineNo };
+    let statement: ParsedStatement | undefined;
+    try {
+      statement = parseStatement(text, lineNo);
+      if (!statement) return;
+      const { name, expression, target, description, code } = statement;
+      if (RESERVED.has(name)) throw new EngineError(`${name} is a constant of the language and cannot be redefined`, lineNo, code.indexOf(name) + 1);
+      const exprOffset = code.indexOf('=') + 1;
+      const exprSource = code.slice(exprOffset);
+      const warnings = checkNames(expression, exprSource, scope, place, exprOffset);
+      result.warnings.push(...warnings);
+      let value = evaluateNode(expression, expression.compile(), mathScope, exprSource, lineNo, exprOffset);
+      if (typeof value === 'function' || value === undefined) throw new EngineError('this expression has no value', lineNo, exprOffset + 1);
+      if (target) {
+        try {
+          value = convertTo(value, target);
+        } catch (err) {
+          throw new EngineError((err as Error).message, lineNo, code.lastIndexOf(' to ') + 2);
+        }
+      }
+      const previous = scope.origin.get(name);
+      if (previous) result.warnings.push({ line: lineNo, column: 1, message: `${name} was defined before (${describePlace(previous)}); from here on it means this new value` });
+      const formatted = formatValue(value, display, target ?? (isAngularName(name) && isFrequency(value) ? 'rad/s' : undefined));
+      // Typeset before binding: the formula's own name may be read on its right-hand side.
+      const tex = lineTex(name, expression, scope, display, formatted.display);
+      scope.define(name, value, place);
+      result.values[name] = formatted;
+      result.lines.push({ line: lineNo, name, description, value: formatted, tex });
+    } catch (err) {
+      const error: Diagnostic = err instanceof EngineError ? err.toDiagnostic() : { line: lineNo, column: 1, message: (err as Error).message };
+      result.errors.push(error);
+      result.status = 'error';
+      const name = statement?.name ?? /^\s*([A-Za-z_]\w*)\s*=/.exec(text)?.[1];
+      if (name) scope.markFailed(name, place);
+      result.lines.push({ line: lineNo, name: name ?? '', error });
+    }
+  });
+  return result;
+}
+
+/** Formula, working and result of one line as LaTeX. */
+export function lineTex(name: string, expression: MathNode, scope: SheetScope, display: DisplayOptions, shown: string) {
+  const lhs = variableTex(name);
+  const isVariable = (n: string) => scope.has(n);
+  const formula = `${lhs} = ${expressionTex(expression, { isVariable })}`;
+  const working = `${lhs} = ${expressionTex(expression, {
+    isVariable,
+    valueTexOf: (n) => {
+      const f = formatValue(scope.values.get(n), display);
+      const t = displayTex(f.display);
+      return /^[\d.]+$/.test(f.display) ? t : `\\left(${t}\\right)`;
+    },
+  })}`;
+  return { formula, working, result: `${lhs} = ${displayTex(shown)}` };
+}
+
+export { unitTex };

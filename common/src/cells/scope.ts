@@ -1,0 +1,88 @@
+/**
+ * What a cell can see: the names defined above it and on its own earlier lines. The scope also knows
+ * every definition in the sheet (to say where a name used too early is defined) and records which
+ * outer names a cell read, so incremental evaluation knows what a cell depends on.
+ */
+export interface Place {
+  cell: number; // 0-based
+  line: number; // 1-based
+}
+
+export const describePlace = (p: Place) => `cell ${p.cell + 1}, line ${p.line}`;
+
+const ASSIGNMENT = /^\s*([A-Za-z_\u0370-\u03FF][A-Za-z0-9_\u0370-\u03FF]*)\s*=(?!=)/;
+
+/** The name a calc line assigns, read without a full parse. */
+export function assignedName(line: string): string | undefined {
+  return ASSIGNMENT.exec(line)?.[1];
+}
+
+export class SheetScope {
+  readonly values = new Map<string, unknown>();
+  readonly origin = new Map<string, Place>();
+  /** Names whose definition failed, with where: using one says so instead of "unknown". */
+  readonly failed = new Map<string, Place>();
+  private reads: Set<string> | undefined;
+
+  constructor(readonly definitions: Map<string, Place[]>) {}
+
+  has(name: string): boolean {
+    this.reads?.add(name);
+    return this.values.has(name);
+  }
+
+  get(name: string): unknown {
+    this.reads?.add(name);
+    return this.values.get(name);
+  }
+
+  define(name: string, value: unknown, place: Place): void {
+    this.values.set(name, value);
+    this.origin.set(name, place);
+    this.failed.delete(name);
+  }
+
+  markFailed(name: string, place: Place): void {
+    this.values.delete(name);
+    this.origin.delete(name);
+    this.failed.set(name, place);
+  }
+
+  /** The first definition of a name after a place, if any. */
+  definedLater(name: string, after: Place): Place | undefined {
+    return this.definitions.get(name)?.find((p) => p.cell > after.cell || (p.cell === after.cell && p.line > after.line));
+  }
+
+  /** Runs fn and returns the outer names it read (names defined inside the cell are filtered by the caller). */
+  tracking<T>(fn: () => T): { result: T; reads: Set<string> } {
+    const before = this.reads;
+    const reads = new Set<string>();
+    this.reads = reads;
+    try {
+      return { result: fn(), reads };
+    } finally {
+      this.reads = before;
+    }
+  }
+
+  /** A Map-like view for mathjs that records reads. */
+  asMathScope(): Map<string, unknown> {
+    // eslint-disable-next-line @typescript-eslint/no-this-alias
+    const scope = this;
+    return new (class extends Map<string, unknown> {
+      get(key: string) {
+        return scope.get(key);
+      }
+      has(key: string) {
+        return scope.has(key);
+      }
+      set(key: string, value: unknown) {
+        scope.values.set(key, value);
+        return this;
+      }
+      keys() {
+        return scope.values.keys();
+      }
+    })();
+  }
+}

@@ -1,0 +1,36 @@
+/** The table cell: named columns with units; each column becomes a vector the cells below can use. */
+import type { TableCell } from '../sheet/sheet-format';
+import { math } from '../language/instance';
+import { formatValue, type DisplayOptions } from '../units/display';
+import type { SheetScope } from './scope';
+import type { TableResult } from './types';
+
+const NAME = /^[A-Za-z_][A-Za-z0-9_]*$/;
+
+export function tableColumnNames(cell: TableCell): string[] {
+  return cell.columns.map((c) => c.name).filter((n) => NAME.test(n));
+}
+
+export function evaluateTableCell(cell: TableCell, cellIndex: number, scope: SheetScope, display: DisplayOptions): TableResult {
+  const result: TableResult = { kind: 'table', status: 'ok', values: {}, errors: [], warnings: [] };
+  cell.columns.forEach((column, c) => {
+    try {
+      if (!NAME.test(column.name)) throw new Error(`column ${c + 1}: "${column.name}" is not a name (letters, digits and _, not starting with a digit)`);
+      const unit = column.unit?.trim() ? column.unit.trim().replace(/[µμ]/g, 'u') : undefined;
+      if (unit) math.unit(unit);
+      const values = cell.rows.map((row, r) => {
+        const v = row[c];
+        const n = typeof v === 'number' ? v : typeof v === 'string' && v.trim() !== '' ? Number(v) : NaN;
+        if (!Number.isFinite(n)) throw new Error(`row ${r + 1}, column ${column.name}: "${v ?? ''}" is not a number`);
+        return unit ? math.unit(n, unit) : n;
+      });
+      const vector = math.matrix(values as never);
+      scope.define(column.name, vector, { cell: cellIndex, line: 1 });
+      result.values[column.name] = formatValue(vector, display);
+    } catch (err) {
+      result.status = 'error';
+      result.errors.push({ line: 1, column: c + 1, message: (err as Error).message });
+    }
+  });
+  return result;
+}

@@ -1,0 +1,93 @@
+import type { Diagnostic } from '../language/errors';
+import type { DisplayOptions, FormattedValue } from '../units/display';
+
+export type { Diagnostic, DisplayOptions, FormattedValue };
+
+export interface LineTex {
+  /** The formula with names: X_{L} = 2 \pi f L */
+  formula: string;
+  /** The formula with values and units substituted. */
+  working: string;
+  /** The result in the unit shown: X_{L} = 12.57\,\Omega */
+  result: string;
+}
+
+export interface LineResult {
+  line: number;
+  name: string;
+  description?: string;
+  value?: FormattedValue;
+  tex?: LineTex;
+  error?: Diagnostic;
+}
+
+export interface CellResultBase {
+  kind: string;
+  status: 'ok' | 'error';
+  errors: Diagnostic[];
+  warnings: Diagnostic[];
+}
+
+export interface CalcResult extends CellResultBase {
+  kind: 'calc';
+  values: Record<string, FormattedValue>;
+  lines: LineResult[];
+}
+
+export interface CheckResult extends CellResultBase {
+  kind: 'check';
+  pass: boolean | null;
+  utilization: number | null;
+  /** 1 − utilisation: the share of the limit still unused (negative when exceeded). */
+  margin: number | null;
+  severity: 'mandatory' | 'advisory';
+  actual?: FormattedValue;
+  limit?: FormattedValue;
+  relation?: string;
+  tex?: { formula: string; working: string };
+}
+
+export interface SeriesData {
+  name: string;
+  unit: string;
+  /** Real values in `unit`, or, for complex series, magnitude in `unit` and angle in degrees. */
+  values: number[];
+  im?: number[];
+  complex?: boolean;
+}
+
+export interface SweepResult extends CellResultBase {
+  kind: 'sweep';
+  variable?: SeriesData;
+  outputs: SeriesData[];
+}
+
+export interface TransientResult extends CellResultBase {
+  kind: 'transient';
+  dampingCase?: 'overdamped' | 'critically damped' | 'underdamped' | 'undamped';
+  parameters?: Record<string, FormattedValue>;
+  analytic?: { available: boolean; reason?: string; sourceForm?: string };
+  time?: SeriesData;
+  charge?: SeriesData;
+  current?: SeriesData;
+  chargeAnalytic?: SeriesData;
+  currentAnalytic?: SeriesData;
+  currentSteady?: SeriesData;
+  currentTransient?: SeriesData;
+  peakCurrent?: FormattedValue;
+  peakTime?: FormattedValue;
+  /** Largest difference between the numeric and analytic current, relative to the peak current. */
+  maxRelativeDeviation?: number;
+  solver?: { name: string; version: string; steps: number; evaluations: number };
+}
+
+export interface TableResult extends CellResultBase {
+  kind: 'table';
+  values: Record<string, FormattedValue>;
+}
+
+export interface PlainResult extends CellResultBase {
+  kind: 'note' | 'figure';
+}
+
+export type CellResult = CalcResult | CheckResult | SweepResult | TransientResult | TableResult | PlainResult;

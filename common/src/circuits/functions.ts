@@ -1,0 +1,226 @@
+/**
+ * The trade's functions, callable in any expression. Each takes quantities with units (checked by
+ * dimension) and returns one in coherent SI. Formulas and sources are listed in common/LANGUAGE.md;
+ * the reference checks in reference-checks/ compare them with outside sources.
+ */
+import { math } from '../language/math';
+import { quantity, real, si, type Scalar } from '../units/quantities';
+
+type C = { re: number; im: number };
+const c = (x: Scalar): C => (typeof x === 'number' ? { re: x, im: 0 } : x);
+const cadd = (a: C, b: C): C => ({ re: a.re + b.re, im: a.im + b.im });
+const cinv = (a: C): C => {
+  const d = a.re * a.re + a.im * a.im;
+  if (d === 0) throw new Error('division by a zero impedance');
+  return { re: a.re / d, im: -a.im / d };
+};
+const cmul = (a: C, b: C): C => ({ re: a.re * b.re - a.im * b.im, im: a.re * b.im + a.im * b.re });
+const cabs = (a: C) => Math.hypot(a.re, a.im);
+const simplest = (a: C): Scalar => (a.im === 0 ? a.re : a);
+const TWO_PI = 2 * Math.PI;
+
+function positive(x: number, what: string): number {
+  if (!(x > 0)) throw new Error(`${what} must be greater than zero`);
+  return x;
+}
+function nonNegative(x: number, what: string): number {
+  if (!(x >= 0)) throw new Error(`${what} must not be negative`);
+  return x;
+}
+
+/** The impedances (or other like quantities) of the arguments, all of one dimension. */
+function sameKind(args: unknown[], fn: string): { values: C[]; unit: unknown } {
+  if (args.length < 2) throw new Error(`${fn} needs at least two values`);
+  const first = args[0];
+  for (const a of args.slice(1)) {
+    if (math.isUnit(first) !== math.isUnit(a) || (math.isUnit(first) && !(first as { equalBase(u: unknown): boolean }).equalBase(a))) {
+      throw new Error(`${fn} needs values of one kind (all impedances, for example)`);
+    }
+  }
+  return { values: args.map((a) => c(math.isUnit(a) ? ((a as unknown as { value: Scalar }).value as Scalar) : (a as Scalar))), unit: first };
+}
+
+function like(template: unknown, value: C): unknown {
+  if (!math.isUnit(template)) return value.im === 0 ? value.re : math.complex(value.re, value.im);
+  const out = (template as { clone(): { value: unknown } }).clone();
+  out.value = value.im === 0 ? value.re : math.complex(value.re, value.im);
+  return out;
+}
+
+/** Angular frequency from a value in rad/s or 1/s. */
+const omega = (w: unknown, what = 'w') => positive(real(w, 'frequency', `${what} (angular frequency)`), what);
+const hz = (f: unknown, what = 'f') => positive(real(f, 'frequency', `${what} (frequency)`), what);
+
+function rlcParts(R: unknown, L: unknown, Cap: unknown, w: unknown) {
+  const r = nonNegative(real(R, 'impedance', 'R'), 'R');
+  const l = positive(real(L, 'inductance', 'L'), 'L');
+  const cap = positive(real(Cap, 'capacitance', 'C'), 'C');
+  const om = omega(w);
+  const S = om * l - 1 / (om * cap);
+  const Z = Math.hypot(r, S);
+  return { r, l, cap, om, S, Z };
+}
+
+export const circuitFunctions = {
+  // Combination of impedances
+  series: (...z: unknown[]) => {
+    const { values, unit } = sameKind(z, 'series');
+    return like(unit, values.reduce(cadd));
+  },
+  parallel: (...z: unknown[]) => {
+    const { values, unit } = sameKind(z, 'parallel');
+    return like(unit, cinv(values.map(cinv).reduce(cadd)));
+  },
+
+  // Reactance and impedance of one element at a frequency f (Hz)
+  reactance_L: (L: unknown, f: unknown) => quantity(TWO_PI * hz(f) * positive(real(L, 'inductance', 'L'), 'L'), 'ohm'),
+  reactance_C: (Cap: unknown, f: unknown) => quantity(1 / (TWO_PI * hz(f) * positive(real(Cap, 'capacitance', 'C'), 'C')), 'ohm'),
+  impedance_L: (L: unknown, f: unknown) => quantity({ re: 0, im: TWO_PI * hz(f) * positive(real(L, 'inductance', 'L'), 'L') }, 'ohm'),
+  impedance_C: (Cap: unknown, f: unknown) => quantity({ re: 0, im: -1 / (TWO_PI * hz(f) * positive(real(Cap, 'capacitance', 'C'), 'C')) }, 'ohm'),
+  impedance_RLC: (R: unknown, L: unknown, Cap: unknown, f: unknown) => {
+    const { r, S } = rlcParts(R, L, Cap, quantity(TWO_PI * hz(f), 'Hz'));
+    return quantity({ re: r, im: S }, 'ohm');
+  },
+
+  // Resonance and damping of a series RLC
+  resonant_frequency: (L: unknown, Cap: unknown) =>
+    quantity(1 / (TWO_PI * Math.sqrt(positive(real(L, 'inductance', 'L'), 'L') * positive(real(Cap, 'capacitance', 'C'), 'C'))), 'Hz'),
+  natural_frequency: (L: unknown, Cap: unknown) =>
+    quantity(1 / Math.sqrt(positive(real(L, 'inductance', 'L'), 'L') * positive(real(Cap, 'capacitance', 'C'), 'C')), 'rad/s'),
+  q_factor: (R: unknown, L: unknown, Cap: unknown) =>
+    (1 / positive(real(R, 'impedance', 'R'), 'R')) * Math.sqrt(positive(real(L, 'inductance', 'L'), 'L') / positive(real(Cap, 'capacitance', 'C'), 'C')),
+  damping_ratio: (R: unknown, L: unknown, Cap: unknown) =>
+    (nonNegative(real(R, 'impedance', 'R'), 'R') / 2) * Math.sqrt(positive(real(Cap, 'capacitance', 'C'), 'C') / positive(real(L, 'inductance', 'L'), 'L')),
+  attenuation: (R: unknown, L: unknown) => quantity(nonNegative(real(R, 'impedance', 'R'), 'R') / (2 * positive(real(L, 'inductance', 'L'), 'L')), 'rad/s'),
+  damped_frequency: (R: unknown, L: unknown, Cap: unknown) => {
+    const r = nonNegative(real(R, 'impedance', 'R'), 'R');
+    const l = positive(real(L, 'inductance', 'L'), 'L');
+    const cap = positive(real(Cap, 'capacitance', 'C'), 'C');
+    const d = 1 / (l * cap) - (r / (2 * l)) ** 2;
+    if (!(d > 0)) throw new Error('the circuit does not oscillate (it is critically damped or overdamped), so it has no damped frequency');
+    return quantity(Math.sqrt(d), 'rad/s');
+  },
+  critical_resistance: (L: unknown, Cap: unknown) =>
+    quantity(2 * Math.sqrt(positive(real(L, 'inductance', 'L'), 'L') / positive(real(Cap, 'capacitance', 'C'), 'C')), 'ohm'),
+
+  // Steady periodic response of a series RLC driven by E0 sin(w t)
+  rlc_reactance: (L: unknown, Cap: unknown, w: unknown) => {
+    const l = positive(real(L, 'inductance', 'L'), 'L');
+    const cap = positive(real(Cap, 'capacitance', 'C'), 'C');
+    const om = omega(w);
+    return quantity(om * l - 1 / (om * cap), 'ohm');
+  },
+  rlc_impedance: (R: unknown, L: unknown, Cap: unknown, w: unknown) => quantity(rlcParts(R, L, Cap, w).Z, 'ohm'),
+  rlc_amplitude: (E0: unknown, R: unknown, L: unknown, Cap: unknown, w: unknown) => {
+    const { Z } = rlcParts(R, L, Cap, w);
+    if (Z === 0) throw new Error('the impedance is zero (R = 0 at resonance): there is no steady periodic current');
+    return quantity(real(E0, 'voltage', 'E0') / Z, 'A');
+  },
+  delay_angle: (R: unknown, L: unknown, Cap: unknown, w: unknown) => {
+    const { r, S } = rlcParts(R, L, Cap, w);
+    return quantity(Math.atan2(S, r), 'rad');
+  },
+  time_lag: (R: unknown, L: unknown, Cap: unknown, w: unknown) => {
+    const { r, S, om } = rlcParts(R, L, Cap, w);
+    return quantity(Math.atan2(S, r) / om, 's');
+  },
+  rlc_current: (t: unknown, E0: unknown, R: unknown, L: unknown, Cap: unknown, w: unknown) => {
+    const { r, S, Z, om } = rlcParts(R, L, Cap, w);
+    if (Z === 0) throw new Error('the impedance is zero (R = 0 at resonance): there is no steady periodic current');
+    const time = real(t, 'time', 't');
+    return quantity((real(E0, 'voltage', 'E0') / Z) * Math.sin(om * time - Math.atan2(S, r)), 'A');
+  },
+
+  // Power
+  complex_power: (V: unknown, I: unknown) => {
+    const i = c(si(I, 'current', 'I'));
+    return quantity(simplest(cmul(c(si(V, 'voltage', 'V')), { re: i.re, im: -i.im })), 'VA');
+  },
+  apparent_power: (V: unknown, I: unknown) => quantity(cabs(c(si(V, 'voltage', 'V'))) * cabs(c(si(I, 'current', 'I'))), 'VA'),
+  real_power: (V: unknown, I: unknown) => {
+    const i = c(si(I, 'current', 'I'));
+    return quantity(cmul(c(si(V, 'voltage', 'V')), { re: i.re, im: -i.im }).re, 'W');
+  },
+  reactive_power: (V: unknown, I: unknown) => {
+    const i = c(si(I, 'current', 'I'));
+    return quantity(cmul(c(si(V, 'voltage', 'V')), { re: i.re, im: -i.im }).im, 'var');
+  },
+  power_factor: (...args: unknown[]) => {
+    if (args.length === 1) {
+      const z = c(math.isUnit(args[0]) ? ((args[0] as unknown as { value: Scalar }).value as Scalar) : (args[0] as Scalar));
+      if (cabs(z) === 0) throw new Error('power_factor of a zero quantity is undefined');
+      return z.re / cabs(z);
+    }
+    if (args.length !== 2) throw new Error('power_factor takes a complex power or impedance, or P and S');
+    const p = real(args[0], 'power', 'P');
+    const s = cabs(c(si(args[1], 'power', 'S')));
+    return p / positive(s, 'S');
+  },
+
+  // Three-phase relations (balanced)
+  line_voltage: (Vph: unknown) => quantity(Math.sqrt(3) * real(Vph, 'voltage', 'V_ph'), 'V'),
+  phase_voltage: (Vll: unknown) => quantity(real(Vll, 'voltage', 'V_LL') / Math.sqrt(3), 'V'),
+  power_3ph: (Vll: unknown, I: unknown, pf: unknown) => {
+    const p = real(pf, 'none', 'pf');
+    if (p < -1 || p > 1) throw new Error('pf must lie between −1 and 1');
+    return quantity(Math.sqrt(3) * real(Vll, 'voltage', 'V_LL') * real(I, 'current', 'I_L') * p, 'W');
+  },
+  apparent_power_3ph: (Vll: unknown, I: unknown) => quantity(Math.sqrt(3) * real(Vll, 'voltage', 'V_LL') * real(I, 'current', 'I_L'), 'VA'),
+  line_current_3ph: (S: unknown, Vll: unknown) =>
+    quantity(cabs(c(si(S, 'power', 'S'))) / (Math.sqrt(3) * positive(real(Vll, 'voltage', 'V_LL'), 'V_LL')), 'A'),
+
+  // Capacitor banks
+  bank_reactive_power: (Cap: unknown, V: unknown, f: unknown) =>
+    quantity(TWO_PI * hz(f) * positive(real(Cap, 'capacitance', 'C'), 'C') * real(V, 'voltage', 'V') ** 2, 'var'),
+  bank_capacitance: (Q: unknown, V: unknown, f: unknown) =>
+    quantity(positive(real(Q, 'power', 'Q'), 'Q') / (TWO_PI * hz(f) * positive(real(V, 'voltage', 'V'), 'V') ** 2), 'F'),
+  resonance_order: (Ssc: unknown, Qc: unknown) => Math.sqrt(positive(real(Ssc, 'power', 'S_sc'), 'S_sc') / positive(real(Qc, 'power', 'Q_c'), 'Q_c')),
+  resonance_order_tr: (Str: unknown, zPercent: unknown, Qc: unknown) =>
+    Math.sqrt((positive(real(Str, 'power', 'S_tr'), 'S_tr') * 100) / (positive(real(Qc, 'power', 'Q_c'), 'Q_c') * positive(real(zPercent, 'none', 'z_percent'), 'z_percent'))),
+  tuning_order: (p: unknown) => {
+    const x = real(p, 'none', 'p');
+    if (!(x > 0 && x < 1)) throw new Error('p (the reactor as a fraction of the capacitor reactance) must lie between 0 and 1');
+    return 1 / Math.sqrt(x);
+  },
+  detuned_voltage_rise: (p: unknown) => {
+    const x = real(p, 'none', 'p');
+    if (!(x >= 0 && x < 1)) throw new Error('p must lie between 0 and 1');
+    return 1 / (1 - x);
+  },
+
+  // Per-unit
+  per_unit: (x: unknown, base: unknown) => {
+    const r = math.divide(x as number, base as number) as unknown;
+    if (math.isUnit(r)) throw new Error('per_unit needs a value and a base of one kind');
+    return r;
+  },
+  base_impedance: (Vbase: unknown, Sbase: unknown) =>
+    quantity(real(Vbase, 'voltage', 'V_base') ** 2 / positive(real(Sbase, 'power', 'S_base'), 'S_base'), 'ohm'),
+  base_current_3ph: (Sbase: unknown, Vbase: unknown) =>
+    quantity(real(Sbase, 'power', 'S_base') / (Math.sqrt(3) * positive(real(Vbase, 'voltage', 'V_base'), 'V_base')), 'A'),
+
+  // Phasors and waveforms
+  phasor: (mag: unknown, angle: unknown) => phasor(mag, angle),
+  polar: (mag: unknown, angle: unknown) => phasor(mag, angle),
+  rms: (peakValue: unknown) => math.divide(peakValue as number, Math.SQRT2),
+  peak: (rmsValue: unknown) => math.multiply(rmsValue as number, Math.SQRT2),
+};
+
+/** An angle in radians from a plain number (radians) or a quantity in rad or deg. */
+export function angleValue(angle: unknown, what = 'angle'): number {
+  if (typeof angle === 'number') return angle;
+  if (math.isUnit(angle)) {
+    const d = (angle as unknown as { dimensions: number[] }).dimensions;
+    if (d.every((x, i) => x === (i === 7 ? 1 : 0))) return (angle as unknown as { value: number }).value;
+  }
+  throw new Error(`${what} must be an angle (in rad or deg) or a plain number of radians`);
+}
+
+function phasor(mag: unknown, angle: unknown): unknown {
+  const a = angleValue(angle);
+  const rotation = math.complex(Math.cos(a), Math.sin(a));
+  return math.multiply(mag as number, rotation);
+}
+
+export type CircuitFunctionName = keyof typeof circuitFunctions;
+export const CIRCUIT_FUNCTION_NAMES = Object.keys(circuitFunctions) as CircuitFunctionName[];

@@ -1,0 +1,142 @@
+/**
+ * One expression of a sheet: parsed once with mathjs, its names checked against the scope, compiled
+ * once and evaluated. Errors are located: a syntax error by mathjs's own position, an error in
+ * evaluation by finding the innermost operator or function that fails.
+ */
+import type { MathNode } from 'mathjs';
+import { describePlace, type Place, type SheetScope } from '../cells/scope';
+import { EngineError, explain, type Diagnostic } from './errors';
+import { isBuiltin, math, parse, Unit } from './instance';
+import { REFUSED_NAMES } from './math';
+import { locateNodes } from './positions';
+
+type AnyNode = MathNode & Record<string, unknown>;
+
+/** µ and μ are read as the micro prefix u (same length, so columns stay right). */
+export const normalizeSource = (s: string) => s.replace(/[µμ]/g, 'u');
+
+/** Parses text at a place; `offset` is the column of the text's first character minus one. */
+export function parseExpression(text: string, line: number, offset = 0): MathNode {
+  try {
+    return parse(normalizeSource(text));
+  } catch (err) {
+    const char = (err as { char?: number }).char;
+    const column = typeof char === 'number' ? Math.max(1, Math.min(char, text.length + 1)) + offset : offset + 1;
+    throw new EngineError(explain(err), line, column);
+  }
+}
+
+/** The names an expression reads (function names excluded). */
+export function symbolsOf(node: MathNode): AnyNode[] {
+  const out: AnyNode[] = [];
+  node.traverse((n, path, parent) => {
+    if (n.type !== 'SymbolNode') return;
+    if (parent && parent.type === 'FunctionNode' && path === 'fn') return;
+    out.push(n as AnyNode);
+  });
+  return out;
+}
+
+/** Functions an expression calls. */
+function functionsOf(node: MathNode): AnyNode[] {
+  const out: AnyNode[] = [];
+  node.traverse((n) => {
+    if (n.type === 'FunctionNode') out.push(n as AnyNode);
+  });
+  return out;
+}
+
+export interface CheckedExpression {
+  node: MathNode;
+  warnings: Diagnostic[];
+}
+
+/**
+ * Checks that every name is known at this place. A name defined in the sheet always means the
+ * variable; a name not (yet) defined means a unit, constant or function if there is one.
+ */
+export function checkNames(node: MathNode, source: string, scope: SheetScope, place: Place, offset = 0, local: ReadonlySet<string> = new Set()): Diagnostic[] {
+  const warnings: Diagnostic[] = [];
+  let columns: Map<MathNode, number> | undefined;
+  const columnOf = (n: MathNode) => (columns ??= locateNodes(node, normalizeSource(source), offset)).get(n) ?? offset + 1;
+  node.traverse((n) => {
+    const name = n.type === 'SymbolNode' ? String((n as AnyNode).name) : n.type === 'AccessorNode' || n.type === 'IndexNode' ? '' : '';
+    if (REFUSED_NAMES.has(name)) throw new EngineError(`${name} is not available in a sheet`, place.line, columnOf(n));
+    if (n.type === 'FunctionAssignmentNode') throw new EngineError('defining functions is not part of the language', place.line, columnOf(n));
+    if (n.type === 'AssignmentNode' && n !== node) throw new EngineError('an assignment inside an expression is not allowed: write one definition a line', place.line, columnOf(n));
+  });
+  for (const sym of symbolsOf(node)) {
+    const name = String(sym.name);
+    if (scope.has(name) || local.has(name)) continue;
+    const failedAt = scope.failed.get(name);
+    if (failedAt) throw new EngineError(`${name} has no value because its definition failed (${describePlace(failedAt)})`, place.line, columnOf(sym));
+    const later = scope.definedLater(name, place);
+    const isUnit = Unit.isValuelessUnit(name);
+    if (later && !isUnit) {
+      throw new EngineError(`${name} is used before it is defined: it is defined at ${describePlace(later)}; move this line below it`, place.line, columnOf(sym));
+    }
+    if (later && isUnit) {
+      warnings.push({ line: place.line, column: columnOf(sym), message: `${name} here means the unit ${name}; the variable ${name} is only defined later, at ${describePlace(later)}` });
+      continue;
+    }
+    if (isUnit || isBuiltin(name)) continue;
+    throw new EngineError(`unknown name ${name}: it is not defined above, and it is not a unit, constant or function`, place.line, columnOf(sym));
+  }
+  for (const fn of functionsOf(node)) {
+    const f = fn.fn as AnyNode;
+    if (f.type !== 'SymbolNode') continue;
+    const name = String(f.name);
+    if (isBuiltin(name) && typeof (math as unknown as Record<string, unknown>)[name] === 'function') continue;
+    if (scope.has(name) && typeof scope.values.get(name) === 'function') continue;
+    throw new EngineError(`unknown function ${name}`, place.line, columnOf(fn));
+  }
+  return warnings;
+}
+
+/** Evaluates a checked expression; on failure, says which operator or function failed and where. */
+export function evaluateNode(node: MathNode, compiled: { evaluate(scope?: unknown): unknown }, mathScope: Map<string, unknown>, source: string, line: number, offset = 0): unknown {
+  try {
+    return compiled.evaluate(mathScope);
+  } catch (err) {
+    if (err instanceof EngineError) throw err;
+    throw locateFailure(node, mathScope, source, line, offset, err);
+  }
+}
+
+function tryEval(n: MathNode, scope: Map<string, unknown>): { ok: true; value: unknown } | { ok: false; error: unknown } {
+  try {
+    return { ok: true, value: n.compile().evaluate(scope) };
+  } catch (error) {
+    return { ok: false, error };
+  }
+}
+
+/** Finds the innermost node whose children evaluate but which itself fails (slow; errors only). */
+export function locateFailure(root: MathNode, scope: Map<string, unknown>, source: string, line: number, offset: number, fallback: unknown): EngineError {
+  const columns = locateNodes(root, normalizeSource(source), offset);
+  let culprit: MathNode = root;
+  let error: unknown = fallback;
+  let operands: unknown[] | undefined;
+  const descend = (n: MathNode): void => {
+    const children: MathNode[] = [];
+    n.forEach((child) => children.push(child));
+    const values: unknown[] = [];
+    for (const child of children) {
+      const r = tryEval(child, scope);
+      if (!r.ok) return descend(child);
+      values.push(r.value);
+    }
+    const self = tryEval(n, scope);
+    if (!self.ok) {
+      culprit = n;
+      error = self.error;
+      operands = values;
+    }
+  };
+  descend(root);
+  const c = culprit as AnyNode;
+  const fnName = c.type === 'OperatorNode' ? String(c.fn) : c.type === 'RelationalNode' ? String((c.conditionals as string[])[0]) : c.type === 'FunctionNode' ? String((c.fn as AnyNode).name) : undefined;
+  let message = explain(error, { fn: fnName, operands });
+  if (c.type === 'FunctionNode' && !message.includes(String((c.fn as AnyNode).name))) message = `in ${String((c.fn as AnyNode).name)}: ${message}`;
+  return new EngineError(message, line, columns.get(culprit) ?? offset + 1);
+}
