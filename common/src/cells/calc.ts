@@ -5,7 +5,7 @@
 import type { MathNode } from 'mathjs';
 import type { CalcCell } from '../sheet/sheet-format';
 import { EngineError, type Diagnostic } from '../language/errors';
-import { checkNames, evaluateNode, normalizeSource, parseExpression } from '../language/expression';
+import { checkNames, evaluateNode, normalizeSource, parseExpression, valueNames } from '../language/expression';
 import { displayTex, expressionTex, unitTex, variableTex } from '../tex/tex';
 import { formatValue, type DisplayOptions } from '../units/display';
 import { convertTo } from './convert';
@@ -40,10 +40,10 @@ export interface ParsedStatement {
 }
 
 /** Parses one line; undefined for a blank or comment-only line. */
-export function parseStatement(text: string, line: number): ParsedStatement | undefined {
+export function parseStatement(text: string, line: number, isValue: (name: string) => boolean = () => false): ParsedStatement | undefined {
   const { code, description } = splitComment(text);
   if (!code.trim()) return undefined;
-  const node = parseExpression(code, line) as AnyNode;
+  const node = parseExpression(code, line, 0, isValue) as AnyNode;
   if (node.type !== 'AssignmentNode' || (node.object as AnyNode).type !== 'SymbolNode') {
     const eq = code.indexOf('=');
     throw new EngineError(
@@ -86,7 +86,7 @@ export function evaluateCalcCell(cell: CalcCell, cellIndex: number, scope: Sheet
     const place = { cell: cellIndex, line: lineNo };
     let statement: ParsedStatement | undefined;
     try {
-      statement = parseStatement(text, lineNo);
+      statement = parseStatement(text, lineNo, valueNames(scope));
       if (!statement) return;
       const { name, expression, target, description, code } = statement;
       if (RESERVED.has(name)) throw new EngineError(`${name} is a constant of the language and cannot be redefined`, lineNo, code.indexOf(name) + 1);

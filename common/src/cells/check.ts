@@ -5,7 +5,7 @@
 import type { MathNode } from 'mathjs';
 import type { CheckCell } from '../sheet/sheet-format';
 import { EngineError, kindOf } from '../language/errors';
-import { checkNames, evaluateNode, parseExpression } from '../language/expression';
+import { checkNames, evaluateNode, parseExpression, valueNames } from '../language/expression';
 import { isComplex, isUnit, math } from '../language/instance';
 import { displayTex, expressionTex } from '../tex/tex';
 import { formatValue, type DisplayOptions } from '../units/display';
@@ -37,7 +37,7 @@ export function evaluateCheckCell(cell: CheckCell, cellIndex: number, scope: She
   const source = cell.condition;
   try {
     if (!source.trim()) throw new EngineError('the condition is empty: write a comparison such as I_rms <= 1.35 * I_rated', 1, 1);
-    const node = parseExpression(source, 1) as AnyNode;
+    const node = parseExpression(source, 1, 0, valueNames(scope)) as AnyNode;
     result.warnings.push(...checkNames(node, source, scope, { cell: cellIndex, line: 1 }));
     const mathScope = scope.asMathScope();
     const isVariable = (n: string) => scope.has(n);

@@ -7,7 +7,7 @@
 import type { MathNode } from 'mathjs';
 import type { SweepCell } from '../sheet/sheet-format';
 import { EngineError } from '../language/errors';
-import { checkNames, evaluateNode, parseExpression } from '../language/expression';
+import { checkNames, evaluateNode, parseExpression, valueNames } from '../language/expression';
 import { isComplex, isUnit, math, Unit } from '../language/instance';
 import { formatValue, siUnitName, type DisplayOptions } from '../units/display';
 import { withNumericMode } from '../units/quantities';
@@ -57,7 +57,7 @@ export function evaluateSweepCell(cell: SweepCell, cellIndex: number, scope: She
     if (!NAME.test(variable)) throw new EngineError(`the sweep variable "${cell.variable}" is not a name`, 1, 1);
     const mathScope = scope.asMathScope();
     const bound = (text: string, what: string) => {
-      const node = parseExpression(text, 1);
+      const node = parseExpression(text, 1, 0, valueNames(scope));
       checkNames(node, text, scope, place);
       const v = evaluateNode(node, node.compile(), mathScope, text, 1);
       if (!isUnit(v) && typeof v !== 'number') throw new EngineError(`the sweep's ${what} must be a real quantity or number`, 1, 1);
@@ -89,7 +89,7 @@ export function evaluateSweepCell(cell: SweepCell, cellIndex: number, scope: She
     for (const [k, v] of scope.values) numericScope.set(k, siOf(v));
 
     cell.outputs.forEach((text, o) => {
-      const node = parseExpression(text, o + 1);
+      const node = parseExpression(text, o + 1, 0, valueNames(scope));
       checkNames(node, text, scope, { cell: cellIndex, line: o + 1 }, 0, new Set([variable]));
       // Units once, at the first point, with the full unit arithmetic.
       const unitScope = new Map(scope.values);

@@ -6,7 +6,7 @@
 import type { MathNode } from 'mathjs';
 import type { TransientCell } from '../sheet/sheet-format';
 import { EngineError } from '../language/errors';
-import { checkNames, evaluateNode, parseExpression } from '../language/expression';
+import { checkNames, evaluateNode, parseExpression, valueNames } from '../language/expression';
 import { isUnit, math } from '../language/instance';
 import { analyticSolution, dampingOf, numericSolution, type SourceForm } from '../circuits/transient';
 import { formatValue, type DisplayOptions } from '../units/display';
@@ -61,7 +61,7 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
         if (fallback !== undefined) return fallback;
         throw new EngineError(`${what} is missing`, 1, 1);
       }
-      const node = parseExpression(text, 1);
+      const node = parseExpression(text, 1, 0, valueNames(scope));
       checkNames(node, text, scope, place);
       const v = evaluateNode(node, node.compile(), mathScope, text, 1);
       try {
@@ -81,7 +81,7 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
     if (!(span > 0)) throw new EngineError('the time span must be greater than zero', 1, 1);
     const points = cell.points ?? 1000;
 
-    const sourceNode = parseExpression(cell.source, 1);
+    const sourceNode = parseExpression(cell.source, 1, 0, valueNames(scope));
     checkNames(sourceNode, cell.source, scope, place, 0, new Set(['t']));
     const tScope = new Map(scope.values);
     const evalAtUnits = (n: MathNode, t: number) => {
@@ -100,7 +100,9 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
       return (compiledSource.evaluate(tScope) as { value: number }).value;
     };
     const scalarAt = (n: MathNode, t: number) => {
-      const v = evalAtUnits(n, t);
+      let v = evalAtUnits(n, t);
+      // A bare unit (the V of "100 V") has no value of its own: give it one, in SI.
+      if (isUnit(v) && (v as unknown as { value: unknown }).value === null) v = math.multiply(1, v as never);
       return isUnit(v) ? (() => { try { return angleValue(v); } catch { return (v as unknown as { value: number }).value; } })() : Number(v);
     };
 

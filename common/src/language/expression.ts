@@ -16,15 +16,36 @@ type AnyNode = MathNode & Record<string, unknown>;
 export const normalizeSource = (s: string) => s.replace(/[µμ]/g, 'u');
 
 /** Parses text at a place; `offset` is the column of the text's first character minus one. */
-export function parseExpression(text: string, line: number, offset = 0): MathNode {
+export function parseExpression(text: string, line: number, offset = 0, isValue: (name: string) => boolean = () => false): MathNode {
   try {
-    return parse(normalizeSource(text));
+    return callsToProducts(parse(normalizeSource(text)), isValue);
   } catch (err) {
     const char = (err as { char?: number }).char;
     const column = typeof char === 'number' ? Math.max(1, Math.min(char, text.length + 1)) + offset : offset + 1;
     throw new EngineError(explain(err), line, column);
   }
 }
+
+/**
+ * mathjs reads `name(...)` as a call. Where the name is a value (a variable of the sheet, or the
+ * imaginary unit i or j) a space or not, an engineer means a product: `j (w L - 1/(w C))`, `R(1 + a)`.
+ */
+export function callsToProducts(node: MathNode, isValue: (name: string) => boolean): MathNode {
+  return node.transform((n) => {
+    const f = n as AnyNode;
+    if (f.type === 'FunctionNode' && (f.fn as AnyNode).type === 'SymbolNode' && (f.args as MathNode[]).length === 1) {
+      const name = String((f.fn as AnyNode).name);
+      if (name === 'i' || name === 'j' || isValue(name)) {
+        const arg = callsToProducts((f.args as MathNode[])[0], isValue);
+        return new math.OperatorNode('*', 'multiply', [new math.SymbolNode(name), new math.ParenthesisNode(arg)], true);
+      }
+    }
+    return n;
+  });
+}
+
+/** A scope's test for callsToProducts: a name holding a value, not a function. */
+export const valueNames = (scope: SheetScope) => (name: string) => scope.values.has(name) && typeof scope.values.get(name) !== 'function';
 
 /** The names an expression reads (function names excluded). */
 export function symbolsOf(node: MathNode): AnyNode[] {
