@@ -10,6 +10,7 @@ import type { Environment } from './config/environment';
 import { AllExceptionsFilter } from './core/filters/all-exceptions.filter';
 import { RequestLoggerMiddleware } from './core/middleware/request-logger.middleware';
 import { ormConfig } from './database/mikro-orm.config';
+import { EvaluationModule } from './evaluation/evaluation.module';
 import { FilesModule } from './files/files.module';
 import { HealthModule } from './health/health.module';
 import { MailModule } from './mail/mail.module';
@@ -39,6 +40,7 @@ function staticFrontEnd(): DynamicModule[] {
     MailModule,
     FilesModule,
     HealthModule,
+    EvaluationModule,
     ...staticFrontEnd(),
   ],
   providers: [

@@ -1,0 +1,111 @@
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+import { Worker } from 'node:worker_threads';
+import type { CellResult, SheetFile } from '@ampwright/common';
+
+export interface PoolLimits {
+  workers: number;
+  timeoutMs: number;
+  memoryMb: number;
+}
+
+export type PoolOutcome =
+  | { ok: true; cells: CellResult[]; engineVersion: string }
+  | { ok: false; reason: 'timeout' | 'memory' | 'crash'; message: string };
+
+interface Job {
+  id: number;
+  sheet: SheetFile;
+  resolve: (outcome: PoolOutcome) => void;
+}
+
+/** The compiled worker: beside this file in dist/, or in dist/ when running from source (tests). */
+function workerFile(): string {
+  const beside = join(__dirname, 'evaluation.worker.js');
+  if (existsSync(beside)) return beside;
+  return join(__dirname, '..', '..', 'dist', 'evaluation', 'evaluation.worker.js');
+}
+
+/**
+ * A few worker threads that evaluate sheets. A job past its deadline, or one that runs out of its
+ * memory bound, has its worker terminated and replaced; the server itself is never blocked.
+ */
+export class EvaluationPool {
+  private readonly idle: Worker[] = [];
+  private readonly queue: Job[] = [];
+  private readonly busy = new Map<Worker, { job: Job; timer: NodeJS.Timeout }>();
+  private nextId = 1;
+  private closed = false;
+
+  constructor(private readonly limits: PoolLimits) {
+    for (let k = 0; k < limits.workers; k++) this.idle.push(this.spawn());
+  }
+
+  evaluate(sheet: SheetFile): Promise<PoolOutcome> {
+    if (this.closed) return Promise.resolve({ ok: false, reason: 'crash', message: 'the evaluation service is shutting down' });
+    return new Promise((resolve) => {
+      this.queue.push({ id: this.nextId++, sheet, resolve });
+      this.dispatch();
+    });
+  }
+
+  async close(): Promise<void> {
+    this.closed = true;
+    const all = [...this.idle, ...this.busy.keys()];
+    this.idle.length = 0;
+    for (const [, { job, timer }] of this.busy) {
+      clearTimeout(timer);
+      job.resolve({ ok: false, reason: 'crash', message: 'the evaluation service is shutting down' });
+    }
+    this.busy.clear();
+    await Promise.all(all.map((w) => w.terminate()));
+  }
+
+  private spawn(): Worker {
+    const worker = new Worker(workerFile(), {
+      resourceLimits: { maxOldGenerationSizeMb: this.limits.memoryMb, maxYoungGenerationSizeMb: Math.max(16, this.limits.memoryMb / 8) },
+    });
+    worker.on('message', (msg: { id: number; ok: boolean; cells?: CellResult[]; engineVersion?: string; message?: string }) => {
+      const running = this.busy.get(worker);
+      if (!running || running.job.id !== msg.id) return;
+      clearTimeout(running.timer);
+      this.busy.delete(worker);
+      running.job.resolve(msg.ok ? { ok: true, cells: msg.cells!, engineVersion: msg.engineVersion! } : { ok: false, reason: 'crash', message: msg.message ?? 'the evaluation failed' });
+      this.idle.push(worker);
+      this.dispatch();
+    });
+    worker.on('error', (err: Error & { code?: string }) => this.fail(worker, err.code === 'ERR_WORKER_OUT_OF_MEMORY' ? 'memory' : 'crash', err.message));
+    worker.on('exit', () => this.fail(worker, 'crash', 'the evaluation stopped unexpectedly'));
+    worker.unref();
+    return worker;
+  }
+
+  private fail(worker: Worker, reason: 'timeout' | 'memory' | 'crash', message: string): void {
+    const running = this.busy.get(worker);
+    const idleAt = this.idle.indexOf(worker);
+    if (idleAt >= 0) this.idle.splice(idleAt, 1);
+    if (running) {
+      clearTimeout(running.timer);
+      this.busy.delete(worker);
+      running.job.resolve({ ok: false, reason, message });
+    } else if (idleAt < 0) {
+      return; // already replaced
+    }
+    worker.removeAllListeners('exit');
+    void worker.terminate();
+    if (!this.closed) {
+      this.idle.push(this.spawn());
+      this.dispatch();
+    }
+  }
+
+  private dispatch(): void {
+    while (this.idle.length && this.queue.length) {
+      const worker = this.idle.pop()!;
+      const job = this.queue.shift()!;
+      const timer = setTimeout(() => this.fail(worker, 'timeout', `the evaluation took longer than ${this.limits.timeoutMs / 1000} s`), this.limits.timeoutMs);
+      this.busy.set(worker, { job, timer });
+      worker.postMessage({ id: job.id, sheet: job.sheet });
+    }
+  }
+}

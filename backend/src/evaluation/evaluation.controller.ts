@@ -1,0 +1,17 @@
+import { Body, Controller, HttpCode, Post } from '@nestjs/common';
+import type { SheetFile } from '@ampwright/common';
+import { EvaluationService } from './evaluation.service';
+import { SheetFilePipe } from './sheet-file.pipe';
+import { EvaluationResponseDto } from './dto/evaluation-response.dto';
+
+@Controller('evaluate')
+export class EvaluationController {
+  constructor(private readonly evaluation: EvaluationService) {}
+
+  /** A sheet in the ampwright.sheet/1 format in, the results of every cell out. */
+  @Post()
+  @HttpCode(200)
+  evaluate(@Body(SheetFilePipe) sheet: SheetFile): Promise<EvaluationResponseDto> {
+    return this.evaluation.evaluate(sheet);
+  }
+}

@@ -1,0 +1,14 @@
+import { Injectable, PipeTransform } from '@nestjs/common';
+import { parseSheetFile, type SheetFile } from '@ampwright/common';
+import { AppException, ErrorCode } from '../core/errors/app-exception';
+
+/** Validates a body against the sheet file format (the shared schema in common/), field by field. */
+@Injectable()
+export class SheetFilePipe implements PipeTransform<unknown, SheetFile> {
+  transform(value: unknown): SheetFile {
+    const result = parseSheetFile(value);
+    if (result.ok) return result.sheet;
+    const details = result.problems.map((p) => ({ field: p.path, message: p.message }));
+    throw new AppException(ErrorCode.ValidationFailed, `The sheet is not valid: ${details.map((d) => `${d.field}: ${d.message}`).join('; ')}`, 400, details);
+  }
+}
