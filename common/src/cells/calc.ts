@@ -89,7 +89,10 @@ export function evaluateCalcCell(cell: CalcCell, cellIndex: number, scope: Sheet
       statement = parseStatement(text, lineNo, valueNames(scope));
       if (!statement) return;
       const { name, expression, target, description, code } = statement;
-      if (RESERVED.has(name)) throw new EngineError(`${name} is a constant of the language and cannot be redefined`, lineNo, code.indexOf(name) + 1);
+      if (RESERVED.has(name)) {
+        const hint = name === 'i' || name === 'j' ? ' (it is the imaginary unit): choose another name, such as i_1 or I' : '';
+        throw new EngineError(`${name} is a constant of the language and cannot be redefined${hint}`, lineNo, code.indexOf(name) + 1);
+      }
       const exprOffset = code.indexOf('=') + 1;
       const exprSource = code.slice(exprOffset);
       const warnings = checkNames(expression, exprSource, scope, place, exprOffset);

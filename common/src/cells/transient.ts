@@ -64,6 +64,7 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
       const node = parseExpression(text, 1, 0, valueNames(scope));
       checkNames(node, text, scope, place);
       const v = evaluateNode(node, node.compile(), mathScope, text, 1);
+      if (v === 0 && fallback !== undefined) return 0; // a plain 0 is zero charge or current in any unit
       try {
         return real(v, dim, what);
       } catch (err) {

@@ -30,6 +30,8 @@ export const isComplex = (x: unknown): x is { re: number; im: number } => math.i
 // mathjs defines VAR as an imaginary multiple of W; reactive power in this trade is a real quantity.
 math.createUnit('VAR', { definition: '1 W', prefixes: 'short' }, { override: true });
 math.createUnit('var', { definition: '1 W', prefixes: 'short' });
+// mathjs's electronvolt is the CODATA 2010 value; since the 2019 SI, e = 1.602176634e-19 C exactly.
+math.createUnit('eV', { definition: '1.602176634e-19 J', prefixes: 'short' }, { override: true });
 
 /** Guards against results too large to compute in an evaluation (the worker also has a memory bound). */
 export const MAX_ELEMENTS = 1_000_000;

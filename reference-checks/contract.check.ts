@@ -1,0 +1,46 @@
+/** The `npm run calc` command follows the contract of PRODUCT.md: JSON on stdout, SI values, exit codes. */
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+
+const root = join(__dirname, '..');
+const calc = (file: string) => spawnSync('npm', ['run', '-s', 'calc', '--', file], { cwd: root, encoding: 'utf8' });
+const dir = mkdtempSync(join(tmpdir(), 'ampwright-calc-'));
+const write = (name: string, content: unknown) => {
+  const file = join(dir, name);
+  writeFileSync(file, typeof content === 'string' ? content : JSON.stringify(content));
+  return file;
+};
+const sheet = (cells: unknown[]) => ({ format: 'ampwright.sheet/1', title: 'Contract probe', cells });
+
+describe('npm run calc', () => {
+  it('prints SI values, {re, im} for complex ones, and exits 0 when all passes', () => {
+    const out = calc(write('ok.json', sheet([{ kind: 'calc', source: 'Z = (3 + 4j) kohm\nI = 10 V / Z to mA\nk = 2' }, { kind: 'check', condition: 'abs(I) <= 3 mA', basis: 'probe' }])));
+    expect(out.status).toBe(0);
+    const json = JSON.parse(out.stdout);
+    expect(json.cells[0].values.Z).toEqual({ si: { re: 3000, im: 4000 }, display: '5.000 kΩ ∠ 53.1°' });
+    expect(json.cells[0].values.I.si.re).toBeCloseTo(0.0012, 15);
+    expect(json.cells[0].values.k).toEqual({ si: 2, display: '2.000' });
+    expect(json.cells[1]).toEqual({ kind: 'check', status: 'ok', pass: true, utilization: expect.closeTo(2 / 3, 12), errors: [], warnings: [] });
+  });
+
+  it('exits 1 when a check does not pass', () => {
+    const out = calc(write('fail.json', sheet([{ kind: 'calc', source: 'I = 5 A' }, { kind: 'check', condition: 'I <= 4 A' }])));
+    expect(out.status).toBe(1);
+    expect(JSON.parse(out.stdout).cells[1].pass).toBe(false);
+  });
+
+  it('exits 1 with 1-based positions when a cell fails', () => {
+    const out = calc(write('err.json', sheet([{ kind: 'calc', source: 'V = 1 V\nx = V + 2 A' }])));
+    expect(out.status).toBe(1);
+    expect(JSON.parse(out.stdout).cells[0].errors).toEqual([{ line: 2, column: 7, message: 'cannot add a voltage and a current: the two sides have different dimensions' }]);
+  });
+
+  it('exits 2 for a file that cannot be read or is not a sheet', () => {
+    expect(calc(join(dir, 'missing.json')).status).toBe(2);
+    expect(calc(write('junk.json', '{ not json')).status).toBe(2);
+    expect(calc(write('wrong.json', { format: 'other' })).status).toBe(2);
+  });
+});

@@ -1,0 +1,71 @@
+/**
+ * Independent general-purpose libraries as oracles (neither is used by mathjs or by the engine):
+ * js-quantities 1.8.0 for unit conversions, numeric 1.2.6 (numeric.dopri, Dormand–Prince RK45) for
+ * the RLC transient, which the engine solves with odex 2.0.4 and in closed form.
+ */
+import Qty from 'js-quantities';
+import numeric from 'numeric';
+import { describe, expect, it } from 'vitest';
+import { evaluateSheet, type CalcResult, type TransientResult } from '../common/src/index';
+
+const valueOf = (source: string) => {
+  const r = evaluateSheet({ cells: [{ kind: 'calc', source }] }).cells[0] as CalcResult;
+  expect(r.errors).toEqual([]);
+  return Object.values(r.values)[0].si as number;
+};
+
+describe('unit conversions against js-quantities 1.8.0', () => {
+  // [value, engine unit, js-quantities unit, relative tolerance]; hp and BTU are rounded in js-quantities.
+  const cases: [number, string, string, string, number][] = [
+    [47, 'mH', 'mH', 'H', 1e-12],
+    [330, 'uF', 'uF', 'F', 1e-12],
+    [2.2, 'kohm', 'kOhm', 'Ohm', 1e-12],
+    [50, 'kvar', 'kVAR', 'VAR', 1e-12],
+    [1.6, 'MVA', 'MVA', 'VA', 1e-12],
+    [11, 'kV', 'kV', 'V', 1e-12],
+    [1, 'kWh', 'kWh', 'J', 1e-12],
+    [75, 'hp', 'hp', 'W', 1e-6],
+    [3, 'BTU', 'BTU', 'J', 1e-6],
+    [30, 'deg', 'deg', 'rad', 1e-12],
+    [20, 'ms', 'ms', 's', 1e-12],
+    [2.5, 'GHz', 'GHz', 'Hz', 1e-12],
+    [120, 'mi', 'mi', 'm', 1e-12],
+  ];
+  it.each(cases)('%d %s in SI', (value, unit, qtyUnit, qtySi, tol) => {
+    const ours = valueOf(`x = ${value} ${unit}`);
+    const theirs = Qty(value, qtyUnit).to(qtySi).scalar;
+    expect(Math.abs(ours - theirs)).toBeLessThanOrEqual(tol * Math.abs(theirs));
+  });
+});
+
+describe('RLC transient against numeric.dopri (numeric 1.2.6)', () => {
+  const cases = [
+    { name: 'underdamped step', R: '4 ohm', source: '48 V', q0: '0 mC', i0: '0 A' },
+    { name: 'overdamped step', R: '200 ohm', source: '48 V', q0: '0 mC', i0: '0 A' },
+    { name: 'critically damped with initial charge', R: `${2 * Math.sqrt(0.02 / 50e-6)} ohm`, source: '0 V', q0: '2 mC', i0: '0 A' },
+    { name: 'sinusoid with initial current', R: '6 ohm', source: '100 V * cos(2 pi 60 Hz * t)', q0: '0 mC', i0: '1 A' },
+    { name: 'ramp (numeric only)', R: '6 ohm', source: '100 V * t / 10 ms', q0: '0 mC', i0: '0 A' },
+  ];
+  it.each(cases)('$name', ({ R, source, q0, i0 }) => {
+    const r = evaluateSheet({
+      cells: [
+        { kind: 'calc', source: 'L = 20 mH\nC = 50 uF' },
+        { kind: 'transient', R, L: 'L', C: 'C', source, q0, i0, span: '60 ms', points: 601 },
+      ],
+    }).cells[1] as TransientResult;
+    expect(r.errors).toEqual([]);
+    const Rv = Number(R.split(' ')[0]);
+    const L = 0.02;
+    const C = 50e-6;
+    const E = (t: number) => (source.startsWith('48') ? 48 : source.startsWith('0') ? 0 : source.includes('cos') ? 100 * Math.cos(2 * Math.PI * 60 * t) : (100 * t) / 0.01);
+    const y0 = [source === '0 V' ? 2e-3 : 0, i0 === '1 A' ? 1 : 0];
+    const sol = numeric.dopri(0, 0.06, y0, (t: number, y: number[]) => [y[1], (E(t) - Rv * y[1] - y[0] / C) / L], 1e-12, 100000);
+    const peak = Math.max(...r.current!.values.map(Math.abs));
+    r.time!.values.forEach((t, k) => {
+      const [q, i] = sol.at(t) as number[];
+      expect(Math.abs(r.current!.values[k] - i)).toBeLessThanOrEqual(1e-6 * peak);
+      expect(Math.abs(r.charge!.values[k] - q)).toBeLessThanOrEqual(1e-6 * Math.max(...r.charge!.values.map(Math.abs)));
+      if (r.currentAnalytic) expect(Math.abs(r.currentAnalytic.values[k] - i)).toBeLessThanOrEqual(1e-6 * peak);
+    });
+  });
+});
