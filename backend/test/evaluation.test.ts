@@ -21,7 +21,7 @@ describe('POST /api/evaluate', () => {
       .expect(200);
     expect(res.body.engineVersion).toMatch(/^\d+\.\d+\.\d+$/);
     expect(res.body.cells[0]).toMatchObject({ kind: 'calc', status: 'ok', values: { I: { si: 5, display: '5.000 A' } } });
-    expect(res.body.cells[0].lines[2].tex.formula).toBe('I = \\frac{ V}{ R}');
+    expect(res.body.cells[0].lines[2].tex.formula).toBe('I = \\frac{V}{R}');
     expect(res.body.cells[1]).toMatchObject({ kind: 'check', pass: true, utilization: 0.5 });
   });
 

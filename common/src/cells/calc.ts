@@ -112,6 +112,7 @@ export function evaluateCalcCell(cell: CalcCell, cellIndex: number, scope: Sheet
       // Typeset before binding: the formula's own name may be read on its right-hand side.
       const tex = lineTex(name, expression, scope, display, formatted.display);
       scope.define(name, value, place);
+      scope.rememberDisplay(name, value, formatted.display);
       result.values[name] = formatted;
       result.lines.push({ line: lineNo, name, description, value: formatted, tex });
     } catch (err) {
@@ -134,9 +135,9 @@ export function lineTex(name: string, expression: MathNode, scope: SheetScope, d
   const working = `${lhs} = ${expressionTex(expression, {
     isVariable,
     valueTexOf: (n) => {
-      const f = formatValue(scope.values.get(n), display);
-      const t = displayTex(f.display);
-      return /^[\d.]+$/.test(f.display) ? t : `\\left(${t}\\right)`;
+      const shown = scope.displayOf(n, (v) => formatValue(v, display).display);
+      const t = displayTex(shown);
+      return /^[\d.]+$/.test(shown) ? t : `\\left(${t}\\right)`;
     },
   })}`;
   return { formula, working, result: `${lhs} = ${displayTex(shown)}` };

@@ -41,7 +41,7 @@ export function evaluateCheckCell(cell: CheckCell, cellIndex: number, scope: She
     result.warnings.push(...checkNames(node, source, scope, { cell: cellIndex, line: 1 }));
     const mathScope = scope.asMathScope();
     const isVariable = (n: string) => scope.has(n);
-    const valueTex = (n: string) => `\\left(${displayTex(formatValue(scope.values.get(n), display).display)}\\right)`;
+    const valueTex = (n: string) => `\\left(${displayTex(scope.displayOf(n, (v) => formatValue(v, display).display))}\\right)`;
     result.tex = { formula: expressionTex(node, { isVariable }), working: expressionTex(node, { isVariable, valueTexOf: valueTex }) };
 
     let sides: [MathNode, MathNode] | undefined;

@@ -33,9 +33,16 @@ export interface SheetEvaluation {
   cache: EvaluationCache;
 }
 
-const fingerprint = (v: unknown) => {
-  const f = formatValue(v, { significantDigits: 17, complexForm: 'rectangular' });
-  return `${JSON.stringify(f.si)}|${f.siUnit}|${f.unit}`;
+/** Identifies a value for the cache: its SI value, its dimensions and the units it is shown in. */
+const fingerprint = (v: unknown): string => {
+  if (typeof v === 'number' || typeof v === 'boolean') return `${typeof v}:${v}`;
+  const u = v as { value?: unknown; dimensions?: number[]; units?: { unit: { name: string }; prefix: { name: string }; power: number }[]; toArray?: () => unknown[] };
+  if (u && u.units && u.dimensions) {
+    const value = u.value as { re?: number; im?: number } | number | null;
+    return `u:${typeof value === 'number' ? value : value ? `${value.re},${value.im}` : 'null'}:${u.dimensions.join(',')}:${u.units.map((x) => `${x.prefix.name}${x.unit.name}^${x.power}`).join(' ')}`;
+  }
+  if (u && typeof u.toArray === 'function') return `m:${u.toArray().map(fingerprint).join(';')}`;
+  return `x:${JSON.stringify(formatValue(v, { significantDigits: 17, complexForm: 'rectangular' }).si)}`;
 };
 
 /** Where every name of the sheet is defined, for "used before it is defined" errors. */

@@ -23,6 +23,23 @@ export class SheetScope {
   /** Names whose definition failed, with where: using one says so instead of "unknown". */
   readonly failed = new Map<string, Place>();
   private reads: Set<string> | undefined;
+  /** Display text of values, remembered for the working of the lines that use them. */
+  private readonly shown = new Map<string, { value: unknown; text: string }>();
+
+  /** Remembers how a value was shown where it was defined (with its `to` unit or rad/s). */
+  rememberDisplay(name: string, value: unknown, text: string): void {
+    this.shown.set(name, { value, text });
+  }
+
+  /** The display text of a name's value, computed once per value. */
+  displayOf(name: string, format: (value: unknown) => string): string {
+    const value = this.values.get(name);
+    const known = this.shown.get(name);
+    if (known && known.value === value) return known.text;
+    const text = format(value);
+    this.shown.set(name, { value, text });
+    return text;
+  }
 
   constructor(readonly definitions: Map<string, Place[]>) {}
 

@@ -9,8 +9,9 @@ import type { SweepCell } from '../sheet/sheet-format';
 import { EngineError } from '../language/errors';
 import { checkNames, evaluateNode, parseExpression, valueNames } from '../language/expression';
 import { isComplex, isUnit, math, Unit } from '../language/instance';
-import { formatValue, siUnitName, type DisplayOptions } from '../units/display';
+import { siUnitName, type DisplayOptions } from '../units/display';
 import { withNumericMode } from '../units/quantities';
+import { compileNumeric, NumericFallback } from '../language/numeric';
 import type { SheetScope } from './scope';
 import type { SeriesData, SweepResult } from './types';
 
@@ -36,17 +37,14 @@ function stripUnits(node: MathNode, isVariable: (n: string) => boolean): MathNod
   });
 }
 
-function seriesOf(name: string, values: unknown[], unit: string, factor: number): SeriesData {
-  if (values.some((v) => isComplex(v) && v.im !== 0)) {
-    return {
-      name,
-      unit,
-      complex: true,
-      values: values.map((v) => (isComplex(v) ? v.re : (v as number)) / factor),
-      im: values.map((v) => (isComplex(v) ? v.im : 0) / factor),
-    };
-  }
-  return { name, unit, values: values.map((v) => (isComplex(v) ? v.re : (v as number)) / factor) };
+/** A number, a mathjs Complex or a plain {re, im} pair, as a pair. */
+const pair = (v: unknown): { re: number; im: number } =>
+  typeof v === 'number' ? { re: v, im: 0 } : isComplex(v) || (v && typeof (v as { re?: unknown }).re === 'number') ? { re: (v as { re: number }).re, im: (v as { im: number }).im } : { re: Number(v), im: 0 };
+
+function seriesOf(name: string, values: unknown[], unit: string): SeriesData {
+  const pairs = values.map(pair);
+  if (pairs.some((p) => p.im !== 0)) return { name, unit, complex: true, values: pairs.map((p) => p.re), im: pairs.map((p) => p.im) };
+  return { name, unit, values: pairs.map((p) => p.re) };
 }
 
 export function evaluateSweepCell(cell: SweepCell, cellIndex: number, scope: SheetScope, display: DisplayOptions): SweepResult {
@@ -96,26 +94,40 @@ export function evaluateSweepCell(cell: SweepCell, cellIndex: number, scope: She
       unitScope.set(variable, atPoint(points[0]));
       const first = evaluateNode(node, node.compile(), unitScope, text, o + 1);
       const unit = isUnit(first) ? (siUnitName(first as never) ?? '') : '';
-      const numeric = stripUnits(node, isVariable).compile();
-      const values = withNumericMode(() =>
-        points.map((x) => {
-          numericScope.set(variable, x);
-          return numeric.evaluate(numericScope);
-        }),
-      );
+      const stripped = stripUnits(node, isVariable);
+      const viaMathjs = () => {
+        const compiled = stripped.compile();
+        return withNumericMode(() =>
+          points.map((x) => {
+            numericScope.set(variable, x);
+            return compiled.evaluate(numericScope);
+          }),
+        );
+      };
+      const fast = compileNumeric(stripped, variable);
+      let values: unknown[];
+      try {
+        values = fast
+          ? points.map((x) => {
+              numericScope.set(variable, x);
+              return fast(numericScope);
+            })
+          : viaMathjs();
+      } catch (err) {
+        if (!(err instanceof NumericFallback)) throw err;
+        values = viaMathjs();
+      }
       const check = siOf(first);
       const got = values[0];
       const close = (p: unknown, q: unknown) => {
-        const pr = isComplex(p) ? p : { re: Number(p), im: 0 };
-        const qr = isComplex(q) ? q : { re: Number(q), im: 0 };
+        const pr = pair(p);
+        const qr = pair(q);
         return Math.hypot(pr.re - qr.re, pr.im - qr.im) <= 1e-9 * Math.max(1e-300, Math.hypot(qr.re, qr.im));
       };
       if (!close(got, check)) {
         throw new EngineError(`the output ${text} gives different values with and without units; write its units explicitly`, o + 1, 1);
       }
-      result.outputs.push(seriesOf(text, values, unit, 1));
-      void formatValue;
-      void display;
+      result.outputs.push(seriesOf(text, values, unit));
     });
   } catch (err) {
     result.status = 'error';

@@ -33,6 +33,22 @@ math.createUnit('var', { definition: '1 W', prefixes: 'short' });
 // mathjs's electronvolt is the CODATA 2010 value; since the 2019 SI, e = 1.602176634e-19 C exactly.
 math.createUnit('eV', { definition: '1.602176634e-19 J', prefixes: 'short' }, { override: true });
 
+// Whether a name is a unit is asked for every symbol at every compile; the unit table is fixed once
+// this module has run, so the answer is remembered.
+{
+  const UnitClass = math.Unit as unknown as { isValuelessUnit(name: string): boolean };
+  const original = UnitClass.isValuelessUnit.bind(UnitClass);
+  const known = new Map<string, boolean>();
+  UnitClass.isValuelessUnit = (name: string) => {
+    let answer = known.get(name);
+    if (answer === undefined) {
+      answer = original(name);
+      known.set(name, answer);
+    }
+    return answer;
+  };
+}
+
 /** Guards against results too large to compute in an evaluation (the worker also has a memory bound). */
 export const MAX_ELEMENTS = 1_000_000;
 const checkSize = (dims: number[]) => {

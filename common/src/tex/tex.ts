@@ -46,6 +46,7 @@ export function displayTex(display: string): string {
   return display
     .replace(/−/g, '-')
     .replace(/∠ ?(-?[\d.]+)°/g, '\\angle $1^{\\circ}')
+    .replace(/([\d.])°/g, '$1^{\\circ}')
     .replace(/\bj(?=[\d.])/g, '\\mathrm{j}')
     .replace(/(\d)e(-?\d+)/g, '$1\\times 10^{$2}')
     .replace(/(?<=[\d)] )([µA-Za-zΩ°·⁻¹²³⁴⁵⁶⁷⁸⁹⁰/]+)/g, (u: string) => {
@@ -69,43 +70,93 @@ export interface TexContext {
 
 type AnyNode = MathNode & Record<string, unknown>;
 
-/** LaTeX of an expression; with `valueOf`, variables are replaced by their values (the working). */
+const FUNCTION_TEX: Record<string, string> = {
+  sin: '\\sin', cos: '\\cos', tan: '\\tan', exp: '\\exp', log: '\\ln', ln: '\\ln', log10: '\\log_{10}', arg: '\\arg',
+  atan: '\\arctan', asin: '\\arcsin', acos: '\\arccos', sinh: '\\sinh', cosh: '\\cosh', tanh: '\\tanh',
+};
+const BINARY_TEX: Record<string, string> = {
+  add: '+', subtract: '-', multiply: '\\cdot ', dotMultiply: '\\cdot ', smaller: '<', smallerEq: '\\le ', larger: '>', largerEq: '\\ge ',
+  equal: '=', unequal: '\\ne ', and: '\\wedge ', or: '\\vee ', xor: '\\veebar ',
+};
+
+function numberTex(value: unknown): string {
+  const text = String(value);
+  const m = /^(-?[\d.]+)e([+-]?\d+)$/.exec(text);
+  return m ? `${m[1]}\\times 10^{${Number(m[2])}}` : text;
+}
+
+const unwrap = (n: AnyNode): AnyNode => (n.type === 'ParenthesisNode' ? unwrap(n.content as AnyNode) : n);
+
+/**
+ * LaTeX of an expression; with `valueTexOf`, variables are replaced by their values (the working).
+ * Our own printer for the nodes a sheet uses (faster than mathjs's toTex and with engineering
+ * conventions: 12\,\Omega, j for the imaginary unit); anything else falls back to mathjs's toTex.
+ */
 export function expressionTex(node: MathNode, context: TexContext): string {
+  const tex = (m: MathNode): string => {
+    const n = m as AnyNode;
+    switch (n.type) {
+      case 'ConstantNode':
+        return numberTex(n.value);
+      case 'SymbolNode': {
+        const name = String(n.name);
+        if (context.isVariable(name)) return context.valueTexOf?.(name) ?? variableTex(name);
+        if (name === 'pi') return '\\pi ';
+        if (name === 'i' || name === 'j') return '\\mathrm{j}';
+        if (name === 'e') return 'e';
+        if (Unit.isValuelessUnit(name)) return unitTex(name);
+        return variableTex(name);
+      }
+      case 'ParenthesisNode':
+        return `\\left(${tex(n.content as MathNode)}\\right)`;
+      case 'OperatorNode': {
+        const args = n.args as AnyNode[];
+        const fn = String(n.fn);
+        if (args.length === 1) {
+          if (fn === 'unaryMinus') return `-${tex(args[0])}`;
+          if (fn === 'unaryPlus') return `+${tex(args[0])}`;
+          if (fn === 'not') return `\\neg ${tex(args[0])}`;
+          break;
+        }
+        if (args.length !== 2) break;
+        const [a, b] = args;
+        if (n.implicit) return `${tex(a)}\\,${tex(b)}`;
+        if (fn === 'divide') return `\\frac{${tex(unwrap(a))}}{${tex(unwrap(b))}}`;
+        if (fn === 'pow' || fn === 'dotPow') {
+          const base = tex(a);
+          const needsParens = a.type === 'OperatorNode' || (a.type === 'ConstantNode' && Number(a.value) < 0);
+          return `{${needsParens ? `\\left(${base}\\right)` : base}}^{${tex(unwrap(b))}}`;
+        }
+        if (fn === 'to') return `${tex(a)}\\rightarrow ${expressionTex(b, { isVariable: () => false })}`;
+        if (BINARY_TEX[fn]) return `${tex(a)}${BINARY_TEX[fn]}${tex(b)}`;
+        break;
+      }
+      case 'FunctionNode': {
+        const f = n.fn as AnyNode;
+        const name = String(f.name ?? '');
+        const args = (n.args as MathNode[]).map((x) => tex(unwrap(x as AnyNode)));
+        if (name === 'sqrt') return `\\sqrt{${args[0]}}`;
+        if (name === 'abs') return `\\left|${args[0]}\\right|`;
+        if (name === 'conj') return `\\overline{${args[0]}}`;
+        if (FUNCTION_TEX[name]) return `${FUNCTION_TEX[name]}\\left(${args.join(',\\,')}\\right)`;
+        if (name && !context.isVariable(name)) return `\\operatorname{${name.replace(/_/g, '\\_')}}\\left(${args.join(',\\,')}\\right)`;
+        break;
+      }
+    }
+    return fallbackTex(m, context);
+  };
+  return tex(node).replace(/\s+/g, ' ').trim();
+}
+
+/** mathjs's own toTex, with names, units and values set our way. */
+function fallbackTex(node: MathNode, context: TexContext): string {
   const handler = (n: AnyNode): string | undefined => {
-    if (n.type === 'SymbolNode') {
-      const name = String(n.name);
-      if (context.isVariable(name)) {
-        const value = context.valueTexOf?.(name);
-        // A leading space keeps KaTeX from reading "\cdotL" as one command.
-        return value !== undefined ? ` ${value}` : ` ${variableTex(name)}`;
-      }
-      if (name === 'pi') return ' \\pi';
-      if (name === 'i' || name === 'j') return ' \\mathrm{j}';
-      if (name === 'e') return ' e';
-      if (Unit.isValuelessUnit(name)) return ` ${unitTex(name)}`;
-      return ` ${variableTex(name)}`;
-    }
-    if (n.type === 'FunctionNode') {
-      const fn = n.fn as AnyNode;
-      const fnName = String(fn.name ?? '');
-      const args = (n.args as MathNode[]).map((a) => expressionTex(a, context));
-      if (fnName === 'sqrt') return ` \\sqrt{${args[0]}}`;
-      if (fnName === 'abs') return ` \\left|${args[0]}\\right|`;
-      if (['sin', 'cos', 'tan', 'exp', 'log', 'ln', 'arg'].includes(fnName)) return ` \\${fnName}\\left(${args.join(',')}\\right)`;
-      if (['atan', 'asin', 'acos'].includes(fnName)) return ` \\${fnName.replace('a', 'arc')}\\left(${args.join(',')}\\right)`;
-      if (fnName && !context.isVariable(fnName)) return ` \\operatorname{${fnName.replace(/_/g, '\\_')}}\\left(${args.join(',\\,')}\\right)`;
-    }
-    if (n.type === 'OperatorNode' && n.implicit && (n.args as AnyNode[]).length === 2) {
-      const [a, b] = n.args as AnyNode[];
-      if (b.type === 'SymbolNode' && !context.isVariable(String(b.name)) && Unit.isValuelessUnit(String(b.name))) {
-        return ` ${expressionTex(a, context)}\,${unitTex(String(b.name))}`;
-      }
-    }
-    if (n.type === 'OperatorNode' && n.fn === 'to') {
-      const args = n.args as MathNode[];
-      return `${expressionTex(args[0], context)}\\rightarrow ${expressionTex(args[1], { isVariable: () => false })}`;
+    if (n === (node as AnyNode)) return undefined;
+    if (n.type === 'SymbolNode' || n.type === 'OperatorNode' || n.type === 'FunctionNode' || n.type === 'ConstantNode' || n.type === 'ParenthesisNode') {
+      // A leading space keeps KaTeX from reading "\cdotL" as one command.
+      return ` ${expressionTex(n, context)}`;
     }
     return undefined;
   };
-  return node.toTex({ handler: handler as never, implicit: 'show', parenthesis: 'keep' }).replace(/\s+/g, ' ').trim();
+  return node.toTex({ handler: handler as never, implicit: 'show', parenthesis: 'keep' });
 }

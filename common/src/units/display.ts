@@ -92,8 +92,6 @@ export function formatNumber(x: number, digits: number): string {
   return (x < 0 ? '−' : '') + text;
 }
 
-const PRETTY_UNIT: Record<string, string> = { ohm: 'Ω', deg: '°', u: 'µ' };
-
 /** A unit in mathjs syntax ("uF", "kohm", "m/s^2") as shown to a reader ("µF", "kΩ", "m/s²"). */
 export function prettyUnit(unit: string): string {
   return unit
@@ -103,8 +101,6 @@ export function prettyUnit(unit: string): string {
     .replace(/ /g, '·')
     .replace(/^deg$/, '°');
 }
-
-void PRETTY_UNIT;
 
 function chooseEngineering(magnitude: number, base: string): { unit: string; factor: number } {
   if (NO_PREFIX.has(base) || base.includes('/') || base.includes(' ') || base.includes('^') || magnitude === 0 || !Number.isFinite(magnitude)) {
@@ -147,6 +143,17 @@ function complexTexts(re: number, im: number, unitText: string, digits: number):
   return { polar, rect };
 }
 
+const factors = new Map<string, number>();
+/** The SI value of one of a unit (mA → 0.001), remembered per unit text. */
+function unitFactor(unit: string): number {
+  let f = factors.get(unit);
+  if (f === undefined) {
+    f = (unitValue(math.unit(1, unit) as MathUnit) as number) ?? 1;
+    factors.set(unit, f);
+  }
+  return f;
+}
+
 /** Formats a value; `target` is the unit asked for with `to`, in mathjs syntax. */
 export function formatValue(value: unknown, options: DisplayOptions = DEFAULT_DISPLAY, target?: string): FormattedValue {
   const digits = options.significantDigits;
@@ -157,10 +164,8 @@ export function formatValue(value: unknown, options: DisplayOptions = DEFAULT_DI
     let shownUnit: string;
     let factor: number;
     if (target) {
-      const t = math.unit(target) as MathUnit;
       shownUnit = target;
-      factor = (unitValue(math.unit(1, target) as MathUnit) as number) ?? 1;
-      void t;
+      factor = unitFactor(target);
     } else if (baseName) {
       const magnitude = isComplex(raw) ? Math.hypot(raw.re, raw.im) : Math.abs(Number(raw));
       ({ unit: shownUnit, factor } = chooseEngineering(magnitude, baseName));
@@ -172,7 +177,7 @@ export function formatValue(value: unknown, options: DisplayOptions = DEFAULT_DI
     } else {
       const simplified = (u as unknown as { simplify(): MathUnit }).simplify();
       shownUnit = (simplified as unknown as { formatUnits(): string }).formatUnits();
-      factor = (unitValue(math.unit(1, shownUnit) as MathUnit) as number) ?? 1;
+      factor = unitFactor(shownUnit);
     }
     const unitText = prettyUnit(shownUnit);
     const siUnit = baseName;
