@@ -1,6 +1,6 @@
 /** The `npm run calc` command follows the contract of PRODUCT.md: JSON on stdout, SI values, exit codes. */
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -42,5 +42,21 @@ describe('npm run calc', () => {
     expect(calc(join(dir, 'missing.json')).status).toBe(2);
     expect(calc(write('junk.json', '{ not json')).status).toBe(2);
     expect(calc(write('wrong.json', { format: 'other' })).status).toBe(2);
+  });
+});
+
+describe('templates', () => {
+  const templates = readdirSync(join(root, 'templates')).filter((f) => f.endsWith('.json'));
+
+  it('ships at least six templates', () => {
+    expect(templates.length).toBeGreaterThanOrEqual(6);
+  });
+
+  it.each(templates)('%s evaluates through npm run calc with no error and every check passing', (file) => {
+    const out = calc(join(root, 'templates', file));
+    // The whole output arrives even when it is large (transients): it parses.
+    const json = JSON.parse(out.stdout) as { cells: { status: string; errors: unknown[] }[] };
+    for (const cell of json.cells) expect(cell.errors).toEqual([]);
+    expect(out.status).toBe(0);
   });
 });

@@ -49,5 +49,6 @@ const engine = createRequire(import.meta.url)(dist);
 const parsed = engine.parseSheetJson(text);
 if (!parsed.ok) fail(`${file} is not a valid sheet file:\n${parsed.problems.map((p) => `  ${p.path}: ${p.message}`).join('\n')}`);
 const { output, exitCode } = engine.toContractJson(engine.evaluateSheet(parsed.sheet));
+// Exit only once stdout has drained: process.exit() right after a large write to a pipe cuts it short.
+process.exitCode = exitCode;
 process.stdout.write(`${JSON.stringify(output, null, 2)}\n`);
-process.exit(exitCode);

@@ -108,10 +108,7 @@ export function evaluateSweepCell(cell: SweepCell, cellIndex: number, scope: She
       let values: unknown[];
       try {
         values = fast
-          ? points.map((x) => {
-              numericScope.set(variable, x);
-              return fast(numericScope);
-            })
+          ? points.map((x) => fast(numericScope, x))
           : viaMathjs();
       } catch (err) {
         if (!(err instanceof NumericFallback)) throw err;

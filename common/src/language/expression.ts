@@ -31,6 +31,13 @@ export function parseExpression(text: string, line: number, offset = 0, isValue:
  * imaginary unit i or j) a space or not, an engineer means a product: `j (w L - 1/(w C))`, `R(1 + a)`.
  */
 export function callsToProducts(node: MathNode, isValue: (name: string) => boolean): MathNode {
+  const isCandidate = (n: MathNode) => {
+    const f = n as AnyNode;
+    if (f.type !== 'FunctionNode' || (f.fn as AnyNode).type !== 'SymbolNode') return false;
+    const name = String((f.fn as AnyNode).name);
+    return name === 'i' || name === 'j' || isValue(name);
+  };
+  if (node.filter(isCandidate).length === 0) return node;
   return node.transform((n) => {
     const f = n as AnyNode;
     if (f.type === 'FunctionNode' && (f.fn as AnyNode).type === 'SymbolNode' && (f.args as MathNode[]).length === 1) {

@@ -10,7 +10,7 @@ import { withNumericMode } from '../units/quantities';
 import { isComplex } from './math';
 
 export type Num = number | { re: number; im: number };
-export type NumericFn = (vars: Map<string, unknown>) => Num;
+export type NumericFn = (vars: Map<string, unknown>, x: number) => Num;
 type AnyNode = MathNode & Record<string, unknown>;
 
 const cx = (x: Num) => (typeof x === 'number' ? { re: x, im: 0 } : x);
@@ -71,7 +71,7 @@ export function compileNumeric(node: MathNode, variable?: string): NumericFn | u
     const f = buildNode(m);
     if (dependsOnVariable(m) || m.type === 'ConstantNode') return f;
     let cached: Num | undefined;
-    return (v) => (cached ??= f(v));
+    return (v, x) => (cached ??= f(v, x));
   };
   const buildNode = (m: MathNode): NumericFn => {
     const n = m as AnyNode;
@@ -86,6 +86,7 @@ export function compileNumeric(node: MathNode, variable?: string): NumericFn | u
         if (name === 'pi') return () => Math.PI;
         if (name === 'e') return () => Math.E;
         if (name === 'i' || name === 'j') return (vars) => (vars.has(name) ? fromMath(vars.get(name)) : { re: 0, im: 1 });
+        if (name === variable) return (_vars, x) => x;
         return (vars) => fromMath(vars.get(name));
       }
       case 'ParenthesisNode':
@@ -95,18 +96,18 @@ export function compileNumeric(node: MathNode, variable?: string): NumericFn | u
         const fn = String(n.fn);
         if (args.length === 1) {
           const [a] = args;
-          if (fn === 'unaryMinus') return (v) => neg(a(v));
+          if (fn === 'unaryMinus') return (v, x) => neg(a(v, x));
           if (fn === 'unaryPlus') return a;
           throw new Unsupported();
         }
         if (args.length !== 2) throw new Unsupported();
         const [a, b] = args;
         switch (fn) {
-          case 'add': return (v) => add(a(v), b(v));
-          case 'subtract': return (v) => sub(a(v), b(v));
-          case 'multiply': case 'dotMultiply': return (v) => mul(a(v), b(v));
-          case 'divide': case 'dotDivide': return (v) => div(a(v), b(v));
-          case 'pow': case 'dotPow': return (v) => need(pow(a(v), b(v)));
+          case 'add': return (v, x) => add(a(v, x), b(v, x));
+          case 'subtract': return (v, x) => sub(a(v, x), b(v, x));
+          case 'multiply': case 'dotMultiply': return (v, x) => mul(a(v, x), b(v, x));
+          case 'divide': case 'dotDivide': return (v, x) => div(a(v, x), b(v, x));
+          case 'pow': case 'dotPow': return (v, x) => need(pow(a(v, x), b(v, x)));
           default: throw new Unsupported();
         }
       }
@@ -116,10 +117,10 @@ export function compileNumeric(node: MathNode, variable?: string): NumericFn | u
         const f = FUNCTIONS[name];
         if (f && args.length === 1) {
           const [a] = args;
-          return (v) => need(f(a(v)));
+          return (v, x) => need(f(a(v, x)));
         }
         const circuit = (circuitFunctions as Record<string, (...x: unknown[]) => unknown>)[name];
-        if (circuit) return (v) => fromMath(withNumericMode(() => circuit(...args.map((a) => { const x = a(v); return typeof x === 'number' ? x : x; }))));
+        if (circuit) return (v, x) => fromMath(withNumericMode(() => circuit(...args.map((a) => a(v, x)))));
         throw new Unsupported();
       }
       default:
@@ -128,9 +129,9 @@ export function compileNumeric(node: MathNode, variable?: string): NumericFn | u
   };
   try {
     const fn = build(node);
-    return (vars) => {
+    return (vars, x) => {
       try {
-        return fn(vars);
+        return fn(vars, x);
       } catch (err) {
         if (err instanceof Unsupported) throw new NumericFallback();
         throw err;

@@ -42,7 +42,19 @@ export function unitTex(unit: string): string {
 }
 
 /** A display string from units/display.ts ("0.6843 A ∠ −26.9°", "(3.000 + j4.000) Ω") as LaTeX. */
+const displayTexCache = new Map<string, string>();
+
 export function displayTex(display: string): string {
+  let tex = displayTexCache.get(display);
+  if (tex === undefined) {
+    if (displayTexCache.size > 10_000) displayTexCache.clear();
+    tex = displayTexUncached(display);
+    displayTexCache.set(display, tex);
+  }
+  return tex;
+}
+
+function displayTexUncached(display: string): string {
   return display
     .replace(/−/g, '-')
     .replace(/∠ ?(-?[\d.]+)°/g, '\\angle $1^{\\circ}')
