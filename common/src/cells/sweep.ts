@@ -12,6 +12,7 @@ import { isComplex, isUnit, math, Unit } from '../language/instance';
 import { siUnitName, type DisplayOptions } from '../units/display';
 import { withNumericMode } from '../units/quantities';
 import { compileNumeric, NumericFallback } from '../language/numeric';
+import { compileSweepKernel, KERNEL_FALLBACK } from '../language/numeric-codegen';
 import type { SheetScope } from './scope';
 import type { SeriesData, SweepResult } from './types';
 
@@ -81,6 +82,7 @@ export function evaluateSweepCell(cell: SweepCell, cellIndex: number, scope: She
       return u;
     };
     result.variable = { name: variable, unit: variableUnit, values: points };
+    const pointArray = Float64Array.from(points);
 
     const isVariable = (name: string) => name === variable || scope.has(name);
     const numericScope = new Map<string, unknown>();
@@ -104,18 +106,29 @@ export function evaluateSweepCell(cell: SweepCell, cellIndex: number, scope: She
           }),
         );
       };
-      const fast = compileNumeric(stripped, variable);
-      let values: unknown[];
-      try {
-        values = fast
-          ? points.map((x) => fast(numericScope, x))
-          : viaMathjs();
-      } catch (err) {
-        if (!(err instanceof NumericFallback)) throw err;
-        values = viaMathjs();
+      const viaClosures = () => {
+        const fast = compileNumeric(stripped, variable);
+        if (!fast) return viaMathjs();
+        try {
+          return points.map((x) => fast(numericScope, x));
+        } catch (err) {
+          if (!(err instanceof NumericFallback)) throw err;
+          return viaMathjs();
+        }
+      };
+      let series: SeriesData | undefined;
+      const kernel = compileSweepKernel(stripped, variable, numericScope);
+      if (kernel) {
+        try {
+          const out = kernel(pointArray);
+          series = out.complex ? { name: text, unit, complex: true, values: Array.from(out.re), im: Array.from(out.im) } : { name: text, unit, values: Array.from(out.re) };
+        } catch (err) {
+          if (err !== KERNEL_FALLBACK) throw err;
+        }
       }
+      if (!series) series = seriesOf(text, viaClosures(), unit);
       const check = siOf(first);
-      const got = values[0];
+      const got = series.complex ? { re: series.values[0], im: series.im![0] } : series.values[0];
       const close = (p: unknown, q: unknown) => {
         const pr = pair(p);
         const qr = pair(q);
@@ -124,7 +137,7 @@ export function evaluateSweepCell(cell: SweepCell, cellIndex: number, scope: She
       if (!close(got, check)) {
         throw new EngineError(`the output ${text} gives different values with and without units; write its units explicitly`, o + 1, 1);
       }
-      result.outputs.push(seriesOf(text, values, unit));
+      result.outputs.push(series);
     });
   } catch (err) {
     result.status = 'error';
