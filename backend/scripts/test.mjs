@@ -62,9 +62,7 @@ main(async () => {
   layers.push(runLayer('common unit', join(ROOT, 'common'), [], env));
   layers.push(runLayer('backend unit', join(ROOT, 'backend'), ['--project', 'unit'], env));
   layers.push(runLayer('frontend unit', join(ROOT, 'frontend'), ['--project', 'unit'], env));
-  if (existsSync(join(ROOT, 'reference-checks', 'vitest.config.ts'))) {
-    layers.push(runLayer('reference checks', join(ROOT, 'reference-checks'), [], env));
-  }
+  layers.push(runLayer('reference checks', join(ROOT, 'reference-checks'), [], env));
   layers.push(runLayer('api integration', join(ROOT, 'backend'), ['--project', 'integration'], env));
 
   log(`starting the built app for end-to-end tests on 127.0.0.1:${TEST.appPort}`);

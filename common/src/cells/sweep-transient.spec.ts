@@ -25,6 +25,24 @@ describe('sweep cells', () => {
     });
   });
 
+  it('falls back from the fast paths where real arithmetic cannot follow (square root of a negative)', () => {
+    const r = evaluateSheet({ cells: [{ kind: 'sweep', variable: 'x', from: '-4', to: '4', points: 3, outputs: ['sqrt(x)', 'x^2 - 1'] }] }).cells[0] as SweepResult;
+    expect(r.status).toBe('ok');
+    expect(r.outputs[0]).toMatchObject({ complex: true, values: [0, 0, 2], im: [2, 0, 0] });
+    expect(r.outputs[1].values).toEqual([15, -1, 15]);
+  });
+
+  it('uses the circuit functions in a sweep', () => {
+    const r = evaluateSheet({
+      cells: [{ kind: 'calc', source: rlc }, { kind: 'sweep', variable: 'f', from: '10 Hz', to: '100 Hz', points: 5, outputs: ['rlc_amplitude(E0, R, L, C, 2 pi f)'] }],
+    }).cells[1] as SweepResult;
+    expect(r.outputs[0].unit).toBe('A');
+    r.variable!.values.forEach((f, k) => {
+      const S = 2 * Math.PI * f * 0.05 - 1 / (2 * Math.PI * f * 100e-6);
+      expect(r.outputs[0].values[k]).toBeCloseTo(100 / Math.hypot(10, S), 10);
+    });
+  });
+
   it('spaces a logarithmic sweep by equal ratios', () => {
     const r = evaluateSheet({ cells: [{ kind: 'sweep', variable: 'f', from: '1 Hz', to: '1 kHz', points: 4, spacing: 'log', outputs: ['2 f'] }] }).cells[0] as SweepResult;
     expect(r.variable?.values.map((v) => Math.round(v * 1e9) / 1e9)).toEqual([1, 10, 100, 1000]);

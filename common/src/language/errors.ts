@@ -55,11 +55,18 @@ const OPERATION: Record<string, string> = {
   largerEq: 'compare', equal: 'compare', unequal: 'compare', compare: 'compare',
 };
 
+/** mathjs's internal names of the operators, as a reader knows them. */
+const FUNCTION_NAMES: Record<string, string> = {
+  addScalar: '+', add: '+', subtractScalar: '−', subtract: '−', multiplyScalar: '×', multiply: '×', divideScalar: '/', divide: '/',
+  unaryMinus: 'negation (−)', unaryPlus: '+', pow: '^', dotPow: '.^', dotMultiply: '.*', dotDivide: './', smaller: '<', larger: '>',
+  smallerEq: '<=', largerEq: '>=', equal: '==', unequal: '!=', mod: 'mod',
+};
+
 /** Rewrites a mathjs error for a reader; `operands` are the values at the failing operator, if known. */
 export function explain(err: unknown, context: { fn?: string; operands?: unknown[] } = {}): string {
   const raw = err instanceof Error ? err.message : String(err);
   const op = context.fn ? OPERATION[context.fn] : undefined;
-  if ((/Units do not match|different base|Cannot compare units/.test(raw) || (op && /Unit/.test(raw))) && context.operands?.length === 2) {
+  if ((/Units do not match|different base|Cannot compare units/.test(raw) || (op && /Unit/.test(raw))) && context.operands?.length === 2 && kindOf(context.operands[0]) !== kindOf(context.operands[1])) {
     const [a, b] = context.operands.map(kindOf);
     const verb = op ?? 'combine';
     return `cannot ${verb} ${a} and ${b}: the two sides have different dimensions`;
@@ -71,7 +78,7 @@ export function explain(err: unknown, context: { fn?: string; operands?: unknown
   m = /Undefined function (\S+)/.exec(raw);
   if (m) return `unknown function ${m[1]}`;
   m = /Unexpected type of argument in function (\w+) \(expected: ([^,]+(?:,[^,]+)*?), actual: (\w+)/.exec(raw);
-  if (m) return `the function ${m[1]} cannot take ${m[3] === 'Unit' ? 'a quantity with units' : `a ${m[3]}`} there`;
+  if (m) return `${FUNCTION_NAMES[m[1]] ? `the operation ${FUNCTION_NAMES[m[1]]}` : `the function ${m[1]}`} cannot take ${m[3] === 'Unit' ? 'a quantity with units' : `a ${m[3].toLowerCase()}`} there`;
   m = /Too many arguments in function (\w+) \(expected: (\d+)/.exec(raw);
   if (m) return `the function ${m[1]} takes at most ${m[2]} argument${m[2] === '1' ? '' : 's'}`;
   m = /Too few arguments in function (\w+) \(expected: \w+, index: (\d+)/.exec(raw);
@@ -84,8 +91,16 @@ export function explain(err: unknown, context: { fn?: string; operands?: unknown
   if (m) return 'a closing parenthesis ) is missing';
   m = /Value expected/.exec(raw);
   if (m) return 'a value is missing here';
-  m = /Syntax error in part "([^"]*)"/.exec(raw);
-  if (m) return `cannot read "${m[1]}" here`;
+  m = /(?:Syntax error in part|Unexpected part) "([^"]*)"/.exec(raw);
+  if (m) {
+    if (m[1].startsWith('∠')) return 'the ∠ sign is not part of the language: write a phasor as phasor(230 V, -30 deg)';
+    return `cannot read "${m[1].split(/\s+/)[0].slice(0, 20)}" here`;
+  }
+  m = /End of string (\S) expected/.exec(raw);
+  if (m) return `a closing quote ${m[1]} is missing`;
+  if (/Invalid left hand side of assignment/.test(raw)) return 'only a name can stand on the left of =';
+  m = /Signature not found \(signature: (\w+)\(([^)]*)\)\)/.exec(raw);
+  if (m) return `the operation ${FUNCTION_NAMES[m[1]] ?? m[1]} cannot take ${m[2] === 'null' ? 'a bare unit without a number' : m[2]} here`;
   if (/Maximum call stack/.test(raw)) return 'the expression is nested too deeply to evaluate';
   if (/Unit .* not found|not found/.test(raw)) return raw.replace(/^Error: /, '').replace(/"/g, '');
   return raw.replace(/ \(char \d+\)$/, '').replace(/^Error: /, '');
