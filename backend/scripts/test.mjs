@@ -55,6 +55,11 @@ main(async () => {
     ...appEnvironment({ dbName: TEST.dbName, appPort: TEST.appPort, smtpPort: TEST.smtpPort, s3Port: TEST.s3Port }),
     NODE_ENV: 'test',
     MAIL_API_URL: `http://127.0.0.1:${TEST.mailApiPort}`,
+    APP_URL: `http://127.0.0.1:${TEST.appPort}`,
+    // Fast hashing, and a per-address sign-in limit that many tests from one address stay under;
+    // the per-account limit (5 a minute) is the one the tests exercise.
+    BCRYPT_COST: '4',
+    THROTTLE_AUTH_PER_ADDRESS: '1000',
   };
   migrateAndSeed(env);
 

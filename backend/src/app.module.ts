@@ -5,7 +5,13 @@ import { ConfigService } from '@nestjs/config';
 import { APP_FILTER, APP_GUARD } from '@nestjs/core';
 import { ServeStaticModule } from '@nestjs/serve-static';
 import { ThrottlerGuard, ThrottlerModule } from '@nestjs/throttler';
+import { AuditModule } from './audit/audit.module';
+import { AuthModule } from './auth/auth.module';
 import { ConfigModule } from './config/config.module';
+import { AuthGuard } from './core/guards/auth.guard';
+import { THROTTLERS } from './core/throttle';
+import { InvitationsModule } from './invitations/invitations.module';
+import { MembersModule } from './members/members.module';
 import type { Environment } from './config/environment';
 import { AllExceptionsFilter } from './core/filters/all-exceptions.filter';
 import { RequestLoggerMiddleware } from './core/middleware/request-logger.middleware';
@@ -36,7 +42,11 @@ function staticFrontEnd(): DynamicModule[] {
           DB_PASSWORD: config.get('DB_PASSWORD', { infer: true }),
         }),
     }),
-    ThrottlerModule.forRoot({ throttlers: [{ name: 'default', ttl: 60_000, limit: 600 }], errorMessage: 'Too many requests: wait a minute and try again.' }),
+    ThrottlerModule.forRoot({ throttlers: THROTTLERS, errorMessage: 'Too many attempts: wait a minute and try again.' }),
+    AuditModule,
+    AuthModule,
+    InvitationsModule,
+    MembersModule,
     MailModule,
     FilesModule,
     HealthModule,
@@ -44,6 +54,8 @@ function staticFrontEnd(): DynamicModule[] {
     ...staticFrontEnd(),
   ],
   providers: [
+    // Access first: a caller without the right gets 401/403 and does not use up anyone's allowance.
+    { provide: APP_GUARD, useClass: AuthGuard },
     { provide: APP_GUARD, useClass: ThrottlerGuard },
     { provide: APP_FILTER, useClass: AllExceptionsFilter },
   ],

@@ -1,6 +1,7 @@
 import { INestApplication } from '@nestjs/common';
 import { NestFactory } from '@nestjs/core';
 import { NestExpressApplication } from '@nestjs/platform-express';
+import cookieParser from 'cookie-parser';
 import helmet from 'helmet';
 import { AppModule } from './app.module';
 import type { NextFunction, Request, Response } from 'express';
@@ -31,6 +32,7 @@ export function configureApp(app: INestApplication): INestApplication {
       },
     }),
   );
+  express.use(cookieParser());
   app.setGlobalPrefix('api');
   app.useGlobalPipes(createValidationPipe());
   app.enableShutdownHooks();

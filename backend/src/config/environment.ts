@@ -55,6 +55,21 @@ export class Environment {
   @IsString() @IsNotEmpty()
   S3_SECRET_KEY: string;
 
+  /** Where people reach the app, for links in e-mail. */
+  @IsUrl({ require_tld: false, protocols: ['http', 'https'] })
+  APP_URL = 'http://127.0.0.1:3000';
+
+  /** bcrypt cost; 12 outside tests. */
+  @Type(() => Number) @IsInt() @Min(4) @Max(15)
+  BCRYPT_COST = 12;
+
+  @Type(() => Number) @IsInt() @Min(1) @Max(24 * 30)
+  SESSION_HOURS = 12;
+
+  /** Set when the app is served over HTTPS, so the session cookie is only sent over it. */
+  @IsIn(['true', 'false'])
+  COOKIE_SECURE: 'true' | 'false' = 'false';
+
   /** The built front end to serve; empty serves the API only. */
   @IsOptional() @IsString()
   STATIC_DIR?: string;

@@ -1,4 +1,10 @@
+import { AuditEvent } from '../audit/entities/audit-event.entity';
+import { PasswordReset } from '../auth/entities/password-reset.entity';
+import { Session } from '../auth/entities/session.entity';
 import { Firm } from '../firms/entities/firm.entity';
+import { Membership } from '../firms/entities/membership.entity';
+import { Invitation } from '../invitations/entities/invitation.entity';
+import { User } from '../users/entities/user.entity';
 
 /** Every entity, listed once: the ORM, the migrator and the seed read this list. */
-export const ENTITIES = [Firm];
+export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent];

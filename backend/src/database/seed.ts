@@ -1,5 +1,5 @@
 /**
- * The demo seed, for local use only: the invented firm Northfold Engineering (PRODUCT.md).
+ * The demo seed, for local use only: the invented firm Northfold Engineering and its people (PRODUCT.md).
  * Idempotent: running it again changes nothing that is already there.
  */
 import 'reflect-metadata';
@@ -9,9 +9,10 @@ import { ormConfig } from './mikro-orm.config';
 import { seedDemo } from './seeders/demo.seeder';
 
 async function seed() {
-  const orm = await MikroORM.init(ormConfig(validateEnvironment(process.env)));
+  const env = validateEnvironment(process.env);
+  const orm = await MikroORM.init(ormConfig(env));
   try {
-    const summary = await seedDemo(orm.em.fork());
+    const summary = await seedDemo(orm.em.fork(), env.BCRYPT_COST);
     console.log(summary);
   } finally {
     await orm.close(true);

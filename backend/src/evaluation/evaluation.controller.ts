@@ -1,5 +1,7 @@
 import { Body, Controller, HttpCode, Post } from '@nestjs/common';
 import type { SheetFile } from '@ampwright/common';
+import { Roles } from '../core/decorators/access.decorator';
+import { MEMBER_ROLES } from '../core/roles';
 import { EvaluationService } from './evaluation.service';
 import { SheetFilePipe } from './sheet-file.pipe';
 import { EvaluationResponseDto } from './dto/evaluation-response.dto';
@@ -9,6 +11,7 @@ export class EvaluationController {
   constructor(private readonly evaluation: EvaluationService) {}
 
   /** A sheet in the ampwright.sheet/1 format in, the results of every cell out. */
+  @Roles(...MEMBER_ROLES)
   @Post()
   @HttpCode(200)
   evaluate(@Body(SheetFilePipe) sheet: SheetFile): Promise<EvaluationResponseDto> {

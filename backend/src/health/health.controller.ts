@@ -1,5 +1,6 @@
 import { Controller, Get, Res } from '@nestjs/common';
 import type { Response } from 'express';
+import { Public } from '../core/decorators/access.decorator';
 import { HealthService } from './health.service';
 import { HealthResponseDto } from './dto/health-response.dto';
 
@@ -7,6 +8,7 @@ import { HealthResponseDto } from './dto/health-response.dto';
 export class HealthController {
   constructor(private readonly health: HealthService) {}
 
+  @Public()
   @Get()
   async get(@Res({ passthrough: true }) res: Response): Promise<HealthResponseDto> {
     const report = await this.health.check();

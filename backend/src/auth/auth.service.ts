@@ -1,0 +1,112 @@
+import { randomBytes } from 'node:crypto';
+import { EntityManager } from '@mikro-orm/core';
+import { HttpStatus, Injectable } from '@nestjs/common';
+import { ConfigService } from '@nestjs/config';
+import type { Response } from 'express';
+import { AuditService } from '../audit/audit.service';
+import type { Environment } from '../config/environment';
+import { AppException } from '../core/errors/app-exception';
+import { hashToken, type AuthContext } from '../core/guards/auth.guard';
+import { Firm } from '../firms/entities/firm.entity';
+import { Membership } from '../firms/entities/membership.entity';
+import { MailService } from '../mail/mail.service';
+import { mailTemplates } from '../mail/mail-templates';
+import { User } from '../users/entities/user.entity';
+import type { ChangeProfileDto, ForgotPasswordDto, LoginDto, RegisterFirmDto, ResetPasswordDto } from './dto/auth.dto';
+import type { MeResponseDto } from './dto/me-response.dto';
+import { PasswordReset } from './entities/password-reset.entity';
+import { PasswordService } from './password.service';
+import { SessionsService } from './sessions.service';
+
+export enum AuthErrorCode {
+  EmailTaken = 'EMAIL_TAKEN',
+  BadCredentials = 'BAD_CREDENTIALS',
+  NoMembership = 'NO_MEMBERSHIP',
+  ResetInvalid = 'RESET_INVALID',
+}
+
+const RESET_MINUTES = 60;
+
+@Injectable()
+export class AuthService {
+  private readonly appUrl: string;
+
+  constructor(
+    private readonly em: EntityManager,
+    private readonly passwords: PasswordService,
+    private readonly sessions: SessionsService,
+    private readonly audit: AuditService,
+    private readonly mail: MailService,
+    config: ConfigService<Environment, true>,
+  ) {
+    this.appUrl = config.get('APP_URL', { infer: true }).replace(/\/$/, '');
+  }
+
+  async register(dto: RegisterFirmDto, res: Response, ip?: string): Promise<MeResponseDto> {
+    if (await this.em.count(User, { email: dto.email })) {
+      throw new AppException(AuthErrorCode.EmailTaken, 'An account with this e-mail address exists already: sign in instead.', HttpStatus.CONFLICT);
+    }
+    const firm = new Firm(dto.firmName);
+    const user = new User(dto.email, dto.name, await this.passwords.hash(dto.password));
+    const membership = new Membership(firm, user, ['owner']);
+    await this.em.persist([firm, user, membership]).flush();
+    const session = await this.sessions.open(user, firm, res);
+    await this.audit.record('firm-registered', { firmId: firm.id, userId: user.id, email: user.email, ip });
+    return this.me({ session, membership, roles: membership.roles });
+  }
+
+  async login(dto: LoginDto, res: Response, ip?: string): Promise<MeResponseDto> {
+    const user = await this.em.findOne(User, { email: dto.email });
+    const ok = await this.passwords.verify(dto.password, user?.passwordHash);
+    const membership = user && ok ? await this.em.findOne(Membership, { user }, { populate: ['firm'], orderBy: { createdAt: 'asc' } }) : null;
+    if (!user || !ok || !membership) {
+      await this.audit.record('sign-in-failed', { email: dto.email, userId: user?.id, ip });
+      throw new AppException(AuthErrorCode.BadCredentials, 'The e-mail address or the password is not right.', HttpStatus.UNAUTHORIZED);
+    }
+    const session = await this.sessions.open(user, membership.firm, res);
+    await this.audit.record('sign-in', { firmId: membership.firm.id, userId: user.id, email: user.email, ip });
+    return this.me({ session, membership, roles: membership.roles });
+  }
+
+  async logout(auth: AuthContext, res: Response): Promise<void> {
+    await this.sessions.close(auth.session, res);
+    await this.audit.record('sign-out', { firmId: auth.session.firm.id, userId: auth.session.user.id, email: auth.session.user.email });
+  }
+
+  me(auth: AuthContext): MeResponseDto {
+    const { user, firm } = auth.session;
+    return { user: { id: user.id, email: user.email, name: user.name }, firm: { id: firm.id, name: firm.name }, roles: auth.roles, csrfToken: auth.session.csrfToken };
+  }
+
+  async changeProfile(auth: AuthContext, dto: ChangeProfileDto): Promise<MeResponseDto> {
+    auth.session.user.name = dto.name;
+    await this.em.flush();
+    return this.me(auth);
+  }
+
+  /** Answers the same whether or not the address has an account. */
+  async forgotPassword(dto: ForgotPasswordDto, ip?: string): Promise<void> {
+    const user = await this.em.findOne(User, { email: dto.email });
+    if (!user) return;
+    const membership = await this.em.findOne(Membership, { user }, { populate: ['firm'] });
+    const token = randomBytes(32).toString('base64url');
+    const expires = new Date(Date.now() + RESET_MINUTES * 60_000);
+    await this.em.persist(new PasswordReset(hashToken(token), user, expires)).flush();
+    await this.audit.record('password-reset-requested', { firmId: membership?.firm.id, userId: user.id, email: user.email, ip });
+    await this.mail.send(
+      mailTemplates.passwordReset({ to: user.email, firm: membership?.firm.name ?? 'Ampwright', url: `${this.appUrl}/reset-password?token=${token}`, expires }),
+    );
+  }
+
+  async resetPassword(dto: ResetPasswordDto, ip?: string): Promise<void> {
+    const reset = await this.em.findOne(PasswordReset, { tokenHash: hashToken(dto.token) }, { populate: ['user'] });
+    if (!reset || reset.usedAt || reset.expiresAt.getTime() < Date.now()) {
+      throw new AppException(AuthErrorCode.ResetInvalid, 'This reset link has expired or has been used. Ask for a new one.', HttpStatus.BAD_REQUEST);
+    }
+    reset.usedAt = new Date();
+    reset.user.passwordHash = await this.passwords.hash(dto.password);
+    await this.em.flush();
+    await this.sessions.closeAllOf(reset.user);
+    await this.audit.record('password-reset', { userId: reset.user.id, email: reset.user.email, ip });
+  }
+}

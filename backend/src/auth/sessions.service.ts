@@ -1,0 +1,44 @@
+import { randomBytes } from 'node:crypto';
+import { EntityManager } from '@mikro-orm/core';
+import { Injectable } from '@nestjs/common';
+import { ConfigService } from '@nestjs/config';
+import type { Response } from 'express';
+import type { Environment } from '../config/environment';
+import { hashToken, SESSION_COOKIE } from '../core/guards/auth.guard';
+import { Firm } from '../firms/entities/firm.entity';
+import { User } from '../users/entities/user.entity';
+import { Session } from './entities/session.entity';
+
+export const newToken = () => randomBytes(32).toString('base64url');
+
+/** Sessions live in MariaDB (any app server can serve any session); the cookie carries the token. */
+@Injectable()
+export class SessionsService {
+  private readonly hours: number;
+  private readonly secure: boolean;
+
+  constructor(
+    private readonly em: EntityManager,
+    config: ConfigService<Environment, true>,
+  ) {
+    this.hours = config.get('SESSION_HOURS', { infer: true });
+    this.secure = config.get('COOKIE_SECURE', { infer: true }) === 'true';
+  }
+
+  async open(user: User, firm: Firm, res: Response): Promise<Session> {
+    const token = newToken();
+    const session = new Session(hashToken(token), user, firm, newToken(), new Date(Date.now() + this.hours * 3600_000));
+    await this.em.persist(session).flush();
+    res.cookie(SESSION_COOKIE, token, { httpOnly: true, sameSite: 'lax', secure: this.secure, path: '/', maxAge: this.hours * 3600_000 });
+    return session;
+  }
+
+  async close(session: Session, res: Response): Promise<void> {
+    await this.em.nativeDelete(Session, { tokenHash: session.tokenHash });
+    res.clearCookie(SESSION_COOKIE, { path: '/' });
+  }
+
+  async closeAllOf(user: User): Promise<void> {
+    await this.em.nativeDelete(Session, { user });
+  }
+}

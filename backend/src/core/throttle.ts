@@ -1,0 +1,22 @@
+import type { ThrottlerOptions } from '@nestjs/throttler';
+
+/**
+ * Throttlers: `default` for every route; `address` (per client address) and `account` (per e-mail
+ * address or token in the body) are off unless a route turns them on with `authThrottle`.
+ */
+const perAccount = (req: Record<string, unknown>) => {
+  const body = (req.body ?? {}) as Record<string, unknown>;
+  return String(body.email ?? body.token ?? req.ip ?? '').toLowerCase();
+};
+
+export const THROTTLERS: ThrottlerOptions[] = [
+  { name: 'default', ttl: 60_000, limit: 600 },
+  { name: 'address', ttl: 60_000, limit: 1_000_000_000 },
+  { name: 'account', ttl: 60_000, limit: 1_000_000_000, getTracker: perAccount as never },
+];
+
+/** 5 a minute per account, and (by default) 5 a minute per client address. */
+export const AUTH_THROTTLE = {
+  address: { ttl: 60_000, limit: Number(process.env.THROTTLE_AUTH_PER_ADDRESS ?? 5) },
+  account: { ttl: 60_000, limit: 5 },
+};

@@ -1,0 +1,105 @@
+import { EntityManager } from '@mikro-orm/core';
+import { HttpStatus, Injectable } from '@nestjs/common';
+import { ConfigService } from '@nestjs/config';
+import type { Response } from 'express';
+import { AuditService } from '../audit/audit.service';
+import { PasswordService } from '../auth/password.service';
+import { newToken, SessionsService } from '../auth/sessions.service';
+import type { Environment } from '../config/environment';
+import { AppException } from '../core/errors/app-exception';
+import { hashToken, type AuthContext } from '../core/guards/auth.guard';
+import { Membership } from '../firms/entities/membership.entity';
+import { MailService } from '../mail/mail.service';
+import { mailTemplates } from '../mail/mail-templates';
+import { User } from '../users/entities/user.entity';
+import type { AcceptInvitationDto, CreateInvitationDto, InvitationResponseDto } from './dto/invitation.dto';
+import { Invitation } from './entities/invitation.entity';
+
+export enum InvitationErrorCode {
+  ClientWithOtherRoles = 'CLIENT_WITH_OTHER_ROLES',
+  AlreadyMember = 'ALREADY_MEMBER',
+  Invalid = 'INVITATION_INVALID',
+}
+
+const VALID_DAYS = 7;
+
+const toResponse = (i: Invitation): InvitationResponseDto => ({
+  id: i.id,
+  email: i.email,
+  roles: i.roles,
+  expiresAt: i.expiresAt.toISOString(),
+  acceptedAt: i.acceptedAt?.toISOString() ?? null,
+});
+
+@Injectable()
+export class InvitationsService {
+  private readonly appUrl: string;
+
+  constructor(
+    private readonly em: EntityManager,
+    private readonly mail: MailService,
+    private readonly audit: AuditService,
+    private readonly passwords: PasswordService,
+    private readonly sessions: SessionsService,
+    config: ConfigService<Environment, true>,
+  ) {
+    this.appUrl = config.get('APP_URL', { infer: true }).replace(/\/$/, '');
+  }
+
+  async invite(auth: AuthContext, dto: CreateInvitationDto): Promise<InvitationResponseDto> {
+    if (dto.roles.includes('client') && dto.roles.length > 1) {
+      throw new AppException(InvitationErrorCode.ClientWithOtherRoles, 'A client cannot also hold a role in the firm: invite them as a client only.', HttpStatus.BAD_REQUEST);
+    }
+    const firm = auth.session.firm;
+    const existing = await this.em.findOne(Membership, { firm, user: { email: dto.email } });
+    if (existing) throw new AppException(InvitationErrorCode.AlreadyMember, `${dto.email} is already in ${firm.name}: change their roles instead.`, HttpStatus.CONFLICT);
+    const token = newToken();
+    const invitation = new Invitation(firm, dto.email, dto.roles, hashToken(token), new Date(Date.now() + VALID_DAYS * 86_400_000), auth.session.user);
+    invitation.projectIds = dto.projectIds ?? [];
+    await this.em.persist(invitation).flush();
+    await this.mail.send(
+      mailTemplates.invitation({ to: dto.email, firm: firm.name, invitedBy: auth.session.user.name, roles: dto.roles, url: `${this.appUrl}/accept-invitation?token=${token}`, expires: invitation.expiresAt }),
+    );
+    await this.audit.record('invitation-sent', { firmId: firm.id, userId: auth.session.user.id, email: dto.email, detail: { roles: dto.roles } });
+    return toResponse(invitation);
+  }
+
+  async list(auth: AuthContext): Promise<InvitationResponseDto[]> {
+    const list = await this.em.find(Invitation, { firm: auth.session.firm }, { orderBy: { createdAt: 'desc' } });
+    return list.map(toResponse);
+  }
+
+  private async findOpen(token: string): Promise<Invitation> {
+    const invitation = await this.em.findOne(Invitation, { tokenHash: hashToken(token) }, { populate: ['firm'] });
+    if (!invitation || invitation.acceptedAt || invitation.expiresAt.getTime() < Date.now()) {
+      throw new AppException(InvitationErrorCode.Invalid, 'This invitation has expired or has been used. Ask for a new one.', HttpStatus.BAD_REQUEST);
+    }
+    return invitation;
+  }
+
+  async preview(token: string): Promise<{ firm: string; email: string; roles: string[]; hasAccount: boolean }> {
+    const invitation = await this.findOpen(token);
+    const hasAccount = (await this.em.count(User, { email: invitation.email })) > 0;
+    return { firm: invitation.firm.name, email: invitation.email, roles: invitation.roles, hasAccount };
+  }
+
+  /** Accepting sets the password (a new account), or checks it (an existing account), and signs in. */
+  async accept(dto: AcceptInvitationDto, res: Response, ip?: string) {
+    const invitation = await this.findOpen(dto.token);
+    let user = await this.em.findOne(User, { email: invitation.email });
+    if (user) {
+      if (!(await this.passwords.verify(dto.password, user.passwordHash))) {
+        throw new AppException(InvitationErrorCode.Invalid, 'This address has an account already: enter its password to accept.', HttpStatus.UNAUTHORIZED);
+      }
+    } else {
+      user = new User(invitation.email, dto.name, await this.passwords.hash(dto.password));
+      this.em.persist(user);
+    }
+    const membership = new Membership(invitation.firm, user, invitation.roles);
+    invitation.acceptedAt = new Date();
+    await this.em.persist(membership).flush();
+    await this.sessions.open(user, invitation.firm, res);
+    await this.audit.record('invitation-accepted', { firmId: invitation.firm.id, userId: user.id, email: user.email, ip, detail: { roles: invitation.roles } });
+    return { firm: invitation.firm.name, roles: invitation.roles };
+  }
+}

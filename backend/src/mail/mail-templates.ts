@@ -1,0 +1,53 @@
+/**
+ * The e-mails Ampwright sends, each in plain text and HTML, each naming the firm. Values are escaped
+ * for HTML; links are built by the caller from the configured APP_URL.
+ */
+import type { OutgoingMail } from './mail.service';
+
+const escape = (s: string) => s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
+
+function compose(to: string, subject: string, firm: string, paragraphs: string[], action?: { label: string; url: string }): OutgoingMail {
+  const text = [...paragraphs, ...(action ? [`${action.label}: ${action.url}`] : []), '', `— Ampwright, for ${firm}`].join('\n\n');
+  const html = [
+    '<div style="font-family:IBM Plex Sans,Arial,sans-serif;color:#1c2328;max-width:560px">',
+    ...paragraphs.map((p) => `<p>${escape(p)}</p>`),
+    action ? `<p><a href="${escape(action.url)}" style="background:#16324a;color:#fff;padding:8px 14px;text-decoration:none">${escape(action.label)}</a></p>` : '',
+    `<p style="color:#4f5a62;font-size:12px">Ampwright, for ${escape(firm)}</p>`,
+    '</div>',
+  ].join('');
+  return { to, subject, text, html };
+}
+
+export const mailTemplates = {
+  invitation: (p: { to: string; firm: string; invitedBy: string; roles: string[]; url: string; expires: Date }) =>
+    compose(
+      p.to,
+      `${p.firm} invites you to Ampwright`,
+      p.firm,
+      [
+        `${p.invitedBy} has invited you to join ${p.firm} on Ampwright as ${p.roles.join(', ')}.`,
+        `The invitation is valid until ${p.expires.toUTCString()}. If you did not expect it, ignore this message.`,
+      ],
+      { label: 'Accept the invitation', url: p.url },
+    ),
+  passwordReset: (p: { to: string; firm: string; url: string; expires: Date }) =>
+    compose(
+      p.to,
+      'Reset your Ampwright password',
+      p.firm,
+      [
+        'Someone asked to reset the password of this Ampwright account. The link works once.',
+        `It is valid until ${p.expires.toUTCString()}. If you did not ask, ignore this message: your password stays as it is.`,
+      ],
+      { label: 'Choose a new password', url: p.url },
+    ),
+  checkRequested: (p: { to: string; firm: string; sheet: string; preparer: string; url: string }) =>
+    compose(p.to, `Check requested: ${p.sheet}`, p.firm, [`${p.preparer} asks you to check the sheet "${p.sheet}".`], { label: 'Open the sheet', url: p.url }),
+  queryRaised: (p: { to: string; firm: string; sheet: string; checker: string; url: string }) =>
+    compose(p.to, `Query raised on ${p.sheet}`, p.firm, [`${p.checker} raised a query on the sheet "${p.sheet}".`], { label: 'See the query', url: p.url }),
+  revisionIssued: (p: { to: string; firm: string; sheet: string; revision: string; url: string }) =>
+    compose(p.to, `Issued: ${p.sheet}, revision ${p.revision}`, p.firm, [`${p.firm} has issued revision ${p.revision} of "${p.sheet}".`], {
+      label: 'Open the client portal',
+      url: p.url,
+    }),
+};

@@ -1,0 +1,67 @@
+import { EntityManager } from '@mikro-orm/core';
+import { HttpStatus, Injectable } from '@nestjs/common';
+import { AuditService } from '../audit/audit.service';
+import { AppException, ErrorCode } from '../core/errors/app-exception';
+import type { AuthContext } from '../core/guards/auth.guard';
+import { Session } from '../auth/entities/session.entity';
+import { Membership } from '../firms/entities/membership.entity';
+import type { MemberResponseDto, UpdateRolesDto } from './dto/member.dto';
+
+export enum MemberErrorCode {
+  LastOwner = 'LAST_OWNER',
+  ClientWithOtherRoles = 'CLIENT_WITH_OTHER_ROLES',
+}
+
+const toResponse = (m: Membership): MemberResponseDto => ({
+  id: m.id,
+  user: { id: m.user.id, email: m.user.email, name: m.user.name },
+  roles: m.roles,
+  since: m.createdAt.toISOString(),
+});
+
+@Injectable()
+export class MembersService {
+  constructor(
+    private readonly em: EntityManager,
+    private readonly audit: AuditService,
+  ) {}
+
+  async list(auth: AuthContext): Promise<MemberResponseDto[]> {
+    const members = await this.em.find(Membership, { firm: auth.session.firm }, { populate: ['user'], orderBy: { createdAt: 'asc' } });
+    return members.map(toResponse);
+  }
+
+  /** A member of the caller's firm; another firm's id is "not found", never "forbidden". */
+  private async find(auth: AuthContext, id: string): Promise<Membership> {
+    const m = await this.em.findOne(Membership, { id, firm: auth.session.firm }, { populate: ['user'] });
+    if (!m) throw new AppException(ErrorCode.NotFound, 'No such member in this firm.', HttpStatus.NOT_FOUND);
+    return m;
+  }
+
+  private async assertOwnerRemains(auth: AuthContext, changed: Membership, newRoles: string[] | null): Promise<void> {
+    if (!changed.roles.includes('owner') || newRoles?.includes('owner')) return;
+    const owners = await this.em.count(Membership, { firm: auth.session.firm, roles: { $like: '%"owner"%' } });
+    if (owners <= 1) throw new AppException(MemberErrorCode.LastOwner, 'A firm must keep at least one owner: make someone else owner first.', HttpStatus.CONFLICT);
+  }
+
+  async updateRoles(auth: AuthContext, id: string, dto: UpdateRolesDto): Promise<MemberResponseDto> {
+    if (dto.roles.includes('client') && dto.roles.length > 1) {
+      throw new AppException(MemberErrorCode.ClientWithOtherRoles, 'A client cannot also hold a role in the firm.', HttpStatus.BAD_REQUEST);
+    }
+    const m = await this.find(auth, id);
+    await this.assertOwnerRemains(auth, m, dto.roles);
+    const before = m.roles;
+    m.roles = dto.roles;
+    await this.em.flush();
+    await this.audit.record('role-changed', { firmId: auth.session.firm.id, userId: auth.session.user.id, email: m.user.email, detail: { before, after: dto.roles } });
+    return toResponse(m);
+  }
+
+  async remove(auth: AuthContext, id: string): Promise<void> {
+    const m = await this.find(auth, id);
+    await this.assertOwnerRemains(auth, m, null);
+    await this.em.nativeDelete(Session, { user: m.user, firm: auth.session.firm });
+    await this.em.remove(m).flush();
+    await this.audit.record('member-removed', { firmId: auth.session.firm.id, userId: auth.session.user.id, email: m.user.email, detail: { roles: m.roles } });
+  }
+}
