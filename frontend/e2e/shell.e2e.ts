@@ -36,9 +36,9 @@ describe('the app shell in a real browser', () => {
 
   it('moves between pages through the navigation', async () => {
     await page.goto(`${baseUrl()}/`);
-    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Client portal' }).click();
-    await page.waitForURL(/\/portal$/);
-    expect(await page.getByRole('heading', { level: 1 }).textContent()).toBe('Client portal');
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Verify a package' }).click();
+    await page.waitForURL(/\/verify$/);
+    expect(await page.getByRole('heading', { level: 1 }).textContent()).toBe('Verify a package');
   });
 
   it('shows the not-found page for an unknown address', async () => {

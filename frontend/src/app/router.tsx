@@ -8,6 +8,17 @@ import { ProjectsPage } from '../routes/projects';
 import { SheetPage } from '../routes/sheet';
 import { SignInPage } from '../routes/sign-in';
 import { VerifyPage } from '../routes/verify';
+import { AcceptInvitationPage } from '../routes/accept-invitation';
+import { ForgotPasswordPage } from '../routes/forgot-password';
+import { MembersPage } from '../routes/members';
+import { NoAccessPage } from '../routes/no-access';
+import { ProfilePage } from '../routes/profile';
+import { RegisterPage } from '../routes/register';
+import { ResetPasswordPage } from '../routes/reset-password';
+import { RequireAuth } from '../features/auth/components/require-auth';
+import type { Role } from '../features/auth/api/get-me';
+
+const MEMBERS: Role[] = ['owner', 'engineer', 'checker', 'approver'];
 
 export const routes: RouteObject[] = [
   {
@@ -17,9 +28,16 @@ export const routes: RouteObject[] = [
     children: [
       { index: true, element: <HomePage /> },
       { path: 'sign-in', element: <SignInPage /> },
-      { path: 'projects', element: <ProjectsPage /> },
-      { path: 'projects/:projectId/sheets/:sheetId', element: <SheetPage /> },
-      { path: 'portal', element: <PortalPage /> },
+      { path: 'register', element: <RegisterPage /> },
+      { path: 'forgot-password', element: <ForgotPasswordPage /> },
+      { path: 'reset-password', element: <ResetPasswordPage /> },
+      { path: 'accept-invitation', element: <AcceptInvitationPage /> },
+      { path: 'no-access', element: <NoAccessPage /> },
+      { path: 'profile', element: <RequireAuth><ProfilePage /></RequireAuth> },
+      { path: 'members', element: <RequireAuth roles={MEMBERS}><MembersPage /></RequireAuth> },
+      { path: 'projects', element: <RequireAuth roles={MEMBERS}><ProjectsPage /></RequireAuth> },
+      { path: 'projects/:projectId/sheets/:sheetId', element: <RequireAuth roles={MEMBERS}><SheetPage /></RequireAuth> },
+      { path: 'portal', element: <RequireAuth><PortalPage /></RequireAuth> },
       { path: 'verify', element: <VerifyPage /> },
       { path: '*', element: <NotFoundPage /> },
     ],

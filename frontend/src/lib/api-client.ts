@@ -22,6 +22,13 @@ export class ApiError extends Error {
 
 type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 
+/** The session's anti-forgery token (from sign-in or /auth/me), sent with every state-changing request. */
+let csrfToken: string | undefined;
+export const setCsrfToken = (token: string | undefined) => {
+  csrfToken = token;
+};
+export const CSRF_HEADER = 'x-ampwright-csrf';
+
 export interface RequestOptions {
   body?: unknown;
   signal?: AbortSignal;
@@ -36,7 +43,11 @@ export async function apiRequest<T>(method: Method, path: string, options: Reque
     response = await fetch(`/api${path}`, {
       method,
       credentials: 'same-origin',
-      headers: { Accept: 'application/json', ...(options.body !== undefined && !isForm ? { 'Content-Type': 'application/json' } : {}) },
+      headers: {
+        Accept: 'application/json',
+        ...(options.body !== undefined && !isForm ? { 'Content-Type': 'application/json' } : {}),
+        ...(method !== 'GET' ? { [CSRF_HEADER]: csrfToken ?? '1' } : {}),
+      },
       body: options.body === undefined ? undefined : isForm ? (options.body as FormData) : JSON.stringify(options.body),
       signal: options.signal,
     });

@@ -1,8 +1,17 @@
-import { QueryClient } from '@tanstack/react-query';
+import { MutationCache, QueryCache, QueryClient } from '@tanstack/react-query';
 import { ApiError } from './api-client';
 
+const ME_KEY = ['auth', 'me'];
+
+/** A 401 anywhere means the session has ended: forget who was signed in, and the guarded page sends them to sign in. */
+const onError = (client: () => QueryClient) => (error: unknown) => {
+  if (error instanceof ApiError && error.status === 401) client().setQueryData(ME_KEY, null);
+};
+
 export function createQueryClient(): QueryClient {
-  return new QueryClient({
+  const client: QueryClient = new QueryClient({
+    queryCache: new QueryCache({ onError: onError(() => client) }),
+    mutationCache: new MutationCache({ onError: onError(() => client) }),
     defaultOptions: {
       queries: {
         staleTime: 10_000,
@@ -12,4 +21,5 @@ export function createQueryClient(): QueryClient {
       },
     },
   });
+  return client;
 }

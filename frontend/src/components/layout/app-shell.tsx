@@ -1,13 +1,44 @@
 import { AppBar, Box, Button, Chip, Container, Stack, Toolbar, Tooltip, Typography } from '@mui/material';
-import { NavLink, Outlet } from 'react-router-dom';
+import { NavLink, Outlet, useNavigate } from 'react-router-dom';
+import { useSignOut } from '../../features/auth/api/auth-mutations';
+import { isMember, useMe } from '../../features/auth/api/get-me';
+import { ROLE_LABELS } from '../../features/members/api/members';
 import { useHealth } from '../../features/health/api/get-health';
 import { palette } from '../../app/theme';
 
 const NAV = [
-  { to: '/projects', label: 'Projects' },
-  { to: '/portal', label: 'Client portal' },
-  { to: '/verify', label: 'Verify a package' },
+  { to: '/projects', label: 'Projects', members: true },
+  { to: '/members', label: 'Members', members: true },
+  { to: '/portal', label: 'Client portal', members: false },
+  { to: '/verify', label: 'Verify a package', members: false },
 ];
+
+/** Who is signed in, in which firm, with which roles; or the way to sign in. */
+function Account() {
+  const { data: me } = useMe();
+  const signOut = useSignOut();
+  const navigate = useNavigate();
+  if (!me) {
+    return (
+      <Button component={NavLink} to="/sign-in" variant="outlined" color="inherit" size="small">
+        Sign in
+      </Button>
+    );
+  }
+  return (
+    <Stack direction="row" spacing={1} sx={{ alignItems: "center" }} data-testid="account">
+      <Box sx={{ textAlign: 'right', lineHeight: 1.1 }}>
+        <Typography component={NavLink} to="/profile" variant="body2" sx={{ color: '#fff', textDecoration: 'none', fontWeight: 600, display: 'block' }}>{me.user.name}</Typography>
+        <Typography variant="caption" sx={{ color: 'rgba(255,255,255,0.75)' }} data-testid="firm-and-roles">
+          {me.firm.name} · {me.roles.map((r) => ROLE_LABELS[r]).join(', ')}
+        </Typography>
+      </Box>
+      <Button size="small" color="inherit" variant="outlined" onClick={() => signOut.mutate(undefined, { onSettled: () => navigate('/sign-in') })}>
+        Sign out
+      </Button>
+    </Stack>
+  );
+}
 
 function ServiceStatus() {
   const { data, isError } = useHealth();
@@ -23,6 +54,8 @@ function ServiceStatus() {
 }
 
 export function AppShell() {
+  const { data: me } = useMe();
+  const nav = NAV.filter((item) => !item.members || !me || isMember(me));
   return (
     <Box sx={{ minHeight: '100vh', display: 'flex', flexDirection: 'column' }}>
       <AppBar position="static">
@@ -31,7 +64,7 @@ export function AppShell() {
             Amp<Box component="span" sx={{ color: palette.copperLight }}>wright</Box>
           </Typography>
           <Stack direction="row" component="nav" aria-label="Main" spacing={0.5} sx={{ flexGrow: 1 }}>
-            {NAV.map((item) => (
+            {nav.map((item) => (
               <Button
                 key={item.to}
                 component={NavLink}
@@ -43,9 +76,7 @@ export function AppShell() {
             ))}
           </Stack>
           <ServiceStatus />
-          <Button component={NavLink} to="/sign-in" variant="outlined" color="inherit" size="small">
-            Sign in
-          </Button>
+          <Account />
         </Toolbar>
       </AppBar>
       <Container component="main" maxWidth="lg" sx={{ py: 4, flexGrow: 1 }}>

@@ -1,0 +1,1 @@
+export const authKeys = { me: ['auth', 'me'] as const };

@@ -1,0 +1,32 @@
+import { queryOptions, useQuery } from '@tanstack/react-query';
+import { api, ApiError, setCsrfToken } from '../../../lib/api-client';
+import { authKeys } from './auth-keys';
+
+export type Role = 'owner' | 'engineer' | 'checker' | 'approver' | 'client';
+export interface Me {
+  user: { id: string; email: string; name: string };
+  firm: { id: string; name: string };
+  roles: Role[];
+  csrfToken: string;
+}
+
+/** The signed-in user, or null when signed out (a 401 is an answer here, not an error). */
+export async function getMe(signal?: AbortSignal): Promise<Me | null> {
+  try {
+    const me = await api.get<Me>('/auth/me', { signal });
+    setCsrfToken(me.csrfToken);
+    return me;
+  } catch (err) {
+    if (err instanceof ApiError && err.status === 401) {
+      setCsrfToken(undefined);
+      return null;
+    }
+    throw err;
+  }
+}
+
+export const meQueryOptions = () => queryOptions({ queryKey: authKeys.me, queryFn: ({ signal }) => getMe(signal), staleTime: 60_000 });
+
+export const useMe = () => useQuery(meQueryOptions());
+
+export const isMember = (me: Me | null | undefined) => !!me && me.roles.some((r) => r !== 'client');
