@@ -26,3 +26,24 @@ export function collectPageErrors(page: Page): string[] {
   });
   return errors;
 }
+
+/**
+ * Registers the hooks of a browser test file: one browser for the file, a fresh context and page per
+ * test (no cookies carried over). Read `session.page` and `session.errors` inside a test.
+ */
+export function useBrowserPage(hooks: { beforeAll: (fn: () => Promise<void>) => void; afterAll: (fn: () => Promise<void>) => void; beforeEach: (fn: () => Promise<void>) => void }) {
+  const session = {} as { browser: Browser; context?: import('playwright-core').BrowserContext; page: Page; errors: string[] };
+  hooks.beforeAll(async () => {
+    session.browser = await launchBrowser();
+  });
+  hooks.afterAll(async () => {
+    await session.browser?.close();
+  });
+  hooks.beforeEach(async () => {
+    await session.context?.close();
+    session.context = await session.browser.newContext();
+    session.page = await session.context.newPage();
+    session.errors = collectPageErrors(session.page);
+  });
+  return session;
+}
