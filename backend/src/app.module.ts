@@ -12,6 +12,9 @@ import { AuthGuard } from './core/guards/auth.guard';
 import { THROTTLERS } from './core/throttle';
 import { InvitationsModule } from './invitations/invitations.module';
 import { MembersModule } from './members/members.module';
+import { ProjectsModule } from './projects/projects.module';
+import { SheetsModule } from './sheets/sheets.module';
+import { TemplatesModule } from './templates/templates.module';
 import type { Environment } from './config/environment';
 import { AllExceptionsFilter } from './core/filters/all-exceptions.filter';
 import { RequestLoggerMiddleware } from './core/middleware/request-logger.middleware';
@@ -47,6 +50,9 @@ function staticFrontEnd(): DynamicModule[] {
     AuthModule,
     InvitationsModule,
     MembersModule,
+    ProjectsModule,
+    SheetsModule,
+    TemplatesModule,
     MailModule,
     FilesModule,
     HealthModule,

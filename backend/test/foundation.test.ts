@@ -5,7 +5,12 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ObjectStoreService } from '../src/files/object-store.service';
 import { Firm } from '../src/firms/entities/firm.entity';
 import { MailService } from '../src/mail/mail.service';
-import { DEMO_FIRM_NAME, seedDemo } from '../src/database/seeders/demo.seeder';
+import { readdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { DEMO_FIRM_NAME, DEMO_JOB_NUMBER, seedDemo } from '../src/database/seeders/demo.seeder';
+import { Project, ProjectClient } from '../src/projects/entities/project.entity';
+import { Cell } from '../src/sheets/entities/cell.entity';
+import { Sheet } from '../src/sheets/entities/sheet.entity';
 import { createTestApp, waitForMail } from './support/test-app';
 
 describe('the app against MariaDB and the fakes', () => {
@@ -53,6 +58,17 @@ describe('the app against MariaDB and the fakes', () => {
     await seedDemo(em, 4);
     expect(await seedDemo(em.fork(), 4)).toBe('demo seed: everything already present');
     expect(await em.fork().count(Firm, { name: DEMO_FIRM_NAME })).toBe(1);
+  });
+
+  it('seeds the Kestrel Ridge project with one evaluated sheet per template and its client invited', async () => {
+    const em = app.get(MikroORM).em.fork();
+    const project = await em.findOneOrFail(Project, { jobNumber: DEMO_JOB_NUMBER });
+    const sheets = await em.find(Sheet, { project });
+    expect(sheets.length).toBe(readdirSync(join(__dirname, '..', '..', 'templates')).filter((f) => f.endsWith('.json')).length);
+    expect(new Set(sheets.map((s) => s.state)).size).toBeGreaterThan(1);
+    const cells = await em.find(Cell, { sheet: { $in: sheets } });
+    expect(cells.every((c) => c.results && (c.results as { status: string }).status === 'ok')).toBe(true);
+    expect(await em.count(ProjectClient, { project, user: { email: 'client@kestrelridge.example' } })).toBe(1);
   });
 
   it('delivers e-mail through the SMTP sink', async () => {

@@ -31,6 +31,22 @@ const MATRIX: Record<string, Allowed> = {
   'PATCH /api/members/:id': ['owner'],
   'DELETE /api/members/:id': ['owner'],
   'GET /api/audit': ['owner'],
+  'GET /api/templates': MEMBERS,
+  'GET /api/projects': 'signed-in',
+  'POST /api/projects': ['owner', 'engineer'],
+  'GET /api/projects/:id': MEMBERS,
+  'PATCH /api/projects/:id': ['owner', 'engineer'],
+  'DELETE /api/projects/:id': ['owner'],
+  'GET /api/projects/:projectId/sheets': MEMBERS,
+  'POST /api/projects/:projectId/sheets': ['owner', 'engineer'],
+  'GET /api/sheets/:id': MEMBERS,
+  'GET /api/sheets/:id/export': MEMBERS,
+  'PATCH /api/sheets/:id': ['owner', 'engineer'],
+  'DELETE /api/sheets/:id': ['owner', 'engineer'],
+  'POST /api/sheets/:id/cells': ['owner', 'engineer'],
+  'PATCH /api/sheets/:id/cells/:cellId': ['owner', 'engineer'],
+  'POST /api/sheets/:id/cells/:cellId/move': ['owner', 'engineer'],
+  'DELETE /api/sheets/:id/cells/:cellId': ['owner', 'engineer'],
 };
 
 const CALLERS: (Role | 'signed-out')[] = ['signed-out', 'owner', 'engineer', 'checker', 'approver', 'client'];
@@ -75,7 +91,7 @@ describe('role matrix', () => {
       who = await makeCaller(app, [caller], sessions.get(caller)?.firm);
       sessions.set(caller, who);
     }
-    const res = await as(app, who, method.toLowerCase() as 'get', path.replace(':id', ANY_ID));
+    const res = await as(app, who, method.toLowerCase() as 'get', path.replace(/:\w+/g, ANY_ID));
     if (allowed) {
       expect([401, 403], `${route} as ${caller}: ${res.status} ${JSON.stringify(res.body)}`).not.toContain(res.status);
     } else {

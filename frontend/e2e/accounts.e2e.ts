@@ -27,7 +27,7 @@ describe('accounts in a real browser', () => {
   it('says so, beside nothing else, when the password is wrong', async () => {
     await s.page.goto(`${baseUrl()}/sign-in`);
     await signIn('approver@northfold.example', 'not the password');
-    expect(await s.page.getByRole('alert').textContent()).toBe('The e-mail address or the password is not right.');
+    await expect.poll(() => s.page.getByRole('alert').textContent()).toBe('The e-mail address or the password is not right.');
   });
 
   it('shows field messages before sending a form that is not complete', async () => {
@@ -35,7 +35,7 @@ describe('accounts in a real browser', () => {
     await s.page.getByLabel('Firm name').fill('Quillon Power Studies');
     await s.page.getByLabel('Password').fill('short');
     await s.page.getByRole('button', { name: 'Register' }).click();
-    expect(await s.page.getByText('Use at least 12 characters').count()).toBe(1);
+    await expect.poll(() => s.page.getByText('Use at least 12 characters').count()).toBe(1);
     expect(await s.page.getByText('Enter your name').count()).toBe(1);
   });
 
@@ -49,7 +49,7 @@ describe('accounts in a real browser', () => {
     await s.page.getByRole('button', { name: 'Register' }).click();
     await s.page.waitForURL(/\/members$/);
     await s.page.getByRole('table', { name: 'Members' }).getByText(email).waitFor();
-    expect(await s.page.getByTestId('firm-and-roles').textContent()).toBe('Quillon Power Studies · Owner');
+    await expect.poll(() => s.page.getByTestId('firm-and-roles').textContent()).toBe('Quillon Power Studies · Owner');
   });
 
   it('keeps a client on the portal side', async () => {
@@ -57,6 +57,7 @@ describe('accounts in a real browser', () => {
     await signIn('client@kestrelridge.example', DEMO_PASSWORD);
     await s.page.waitForURL(/\/portal$/);
     const nav = s.page.getByRole('navigation', { name: 'Main' });
+    await nav.getByRole('link', { name: 'Client portal' }).waitFor();
     expect(await nav.getByRole('link', { name: 'Projects' }).count()).toBe(0);
   });
 });

@@ -14,19 +14,19 @@ describe('the app shell in a real browser', () => {
   it('opens a client route directly (the server falls back to the app)', async () => {
     const res = await s.page.goto(`${baseUrl()}/verify`);
     expect(res?.status()).toBe(200);
-    expect(await s.page.getByRole('heading', { level: 1 }).textContent()).toBe('Verify a package');
+    await expect.poll(() => s.page.getByRole('heading', { level: 1 }).textContent()).toBe('Verify a package');
   });
 
   it('moves between pages through the navigation', async () => {
     await s.page.goto(`${baseUrl()}/`);
     await s.page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Verify a package' }).click();
     await s.page.waitForURL(/\/verify$/);
-    expect(await s.page.getByRole('heading', { level: 1 }).textContent()).toBe('Verify a package');
+    await expect.poll(() => s.page.getByRole('heading', { level: 1 }).textContent()).toBe('Verify a package');
   });
 
   it('shows the not-found page for an unknown address', async () => {
     await s.page.goto(`${baseUrl()}/nothing/here`);
-    expect(await s.page.getByRole('heading', { level: 1 }).textContent()).toBe('No page at this address');
+    await expect.poll(() => s.page.getByRole('heading', { level: 1 }).textContent()).toBe('No page at this address');
   });
 
   it('uses the fonts shipped with the app, fetched from our own origin only', async () => {

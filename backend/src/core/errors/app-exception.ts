@@ -26,6 +26,8 @@ export interface ErrorBody {
   code: ErrorCode | string;
   message: string;
   details?: ErrorDetail[];
+  /** For a conflict: the current state of what the caller tried to change. */
+  current?: unknown;
 }
 
 /** A feature's error: a code, a sentence for the user, and the HTTP status it maps to. */
@@ -35,6 +37,7 @@ export class AppException extends Error {
     message: string,
     readonly status: HttpStatus = HttpStatus.BAD_REQUEST,
     readonly details?: ErrorDetail[],
+    readonly current?: unknown,
   ) {
     super(message);
   }

@@ -29,7 +29,13 @@ export class AllExceptionsFilter implements ExceptionFilter {
 
   toBody(exception: unknown): ErrorBody {
     if (exception instanceof AppException) {
-      return { statusCode: exception.status, code: exception.code, message: exception.message, ...(exception.details ? { details: exception.details } : {}) };
+      return {
+        statusCode: exception.status,
+        code: exception.code,
+        message: exception.message,
+        ...(exception.details ? { details: exception.details } : {}),
+        ...(exception.current !== undefined ? { current: exception.current } : {}),
+      };
     }
     if (exception instanceof HttpException) {
       const status = exception.getStatus();

@@ -1,0 +1,42 @@
+import { randomUUID } from 'node:crypto';
+import { Entity, Index, ManyToOne, Opt, PrimaryKey, Property } from '@mikro-orm/core';
+import { User } from '../../users/entities/user.entity';
+import { Sheet } from './sheet.entity';
+
+/** One cell of a sheet: its kind, its fields as in the sheet file, and the results the server computed. */
+@Entity({ tableName: 'cell' })
+@Index({ properties: ['sheet', 'position'] })
+export class Cell {
+  @PrimaryKey({ type: 'uuid' })
+  id: string & Opt = randomUUID();
+
+  @ManyToOne(() => Sheet, { deleteRule: 'cascade' })
+  sheet: Sheet;
+
+  @Property({ type: 'integer' })
+  position: number;
+
+  @Property({ length: 20 })
+  kind: string;
+
+  /** The cell as in the sheet file, without `kind` (unknown fields kept). */
+  @Property({ type: 'json' })
+  fields: Record<string, unknown>;
+
+  @Property({ type: 'json', nullable: true })
+  results?: unknown;
+
+  @ManyToOne(() => User, { deleteRule: 'set null', nullable: true })
+  changedBy?: User;
+
+  @Property({ type: 'datetime', length: 3 })
+  changedAt: Date & Opt = new Date();
+
+  constructor(sheet: Sheet, position: number, kind: string, fields: Record<string, unknown>, changedBy?: User) {
+    this.sheet = sheet;
+    this.position = position;
+    this.kind = kind;
+    this.fields = fields;
+    this.changedBy = changedBy;
+  }
+}

@@ -1,0 +1,64 @@
+import { randomUUID } from 'node:crypto';
+import { Entity, ManyToOne, Opt, PrimaryKey, Property, Unique } from '@mikro-orm/core';
+import { Project } from '../../projects/entities/project.entity';
+import { User } from '../../users/entities/user.entity';
+
+/** Where a sheet is in its life (see README, "Sheet states"). */
+export const SHEET_STATES = ['being-prepared', 'with-checker', 'checked', 'approved', 'issued'] as const;
+export type SheetState = (typeof SHEET_STATES)[number];
+
+@Entity({ tableName: 'sheet' })
+@Unique({ properties: ['project', 'number'] })
+export class Sheet {
+  @PrimaryKey({ type: 'uuid' })
+  id: string & Opt = randomUUID();
+
+  @ManyToOne(() => Project, { deleteRule: 'cascade' })
+  project: Project;
+
+  /** The sheet's number in the project, e.g. "C-101". */
+  @Property({ length: 40 })
+  number: string;
+
+  @Property({ length: 200 })
+  title: string;
+
+  @Property({ type: 'json' })
+  settings: Record<string, unknown> & Opt = {};
+
+  /** Top-level fields of an imported sheet file that we do not know, kept for export. */
+  @Property({ type: 'json' })
+  extra: Record<string, unknown> & Opt = {};
+
+  @Property({ length: 20 })
+  state: SheetState & Opt = 'being-prepared';
+
+  @ManyToOne(() => User, { deleteRule: 'restrict' })
+  preparer: User;
+
+  @ManyToOne(() => User, { deleteRule: 'set null', nullable: true })
+  checker?: User;
+
+  @ManyToOne(() => User, { deleteRule: 'set null', nullable: true })
+  approver?: User;
+
+  /** Raised by every saved change; a save based on an older version is refused (409). */
+  @Property({ type: 'integer' })
+  version: number & Opt = 1;
+
+  @Property({ length: 20, nullable: true })
+  engineVersion?: string;
+
+  @Property({ type: 'datetime' })
+  createdAt: Date & Opt = new Date();
+
+  @Property({ type: 'datetime', onUpdate: () => new Date() })
+  updatedAt: Date & Opt = new Date();
+
+  constructor(project: Project, number: string, title: string, preparer: User) {
+    this.project = project;
+    this.number = number;
+    this.title = title;
+    this.preparer = preparer;
+  }
+}

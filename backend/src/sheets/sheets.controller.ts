@@ -1,0 +1,84 @@
+import { Body, Controller, Delete, Get, HttpCode, Param, ParseIntPipe, ParseUUIDPipe, Patch, Post, Query } from '@nestjs/common';
+import type { SheetFile } from '@ampwright/common';
+import { Roles } from '../core/decorators/access.decorator';
+import { CurrentAuth } from '../core/decorators/current-auth.decorator';
+import type { AuthContext } from '../core/guards/auth.guard';
+import { MEMBER_ROLES } from '../core/roles';
+import { AddCellDto, CreateSheetDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
+import { SheetsService, type SaveResult, type SheetView } from './sheets.service';
+
+const EDITORS = ['owner', 'engineer'] as const;
+
+@Controller()
+export class SheetsController {
+  constructor(private readonly sheets: SheetsService) {}
+
+  @Roles(...MEMBER_ROLES)
+  @Get('projects/:projectId/sheets')
+  list(@CurrentAuth() auth: AuthContext, @Param('projectId', ParseUUIDPipe) projectId: string) {
+    return this.sheets.list(auth, projectId);
+  }
+
+  /** A blank sheet, one from a template (`templateId`), or an imported sheet file (`sheet`). */
+  @Roles(...EDITORS)
+  @Post('projects/:projectId/sheets')
+  create(@CurrentAuth() auth: AuthContext, @Param('projectId', ParseUUIDPipe) projectId: string, @Body() dto: CreateSheetDto): Promise<SheetView> {
+    return this.sheets.create(auth, projectId, dto);
+  }
+
+  @Roles(...MEMBER_ROLES)
+  @Get('sheets/:id')
+  get(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string): Promise<SheetView> {
+    return this.sheets.get(auth, id);
+  }
+
+  /** The sheet in the ampwright.sheet/1 file format. */
+  @Roles(...MEMBER_ROLES)
+  @Get('sheets/:id/export')
+  export(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string): Promise<SheetFile> {
+    return this.sheets.export(auth, id);
+  }
+
+  @Roles(...EDITORS)
+  @Patch('sheets/:id')
+  update(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Body() dto: UpdateSheetDto): Promise<SaveResult> {
+    return this.sheets.update(auth, id, dto);
+  }
+
+  @Roles(...EDITORS)
+  @Delete('sheets/:id')
+  @HttpCode(204)
+  remove(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string): Promise<void> {
+    return this.sheets.remove(auth, id);
+  }
+
+  @Roles(...EDITORS)
+  @Post('sheets/:id/cells')
+  addCell(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Body() dto: AddCellDto): Promise<SaveResult> {
+    return this.sheets.addCell(auth, id, dto);
+  }
+
+  @Roles(...EDITORS)
+  @Patch('sheets/:id/cells/:cellId')
+  updateCell(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Param('cellId', ParseUUIDPipe) cellId: string, @Body() dto: UpdateCellDto): Promise<SaveResult> {
+    return this.sheets.updateCell(auth, id, cellId, dto);
+  }
+
+  @Roles(...EDITORS)
+  @Post('sheets/:id/cells/:cellId/move')
+  @HttpCode(200)
+  moveCell(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Param('cellId', ParseUUIDPipe) cellId: string, @Body() dto: MoveCellDto): Promise<SaveResult> {
+    return this.sheets.moveCell(auth, id, cellId, dto);
+  }
+
+  @Roles(...EDITORS)
+  @Delete('sheets/:id/cells/:cellId')
+  deleteCell(
+    @CurrentAuth() auth: AuthContext,
+    @Param('id', ParseUUIDPipe) id: string,
+    @Param('cellId', ParseUUIDPipe) cellId: string,
+    @Query('version', new ParseIntPipe({ errorHttpStatusCode: 400 })) version: number,
+  ): Promise<SaveResult> {
+    return this.sheets.deleteCell(auth, id, cellId, version);
+  }
+}

@@ -1,0 +1,9 @@
+import { Module } from '@nestjs/common';
+import { EvaluationModule } from '../evaluation/evaluation.module';
+import { ProjectsModule } from '../projects/projects.module';
+import { TemplatesModule } from '../templates/templates.module';
+import { SheetsController } from './sheets.controller';
+import { SheetsService } from './sheets.service';
+
+@Module({ imports: [ProjectsModule, TemplatesModule, EvaluationModule], controllers: [SheetsController], providers: [SheetsService] })
+export class SheetsModule {}

@@ -1,0 +1,282 @@
+import { EntityManager, UniqueConstraintViolationException } from '@mikro-orm/core';
+import { HttpStatus, Injectable } from '@nestjs/common';
+import { cellSchema, parseSheetFile, SHEET_FORMAT, type CellResult, type SheetFile } from '@ampwright/common';
+import { AppException, ErrorCode } from '../core/errors/app-exception';
+import type { AuthContext } from '../core/guards/auth.guard';
+import { EvaluationService } from '../evaluation/evaluation.service';
+import { ProjectsService } from '../projects/projects.service';
+import { TemplatesService } from '../templates/templates.service';
+import type { AddCellDto, CreateSheetDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
+import { Cell } from './entities/cell.entity';
+import { Sheet, type SheetState } from './entities/sheet.entity';
+import { sheetFromFile } from './sheet-file';
+import { User } from '../users/entities/user.entity';
+
+export enum SheetErrorCode {
+  NumberTaken = 'SHEET_NUMBER_TAKEN',
+  StaleVersion = 'STALE_VERSION',
+  ReadOnly = 'SHEET_READ_ONLY',
+  BadCell = 'INVALID_CELL',
+}
+
+const EDITABLE: SheetState[] = ['being-prepared', 'with-checker'];
+
+export interface CellView {
+  id: string;
+  position: number;
+  kind: string;
+  fields: Record<string, unknown>;
+  results: CellResult | null;
+  changedBy: string | null;
+  changedAt: string;
+}
+
+export interface SheetView {
+  id: string;
+  projectId: string;
+  number: string;
+  title: string;
+  settings: Record<string, unknown>;
+  state: SheetState;
+  version: number;
+  engineVersion: string | null;
+  preparer: { id: string; name: string };
+  cells: CellView[];
+}
+
+/** The answer to a saved change: the sheet's new version and the cells whose content or results changed. */
+export interface SaveResult {
+  version: number;
+  changed: CellView[];
+  removed: string[];
+}
+
+const cellView = (c: Cell): CellView => ({
+  id: c.id,
+  position: c.position,
+  kind: c.kind,
+  fields: c.fields,
+  results: (c.results as CellResult | undefined) ?? null,
+  changedBy: c.changedBy?.name ?? null,
+  changedAt: c.changedAt.toISOString(),
+});
+
+function splitCell(cell: unknown): { kind: string; fields: Record<string, unknown> } {
+  const parsed = cellSchema.safeParse(cell);
+  if (!parsed.success) {
+    const details = parsed.error.issues.map((i) => ({ field: ['cell', ...i.path.map(String)].join('.'), message: i.message }));
+    throw new AppException(SheetErrorCode.BadCell, `The cell is not valid: ${details.map((d) => d.message).join('; ')}`, HttpStatus.BAD_REQUEST, details);
+  }
+  const { kind, ...fields } = parsed.data as Record<string, unknown> & { kind: string };
+  return { kind, fields };
+}
+
+@Injectable()
+export class SheetsService {
+  constructor(
+    private readonly em: EntityManager,
+    private readonly projects: ProjectsService,
+    private readonly templates: TemplatesService,
+    private readonly evaluation: EvaluationService,
+  ) {}
+
+  /** A sheet of the caller's firm (members only); another firm's id is 404. */
+  private async find(auth: AuthContext, id: string): Promise<Sheet> {
+    const sheet = await this.em.findOne(Sheet, { id, project: { firm: auth.session.firm } }, { populate: ['project', 'preparer'] });
+    if (!sheet) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
+    return sheet;
+  }
+
+  private async cells(sheet: Sheet): Promise<Cell[]> {
+    return this.em.find(Cell, { sheet }, { orderBy: { position: 'asc' }, populate: ['changedBy'] });
+  }
+
+  private async view(sheet: Sheet): Promise<SheetView> {
+    return {
+      id: sheet.id,
+      projectId: sheet.project.id,
+      number: sheet.number,
+      title: sheet.title,
+      settings: sheet.settings,
+      state: sheet.state,
+      version: sheet.version,
+      engineVersion: sheet.engineVersion ?? null,
+      preparer: { id: sheet.preparer.id, name: sheet.preparer.name },
+      cells: (await this.cells(sheet)).map(cellView),
+    };
+  }
+
+  toFile(sheet: Sheet, cells: Cell[]): SheetFile {
+    return { ...sheet.extra, format: SHEET_FORMAT, title: sheet.title, settings: sheet.settings, cells: cells.map((c) => ({ kind: c.kind, ...c.fields }) as SheetFile['cells'][number]) };
+  }
+
+  async list(auth: AuthContext, projectId: string) {
+    const project = await this.projects.find(auth, projectId);
+    const sheets = await this.em.find(Sheet, { project }, { orderBy: { number: 'asc' }, populate: ['preparer'] });
+    return sheets.map((s) => ({ id: s.id, number: s.number, title: s.title, state: s.state, version: s.version, preparer: s.preparer.name, updatedAt: s.updatedAt.toISOString() }));
+  }
+
+  async get(auth: AuthContext, id: string): Promise<SheetView> {
+    return this.view(await this.find(auth, id));
+  }
+
+  async export(auth: AuthContext, id: string): Promise<SheetFile> {
+    const sheet = await this.find(auth, id);
+    return this.toFile(sheet, await this.cells(sheet));
+  }
+
+  async create(auth: AuthContext, projectId: string, dto: CreateSheetDto): Promise<SheetView> {
+    const project = await this.projects.find(auth, projectId);
+    if (dto.templateId && dto.sheet) throw new AppException(ErrorCode.ValidationFailed, 'Give a template or a sheet file, not both.', HttpStatus.BAD_REQUEST);
+    let file: SheetFile | undefined = dto.templateId ? this.templates.get(dto.templateId) : undefined;
+    if (dto.sheet) {
+      const parsed = parseSheetFile(dto.sheet);
+      if (!parsed.ok) {
+        const details = parsed.problems.map((p) => ({ field: `sheet.${p.path}`, message: p.message }));
+        throw new AppException(ErrorCode.ValidationFailed, `The sheet file is not valid: ${details.map((d) => `${d.field}: ${d.message}`).join('; ')}`, HttpStatus.BAD_REQUEST, details);
+      }
+      file = parsed.sheet;
+    }
+    const title = dto.title ?? file?.title;
+    if (!title) throw new AppException(ErrorCode.ValidationFailed, 'title is needed for a blank sheet', HttpStatus.BAD_REQUEST, [{ field: 'title', message: 'title is needed for a blank sheet' }]);
+    const { sheet, cells } = sheetFromFile(project, dto.number, title, file, auth.session.user);
+    this.em.persist(cells);
+    try {
+      await this.em.persist(sheet).flush();
+    } catch (err) {
+      if (err instanceof UniqueConstraintViolationException) {
+        throw new AppException(SheetErrorCode.NumberTaken, `Sheet number ${dto.number} is used in this project already.`, HttpStatus.CONFLICT, [{ field: 'number', message: 'this sheet number is taken' }]);
+      }
+      throw err;
+    }
+    await this.evaluateAndStore(sheet);
+    return this.view(sheet);
+  }
+
+  async remove(auth: AuthContext, id: string): Promise<void> {
+    const sheet = await this.find(auth, id);
+    if (!EDITABLE.includes(sheet.state)) throw new AppException(SheetErrorCode.ReadOnly, 'An approved or issued sheet cannot be deleted.', HttpStatus.CONFLICT);
+    await this.em.remove(sheet).flush();
+  }
+
+  /**
+   * Applies a change made against `version`: in one transaction, the version is raised only if it is
+   * still the one the change was based on, so of two concurrent saves exactly one wins; the other gets
+   * 409 with the current sheet. Then the sheet is evaluated and the results stored with the cells.
+   */
+  private async change(auth: AuthContext, id: string, version: number, apply: (sheet: Sheet, cells: Cell[], em: EntityManager) => Promise<Set<string>> | Set<string>): Promise<SaveResult> {
+    const sheet = await this.find(auth, id);
+    if (!EDITABLE.includes(sheet.state)) {
+      throw new AppException(SheetErrorCode.ReadOnly, `The sheet is ${sheet.state.replace('-', ' ')} and can no longer be edited.`, HttpStatus.CONFLICT);
+    }
+    let touched = new Set<string>();
+    let removed: string[] = [];
+    await this.em.transactional(async (em) => {
+      const raised = await em.nativeUpdate(Sheet, { id: sheet.id, version }, { version: version + 1 });
+      if (raised === 0) {
+        throw new AppException(SheetErrorCode.StaleVersion, 'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.', HttpStatus.CONFLICT, undefined);
+      }
+      const cells = await em.find(Cell, { sheet }, { orderBy: { position: 'asc' } });
+      const before = new Set(cells.map((c) => c.id));
+      touched = await apply(await em.findOneOrFail(Sheet, sheet.id), cells, em);
+      await em.flush();
+      const after = new Set((await em.find(Cell, { sheet }, { fields: ['id'] })).map((c) => c.id));
+      removed = [...before].filter((x) => !after.has(x));
+    }).catch(async (err) => {
+      if (err instanceof AppException && err.code === SheetErrorCode.StaleVersion) {
+        this.em.clear();
+        throw new AppException(SheetErrorCode.StaleVersion, err.message, HttpStatus.CONFLICT, undefined, await this.view(await this.find(auth, id)));
+      }
+      throw err;
+    });
+    this.em.clear();
+    const fresh = await this.find(auth, id);
+    const changedByResults = await this.evaluateAndStore(fresh);
+    const cells = await this.cells(fresh);
+    const changed = cells.filter((c) => touched.has(c.id) || changedByResults.has(c.id)).map(cellView);
+    return { version: fresh.version, changed, removed };
+  }
+
+  /** Evaluates the sheet in a worker and stores each cell's results; returns the ids whose results changed. */
+  private async evaluateAndStore(sheet: Sheet): Promise<Set<string>> {
+    const cells = await this.em.find(Cell, { sheet }, { orderBy: { position: 'asc' } });
+    const outcome = await this.evaluation.evaluate(this.toFile(sheet, cells));
+    const changed = new Set<string>();
+    cells.forEach((cell, i) => {
+      const result = outcome.cells[i];
+      if (JSON.stringify(result) !== JSON.stringify(cell.results ?? null)) {
+        cell.results = result;
+        changed.add(cell.id);
+      }
+    });
+    sheet.engineVersion = outcome.engineVersion;
+    await this.em.flush();
+    return changed;
+  }
+
+  update(auth: AuthContext, id: string, dto: UpdateSheetDto): Promise<SaveResult> {
+    return this.change(auth, id, dto.version, (s, cells) => {
+      if (dto.title !== undefined) s.title = dto.title;
+      if (dto.settings !== undefined) {
+        const parsed = parseSheetFile({ format: SHEET_FORMAT, title: s.title, settings: dto.settings, cells: [] });
+        if (!parsed.ok) throw new AppException(ErrorCode.ValidationFailed, parsed.problems.map((p) => `${p.path}: ${p.message}`).join('; '), HttpStatus.BAD_REQUEST);
+        s.settings = dto.settings;
+      }
+      return new Set(dto.settings !== undefined ? cells.map((c) => c.id) : []);
+    });
+  }
+
+  addCell(auth: AuthContext, id: string, dto: AddCellDto): Promise<SaveResult> {
+    const { kind, fields } = splitCell(dto.cell);
+    return this.change(auth, id, dto.version, (sheet, cells, em) => {
+      const position = Math.min(dto.position, cells.length);
+      for (const c of cells) if (c.position >= position) c.position += 1;
+      const cell = new Cell(sheet, position, kind, fields, em.getReference(User, auth.session.user.id));
+      em.persist(cell);
+      return new Set([cell.id, ...cells.filter((c) => c.position > position).map((c) => c.id)]);
+    });
+  }
+
+  updateCell(auth: AuthContext, id: string, cellId: string, dto: UpdateCellDto): Promise<SaveResult> {
+    const { kind, fields } = splitCell(dto.cell);
+    return this.change(auth, id, dto.version, (_sheet, cells, em) => {
+      const cell = cells.find((c) => c.id === cellId);
+      if (!cell) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
+      cell.kind = kind;
+      cell.fields = fields;
+      cell.changedBy = em.getReference(User, auth.session.user.id);
+      cell.changedAt = new Date();
+      return new Set([cell.id]);
+    });
+  }
+
+  moveCell(auth: AuthContext, id: string, cellId: string, dto: MoveCellDto): Promise<SaveResult> {
+    return this.change(auth, id, dto.version, (_sheet, cells) => {
+      const from = cells.findIndex((c) => c.id === cellId);
+      if (from < 0) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
+      const [cell] = cells.splice(from, 1);
+      cells.splice(Math.min(dto.position, cells.length), 0, cell);
+      const moved = new Set<string>();
+      cells.forEach((c, i) => {
+        if (c.position !== i) moved.add(c.id);
+        c.position = i;
+      });
+      return moved;
+    });
+  }
+
+  deleteCell(auth: AuthContext, id: string, cellId: string, version: number): Promise<SaveResult> {
+    return this.change(auth, id, version, (_sheet, cells, em) => {
+      const cell = cells.find((c) => c.id === cellId);
+      if (!cell) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
+      em.remove(cell);
+      const rest = cells.filter((c) => c !== cell);
+      const moved = new Set<string>();
+      rest.forEach((c, i) => {
+        if (c.position !== i) moved.add(c.id);
+        c.position = i;
+      });
+      return moved;
+    });
+  }
+}

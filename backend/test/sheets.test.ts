@@ -1,0 +1,108 @@
+import type { INestApplication } from '@nestjs/common';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { as, makeCaller, type Caller } from './support/sessions';
+import { createTestApp } from './support/test-app';
+
+describe('projects and sheets', () => {
+  let app: INestApplication;
+  let engineer: Caller;
+  let checker: Caller;
+  let outsider: Caller;
+  let projectId: string;
+
+  beforeAll(async () => {
+    app = await createTestApp();
+    engineer = await makeCaller(app, ['engineer']);
+    checker = await makeCaller(app, ['checker'], engineer.firm);
+    outsider = await makeCaller(app, ['owner', 'engineer']);
+    const res = await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'J-1001', title: 'Test project', clientOrganisation: 'Test client', site: 'Test site' }).expect(201);
+    projectId = res.body.id;
+  });
+  afterAll(async () => {
+    await app?.close();
+  });
+
+  it('keeps job numbers unique in the firm, with the message beside the field', async () => {
+    const res = await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'J-1001', title: 'Again', clientOrganisation: 'X', site: 'Y' }).expect(409);
+    expect(res.body.details).toEqual([{ field: 'jobNumber', message: 'this job number is taken' }]);
+    await as(app, outsider, 'post', '/api/projects').send({ jobNumber: 'J-1001', title: 'Other firm', clientOrganisation: 'X', site: 'Y' }).expect(201);
+  });
+
+  it('validates project fields', async () => {
+    const res = await as(app, engineer, 'post', '/api/projects').send({ jobNumber: '', title: 'x' }).expect(400);
+    expect(res.body.details.map((d: { field: string }) => d.field)).toEqual(expect.arrayContaining(['jobNumber', 'clientOrganisation', 'site']));
+  });
+
+  it('creates a sheet from a template, evaluated and stored, and exports it in the sheet format', async () => {
+    const res = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-101', templateId: 'series-rlc-steady-state' }).expect(201);
+    expect(res.body).toMatchObject({ number: 'C-101', state: 'being-prepared', version: 1 });
+    const calc = res.body.cells.find((c: { kind: string; results: { values?: Record<string, unknown> } }) => c.kind === 'calc' && c.results?.values?.Z);
+    expect(calc.results.values.Z.si).toBeCloseTo(13.0456, 3);
+    const exported = await as(app, checker, 'get', `/api/sheets/${res.body.id}/export`).expect(200);
+    expect(exported.body.format).toBe('ampwright.sheet/1');
+    expect(exported.body.cells.length).toBe(res.body.cells.length);
+    const evaluated = await as(app, engineer, 'post', '/api/evaluate').send(exported.body).expect(200);
+    expect(evaluated.body.cells[2].values.Z.si).toBeCloseTo(calc.results.values.Z.si, 12);
+  });
+
+  it('imports a sheet file, keeping fields it does not know', async () => {
+    const sheet = { format: 'ampwright.sheet/1', title: 'Imported', reviewNote: 'keep me', cells: [{ kind: 'note', text: 'hello', colour: 'teal' }] };
+    const res = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-102', sheet }).expect(201);
+    const exported = await as(app, engineer, 'get', `/api/sheets/${res.body.id}/export`).expect(200);
+    expect(exported.body).toMatchObject({ reviewNote: 'keep me', cells: [{ kind: 'note', text: 'hello', colour: 'teal' }] });
+    const bad = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-103', sheet: { format: 'nope' } }).expect(400);
+    expect(bad.body.details[0].field).toBe('sheet.format');
+  });
+
+  it('re-evaluates after each saved change and returns the cells whose results changed', async () => {
+    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-104', title: 'Edits' }).expect(201);
+    const id = created.body.id;
+    const a = await as(app, engineer, 'post', `/api/sheets/${id}/cells`).send({ version: 1, position: 0, cell: { kind: 'calc', source: 'R = 10 ohm' } }).expect(201);
+    const b = await as(app, engineer, 'post', `/api/sheets/${id}/cells`).send({ version: 2, position: 1, cell: { kind: 'calc', source: 'P = R * (2 A)^2' } }).expect(201);
+    expect(b.body.version).toBe(3);
+    expect(b.body.changed[0].results.values.P.si).toBe(40);
+    const rId = a.body.changed[0].id;
+    const edit = await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${rId}`).send({ version: 3, cell: { kind: 'calc', source: 'R = 12 ohm' } }).expect(200);
+    const p = edit.body.changed.find((c: { id: string }) => c.id !== rId);
+    expect(p.results.values.P.si).toBe(48);
+    const moved = await as(app, engineer, 'post', `/api/sheets/${id}/cells/${rId}/move`).send({ version: 4, position: 1 }).expect(200);
+    expect(moved.body.changed.find((c: { id: string }) => c.id === p.id).results.errors[0].message).toMatch(/R is used before it is defined/);
+    const removed = await as(app, engineer, 'delete', `/api/sheets/${id}/cells/${rId}?version=5`).expect(200);
+    expect(removed.body.removed).toEqual([rId]);
+    const sheet = await as(app, checker, 'get', `/api/sheets/${id}`).expect(200);
+    expect(sheet.body.version).toBe(6);
+    expect(sheet.body.cells).toHaveLength(1);
+  });
+
+  it('refuses a stale save with 409 and the current sheet, and of two saves at once exactly one wins', async () => {
+    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-105', title: 'Race' }).expect(201);
+    const id = created.body.id;
+    const first = await as(app, engineer, 'post', `/api/sheets/${id}/cells`).send({ version: 1, position: 0, cell: { kind: 'calc', source: 'x = 1' } }).expect(201);
+    const cellId = first.body.changed[0].id;
+    const [r1, r2] = await Promise.all([
+      as(app, engineer, 'patch', `/api/sheets/${id}/cells/${cellId}`).send({ version: 2, cell: { kind: 'calc', source: 'x = 2' } }),
+      as(app, engineer, 'patch', `/api/sheets/${id}/cells/${cellId}`).send({ version: 2, cell: { kind: 'calc', source: 'x = 3' } }),
+    ]);
+    expect([r1.status, r2.status].sort()).toEqual([200, 409]);
+    const loser = r1.status === 409 ? r1 : r2;
+    expect(loser.body.code).toBe('STALE_VERSION');
+    expect(loser.body.current.version).toBe(3);
+    const now = await as(app, engineer, 'get', `/api/sheets/${id}`).expect(200);
+    expect(loser.body.current.cells[0].fields.source).toBe(now.body.cells[0].fields.source);
+    expect(['x = 2', 'x = 3']).toContain(now.body.cells[0].fields.source);
+  });
+
+  it('refuses a cell that is not in the format, naming the field', async () => {
+    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-106', title: 'Bad' }).expect(201);
+    const res = await as(app, engineer, 'post', `/api/sheets/${created.body.id}/cells`).send({ version: 1, position: 0, cell: { kind: 'calc', source: 5 } }).expect(400);
+    expect(res.body).toMatchObject({ code: 'INVALID_CELL', details: [{ field: 'cell.source' }] });
+  });
+
+  it('shows nothing of another firm: its projects and sheets are not found', async () => {
+    const sheets = await as(app, engineer, 'get', `/api/projects/${projectId}/sheets`).expect(200);
+    await as(app, outsider, 'get', `/api/projects/${projectId}`).expect(404);
+    await as(app, outsider, 'get', `/api/sheets/${sheets.body[0].id}`).expect(404);
+    await as(app, outsider, 'patch', `/api/sheets/${sheets.body[0].id}`).send({ version: 1, title: 'mine' }).expect(404);
+    expect((await as(app, outsider, 'get', '/api/projects').expect(200)).body.map((p: { title: string }) => p.title)).not.toContain('Test project');
+  });
+});
