@@ -4,6 +4,7 @@ import { RouteError } from '../components/errors/route-error';
 import { HomePage } from '../routes/home';
 import { NotFoundPage } from '../routes/not-found';
 import { PortalPage } from '../routes/portal';
+import { ProjectPage } from '../routes/project';
 import { ProjectsPage } from '../routes/projects';
 import { SheetPage } from '../routes/sheet';
 import { SignInPage } from '../routes/sign-in';
@@ -36,6 +37,7 @@ export const routes: RouteObject[] = [
       { path: 'profile', element: <RequireAuth><ProfilePage /></RequireAuth> },
       { path: 'members', element: <RequireAuth roles={MEMBERS}><MembersPage /></RequireAuth> },
       { path: 'projects', element: <RequireAuth roles={MEMBERS}><ProjectsPage /></RequireAuth> },
+      { path: 'projects/:projectId', element: <RequireAuth roles={MEMBERS}><ProjectPage /></RequireAuth> },
       { path: 'projects/:projectId/sheets/:sheetId', element: <RequireAuth roles={MEMBERS}><SheetPage /></RequireAuth> },
       { path: 'portal', element: <RequireAuth><PortalPage /></RequireAuth> },
       { path: 'verify', element: <VerifyPage /> },

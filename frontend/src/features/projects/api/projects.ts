@@ -1,0 +1,41 @@
+import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { z } from 'zod';
+import { api } from '../../../lib/api-client';
+
+export interface Project {
+  id: string;
+  jobNumber: string;
+  title: string;
+  clientOrganisation: string;
+  site: string;
+  sheetCount: number;
+  createdAt: string;
+  updatedAt: string;
+}
+
+export const projectKeys = {
+  all: ['projects'] as const,
+  one: (id: string) => ['projects', id] as const,
+};
+
+export const projectsQueryOptions = () => queryOptions({ queryKey: projectKeys.all, queryFn: ({ signal }) => api.get<Project[]>('/projects', { signal }) });
+export const useProjects = () => useQuery(projectsQueryOptions());
+
+export const projectQueryOptions = (id: string) => queryOptions({ queryKey: projectKeys.one(id), queryFn: ({ signal }) => api.get<Project>(`/projects/${id}`, { signal }) });
+export const useProject = (id: string) => useQuery(projectQueryOptions(id));
+
+const text = (what: string, max: number) => z.string().trim().min(1, `Enter the ${what}`).max(max, `At most ${max} characters`);
+export const projectSchema = z.object({
+  jobNumber: text('job number', 40).regex(/^[A-Za-z0-9][A-Za-z0-9._/-]*$/, 'Letters, digits and . _ / - only'),
+  title: text('title', 200),
+  clientOrganisation: text('client organisation', 200),
+  site: text('site', 200),
+});
+
+export function useCreateProject() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: z.infer<typeof projectSchema>) => api.post<Project>('/projects', body),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: projectKeys.all }),
+  });
+}
