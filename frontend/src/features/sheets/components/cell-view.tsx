@@ -22,14 +22,20 @@ function Problems({ errors, warnings }: { errors: Diagnostic[]; warnings: Diagno
   );
 }
 
+/** Markdown kept simple: headings (#, ##, ###), paragraphs, *emphasis* of a whole paragraph, $maths$. */
 function NoteCell({ cell }: { cell: Cell }) {
   const text = String(cell.fields.text ?? '');
+  const blocks = text.split(/\n{2,}/).flatMap((block) => {
+    const lines = block.split('\n');
+    const heading = /^(#{1,3})\s+(.*)$/.exec(lines[0]);
+    return heading ? [{ level: heading[1].length, text: heading[2] }, ...(lines.length > 1 ? [{ level: 0, text: lines.slice(1).join(' ') }] : [])] : [{ level: 0, text: lines.join(' ') }];
+  });
   return (
     <Box>
-      {text.split(/\n{2,}/).map((para, i) => {
-        const heading = /^(#{1,3})\s+(.*)$/.exec(para);
-        if (heading) return <Typography key={i} variant={heading[1].length === 1 ? 'h2' : heading[1].length === 2 ? 'h3' : 'h4'} gutterBottom><TextWithMaths text={heading[2]} /></Typography>;
-        return <Typography key={i} sx={{ mb: 1.5, fontStyle: /^\*.*\*$/.test(para) ? "italic" : undefined }}><TextWithMaths text={para.replace(/^\*(.*)\*$/s, '$1')} /></Typography>;
+      {blocks.map((b, i) => {
+        if (b.level) return <Typography key={i} variant={b.level === 1 ? 'h2' : b.level === 2 ? 'h3' : 'h4'} gutterBottom><TextWithMaths text={b.text} /></Typography>;
+        const emphasis = /^\*(.*)\*$/s.exec(b.text);
+        return <Typography key={i} sx={{ mb: 1.5, fontStyle: emphasis ? 'italic' : undefined }}><TextWithMaths text={emphasis ? emphasis[1] : b.text} /></Typography>;
       })}
     </Box>
   );
