@@ -1,4 +1,5 @@
 import { existsSync } from 'node:fs';
+import { MariaDbDriver } from '@mikro-orm/mariadb';
 import { MikroOrmModule } from '@mikro-orm/nestjs';
 import { DynamicModule, MiddlewareConsumer, Module, NestModule } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
@@ -35,6 +36,7 @@ function staticFrontEnd(): DynamicModule[] {
   imports: [
     ConfigModule,
     MikroOrmModule.forRootAsync({
+      driver: MariaDbDriver,
       inject: [ConfigService],
       useFactory: (config: ConfigService<Environment, true>) =>
         ormConfig({

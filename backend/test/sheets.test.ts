@@ -106,3 +106,32 @@ describe('projects and sheets', () => {
     expect((await as(app, outsider, 'get', '/api/projects').expect(200)).body.map((p: { title: string }) => p.title)).not.toContain('Test project');
   });
 });
+
+describe('clients and their projects', () => {
+  let app: INestApplication;
+  beforeAll(async () => {
+    app = await createTestApp();
+  });
+  afterAll(async () => {
+    await app?.close();
+  });
+
+  it('gives an invited client exactly the projects named in the invitation, and nothing of the firm\'s work', async () => {
+    const { waitForMail } = await import('./support/test-app');
+    const { uniqueEmail, cookieFrom } = await import('./support/sessions');
+    const owner = await makeCaller(app, ['owner', 'engineer']);
+    const mine = await as(app, owner, 'post', '/api/projects').send({ jobNumber: 'K-1', title: 'Client sees this', clientOrganisation: 'C', site: 'S' }).expect(201);
+    await as(app, owner, 'post', '/api/projects').send({ jobNumber: 'K-2', title: 'Client does not see this', clientOrganisation: 'C', site: 'S' }).expect(201);
+    const email = uniqueEmail('client');
+    await as(app, owner, 'post', '/api/invitations').send({ email, roles: ['engineer'], projectIds: [mine.body.id] }).expect(400);
+    await as(app, owner, 'post', '/api/invitations').send({ email, roles: ['client'], projectIds: [mine.body.id] }).expect(201);
+    const token = /token=([\w-]+)/.exec((await waitForMail(email)).text)![1];
+    const accepted = await as(app, undefined, 'post', '/api/invitations/accept').send({ token, name: 'Cleo Client', password: 'a long client passphrase' }).expect(200);
+    const cookie = cookieFrom(accepted);
+    const request = (await import('supertest')).default;
+    const list = await request(app.getHttpServer()).get('/api/projects').set('cookie', cookie).expect(200);
+    expect(list.body.map((p: { title: string }) => p.title)).toEqual(['Client sees this']);
+    await request(app.getHttpServer()).get(`/api/projects/${mine.body.id}`).set('cookie', cookie).expect(403);
+    await request(app.getHttpServer()).get(`/api/projects/${mine.body.id}/sheets`).set('cookie', cookie).expect(403);
+  });
+});

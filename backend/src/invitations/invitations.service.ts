@@ -9,6 +9,7 @@ import type { Environment } from '../config/environment';
 import { AppException } from '../core/errors/app-exception';
 import { hashToken, type AuthContext } from '../core/guards/auth.guard';
 import { Membership } from '../firms/entities/membership.entity';
+import { Project, ProjectClient } from '../projects/entities/project.entity';
 import { MailService } from '../mail/mail.service';
 import { mailTemplates } from '../mail/mail-templates';
 import { User } from '../users/entities/user.entity';
@@ -51,6 +52,11 @@ export class InvitationsService {
       throw new AppException(InvitationErrorCode.ClientWithOtherRoles, 'A client cannot also hold a role in the firm: invite them as a client only.', HttpStatus.BAD_REQUEST);
     }
     const firm = auth.session.firm;
+    if (dto.projectIds?.length) {
+      if (!dto.roles.includes('client')) throw new AppException(InvitationErrorCode.ClientWithOtherRoles, 'Projects are given to clients only: members see all of the firm\'s projects.', HttpStatus.BAD_REQUEST);
+      const found = await this.em.count(Project, { id: { $in: dto.projectIds }, firm });
+      if (found !== new Set(dto.projectIds).size) throw new AppException(InvitationErrorCode.Invalid, 'One of the projects is not a project of this firm.', HttpStatus.BAD_REQUEST, [{ field: 'projectIds', message: 'no such project in this firm' }]);
+    }
     const existing = await this.em.findOne(Membership, { firm, user: { email: dto.email } });
     if (existing) throw new AppException(InvitationErrorCode.AlreadyMember, `${dto.email} is already in ${firm.name}: change their roles instead.`, HttpStatus.CONFLICT);
     const token = newToken();
@@ -97,7 +103,13 @@ export class InvitationsService {
     }
     const membership = new Membership(invitation.firm, user, invitation.roles);
     invitation.acceptedAt = new Date();
-    await this.em.persist(membership).flush();
+    this.em.persist(membership);
+    // A client is given the projects they were invited to (those that are still the firm's).
+    if (invitation.roles.includes('client') && invitation.projectIds.length) {
+      const projects = await this.em.find(Project, { id: { $in: invitation.projectIds }, firm: invitation.firm });
+      for (const project of projects) this.em.persist(new ProjectClient(project, user));
+    }
+    await this.em.flush();
     await this.sessions.open(user, invitation.firm, res);
     await this.audit.record('invitation-accepted', { firmId: invitation.firm.id, userId: user.id, email: user.email, ip, detail: { roles: invitation.roles } });
     return { firm: invitation.firm.name, roles: invitation.roles };

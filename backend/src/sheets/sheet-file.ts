@@ -8,9 +8,10 @@ import { Sheet } from './entities/sheet.entity';
 export function sheetFromFile(project: Project, number: string, title: string, file: SheetFile | undefined, preparer: User): { sheet: Sheet; cells: Cell[] } {
   const sheet = new Sheet(project, number, title, preparer);
   if (!file) return { sheet, cells: [] };
-  const { format: _format, title: _title, settings, cells, ...extra } = file;
-  void _format;
-  void _title;
+  // format and title are the sheet's own columns; everything else we do not know is kept in `extra`.
+  const { format, title: fileTitle, settings, cells, ...extra } = file;
+  void format;
+  void fileTitle;
   sheet.settings = (settings as Record<string, unknown>) ?? {};
   sheet.extra = extra;
   return {

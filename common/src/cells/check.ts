@@ -4,9 +4,9 @@
  */
 import type { MathNode } from 'mathjs';
 import type { CheckCell } from '../sheet/sheet-format';
-import { EngineError, kindOf } from '../language/errors';
+import { EngineError } from '../language/errors';
 import { checkNames, evaluateNode, parseExpression, valueNames } from '../language/expression';
-import { isComplex, isUnit, math } from '../language/instance';
+import { isComplex, isUnit } from '../language/instance';
 import { displayTex, expressionTex } from '../tex/tex';
 import { formatValue, type DisplayOptions } from '../units/display';
 import { dropRidingAngle } from '../units/quantities';
@@ -71,7 +71,6 @@ export function evaluateCheckCell(cell: CheckCell, cellIndex: number, scope: She
         result.margin = result.utilization === null ? null : 1 - result.utilization;
         if (l <= 0 && kind === 'actual/limit') result.warnings.push({ line: 1, column: 1, message: 'the limit is zero or negative, so the utilisation has no meaning' });
       }
-      void kindOf;
     } else {
       const value = evaluateNode(node, node.compile(), mathScope, source, 1);
       if (typeof value !== 'boolean') {
@@ -84,6 +83,5 @@ export function evaluateCheckCell(cell: CheckCell, cellIndex: number, scope: She
     result.pass = null;
     result.errors.push(err instanceof EngineError ? err.toDiagnostic() : { line: 1, column: 1, message: (err as Error).message });
   }
-  void math;
   return result;
 }
