@@ -46,6 +46,7 @@ const MATRIX: Record<string, Allowed> = {
   'POST /api/sheets/:id/cells': ['owner', 'engineer'],
   'PATCH /api/sheets/:id/cells/:cellId': ['owner', 'engineer'],
   'POST /api/sheets/:id/cells/:cellId/move': ['owner', 'engineer'],
+  'POST /api/sheets/:id/cells/import-csv': ['owner', 'engineer'],
   'DELETE /api/sheets/:id/cells/:cellId': ['owner', 'engineer'],
 };
 

@@ -92,6 +92,32 @@ describe('projects and sheets', () => {
     expect(['x = 2', 'x = 3']).toContain(now.body.cells[0].fields.source);
   });
 
+  it('turns a CSV upload into a table cell, and stores nothing when a row is bad or the file is not text', async () => {
+    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-107', title: 'Spectrum' }).expect(201);
+    const id = created.body.id;
+    const ok = await as(app, engineer, 'post', `/api/sheets/${id}/cells/import-csv`)
+      .field('version', '1')
+      .field('position', '0')
+      .attach('file', Buffer.from('h, V_h [V]\n1, 230\n5, 9.2\n'), { filename: 'spectrum.csv', contentType: 'text/csv' })
+      .expect(201);
+    expect(ok.body.changed[0]).toMatchObject({ kind: 'table', fields: { columns: [{ name: 'h' }, { name: 'V_h', unit: 'V' }], rows: [[1, 230], [5, 9.2]] } });
+    const bad = await as(app, engineer, 'post', `/api/sheets/${id}/cells/import-csv`)
+      .field('version', '2')
+      .field('position', '1')
+      .attach('file', Buffer.from('h, V_h [V]\n1, 230\n5, n/a\n'), { filename: 'bad.csv', contentType: 'text/csv' })
+      .expect(400);
+    expect(bad.body.details).toEqual([{ field: 'file', message: 'line 3: column V_h: "n/a" is not a number' }]);
+    const binary = await as(app, engineer, 'post', `/api/sheets/${id}/cells/import-csv`)
+      .field('version', '2')
+      .field('position', '1')
+      .attach('file', Buffer.from([0x25, 0x50, 0x44, 0x46, 0x00, 0xff, 0xfe]), { filename: 'lying.csv', contentType: 'text/csv' })
+      .expect(415);
+    expect(binary.body.message).toMatch(/not a CSV text file/);
+    const sheet = await as(app, engineer, 'get', `/api/sheets/${id}`).expect(200);
+    expect(sheet.body.cells).toHaveLength(1);
+    expect(sheet.body.version).toBe(2);
+  });
+
   it('refuses a cell that is not in the format, naming the field', async () => {
     const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-106', title: 'Bad' }).expect(201);
     const res = await as(app, engineer, 'post', `/api/sheets/${created.body.id}/cells`).send({ version: 1, position: 0, cell: { kind: 'calc', source: 5 } }).expect(400);

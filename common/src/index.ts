@@ -7,3 +7,4 @@ export { formatValue, formatNumber, DEFAULT_DISPLAY } from './units/display';
 export { CIRCUIT_FUNCTION_NAMES } from './circuits/functions';
 export { analyticSolution, numericSolution, dampingOf } from './circuits/transient';
 export { toContractJson, type ContractOutput } from './cells/contract';
+export { csvToTableCell, type CsvTableResult } from './sheet/csv-table';

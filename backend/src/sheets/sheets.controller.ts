@@ -1,10 +1,11 @@
-import { Body, Controller, Delete, Get, HttpCode, Param, ParseIntPipe, ParseUUIDPipe, Patch, Post, Query } from '@nestjs/common';
+import { Body, Controller, Delete, Get, HttpCode, Param, ParseIntPipe, ParseUUIDPipe, Patch, Post, Query, UploadedFile, UseInterceptors } from '@nestjs/common';
+import { FileInterceptor } from '@nestjs/platform-express';
 import type { SheetFile } from '@ampwright/common';
 import { Roles } from '../core/decorators/access.decorator';
 import { CurrentAuth } from '../core/decorators/current-auth.decorator';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { MEMBER_ROLES } from '../core/roles';
-import { AddCellDto, CreateSheetDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
+import { AddCellDto, CreateSheetDto, ImportCsvDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
 import { SheetsService, type SaveResult, type SheetView } from './sheets.service';
 
 const EDITORS = ['owner', 'engineer'] as const;
@@ -56,6 +57,14 @@ export class SheetsController {
   @Post('sheets/:id/cells')
   addCell(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Body() dto: AddCellDto): Promise<SaveResult> {
     return this.sheets.addCell(auth, id, dto);
+  }
+
+  /** A CSV of measurements (header `h, I_h [A]`) as a new table cell; multipart field "file", at most 25 MB. */
+  @Roles(...EDITORS)
+  @Post('sheets/:id/cells/import-csv')
+  @UseInterceptors(FileInterceptor('file', { limits: { fileSize: 25 * 1024 * 1024, files: 1 } }))
+  importCsv(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @UploadedFile() file: Express.Multer.File | undefined, @Body() dto: ImportCsvDto): Promise<SaveResult> {
+    return this.sheets.importCsv(auth, id, file, dto);
   }
 
   @Roles(...EDITORS)

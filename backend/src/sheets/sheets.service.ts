@@ -1,12 +1,12 @@
 import { EntityManager, UniqueConstraintViolationException } from '@mikro-orm/core';
 import { HttpStatus, Injectable } from '@nestjs/common';
-import { cellSchema, parseSheetFile, SHEET_FORMAT, type CellResult, type SheetFile } from '@ampwright/common';
+import { cellSchema, csvToTableCell, parseSheetFile, SHEET_FORMAT, type CellResult, type SheetFile } from '@ampwright/common';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService } from '../evaluation/evaluation.service';
 import { ProjectsService } from '../projects/projects.service';
 import { TemplatesService } from '../templates/templates.service';
-import type { AddCellDto, CreateSheetDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
+import type { AddCellDto, CreateSheetDto, ImportCsvDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
 import { Cell } from './entities/cell.entity';
 import { Sheet, type SheetState } from './entities/sheet.entity';
 import { sheetFromFile } from './sheet-file';
@@ -235,6 +235,26 @@ export class SheetsService {
       em.persist(cell);
       return new Set([cell.id, ...cells.filter((c) => c.position > position).map((c) => c.id)]);
     });
+  }
+
+  /** A CSV upload as a new table cell; any bad row is reported by its line and nothing is stored. */
+  importCsv(auth: AuthContext, id: string, file: { buffer: Buffer; originalname: string } | undefined, dto: ImportCsvDto): Promise<SaveResult> {
+    if (!file) throw new AppException(ErrorCode.ValidationFailed, 'Attach the CSV file in the field "file".', HttpStatus.BAD_REQUEST, [{ field: 'file', message: 'no file was sent' }]);
+    let text: string;
+    try {
+      text = new TextDecoder('utf-8', { fatal: true }).decode(file.buffer);
+    } catch {
+      text = '\u0000';
+    }
+    if (text.includes('\u0000')) {
+      throw new AppException(ErrorCode.UnsupportedMediaType, `${file.originalname} is not a CSV text file (its content is binary), whatever its name says.`, HttpStatus.UNSUPPORTED_MEDIA_TYPE, [{ field: 'file', message: 'not a text file' }]);
+    }
+    const parsed = csvToTableCell(text);
+    if (!parsed.ok) {
+      const details = parsed.problems.map((p) => ({ field: 'file', message: `line ${p.line}: ${p.message}` }));
+      throw new AppException('CSV_INVALID', `The CSV could not be read, so nothing was stored: ${details.map((d) => d.message).join('; ')}`, HttpStatus.BAD_REQUEST, details);
+    }
+    return this.addCell(auth, id, { version: dto.version, position: dto.position, cell: parsed.cell as unknown as Record<string, unknown> });
   }
 
   updateCell(auth: AuthContext, id: string, cellId: string, dto: UpdateCellDto): Promise<SaveResult> {

@@ -1,4 +1,4 @@
-import { Transform } from 'class-transformer';
+import { Transform, Type } from 'class-transformer';
 import { IsInt, IsObject, IsOptional, IsString, Length, Matches, Min } from 'class-validator';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
@@ -50,5 +50,14 @@ export class UpdateCellDto extends VersionDto {
 
 export class MoveCellDto extends VersionDto {
   @IsInt({ message: 'position must be a whole number' }) @Min(0)
+  position: number;
+}
+
+/** The form fields beside a CSV upload (multipart, so they arrive as text). */
+export class ImportCsvDto {
+  @Type(() => Number) @IsInt({ message: 'version must be a whole number' }) @Min(1)
+  version: number;
+
+  @Type(() => Number) @IsInt({ message: 'position must be a whole number' }) @Min(0)
   position: number;
 }
