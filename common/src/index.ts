@@ -8,3 +8,4 @@ export { CIRCUIT_FUNCTION_NAMES } from './circuits/functions';
 export { analyticSolution, numericSolution, dampingOf } from './circuits/transient';
 export { toContractJson, type ContractOutput } from './cells/contract';
 export { csvToTableCell, type CsvTableResult } from './sheet/csv-table';
+export type { CellDto, ProjectDto, SaveResultDto, SheetDto, SheetState, SheetSummaryDto, TemplateSummaryDto } from './api/projects';

@@ -1,6 +1,6 @@
 import { EntityManager, UniqueConstraintViolationException } from '@mikro-orm/core';
 import { HttpStatus, Injectable } from '@nestjs/common';
-import { cellSchema, csvToTableCell, parseSheetFile, SHEET_FORMAT, type CellResult, type SheetFile } from '@ampwright/common';
+import { cellSchema, csvToTableCell, parseSheetFile, SHEET_FORMAT, type CellDto, type CellResult, type SaveResultDto, type SheetDto, type SheetFile } from '@ampwright/common';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService } from '../evaluation/evaluation.service';
@@ -21,35 +21,9 @@ export enum SheetErrorCode {
 
 const EDITABLE: SheetState[] = ['being-prepared', 'with-checker'];
 
-export interface CellView {
-  id: string;
-  position: number;
-  kind: string;
-  fields: Record<string, unknown>;
-  results: CellResult | null;
-  changedBy: string | null;
-  changedAt: string;
-}
-
-export interface SheetView {
-  id: string;
-  projectId: string;
-  number: string;
-  title: string;
-  settings: Record<string, unknown>;
-  state: SheetState;
-  version: number;
-  engineVersion: string | null;
-  preparer: { id: string; name: string };
-  cells: CellView[];
-}
-
-/** The answer to a saved change: the sheet's new version and the cells whose content or results changed. */
-export interface SaveResult {
-  version: number;
-  changed: CellView[];
-  removed: string[];
-}
+export type CellView = CellDto;
+export type SheetView = SheetDto;
+export type SaveResult = SaveResultDto;
 
 const cellView = (c: Cell): CellView => ({
   id: c.id,

@@ -1,14 +1,10 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { HttpStatus, Injectable } from '@nestjs/common';
-import { parseSheetJson, type SheetFile } from '@ampwright/common';
+import { parseSheetJson, type SheetFile, type TemplateSummaryDto } from '@ampwright/common';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 
-export interface TemplateSummary {
-  id: string;
-  title: string;
-  cellCount: number;
-}
+export type TemplateSummary = TemplateSummaryDto;
 
 /** The sheet templates shipped in templates/ (read once at start-up; each is a valid sheet file). */
 @Injectable()

@@ -1,3 +1,4 @@
+import type { ProjectDto } from '@ampwright/common';
 import { Transform } from 'class-transformer';
 import { IsOptional, IsString, Length, Matches } from 'class-validator';
 
@@ -33,7 +34,7 @@ export class UpdateProjectDto {
   site?: string;
 }
 
-export class ProjectResponseDto {
+export class ProjectResponseDto implements ProjectDto {
   id: string;
   jobNumber: string;
   title: string;

@@ -1,11 +1,12 @@
 import { randomUUID } from 'node:crypto';
 import { Entity, ManyToOne, Opt, PrimaryKey, Property, Unique } from '@mikro-orm/core';
+import type { SheetState } from '@ampwright/common';
 import { Project } from '../../projects/entities/project.entity';
 import { User } from '../../users/entities/user.entity';
 
 /** Where a sheet is in its life (see README, "Sheet states"). */
-export const SHEET_STATES = ['being-prepared', 'with-checker', 'checked', 'approved', 'issued'] as const;
-export type SheetState = (typeof SHEET_STATES)[number];
+export const SHEET_STATES = ['being-prepared', 'with-checker', 'checked', 'approved', 'issued'] as const satisfies readonly SheetState[];
+export type { SheetState };
 
 @Entity({ tableName: 'sheet' })
 @Unique({ properties: ['project', 'number'] })

@@ -1,17 +1,9 @@
+import type { ProjectDto } from '@ampwright/common';
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
 
-export interface Project {
-  id: string;
-  jobNumber: string;
-  title: string;
-  clientOrganisation: string;
-  site: string;
-  sheetCount: number;
-  createdAt: string;
-  updatedAt: string;
-}
+export type Project = ProjectDto;
 
 export const projectKeys = {
   all: ['projects'] as const,

@@ -1,10 +1,10 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { CellResult } from '@ampwright/common';
+import type { CellDto, SheetDto, SheetState, SheetSummaryDto, TemplateSummaryDto } from '@ampwright/common';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
 import { projectKeys } from '../../projects/api/projects';
 
-export type SheetState = 'being-prepared' | 'with-checker' | 'checked' | 'approved' | 'issued';
+export type { SheetState };
 export const STATE_LABELS: Record<SheetState, string> = {
   'being-prepared': 'Being prepared',
   'with-checker': 'With the checker',
@@ -13,44 +13,10 @@ export const STATE_LABELS: Record<SheetState, string> = {
   issued: 'Issued',
 };
 
-export interface SheetSummary {
-  id: string;
-  number: string;
-  title: string;
-  state: SheetState;
-  version: number;
-  preparer: string;
-  updatedAt: string;
-}
-
-export interface CellView {
-  id: string;
-  position: number;
-  kind: string;
-  fields: Record<string, unknown>;
-  results: CellResult | null;
-  changedBy: string | null;
-  changedAt: string;
-}
-
-export interface SheetView {
-  id: string;
-  projectId: string;
-  number: string;
-  title: string;
-  settings: Record<string, unknown>;
-  state: SheetState;
-  version: number;
-  engineVersion: string | null;
-  preparer: { id: string; name: string };
-  cells: CellView[];
-}
-
-export interface TemplateSummary {
-  id: string;
-  title: string;
-  cellCount: number;
-}
+export type SheetSummary = SheetSummaryDto;
+export type CellView = CellDto;
+export type SheetView = SheetDto;
+export type TemplateSummary = TemplateSummaryDto;
 
 export const sheetKeys = {
   ofProject: (projectId: string) => ['projects', projectId, 'sheets'] as const,

@@ -1,0 +1,63 @@
+/** Bodies of the projects and sheets API, shared by the server that builds them and the app that reads them. */
+import type { CellResult } from '../cells/types';
+
+export type SheetState = 'being-prepared' | 'with-checker' | 'checked' | 'approved' | 'issued';
+
+export interface ProjectDto {
+  id: string;
+  jobNumber: string;
+  title: string;
+  clientOrganisation: string;
+  site: string;
+  sheetCount: number;
+  createdAt: string;
+  updatedAt: string;
+}
+
+export interface SheetSummaryDto {
+  id: string;
+  number: string;
+  title: string;
+  state: SheetState;
+  version: number;
+  preparer: string;
+  updatedAt: string;
+}
+
+export interface CellDto {
+  id: string;
+  position: number;
+  kind: string;
+  /** The cell as in the sheet file, without `kind`. */
+  fields: Record<string, unknown>;
+  /** What the server computed when the sheet was last saved. */
+  results: CellResult | null;
+  changedBy: string | null;
+  changedAt: string;
+}
+
+export interface SheetDto {
+  id: string;
+  projectId: string;
+  number: string;
+  title: string;
+  settings: Record<string, unknown>;
+  state: SheetState;
+  version: number;
+  engineVersion: string | null;
+  preparer: { id: string; name: string };
+  cells: CellDto[];
+}
+
+/** The answer to a saved change: the sheet's new version and the cells whose content or results changed. */
+export interface SaveResultDto {
+  version: number;
+  changed: CellDto[];
+  removed: string[];
+}
+
+export interface TemplateSummaryDto {
+  id: string;
+  title: string;
+  cellCount: number;
+}
