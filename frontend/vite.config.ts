@@ -3,11 +3,18 @@ import react from '@vitejs/plugin-react';
 import { defineConfig } from 'vitest/config';
 
 const commonSource = fileURLToPath(new URL('../common/src/index.ts', import.meta.url));
+const commonDir = fileURLToPath(new URL('../common/src/', import.meta.url));
 
 // The front end compiles common/ from source (the same engine code the server runs, built for the browser).
 export default defineConfig({
   plugins: [react()],
-  resolve: { alias: { '@ampwright/common': commonSource } },
+  // `@ampwright/common/api/...` reaches one module without pulling the whole engine into the bundle.
+  resolve: {
+    alias: [
+      { find: /^@ampwright\/common$/, replacement: commonSource },
+      { find: /^@ampwright\/common\/(.*)$/, replacement: `${commonDir}$1` },
+    ],
+  },
   server: {
     host: '127.0.0.1',
     port: 5173,

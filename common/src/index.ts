@@ -9,3 +9,4 @@ export { analyticSolution, numericSolution, dampingOf } from './circuits/transie
 export { toContractJson, type ContractOutput } from './cells/contract';
 export { csvToTableCell, type CsvTableResult } from './sheet/csv-table';
 export type { CellDto, ProjectDto, SaveResultDto, SheetDto, SheetState, SheetSummaryDto, TemplateSummaryDto } from './api/projects';
+export { MIN_PASSWORD_LENGTH } from './api/accounts';

@@ -3,7 +3,7 @@ import { ConfigService } from '@nestjs/config';
 import { compare, hash } from 'bcrypt';
 import type { Environment } from '../config/environment';
 
-export const MIN_PASSWORD_LENGTH = 12;
+export { MIN_PASSWORD_LENGTH } from '@ampwright/common';
 
 /** bcrypt hashing; a fixed dummy hash keeps a sign-in with an unknown address as slow as a real one. */
 @Injectable()

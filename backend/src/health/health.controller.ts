@@ -2,7 +2,7 @@ import { Controller, Get, Res } from '@nestjs/common';
 import type { Response } from 'express';
 import { Public } from '../core/decorators/access.decorator';
 import { HealthService } from './health.service';
-import { HealthResponseDto } from './dto/health-response.dto';
+import type { HealthResponseDto } from './dto/health-response.dto';
 
 @Controller('health')
 export class HealthController {

@@ -3,7 +3,7 @@ import { Injectable } from '@nestjs/common';
 import { ENGINE_VERSION } from '@ampwright/common';
 import { ObjectStoreService } from '../files/object-store.service';
 import { MailService } from '../mail/mail.service';
-import { HealthResponseDto } from './dto/health-response.dto';
+import type { HealthResponseDto } from './dto/health-response.dto';
 import { APP_VERSION } from '../version';
 
 const withDeadline = <T>(promise: Promise<T>, ms: number, fallback: T) =>

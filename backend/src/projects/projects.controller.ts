@@ -3,7 +3,7 @@ import { Roles, SignedIn } from '../core/decorators/access.decorator';
 import { CurrentAuth } from '../core/decorators/current-auth.decorator';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { MEMBER_ROLES } from '../core/roles';
-import { CreateProjectDto, ProjectResponseDto, UpdateProjectDto } from './dto/project.dto';
+import { CreateProjectDto, UpdateProjectDto, type ProjectResponseDto } from './dto/project.dto';
 import { ProjectsService } from './projects.service';
 
 @Controller('projects')

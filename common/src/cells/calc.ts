@@ -6,7 +6,7 @@ import type { MathNode } from 'mathjs';
 import type { CalcCell } from '../sheet/sheet-format';
 import { EngineError, type Diagnostic } from '../language/errors';
 import { checkNames, evaluateNode, normalizeSource, parseExpression, valueNames } from '../language/expression';
-import { displayTex, expressionTex, unitTex, variableTex } from '../tex/tex';
+import { displayTex, expressionTex, variableTex } from '../tex/tex';
 import { formatValue, type DisplayOptions } from '../units/display';
 import { convertTo } from './convert';
 import { describePlace, type SheetScope } from './scope';
@@ -143,4 +143,3 @@ export function lineTex(name: string, expression: MathNode, scope: SheetScope, d
   return { formula, working, result: `${lhs} = ${displayTex(shown)}` };
 }
 
-export { unitTex };

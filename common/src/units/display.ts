@@ -4,7 +4,7 @@
  * Also the `si` form of the command-line contract: coherent SI, no prefixes, `{re, im}` for complex.
  */
 import type { Unit as MathUnit } from 'mathjs';
-import { isComplex, isUnit, math, Unit } from '../language/math';
+import { isComplex, isUnit, math } from '../language/math';
 
 export type SiValue = number | boolean | string | { re: number; im: number } | SiValue[];
 
@@ -47,10 +47,6 @@ function effectiveDims(u: MathUnit): number[] {
 }
 
 const sameDims = (a: number[], b: number[]) => a.every((x, i) => Math.abs(x - (b[i] ?? 0)) < 1e-12);
-
-export function isDimensionless(u: MathUnit): boolean {
-  return dims(u).every((x) => x === 0);
-}
 
 function unitValue(u: MathUnit): unknown {
   return (u as unknown as { value: unknown }).value;
@@ -206,4 +202,3 @@ export function formatValue(value: unknown, options: DisplayOptions = DEFAULT_DI
   return { si: siForm(value), siUnit: '', display: String(value), unit: '' };
 }
 
-export { Unit };

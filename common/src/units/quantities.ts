@@ -56,7 +56,6 @@ export function withNumericMode<T>(fn: () => T): T {
     numericMode = before;
   }
 }
-export const inNumericMode = () => numericMode;
 
 /** Reads x as an SI value of the given dimension; `what` names the argument for the error message. */
 export function si(x: unknown, dim: Dimension, what: string): Scalar {

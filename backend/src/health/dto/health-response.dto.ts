@@ -1,8 +1,4 @@
 import type { HealthReport } from '@ampwright/common';
 
-export class HealthResponseDto implements HealthReport {
-  status: HealthReport['status'];
-  version: string;
-  engineVersion: string;
-  checks: HealthReport['checks'];
-}
+/** The body of GET /api/health (shared with the app). */
+export type HealthResponseDto = HealthReport;

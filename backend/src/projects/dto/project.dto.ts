@@ -34,13 +34,5 @@ export class UpdateProjectDto {
   site?: string;
 }
 
-export class ProjectResponseDto implements ProjectDto {
-  id: string;
-  jobNumber: string;
-  title: string;
-  clientOrganisation: string;
-  site: string;
-  sheetCount: number;
-  createdAt: string;
-  updatedAt: string;
-}
+/** The body of a project in responses (shared with the app). */
+export type ProjectResponseDto = ProjectDto;

@@ -5,7 +5,6 @@ import { Project } from '../../projects/entities/project.entity';
 import { User } from '../../users/entities/user.entity';
 
 /** Where a sheet is in its life (see README, "Sheet states"). */
-export const SHEET_STATES = ['being-prepared', 'with-checker', 'checked', 'approved', 'issued'] as const satisfies readonly SheetState[];
 export type { SheetState };
 
 @Entity({ tableName: 'sheet' })

@@ -4,8 +4,9 @@ import { api, setCsrfToken } from '../../../lib/api-client';
 import { authKeys } from './auth-keys';
 import type { Me } from './get-me';
 
-/** The server's rule (backend/src/auth/password.service.ts). */
-export const MIN_PASSWORD_LENGTH = 12;
+import { MIN_PASSWORD_LENGTH } from '@ampwright/common/api/accounts';
+
+export { MIN_PASSWORD_LENGTH };
 
 const email = z.string().trim().min(1, 'Enter your e-mail address').email('Enter a valid e-mail address');
 const newPassword = z.string().min(MIN_PASSWORD_LENGTH, `Use at least ${MIN_PASSWORD_LENGTH} characters`).max(200, 'Use at most 200 characters');

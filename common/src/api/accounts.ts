@@ -1,0 +1,2 @@
+/** The password rule, enforced by the server and shown by the app's forms. */
+export const MIN_PASSWORD_LENGTH = 12;
