@@ -1,6 +1,8 @@
 // `npm test`: the same set-up as `npm start`, with a test database recreated for the run and fresh
 // fakes on ports of their own (so a running `npm start` is not disturbed), then every test layer.
 // Prints one summary line per layer and exits non-zero when any layer fails.
+// For local work only: TEST_LAYERS=api,e2e runs the layers whose names contain those words, and
+// arguments after `--` go to vitest (`npm test -- attachments` runs matching files).
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { DATA, ROOT, appEnvironment, settings } from './lib/env.mjs';
@@ -63,16 +65,21 @@ main(async () => {
   };
   migrateAndSeed(env);
 
+  const wanted = (process.env.TEST_LAYERS ?? '').split(',').map((w) => w.trim()).filter(Boolean);
+  const extra = process.argv.slice(2);
+  const selected = (name) => !wanted.length || wanted.some((w) => name.includes(w));
   const layers = [];
-  layers.push(runLayer('common unit', join(ROOT, 'common'), [], env));
-  layers.push(runLayer('backend unit', join(ROOT, 'backend'), ['--project', 'unit'], env));
-  layers.push(runLayer('frontend unit', join(ROOT, 'frontend'), ['--project', 'unit'], env));
-  layers.push(runLayer('reference checks', join(ROOT, 'reference-checks'), [], env));
-  layers.push(runLayer('api integration', join(ROOT, 'backend'), ['--project', 'integration'], env));
-
-  log(`starting the built app for end-to-end tests on 127.0.0.1:${TEST.appPort}`);
-  await startApp(env);
-  layers.push(runLayer('end-to-end', join(ROOT, 'frontend'), ['--project', 'e2e'], { ...env, E2E_BASE_URL: `http://127.0.0.1:${TEST.appPort}` }));
+  const layer = (name, dir, args, layerEnv = env) => selected(name) && layers.push(runLayer(name, join(ROOT, dir), [...args, ...extra], layerEnv));
+  layer('common unit', 'common', []);
+  layer('backend unit', 'backend', ['--project', 'unit']);
+  layer('frontend unit', 'frontend', ['--project', 'unit']);
+  layer('reference checks', 'reference-checks', []);
+  layer('api integration', 'backend', ['--project', 'integration']);
+  if (selected('end-to-end')) {
+    log(`starting the built app for end-to-end tests on 127.0.0.1:${TEST.appPort}`);
+    await startApp(env);
+    layer('end-to-end', 'frontend', ['--project', 'e2e'], { ...env, E2E_BASE_URL: `http://127.0.0.1:${TEST.appPort}` });
+  }
 
   const total = layers.reduce((acc, l) => ({ passed: acc.passed + l.passed, failed: acc.failed + l.failed, skipped: acc.skipped + l.skipped }), { passed: 0, failed: 0, skipped: 0 });
   process.stdout.write('\nTest layers\n');

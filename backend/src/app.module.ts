@@ -15,6 +15,7 @@ import { InvitationsModule } from './invitations/invitations.module';
 import { MembersModule } from './members/members.module';
 import { ProjectsModule } from './projects/projects.module';
 import { SheetsModule } from './sheets/sheets.module';
+import { AttachmentsModule } from './attachments/attachments.module';
 import { TemplatesModule } from './templates/templates.module';
 import type { Environment } from './config/environment';
 import { AllExceptionsFilter } from './core/filters/all-exceptions.filter';
@@ -54,6 +55,7 @@ function staticFrontEnd(): DynamicModule[] {
     MembersModule,
     ProjectsModule,
     SheetsModule,
+    AttachmentsModule,
     TemplatesModule,
     MailModule,
     FilesModule,

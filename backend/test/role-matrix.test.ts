@@ -48,6 +48,10 @@ const MATRIX: Record<string, Allowed> = {
   'POST /api/sheets/:id/cells/:cellId/move': ['owner', 'engineer'],
   'POST /api/sheets/:id/cells/import-csv': ['owner', 'engineer'],
   'DELETE /api/sheets/:id/cells/:cellId': ['owner', 'engineer'],
+  'GET /api/sheets/:id/attachments': MEMBERS,
+  'POST /api/sheets/:id/attachments': ['owner', 'engineer'],
+  'GET /api/attachments/:id/download': MEMBERS,
+  'DELETE /api/attachments/:id': ['owner', 'engineer'],
 };
 
 const CALLERS: (Role | 'signed-out')[] = ['signed-out', 'owner', 'engineer', 'checker', 'approver', 'client'];

@@ -1,3 +1,4 @@
+import { Attachment } from '../attachments/entities/attachment.entity';
 import { AuditEvent } from '../audit/entities/audit-event.entity';
 import { PasswordReset } from '../auth/entities/password-reset.entity';
 import { Session } from '../auth/entities/session.entity';
@@ -10,4 +11,4 @@ import { Sheet } from '../sheets/entities/sheet.entity';
 import { User } from '../users/entities/user.entity';
 
 /** Every entity, listed once: the ORM, the migrator and the seed read this list. */
-export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent, Project, ProjectClient, Sheet, Cell];
+export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent, Project, ProjectClient, Sheet, Cell, Attachment];

@@ -4,11 +4,10 @@ import type { SheetFile } from '@ampwright/common';
 import { Roles } from '../core/decorators/access.decorator';
 import { CurrentAuth } from '../core/decorators/current-auth.decorator';
 import type { AuthContext } from '../core/guards/auth.guard';
-import { MEMBER_ROLES } from '../core/roles';
+import { MEMBER_ROLES, SHEET_EDITORS } from '../core/roles';
+import { UPLOAD_OPTIONS } from '../files/uploads';
 import { AddCellDto, CreateSheetDto, ImportCsvDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
 import { SheetsService, type SaveResult, type SheetView } from './sheets.service';
-
-const EDITORS = ['owner', 'engineer'] as const;
 
 @Controller()
 export class SheetsController {
@@ -21,7 +20,7 @@ export class SheetsController {
   }
 
   /** A blank sheet, one from a template (`templateId`), or an imported sheet file (`sheet`). */
-  @Roles(...EDITORS)
+  @Roles(...SHEET_EDITORS)
   @Post('projects/:projectId/sheets')
   create(@CurrentAuth() auth: AuthContext, @Param('projectId', ParseUUIDPipe) projectId: string, @Body() dto: CreateSheetDto): Promise<SheetView> {
     return this.sheets.create(auth, projectId, dto);
@@ -40,47 +39,47 @@ export class SheetsController {
     return this.sheets.export(auth, id);
   }
 
-  @Roles(...EDITORS)
+  @Roles(...SHEET_EDITORS)
   @Patch('sheets/:id')
   update(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Body() dto: UpdateSheetDto): Promise<SaveResult> {
     return this.sheets.update(auth, id, dto);
   }
 
-  @Roles(...EDITORS)
+  @Roles(...SHEET_EDITORS)
   @Delete('sheets/:id')
   @HttpCode(204)
   remove(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string): Promise<void> {
     return this.sheets.remove(auth, id);
   }
 
-  @Roles(...EDITORS)
+  @Roles(...SHEET_EDITORS)
   @Post('sheets/:id/cells')
   addCell(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Body() dto: AddCellDto): Promise<SaveResult> {
     return this.sheets.addCell(auth, id, dto);
   }
 
   /** A CSV of measurements (header `h, I_h [A]`) as a new table cell; multipart field "file", at most 25 MB. */
-  @Roles(...EDITORS)
+  @Roles(...SHEET_EDITORS)
   @Post('sheets/:id/cells/import-csv')
-  @UseInterceptors(FileInterceptor('file', { limits: { fileSize: 25 * 1024 * 1024, files: 1 } }))
+  @UseInterceptors(FileInterceptor('file', UPLOAD_OPTIONS))
   importCsv(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @UploadedFile() file: Express.Multer.File | undefined, @Body() dto: ImportCsvDto): Promise<SaveResult> {
     return this.sheets.importCsv(auth, id, file, dto);
   }
 
-  @Roles(...EDITORS)
+  @Roles(...SHEET_EDITORS)
   @Patch('sheets/:id/cells/:cellId')
   updateCell(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Param('cellId', ParseUUIDPipe) cellId: string, @Body() dto: UpdateCellDto): Promise<SaveResult> {
     return this.sheets.updateCell(auth, id, cellId, dto);
   }
 
-  @Roles(...EDITORS)
+  @Roles(...SHEET_EDITORS)
   @Post('sheets/:id/cells/:cellId/move')
   @HttpCode(200)
   moveCell(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Param('cellId', ParseUUIDPipe) cellId: string, @Body() dto: MoveCellDto): Promise<SaveResult> {
     return this.sheets.moveCell(auth, id, cellId, dto);
   }
 
-  @Roles(...EDITORS)
+  @Roles(...SHEET_EDITORS)
   @Delete('sheets/:id/cells/:cellId')
   deleteCell(
     @CurrentAuth() auth: AuthContext,

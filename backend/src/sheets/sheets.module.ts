@@ -5,5 +5,5 @@ import { TemplatesModule } from '../templates/templates.module';
 import { SheetsController } from './sheets.controller';
 import { SheetsService } from './sheets.service';
 
-@Module({ imports: [ProjectsModule, TemplatesModule, EvaluationModule], controllers: [SheetsController], providers: [SheetsService] })
+@Module({ imports: [ProjectsModule, TemplatesModule, EvaluationModule], controllers: [SheetsController], providers: [SheetsService], exports: [SheetsService] })
 export class SheetsModule {}

@@ -10,6 +10,7 @@ import type { AddCellDto, CreateSheetDto, ImportCsvDto, MoveCellDto, UpdateCellD
 import { Cell } from './entities/cell.entity';
 import { Sheet, type SheetState } from './entities/sheet.entity';
 import { sheetFromFile } from './sheet-file';
+import { isPlainText } from '../files/uploads';
 import { User } from '../users/entities/user.entity';
 
 export enum SheetErrorCode {
@@ -59,6 +60,24 @@ export class SheetsService {
     const sheet = await this.em.findOne(Sheet, { id, project: { firm: auth.session.firm } }, { populate: ['project', 'preparer'] });
     if (!sheet) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
     return sheet;
+  }
+
+  /** A sheet the caller may read (members of its firm). */
+  findReadable(auth: AuthContext, id: string): Promise<Sheet> {
+    return this.find(auth, id);
+  }
+
+  /** A sheet the caller may change: of their firm, and still being prepared or with the checker. */
+  async findEditable(auth: AuthContext, id: string): Promise<Sheet> {
+    const sheet = await this.find(auth, id);
+    this.assertEditable(sheet);
+    return sheet;
+  }
+
+  private assertEditable(sheet: Sheet): void {
+    if (!EDITABLE.includes(sheet.state)) {
+      throw new AppException(SheetErrorCode.ReadOnly, `The sheet is ${sheet.state.replace('-', ' ')} and can no longer be edited.`, HttpStatus.CONFLICT);
+    }
   }
 
   private async cells(sheet: Sheet): Promise<Cell[]> {
@@ -139,10 +158,7 @@ export class SheetsService {
    * 409 with the current sheet. Then the sheet is evaluated and the results stored with the cells.
    */
   private async change(auth: AuthContext, id: string, version: number, apply: (sheet: Sheet, cells: Cell[], em: EntityManager) => Promise<Set<string>> | Set<string>): Promise<SaveResult> {
-    const sheet = await this.find(auth, id);
-    if (!EDITABLE.includes(sheet.state)) {
-      throw new AppException(SheetErrorCode.ReadOnly, `The sheet is ${sheet.state.replace('-', ' ')} and can no longer be edited.`, HttpStatus.CONFLICT);
-    }
+    const sheet = await this.findEditable(auth, id);
     let touched = new Set<string>();
     let removed: string[] = [];
     await this.em.transactional(async (em) => {
@@ -214,16 +230,10 @@ export class SheetsService {
   /** A CSV upload as a new table cell; any bad row is reported by its line and nothing is stored. */
   importCsv(auth: AuthContext, id: string, file: { buffer: Buffer; originalname: string } | undefined, dto: ImportCsvDto): Promise<SaveResult> {
     if (!file) throw new AppException(ErrorCode.ValidationFailed, 'Attach the CSV file in the field "file".', HttpStatus.BAD_REQUEST, [{ field: 'file', message: 'no file was sent' }]);
-    let text: string;
-    try {
-      text = new TextDecoder('utf-8', { fatal: true }).decode(file.buffer);
-    } catch {
-      text = '\u0000';
-    }
-    if (text.includes('\u0000')) {
+    if (!isPlainText(file.buffer)) {
       throw new AppException(ErrorCode.UnsupportedMediaType, `${file.originalname} is not a CSV text file (its content is binary), whatever its name says.`, HttpStatus.UNSUPPORTED_MEDIA_TYPE, [{ field: 'file', message: 'not a text file' }]);
     }
-    const parsed = csvToTableCell(text);
+    const parsed = csvToTableCell(file.buffer.toString('utf8'));
     if (!parsed.ok) {
       const details = parsed.problems.map((p) => ({ field: 'file', message: `line ${p.line}: ${p.message}` }));
       throw new AppException('CSV_INVALID', `The CSV could not be read, so nothing was stored: ${details.map((d) => d.message).join('; ')}`, HttpStatus.BAD_REQUEST, details);

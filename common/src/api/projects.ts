@@ -61,3 +61,15 @@ export interface TemplateSummaryDto {
   title: string;
   cellCount: number;
 }
+
+export interface AttachmentDto {
+  id: string;
+  fileName: string;
+  /** Judged by the server from the content. */
+  mediaType: string;
+  size: number;
+  /** Hex SHA-256 of the bytes. */
+  sha256: string;
+  uploadedBy: string | null;
+  createdAt: string;
+}

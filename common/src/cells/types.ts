@@ -50,7 +50,7 @@ export interface CheckResult extends CellResultBase {
 export interface SeriesData {
   name: string;
   unit: string;
-  /** Real values in `unit`, or, for complex series, magnitude in `unit` and angle in degrees. */
+  /** Real values in `unit`; for a complex series, the real parts (the imaginary parts are in `im`). */
   values: number[];
   im?: number[];
   complex?: boolean;

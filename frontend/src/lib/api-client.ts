@@ -28,6 +28,7 @@ export const setCsrfToken = (token: string | undefined) => {
   csrfToken = token;
 };
 export const CSRF_HEADER = 'x-ampwright-csrf';
+export const csrfHeaderValue = () => csrfToken ?? '1';
 
 export interface RequestOptions {
   body?: unknown;
@@ -46,7 +47,7 @@ export async function apiRequest<T>(method: Method, path: string, options: Reque
       headers: {
         Accept: 'application/json',
         ...(options.body !== undefined && !isForm ? { 'Content-Type': 'application/json' } : {}),
-        ...(method !== 'GET' ? { [CSRF_HEADER]: csrfToken ?? '1' } : {}),
+        ...(method !== 'GET' ? { [CSRF_HEADER]: csrfHeaderValue() } : {}),
       },
       body: options.body === undefined ? undefined : isForm ? (options.body as FormData) : JSON.stringify(options.body),
       signal: options.signal,

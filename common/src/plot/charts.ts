@@ -1,0 +1,192 @@
+/**
+ * The charts of a sheet, built as SVG text from the engine's results: the same drawing is shown on
+ * screen and put into the PDF package. Every axis is labelled with its unit.
+ */
+import { line } from 'd3-shape';
+import type { CalcResult, FormattedValue, SeriesData, SweepResult, TransientResult } from '../cells/types';
+import { axisLabel, drawAxes, scaleFor, type Frame } from './axes';
+import { el, PLOT_COLOURS, svgDocument, text } from './svg';
+
+const W = 640;
+const TRACE = [PLOT_COLOURS.ink, PLOT_COLOURS.copper, PLOT_COLOURS.green, PLOT_COLOURS.grey];
+
+function path(xs: number[], ys: number[], x: (v: number) => number, y: (v: number) => number): string {
+  const points: [number, number][] = [];
+  xs.forEach((xv, i) => {
+    const yv = ys[i];
+    if (Number.isFinite(xv) && Number.isFinite(yv)) points.push([x(xv), y(yv)]);
+  });
+  return line()(points) ?? '';
+}
+
+function legend(left: number, top: number, entries: { label: string; colour: string; dash?: string }[]): string[] {
+  return entries.flatMap((e, i) => {
+    const y = top + i * 14;
+    return [
+      el('line', { x1: left, x2: left + 18, y1: y, y2: y, stroke: e.colour, 'stroke-width': 1.8, 'stroke-dasharray': e.dash }),
+      text(left + 22, y + 3.5, e.label, { 'font-size': 10 }),
+    ];
+  });
+}
+
+const magnitude = (s: SeriesData): number[] => (s.complex && s.im ? s.values.map((re, i) => Math.hypot(re, s.im![i])) : s.values);
+const phaseDeg = (s: SeriesData): number[] => s.values.map((re, i) => (Math.atan2(s.im?.[i] ?? 0, re) * 180) / Math.PI);
+
+export interface ChartOptions {
+  /** Draw the frequency (or other swept variable) on a log axis. */
+  logX?: boolean;
+}
+
+/**
+ * A sweep as a frequency-response chart: the magnitude of every output against the variable and,
+ * when an output is complex, its phase in degrees below. Outputs with different units get their own
+ * panels, since one axis cannot carry two units.
+ */
+export function sweepChart(result: SweepResult, options: ChartOptions = {}): string | null {
+  const v = result.variable;
+  if (!v || !result.outputs.length) return null;
+  const groups = new Map<string, SeriesData[]>();
+  for (const o of result.outputs) groups.set(o.unit, [...(groups.get(o.unit) ?? []), o]);
+  const complex = result.outputs.filter((o) => o.complex);
+  const panelH = 180;
+  const panels = [...groups.entries()].map(([unit, series]) => ({ unit, series, phase: false }));
+  if (complex.length) panels.push({ unit: 'deg', series: complex, phase: true });
+  const left = 64;
+  const frameW = W - left - 20;
+  const height = panels.length * (panelH + 46) + 20;
+  const x = scaleFor(v.values, [left, left + frameW], !!options.logX);
+  const out: string[] = [];
+  panels.forEach((panel, p) => {
+    const top = 16 + p * (panelH + 46);
+    const frame: Frame = { left, top, width: frameW, height: panelH };
+    const ys = panel.series.map((s) => (panel.phase ? phaseDeg(s) : magnitude(s)));
+    const all = ys.flat();
+    const positive = all.every((t) => !Number.isFinite(t) || t > 0);
+    const finite = all.filter(Number.isFinite);
+    const wide = positive && finite.length > 0 && Math.max(...finite) / Math.min(...finite) > 100;
+    const y = scaleFor(all, [top + panelH, top], !panel.phase && wide, 0.05);
+    const label = panel.phase ? 'phase [deg]' : axisLabel(panel.series.length === 1 ? `|${shortName(panel.series[0].name)}|` : 'magnitude', panel.unit);
+    out.push(...drawAxes(frame, x, y, axisLabel(v.name, v.unit), label));
+    ys.forEach((vals, i) => out.push(el('path', { d: path(v.values, vals, x, y), fill: 'none', stroke: TRACE[i % TRACE.length], 'stroke-width': 1.6 })));
+    if (panel.series.length > 1) out.push(...legend(left + 10, top + 12, panel.series.map((s, i) => ({ label: shortName(s.name), colour: TRACE[i % TRACE.length] }))));
+  });
+  return svgDocument(W, height, `Response against ${v.name}`, out);
+}
+
+const shortName = (expression: string): string => (expression.length > 40 ? `${expression.slice(0, 37)}…` : expression);
+
+/** A transient as a time chart: the current (numeric), and, where there is an analytic solution, its steady periodic part. */
+export function transientChart(result: TransientResult): string | null {
+  const t = result.time;
+  const i = result.current;
+  if (!t || !i) return null;
+  const left = 64;
+  const frame: Frame = { left, top: 16, width: W - left - 20, height: 240 };
+  const series: { s: SeriesData; colour: string; dash?: string; label: string }[] = [{ s: i, colour: PLOT_COLOURS.ink, label: 'i(t), numeric solution' }];
+  if (result.currentSteady) series.push({ s: result.currentSteady, colour: PLOT_COLOURS.copper, dash: '5 3', label: 'steady periodic part' });
+  if (result.currentTransient) series.push({ s: result.currentTransient, colour: PLOT_COLOURS.grey, dash: '2 2', label: 'transient part' });
+  const x = scaleFor(t.values, [left, left + frame.width], false);
+  const y = scaleFor(series.flatMap((s) => s.s.values), [frame.top + frame.height, frame.top], false, 0.05);
+  const out = drawAxes(frame, x, y, axisLabel('t', t.unit), axisLabel('i', i.unit));
+  const [y0, y1] = y.domain();
+  if (y0 < 0 && y1 > 0) out.push(el('line', { x1: left, x2: left + frame.width, y1: y(0), y2: y(0), stroke: PLOT_COLOURS.grey, 'stroke-width': 0.8 }));
+  for (const s of series) out.push(el('path', { d: path(t.values, s.s.values, x, y), fill: 'none', stroke: s.colour, 'stroke-width': s.dash ? 1.2 : 1.6, 'stroke-dasharray': s.dash }));
+  out.push(...legend(left + frame.width - 170, frame.top + 12, series.map((s) => ({ label: s.label, colour: s.colour, dash: s.dash }))));
+  return svgDocument(W, frame.top + frame.height + 46, 'Current against time', out);
+}
+
+interface Phasor {
+  name: string;
+  re: number;
+  im: number;
+  value: FormattedValue;
+}
+
+const complexValues = (result: CalcResult): Phasor[] =>
+  Object.entries(result.values).flatMap(([name, value]) => {
+    const si = value.si;
+    if (!si || typeof si !== 'object' || Array.isArray(si) || !('re' in si)) return [];
+    if (!Number.isFinite(si.re) || !Number.isFinite(si.im)) return [];
+    return [{ name, re: si.re, im: si.im, value }];
+  });
+
+const isImpedance = (p: Phasor): boolean => p.value.siUnit === 'ohm';
+
+/**
+ * The impedance triangle of a complex impedance Z = R + jX: R along the base, X upright, Z the
+ * hypotenuse and φ the angle between R and Z (above the base for inductive, below for capacitive).
+ */
+export function impedanceTriangle(name: string, R: number, X: number, labels: { R: string; X: string; Z: string; phi: string }): string {
+  const size = 260;
+  const pad = 56;
+  const scale = (size - 2 * pad) / Math.max(Math.abs(R), Math.abs(X), 1e-300);
+  const ox = pad;
+  const oy = X >= 0 ? size - pad : pad;
+  const rx = ox + R * scale;
+  const xy = oy - X * scale;
+  const out: string[] = [
+    el('line', { x1: ox, y1: oy, x2: rx, y2: oy, stroke: PLOT_COLOURS.ink, 'stroke-width': 2 }),
+    el('line', { x1: rx, y1: oy, x2: rx, y2: xy, stroke: PLOT_COLOURS.copper, 'stroke-width': 2 }),
+    el('line', { x1: ox, y1: oy, x2: rx, y2: xy, stroke: PLOT_COLOURS.text, 'stroke-width': 2 }),
+    text((ox + rx) / 2, oy + (X >= 0 ? 16 : -8), `R = ${labels.R}`, { 'text-anchor': 'middle' }),
+    text(rx + 6, (oy + xy) / 2 + 4, `X = ${labels.X}`),
+    text((ox + rx) / 2 - 8, (oy + xy) / 2 + (X >= 0 ? -6 : 14), `|${name}| = ${labels.Z}`, { 'text-anchor': 'end' }),
+  ];
+  const angle = Math.atan2(X, R);
+  const r = 28;
+  const arc = `M${ox + r},${oy} A${r},${r} 0 0 ${X >= 0 ? 0 : 1} ${ox + r * Math.cos(angle)},${oy - r * Math.sin(angle)}`;
+  out.push(el('path', { d: arc, fill: 'none', stroke: PLOT_COLOURS.grey, 'stroke-width': 1 }));
+  out.push(text(ox + r + 6, oy + (X >= 0 ? -6 : 14), `φ = ${labels.phi}`, { 'font-size': 10 }));
+  return svgDocument(size + 80, size, `Impedance triangle of ${name}`, out);
+}
+
+/** The phasors of a calc cell (its complex results other than impedances), each scaled to the largest of its unit. */
+export function phasorDiagram(phasors: Phasor[]): string {
+  const size = 300;
+  const c = size / 2;
+  const radius = c - 40;
+  const maxByUnit = new Map<string, number>();
+  for (const p of phasors) maxByUnit.set(p.value.siUnit, Math.max(maxByUnit.get(p.value.siUnit) ?? 0, Math.hypot(p.re, p.im)));
+  const out: string[] = [
+    el('circle', { cx: c, cy: c, r: radius, fill: 'none', stroke: PLOT_COLOURS.rule }),
+    el('line', { x1: c - radius - 10, x2: c + radius + 10, y1: c, y2: c, stroke: PLOT_COLOURS.grey, 'stroke-width': 0.8 }),
+    el('line', { x1: c, x2: c, y1: c - radius - 10, y2: c + radius + 10, stroke: PLOT_COLOURS.grey, 'stroke-width': 0.8 }),
+    text(c + radius + 12, c + 4, 'Re'),
+    text(c + 4, c - radius - 12, 'Im'),
+    el('defs', {}, [el('marker', { id: 'aw-arrow', viewBox: '0 0 10 10', refX: 9, refY: 5, markerWidth: 7, markerHeight: 7, orient: 'auto-start-reverse' }, [el('path', { d: 'M0,0 L10,5 L0,10 z', fill: 'context-stroke' })])]),
+  ];
+  phasors.forEach((p, i) => {
+    const m = maxByUnit.get(p.value.siUnit) || 1;
+    const x = c + (p.re / m) * radius;
+    const y = c - (p.im / m) * radius;
+    const colour = TRACE[i % TRACE.length];
+    out.push(el('line', { x1: c, y1: c, x2: x, y2: y, stroke: colour, 'stroke-width': 2, 'marker-end': 'url(#aw-arrow)' }));
+    out.push(text(x + (x >= c ? 6 : -6), y + (y >= c ? 12 : -4), p.name, { 'text-anchor': x >= c ? 'start' : 'end', fill: colour, 'font-weight': 600 }));
+  });
+  out.push(...phasors.map((p, i) => text(8, size + 14 + i * 14, `${p.name} = ${p.value.display}`, { 'font-size': 10, fill: TRACE[i % TRACE.length] })));
+  return svgDocument(size + 60, size + 20 + phasors.length * 14, 'Phasor diagram', out);
+}
+
+export interface CalcFigure {
+  kind: 'impedance-triangle' | 'phasors';
+  svg: string;
+}
+
+/** The figures a calc cell's complex results call for: an impedance triangle per complex impedance, one phasor diagram for the rest. */
+export function calcFigures(result: CalcResult): CalcFigure[] {
+  const all = complexValues(result);
+  const figures: CalcFigure[] = [];
+  for (const z of all.filter(isImpedance)) {
+    const [mag, ang] = polar([z.value.display, z.value.displayAlt ?? ''].find((d) => d.includes('∠')) ?? '');
+    figures.push({ kind: 'impedance-triangle', svg: impedanceTriangle(z.name, z.re, z.im, { R: `${Number(z.re.toPrecision(4))} Ω`, X: `${Number(z.im.toPrecision(4))} Ω`, Z: mag ?? `${Number(Math.hypot(z.re, z.im).toPrecision(4))} Ω`, phi: ang ?? `${((Math.atan2(z.im, z.re) * 180) / Math.PI).toFixed(1)}°` }) });
+  }
+  const others = all.filter((p) => !isImpedance(p));
+  if (others.length) figures.push({ kind: 'phasors', svg: phasorDiagram(others) });
+  return figures;
+}
+
+/** "13.42 Ω ∠ −26.9°" → ["13.42 Ω", "−26.9°"]. */
+function polar(display: string): [string | undefined, string | undefined] {
+  const m = /^(.*?)\s*∠\s*(.*)$/.exec(display);
+  return m ? [m[1], m[2]] : [undefined, undefined];
+}

@@ -1,0 +1,2 @@
+export { sweepChart, transientChart, calcFigures, impedanceTriangle, phasorDiagram, type CalcFigure, type ChartOptions } from './charts';
+export { escapeXml } from './svg';

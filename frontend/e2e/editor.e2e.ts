@@ -1,0 +1,116 @@
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { useBrowserPage } from './support/browser';
+import { newSheetFromTemplate, signIn } from './support/flows';
+
+async function newRlcSheet(page: Page) {
+  await signIn(page, 'engineer@northfold.example', '/projects');
+  await page.waitForURL(/\/projects$/);
+  await newSheetFromTemplate(page, 'Series RLC branch: steady-state current at the supply frequency', 'C-910');
+}
+
+const text = (page: Page, testId: string) => page.getByTestId(testId).first().textContent();
+
+describe('the sheet editor in a real browser', () => {
+  const s = useBrowserPage({ beforeAll, afterAll, beforeEach });
+
+  it('edits an input and shows the results update; flags a failing check; imports a CSV and an attachment; keeps it all after a reload', async () => {
+    const { page } = s;
+    await newRlcSheet(page);
+    await expect.poll(() => text(page, 'result-Z')).toContain('13.05');
+    const phiBefore = await text(page, 'result-phi');
+    const lagBefore = await text(page, 'result-t_lag');
+    // The sheet shows its impedance triangle and a sweep chart drawn as SVG.
+    expect(await page.getByRole('figure', { name: 'Impedance triangle' }).count()).toBeGreaterThan(0);
+    expect(await page.getByRole('figure', { name: 'Frequency response' }).count()).toBe(1);
+
+    // Change R from 12 to 24 ohm: Z = sqrt(24² + 5.115²) = 24.54 ohm (the same identity the engine's tests check).
+    const inputs = page.getByRole('region', { name: 'Cell 2: Calculation' });
+    await inputs.getByRole('button', { name: 'Edit' }).click();
+    const editor = page.getByRole('textbox', { name: 'Cell 2 source' });
+    await editor.click();
+    await page.keyboard.press('Control+a');
+    const source = (await page.evaluate(() => document.querySelector('[aria-label="Cell 2 source"]')?.textContent)) ?? '';
+    expect(source).toContain('R = 12 ohm');
+    await page.keyboard.insertText('R = 24 ohm\nL = 40 mH\nC = 180 uF\nf = 50 Hz\nE0 = 325 V\nw = 2 pi f');
+    await expect.poll(() => text(page, 'result-Z'), { timeout: 10000 }).toContain('24.54');
+    await expect.poll(() => text(page, 'result-phi')).not.toBe(phiBefore);
+    expect(await text(page, 'result-t_lag')).not.toBe(lagBefore);
+    await expect.poll(() => inputs.getByTestId('save-state').textContent()).toBe('Saved');
+
+    // A check that fails is flagged.
+    await page.getByRole('navigation', { name: 'Sheet tools' }).getByRole('button', { name: 'Add a cell at the end' }).click();
+    await page.getByRole('menuitem', { name: 'Check' }).click();
+    const condition = page.getByRole('textbox', { name: /Cell \d+ condition/ });
+    await condition.waitFor();
+    await condition.click();
+    await page.keyboard.insertText('Z <= 20 ohm');
+    await expect.poll(async () => (await page.getByTestId('check-outcome').allTextContents()).includes('Fail'), { timeout: 10000 }).toBe(true);
+
+    // A CSV becomes a table cell; an attachment is uploaded and listed with its hash.
+    await page.getByTestId('csv-input').setInputFiles({ name: 'harmonics.csv', mimeType: 'text/csv', buffer: Buffer.from('h, I_h [A]\n1, 100\n5, 18\n7, 11\n') });
+    await page.getByRole('table', { name: 'Table' }).waitFor();
+    await page.getByTestId('attachment-input').setInputFiles({ name: 'site-note.txt', mimeType: 'text/plain', buffer: Buffer.from('Bank nameplate read on site.\n') });
+    await page.getByRole('table', { name: 'Attachment list' }).getByText('site-note.txt').waitFor();
+
+    // A file of the wrong type is refused and not listed.
+    await page.getByTestId('attachment-input').setInputFiles({ name: 'drawing.pdf', mimeType: 'application/pdf', buffer: Buffer.from('just text, not a PDF\n') });
+    await expect.poll(() => page.getByRole('region', { name: 'Attachments' }).getByRole('alert').textContent()).toMatch(/drawing\.pdf was refused/);
+
+    await page.reload();
+    await expect.poll(() => text(page, 'result-Z')).toContain('24.54');
+    expect(await page.getByTestId('check-outcome').allTextContents()).toContain('Fail');
+    expect(await page.getByRole('table', { name: 'Table' }).count()).toBe(1);
+    await page.getByRole('table', { name: 'Attachment list' }).getByText('site-note.txt').waitFor();
+    expect(await page.getByRole('table', { name: 'Attachment list' }).getByText('drawing.pdf').count()).toBe(0);
+    // The browser logs the refused upload's 415 itself; nothing else may go wrong on the page.
+    expect(s.errors.filter((e) => !/status of 415/.test(e))).toEqual([]);
+  });
+
+  it('deletes a cell and restores it, and underlines an error in the source', async () => {
+    const { page } = s;
+    await newRlcSheet(page);
+    const cells = page.locator('section[aria-label^="Cell "]');
+    await expect.poll(() => cells.count()).toBeGreaterThan(3);
+    const count = await cells.count();
+    const fourth = page.getByRole('region', { name: 'Cell 4: Calculation' });
+    await fourth.getByRole('button', { name: 'Delete' }).click();
+    await expect.poll(() => cells.count()).toBe(count - 1);
+    await page.getByRole('button', { name: 'Restore the last deleted cell' }).click();
+    await expect.poll(() => cells.count()).toBe(count);
+    await page.getByRole('region', { name: 'Cell 4: Calculation' }).getByTestId('result-I0_f').waitFor();
+
+    await page.getByRole('region', { name: 'Cell 4: Calculation' }).getByRole('button', { name: 'Edit' }).click();
+    await page.getByRole('textbox', { name: 'Cell 4 source' }).click();
+    await page.keyboard.press('Control+a');
+    await page.keyboard.insertText('bad = 3 ohm + 2 A');
+    await expect.poll(() => page.getByTestId('cell-error').first().textContent(), { timeout: 10000 }).toMatch(/Line 1/);
+    expect(await page.locator('.cm-lintRange-error').count()).toBeGreaterThan(0);
+  });
+
+  it('stays usable with a sheet of 500 cells: an edit far down the sheet is saved and evaluated', async () => {
+    const { page } = s;
+    await newRlcSheet(page);
+    const projectId = /\/projects\/([0-9a-f-]{36})\//.exec(page.url())![1];
+    // 250 pairs of a calc cell and a check on it, imported as a sheet file through the API.
+    const cells = Array.from({ length: 250 }, (_, k) => [
+      { kind: 'calc', source: `R_${k} = ${k + 1} ohm\nI_${k} = 10 V / R_${k} to mA` },
+      { kind: 'check', condition: `I_${k} <= 20 A`, basis: 'common practice' },
+    ]).flat();
+    const id = await page.evaluate(async ({ projectId, cells }) => {
+      const me = await (await fetch('/api/auth/me')).json();
+      const res = await fetch(`/api/projects/${projectId}/sheets`, { method: 'POST', headers: { 'Content-Type': 'application/json', 'x-ampwright-csrf': me.csrfToken }, body: JSON.stringify({ number: 'C-500', sheet: { format: 'ampwright.sheet/1', title: 'Five hundred cells', cells } }) });
+      return (await res.json()).id as string;
+    }, { projectId, cells });
+    await page.goto(`${page.url().replace(/sheets\/.*$/, '')}sheets/${id}`);
+    const last = page.getByRole('region', { name: 'Cell 499: Calculation' });
+    await last.scrollIntoViewIfNeeded();
+    await expect.poll(() => last.getByTestId('result-I_249').textContent(), { timeout: 20000 }).toContain('40');
+    await last.getByRole('button', { name: 'Edit' }).click();
+    await page.getByRole('textbox', { name: 'Cell 499 source' }).click();
+    await page.keyboard.press('Control+a');
+    await page.keyboard.insertText('R_249 = 500 ohm\nI_249 = 10 V / R_249 to mA');
+    await expect.poll(() => last.getByTestId('result-I_249').textContent(), { timeout: 20000 }).toContain('20');
+    expect(await page.locator('section[aria-label^="Cell "]').count()).toBe(500);
+  });
+});

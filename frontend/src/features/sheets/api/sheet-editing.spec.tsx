@@ -1,0 +1,76 @@
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { act, renderHook, waitFor } from '@testing-library/react';
+import type { CellDto, SheetDto } from '@ampwright/common';
+import type { ReactNode } from 'react';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import { sheetKeys } from './sheets';
+import { EditConflict, mergeSave, sameCell, useCellChange } from './sheet-editing';
+
+const cell = (id: string, position: number, source: string, changedBy = 'A'): CellDto => ({ id, position, kind: 'calc', fields: { source }, results: null, changedBy, changedAt: '2026-01-01T00:00:00.000Z' });
+const sheet = (version: number, cells: CellDto[]): SheetDto => ({ id: 's1', projectId: 'p1', number: 'C-1', title: 'T', settings: {}, state: 'being-prepared', version, engineVersion: null, preparer: { id: 'u', name: 'A' }, cells });
+
+describe('mergeSave', () => {
+  it('replaces changed cells, drops removed ones, adds new ones in position order and raises the version', () => {
+    const before = sheet(3, [cell('a', 0, 'x = 1'), cell('b', 1, 'y = 2'), cell('c', 2, 'z = 3')]);
+    const after = mergeSave(before, { version: 4, changed: [cell('b', 0, 'y = 5'), cell('n', 1, 'n = 1')], removed: ['a'] });
+    expect(after.version).toBe(4);
+    expect(after.cells.map((c) => [c.id, c.position])).toEqual([['b', 0], ['n', 1], ['c', 2]]);
+    expect(after.cells[0].fields.source).toBe('y = 5');
+    expect(after.cells[2]).toBe(before.cells[2]); // untouched cells keep their identity, so they do not re-render
+  });
+});
+
+describe('sameCell', () => {
+  it('ignores key order, not values', () => {
+    expect(sameCell({ kind: 'check', condition: 'a', basis: 'b' }, { basis: 'b', kind: 'check', condition: 'a' })).toBe(true);
+    expect(sameCell({ kind: 'calc', source: 'a' }, { kind: 'calc', source: 'b' })).toBe(false);
+  });
+});
+
+/** Answers of a fake server, in order; each request's body is recorded. */
+function serverAnswers(...answers: { status: number; body: unknown }[]) {
+  const sent: { url: string; body: unknown }[] = [];
+  vi.stubGlobal('fetch', vi.fn(async (url: string, init: RequestInit) => {
+    sent.push({ url, body: init.body ? JSON.parse(String(init.body)) : undefined });
+    const a = answers.shift()!;
+    return new Response(JSON.stringify(a.body), { status: a.status, headers: { 'Content-Type': 'application/json' } });
+  }));
+  return sent;
+}
+
+function setup(initial: SheetDto) {
+  const client = new QueryClient({ defaultOptions: { mutations: { retry: false } } });
+  client.setQueryData(sheetKeys.one('s1'), initial);
+  const wrapper = ({ children }: { children: ReactNode }) => <QueryClientProvider client={client}>{children}</QueryClientProvider>;
+  const { result } = renderHook(() => useCellChange('s1'), { wrapper });
+  return { client, result };
+}
+
+describe('useCellChange after someone else saved', () => {
+  afterEach(() => vi.unstubAllGlobals());
+
+  it('sends a change to a cell nobody else touched again on the new version', async () => {
+    const theirs = sheet(5, [cell('a', 0, 'x = 1'), cell('b', 1, 'y = 9', 'B')]);
+    const sent = serverAnswers(
+      { status: 409, body: { code: 'STALE_VERSION', message: 'stale', current: theirs } },
+      { status: 200, body: { version: 6, changed: [cell('a', 0, 'x = 2')], removed: [] } },
+    );
+    const { client, result } = setup(sheet(4, [cell('a', 0, 'x = 1'), cell('b', 1, 'y = 2')]));
+    await act(() => result.current.mutateAsync({ type: 'update', cellId: 'a', cell: { kind: 'calc', source: 'x = 2' }, base: { kind: 'calc', source: 'x = 1' } }));
+    expect(sent.map((s) => (s.body as { version: number }).version)).toEqual([4, 5]);
+    const cached = client.getQueryData<SheetDto>(sheetKeys.one('s1'))!;
+    expect(cached.version).toBe(6);
+    expect(cached.cells.map((c) => c.fields.source)).toEqual(['x = 2', 'y = 9']);
+  });
+
+  it('refuses, as a conflict with their text, a change to a cell someone else also changed, and sends nothing more', async () => {
+    const theirs = sheet(5, [cell('a', 0, 'x = 7', 'B')]);
+    const sent = serverAnswers({ status: 409, body: { code: 'STALE_VERSION', message: 'stale', current: theirs } });
+    const { result } = setup(sheet(4, [cell('a', 0, 'x = 1')]));
+    act(() => result.current.mutate({ type: 'update', cellId: 'a', cell: { kind: 'calc', source: 'x = 2' }, base: { kind: 'calc', source: 'x = 1' } }));
+    await waitFor(() => expect(result.current.isError).toBe(true));
+    expect(result.current.error).toBeInstanceOf(EditConflict);
+    expect((result.current.error as EditConflict).theirs?.fields.source).toBe('x = 7');
+    expect(sent).toHaveLength(1);
+  });
+});

@@ -1,0 +1,149 @@
+/** What the server computed for a cell: typeset lines, check outcomes, charts and tables. */
+import { Alert, Box, Chip, LinearProgress, Stack, Table, TableBody, TableCell, TableHead, TableRow, Typography } from '@mui/material';
+import { useMemo } from 'react';
+import type { CalcResult, CellResult, CheckResult, Diagnostic, SweepResult, TransientResult } from '@ampwright/common';
+import { calcFigures, sweepChart, transientChart } from '@ampwright/common/plot/index';
+import { monoFont, palette } from '../../../app/theme';
+import { SvgFigure } from './svg-figure';
+import { Tex, TextWithMaths } from './tex';
+
+export function Problems({ errors, warnings }: { errors: Diagnostic[]; warnings: Diagnostic[] }) {
+  if (!errors.length && !warnings.length) return null;
+  return (
+    <Stack spacing={0.5} sx={{ mt: 1 }}>
+      {errors.map((e, i) => (
+        <Alert key={`e${i}`} severity="error" variant="outlined" sx={{ py: 0 }} data-testid="cell-error">
+          Line {e.line}, column {e.column}: {e.message}
+        </Alert>
+      ))}
+      {warnings.map((w, i) => (
+        <Alert key={`w${i}`} severity="warning" variant="outlined" sx={{ py: 0 }}>
+          Line {w.line}: {w.message}
+        </Alert>
+      ))}
+    </Stack>
+  );
+}
+
+/** Markdown kept simple: headings (#, ##, ###), paragraphs, *emphasis* of a whole paragraph, $maths$. */
+export function NoteText({ text }: { text: string }) {
+  const blocks = text.split(/\n{2,}/).flatMap((block) => {
+    const lines = block.split('\n');
+    const heading = /^(#{1,3})\s+(.*)$/.exec(lines[0]);
+    return heading ? [{ level: heading[1].length, text: heading[2] }, ...(lines.length > 1 ? [{ level: 0, text: lines.slice(1).join(' ') }] : [])] : [{ level: 0, text: lines.join(' ') }];
+  });
+  return (
+    <Box>
+      {blocks.map((b, i) => {
+        if (b.level) return <Typography key={i} variant={b.level === 1 ? 'h2' : b.level === 2 ? 'h3' : 'h4'} component="p" gutterBottom><TextWithMaths text={b.text} /></Typography>;
+        const emphasis = /^\*(.*)\*$/s.exec(b.text);
+        return <Typography key={i} sx={{ mb: 1.5, fontStyle: emphasis ? 'italic' : undefined }}><TextWithMaths text={emphasis ? emphasis[1] : b.text} /></Typography>;
+      })}
+    </Box>
+  );
+}
+
+export function SourceText({ text }: { text: string }) {
+  return <Box component="pre" sx={{ fontFamily: monoFont, fontSize: 13, bgcolor: palette.paper, p: 1, m: 0, mb: 1, overflowX: 'auto', border: `1px solid ${palette.rule}`, whiteSpace: 'pre' }}>{text || ' '}</Box>;
+}
+
+function CalcResults({ result }: { result: CalcResult }) {
+  const figures = useMemo(() => calcFigures(result), [result]);
+  return (
+    <Box>
+      {result.lines.map((line) =>
+        line.tex ? (
+          <Box key={line.line} data-testid={`line-${line.name}`} sx={{ display: 'grid', gridTemplateColumns: { md: '1fr 1.4fr 0.8fr' }, gap: 2, alignItems: 'baseline', py: 0.5, borderBottom: `1px dotted ${palette.rule}` }}>
+            <Box>
+              <Tex>{line.tex.formula}</Tex>
+              {line.description && <Typography variant="caption" color="text.secondary" sx={{ display: 'block' }}>{line.description}</Typography>}
+            </Box>
+            <Box sx={{ color: 'text.secondary', overflowX: 'auto' }}><Tex>{line.tex.working}</Tex></Box>
+            <Box sx={{ fontWeight: 600 }} data-testid={`result-${line.name}`} title={line.value?.displayAlt}>
+              <Tex>{line.tex.result}</Tex>
+            </Box>
+          </Box>
+        ) : null,
+      )}
+      {figures.length > 0 && (
+        <Stack direction="row" spacing={2} sx={{ flexWrap: 'wrap', mt: 1 }}>
+          {figures.map((f, i) => <SvgFigure key={i} svg={f.svg} label={f.kind === 'impedance-triangle' ? 'Impedance triangle' : 'Phasor diagram'} />)}
+        </Stack>
+      )}
+    </Box>
+  );
+}
+
+function CheckResults({ result, basis }: { result: CheckResult; basis?: string }) {
+  const u = result.utilization;
+  return (
+    <Box>
+      <Stack direction="row" spacing={1} sx={{ alignItems: 'center', mb: 1 }}>
+        <Chip size="small" label={result.pass === true ? 'Pass' : result.pass === false ? 'Fail' : 'Not evaluated'} color={result.pass === true ? 'success' : result.pass === false ? 'error' : 'default'} data-testid="check-outcome" />
+        {result.severity === 'advisory' && <Chip size="small" variant="outlined" label="Advisory" />}
+        {result.tex && <Tex>{result.tex.formula}</Tex>}
+      </Stack>
+      {result.tex?.working && <Box sx={{ color: 'text.secondary', mb: 1 }}><Tex>{result.tex.working}</Tex></Box>}
+      {u !== null && (
+        <Box sx={{ maxWidth: 420 }}>
+          <LinearProgress variant="determinate" value={Math.min(100, Math.max(0, u * 100))} color={u > 1 ? 'error' : u > 0.9 ? 'warning' : 'success'} aria-label="Utilisation" />
+          <Typography variant="caption" data-testid="utilisation">Utilisation {(u * 100).toFixed(1)} %{result.margin !== null ? `, margin ${(result.margin * 100).toFixed(1)} %` : ''}</Typography>
+        </Box>
+      )}
+      {!!basis && <Typography variant="body2" color="text.secondary">Basis: {basis}</Typography>}
+    </Box>
+  );
+}
+
+export function TableView({ fields }: { fields: Record<string, unknown> }) {
+  const columns = (fields.columns as { name: string; unit?: string }[]) ?? [];
+  const rows = (fields.rows as unknown[][]) ?? [];
+  return (
+    <Table size="small" sx={{ width: 'auto' }} aria-label="Table">
+      <TableHead>
+        <TableRow>{columns.map((c, j) => <TableCell key={j}>{c.name}{c.unit ? ` [${c.unit}]` : ''}</TableCell>)}</TableRow>
+      </TableHead>
+      <TableBody>
+        {rows.map((r, i) => <TableRow key={i}>{r.map((v, j) => <TableCell key={j}>{String(v ?? '')}</TableCell>)}</TableRow>)}
+      </TableBody>
+    </Table>
+  );
+}
+
+function SweepResults({ result, logX }: { result: SweepResult; logX: boolean }) {
+  const svg = useMemo(() => sweepChart(result, { logX }), [result, logX]);
+  return (
+    <Box>
+      <Typography variant="body2">{result.variable?.values.length ?? 0} points of {result.variable?.name}</Typography>
+      {svg && <SvgFigure svg={svg} label="Frequency response" />}
+    </Box>
+  );
+}
+
+function TransientResults({ result }: { result: TransientResult }) {
+  const svg = useMemo(() => transientChart(result), [result]);
+  return (
+    <Box>
+      <Typography variant="body2">
+        {result.dampingCase}; peak current {result.peakCurrent?.display} at {result.peakTime?.display}; {result.analytic?.available ? `the analytic solution agrees within ${((result.maxRelativeDeviation ?? 0) * 100).toExponential(1)} % of the peak` : result.analytic?.reason ?? 'numeric solution only'}.
+      </Typography>
+      {svg && <SvgFigure svg={svg} label="Transient current" />}
+    </Box>
+  );
+}
+
+/** The results of one cell, as stored by the server. */
+export function CellResults({ kind, fields, result }: { kind: string; fields: Record<string, unknown>; result: CellResult | null }) {
+  if (!result) return null;
+  return (
+    <Box>
+      {kind === 'calc' && result.kind === 'calc' && <CalcResults result={result} />}
+      {kind === 'check' && result.kind === 'check' && <CheckResults result={result} basis={fields.basis as string | undefined} />}
+      {kind === 'sweep' && result.kind === 'sweep' && <SweepResults result={result} logX={fields.spacing === 'log'} />}
+      {kind === 'transient' && result.kind === 'transient' && <TransientResults result={result} />}
+      <Problems errors={result.errors} warnings={result.warnings} />
+    </Box>
+  );
+}
+
+export const KIND_LABELS: Record<string, string> = { note: 'Note', calc: 'Calculation', check: 'Check', sweep: 'Sweep', transient: 'Transient', table: 'Table', figure: 'Figure' };

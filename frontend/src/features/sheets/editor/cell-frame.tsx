@@ -1,0 +1,138 @@
+/** One cell on the sheet: its header with the save state and tools, its editor or source, and its results. */
+import { Alert, Box, Button, Chip, Menu, MenuItem, Paper, Stack, Tooltip, Typography } from '@mui/material';
+import { memo, useState } from 'react';
+import type { CellDto } from '@ampwright/common';
+import { palette } from '../../../app/theme';
+import { CellResults, KIND_LABELS, NoteText, SourceText, TableView } from '../components/cell-results';
+import { cellBody, type CellBody } from '../api/sheet-editing';
+import { KIND_EDITORS } from './cell-editors';
+import { useCellDraft, type SaveState } from './use-cell-draft';
+
+const SAVE_LABELS: Record<SaveState, string> = {
+  saved: 'Saved',
+  unsaved: 'Editing — results are out of date',
+  saving: 'Saving and evaluating…',
+  invalid: 'Not saved: fix the cell',
+  failed: 'Not saved',
+  conflict: 'Conflict',
+};
+
+export interface CellActions {
+  activate: (id: string | null) => void;
+  neighbour: (id: string, step: -1 | 1) => void;
+  add: (position: number, kind: string) => void;
+  importCsv: (position: number) => void;
+  move: (id: string, position: number) => void;
+  remove: (cell: CellDto) => void;
+  scopeBefore: (position: number) => { label: string; detail?: string }[];
+}
+
+interface CellFrameProps {
+  sheetId: string;
+  cell: CellDto;
+  index: number;
+  count: number;
+  active: boolean;
+  editable: boolean;
+  actions: CellActions;
+}
+
+function sourceOf(value: CellBody): string {
+  if (value.kind === 'calc') return String(value.source ?? '');
+  if (value.kind === 'check') return String(value.condition ?? '');
+  if (value.kind === 'sweep') return `${value.variable} from ${value.from} to ${value.to}, ${value.points} points (${value.spacing ?? 'linear'})\n${((value.outputs as string[]) ?? []).join('\n')}`;
+  if (value.kind === 'transient') return `R = ${value.R}, L = ${value.L}, C = ${value.C}, E(t) = ${value.source}, over ${value.span}${value.q0 ? `, q0 = ${value.q0}` : ''}${value.i0 ? `, i0 = ${value.i0}` : ''}`;
+  return '';
+}
+
+export function AddCellMenu({ onAdd, onImportCsv, label = 'Add a cell' }: { onAdd: (kind: string) => void; onImportCsv: () => void; label?: string }) {
+  const [anchor, setAnchor] = useState<HTMLElement | null>(null);
+  return (
+    <>
+      <Button size="small" onClick={(e) => setAnchor(e.currentTarget)} aria-haspopup="menu">{label}</Button>
+      <Menu anchorEl={anchor} open={!!anchor} onClose={() => setAnchor(null)}>
+        {Object.entries(KIND_LABELS).map(([kind, name]) => (
+          <MenuItem key={kind} onClick={() => (setAnchor(null), onAdd(kind))}>{name}</MenuItem>
+        ))}
+        <MenuItem onClick={() => (setAnchor(null), onImportCsv())}>Table from a CSV file…</MenuItem>
+      </Menu>
+    </>
+  );
+}
+
+function CellFrameInner({ sheetId, cell, index, count, active, editable, actions }: CellFrameProps) {
+  const d = useCellDraft(sheetId, cell);
+  const r = cell.results;
+  const Editor = KIND_EDITORS[cell.kind];
+  const editing = editable && active && !!Editor;
+  const stale = d.dirty || d.state === 'saving';
+  const source = sourceOf(d.value);
+  const keys = {
+    onEvaluate: d.flush,
+    onAddBelow: () => (d.flush(), actions.add(index + 1, 'calc')),
+    onPrevious: () => (d.flush(), actions.neighbour(cell.id, -1)),
+    onNext: () => (d.flush(), actions.neighbour(cell.id, 1)),
+  };
+  const onKeyDown = (e: React.KeyboardEvent) => {
+    if (e.defaultPrevented) return;
+    if ((e.ctrlKey || e.metaKey) && e.key === 'Enter') (e.preventDefault(), keys.onEvaluate());
+    else if (e.altKey && e.key === 'Enter') (e.preventDefault(), keys.onAddBelow());
+    else if (e.altKey && e.key === 'ArrowUp') (e.preventDefault(), keys.onPrevious());
+    else if (e.altKey && e.key === 'ArrowDown') (e.preventDefault(), keys.onNext());
+  };
+  const failed = r?.status === 'error';
+  const checkFailed = r?.kind === 'check' && r.pass === false;
+  return (
+    <Paper
+      component="section"
+      aria-label={`Cell ${index + 1}: ${KIND_LABELS[cell.kind] ?? cell.kind}`}
+      data-cell-id={cell.id}
+      onKeyDown={onKeyDown}
+      sx={{ p: 2, borderLeft: `3px solid ${failed || checkFailed ? palette.fail : cell.kind === 'check' ? palette.copper : palette.ink}`, outline: active ? `1px solid ${palette.inkLight}` : undefined, contentVisibility: active ? undefined : 'auto', containIntrinsicSize: 'auto 160px' }}
+    >
+      <Stack direction="row" spacing={1} sx={{ alignItems: 'center', mb: 1, flexWrap: 'wrap' }}>
+        <Typography variant="overline" color="text.secondary">{index + 1} · {KIND_LABELS[cell.kind] ?? cell.kind}</Typography>
+        {editable && <Chip size="small" variant="outlined" label={SAVE_LABELS[d.state]} color={d.state === 'saved' ? 'default' : d.state === 'saving' || d.state === 'unsaved' ? 'primary' : 'error'} data-testid="save-state" />}
+        <Box sx={{ flex: 1 }} />
+        {editable && (
+          <>
+            {!active && Editor && <Button size="small" onClick={() => actions.activate(cell.id)}>Edit</Button>}
+            {active && <Button size="small" onClick={() => (d.flush(), actions.activate(null))}>Done</Button>}
+            <Tooltip title="Move up"><span><Button size="small" disabled={index === 0} onClick={() => actions.move(cell.id, index - 1)} aria-label="Move up">↑</Button></span></Tooltip>
+            <Tooltip title="Move down"><span><Button size="small" disabled={index === count - 1} onClick={() => actions.move(cell.id, index + 1)} aria-label="Move down">↓</Button></span></Tooltip>
+            <AddCellMenu label="Add below" onAdd={(kind) => actions.add(index + 1, kind)} onImportCsv={() => actions.importCsv(index + 1)} />
+            <Button size="small" color="error" onClick={() => actions.remove(cell)}>Delete</Button>
+          </>
+        )}
+      </Stack>
+      {d.conflict && (
+        <Alert severity="warning" sx={{ mb: 1 }} action={<Stack direction="row" spacing={1}><Button size="small" onClick={() => d.resolve('mine')}>Keep mine</Button><Button size="small" onClick={() => d.resolve('theirs')}>Take theirs</Button></Stack>}>
+          {d.conflict.message}
+          {d.conflict.theirs && <SourceText text={sourceOf(cellBody(d.conflict.theirs)) || String(d.conflict.theirs.fields.text ?? '')} />}
+        </Alert>
+      )}
+      {d.state === 'failed' && !d.conflict && (
+        <Alert severity="error" sx={{ mb: 1 }} action={<Button size="small" onClick={d.retry}>Retry</Button>}>
+          Your change was not saved: {d.error?.message}. The text is kept here.
+        </Alert>
+      )}
+      {d.invalid && <Alert severity="error" sx={{ mb: 1 }}>{d.invalid}</Alert>}
+      {editing ? (
+        <Editor value={d.value} onChange={d.edit} errors={d.dirty ? [] : (r?.errors ?? [])} warnings={d.dirty ? [] : (r?.warnings ?? [])} scopeNames={() => actions.scopeBefore(index)} label={`Cell ${index + 1}`} {...keys} />
+      ) : (
+        <Box onClick={editable && Editor ? () => actions.activate(cell.id) : undefined} sx={{ cursor: editable && Editor ? 'text' : undefined }}>
+          {cell.kind === 'note' && <NoteText text={String(d.value.text ?? '')} />}
+          {cell.kind === 'table' && <TableView fields={d.value} />}
+          {cell.kind === 'figure' && <Typography variant="body2">{String(d.value.caption ?? '')}</Typography>}
+          {source && <SourceText text={source} />}
+        </Box>
+      )}
+      {editing && cell.kind === 'note' && <Box sx={{ mt: 1 }}><NoteText text={String(d.value.text ?? '')} /></Box>}
+      <Box sx={{ opacity: stale ? 0.55 : 1, transition: 'opacity 120ms', mt: 1 }} aria-busy={stale} data-testid="cell-results">
+        <CellResults kind={cell.kind} fields={cell.fields} result={r} />
+      </Box>
+    </Paper>
+  );
+}
+
+export const CellFrame = memo(CellFrameInner);

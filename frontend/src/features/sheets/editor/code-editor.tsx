@@ -1,0 +1,94 @@
+/** A CodeMirror 6 editor for one calc source, kept in step with React's value. */
+import { defaultKeymap, history, historyKeymap } from '@codemirror/commands';
+import { lintGutter, setDiagnostics } from '@codemirror/lint';
+import { EditorState, type Extension } from '@codemirror/state';
+import { EditorView, keymap, placeholder as cmPlaceholder } from '@codemirror/view';
+import { Box } from '@mui/material';
+import { useEffect, useRef } from 'react';
+import type { Diagnostic } from '@ampwright/common';
+import { monoFont, palette } from '../../../app/theme';
+import { calcCompletion, calcHighlighting, calcLanguage, toCmDiagnostics } from './calc-language';
+
+export interface EditorKeys {
+  /** Mod-Enter: save and evaluate now. */
+  onEvaluate?: () => void;
+  /** Alt-Enter: add a cell below. */
+  onAddBelow?: () => void;
+  /** Alt-ArrowUp / Alt-ArrowDown: to the previous or next cell. */
+  onPrevious?: () => void;
+  onNext?: () => void;
+}
+
+export interface CodeEditorProps extends EditorKeys {
+  value: string;
+  onChange: (value: string) => void;
+  label: string;
+  /** Server errors for this exact text (none while the text is being edited). */
+  errors?: Diagnostic[];
+  warnings?: Diagnostic[];
+  scopeNames?: () => { label: string; detail?: string }[];
+  autoFocus?: boolean;
+  singleLine?: boolean;
+  placeholder?: string;
+  readOnly?: boolean;
+}
+
+const theme = EditorView.theme({
+  '&': { fontSize: '13px', backgroundColor: palette.paper, border: `1px solid ${palette.rule}` },
+  '&.cm-focused': { outline: `2px solid ${palette.inkLight}` },
+  '.cm-content': { fontFamily: monoFont, padding: '6px 0' },
+  '.cm-gutters': { backgroundColor: palette.paper, borderRight: `1px solid ${palette.rule}` },
+  '.cm-tooltip-autocomplete ul li[aria-selected]': { backgroundColor: palette.ink },
+});
+
+export function CodeEditor(props: CodeEditorProps) {
+  const host = useRef<HTMLDivElement>(null);
+  const view = useRef<EditorView | null>(null);
+  const latest = useRef(props);
+  latest.current = props;
+
+  useEffect(() => {
+    const keys = keymap.of([
+      { key: 'Mod-Enter', run: () => (latest.current.onEvaluate?.(), true) },
+      { key: 'Alt-Enter', run: () => (latest.current.onAddBelow?.(), true) },
+      { key: 'Alt-ArrowUp', run: () => (latest.current.onPrevious?.(), true) },
+      { key: 'Alt-ArrowDown', run: () => (latest.current.onNext?.(), true) },
+      ...(latest.current.singleLine ? [{ key: 'Enter', run: () => (latest.current.onEvaluate?.(), true) }] : []),
+    ]);
+    const extensions: Extension[] = [
+      keys,
+      history(),
+      keymap.of([...defaultKeymap, ...historyKeymap]),
+      calcLanguage,
+      calcHighlighting,
+      calcCompletion(() => latest.current.scopeNames?.() ?? []),
+      lintGutter(),
+      theme,
+      EditorView.lineWrapping,
+      EditorView.contentAttributes.of({ 'aria-label': latest.current.label }),
+      EditorState.readOnly.of(!!latest.current.readOnly),
+      EditorView.updateListener.of((u) => {
+        if (u.docChanged) latest.current.onChange(u.state.doc.toString());
+      }),
+    ];
+    if (latest.current.placeholder) extensions.push(cmPlaceholder(latest.current.placeholder));
+    view.current = new EditorView({ parent: host.current!, state: EditorState.create({ doc: latest.current.value, extensions }) });
+    if (latest.current.autoFocus) view.current.focus();
+    return () => view.current?.destroy();
+  }, []);
+
+  // A value from outside (the other person's text taken, a restore) replaces the document.
+  useEffect(() => {
+    const v = view.current;
+    if (v && v.state.doc.toString() !== props.value) v.dispatch({ changes: { from: 0, to: v.state.doc.length, insert: props.value } });
+  }, [props.value]);
+
+  useEffect(() => {
+    const v = view.current;
+    if (!v) return;
+    const doc = v.state.doc;
+    v.dispatch(setDiagnostics(v.state, [...toCmDiagnostics(doc, props.errors ?? [], 'error'), ...toCmDiagnostics(doc, props.warnings ?? [], 'warning')]));
+  }, [props.errors, props.warnings]);
+
+  return <Box ref={host} data-testid="code-editor" sx={{ '& .cm-editor': { maxHeight: 480 } }} />;
+}

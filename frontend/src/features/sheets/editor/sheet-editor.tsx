@@ -1,0 +1,102 @@
+/**
+ * The sheet editor: an ordered column of cells, each saved and evaluated by the server as it is
+ * edited. Deleted cells can be restored; keyboard: Mod-Enter evaluates, Alt-Enter adds a cell below,
+ * Alt-Up / Alt-Down move between cells.
+ */
+import { Alert, Box, Button, Snackbar, Stack, Typography } from '@mui/material';
+import { useCallback, useMemo, useRef, useState } from 'react';
+import type { CellDto, SheetDto } from '@ampwright/common';
+import { cellBody, useCellChange } from '../api/sheet-editing';
+import { AddCellMenu, CellFrame, type CellActions } from './cell-frame';
+import { NEW_CELLS } from './cell-editors';
+
+function scopeOf(cells: CellDto[], position: number) {
+  const names = new Map<string, string>();
+  for (const c of cells.slice(0, position)) {
+    const values = c.results && 'values' in c.results ? (c.results.values as Record<string, { display: string }>) : {};
+    for (const [name, v] of Object.entries(values)) names.set(name, v.display);
+  }
+  return [...names.entries()].map(([label, detail]) => ({ label, detail: `= ${detail}` }));
+}
+
+export function SheetEditor({ sheet, editable }: { sheet: SheetDto; editable: boolean }) {
+  const change = useCellChange(sheet.id);
+  const [activeId, setActiveId] = useState<string | null>(null);
+  const [deleted, setDeleted] = useState<{ cell: CellDto; position: number }[]>([]);
+  const [notice, setNotice] = useState<string | null>(null);
+  const csvInput = useRef<HTMLInputElement>(null);
+  const csvPosition = useRef(0);
+  const cellsRef = useRef(sheet.cells);
+  cellsRef.current = sheet.cells;
+
+  const report = (err: Error) => setNotice(err.message);
+
+  const actions: CellActions = useMemo(
+    () => ({
+      activate: setActiveId,
+      neighbour: (id, step) => {
+        const cells = cellsRef.current;
+        const i = cells.findIndex((c) => c.id === id);
+        const next = cells[i + step];
+        if (next) {
+          setActiveId(next.id);
+          document.querySelector(`[data-cell-id="${next.id}"]`)?.scrollIntoView({ block: 'nearest' });
+        }
+      },
+      add: (position, kind) => {
+        const before = new Set(cellsRef.current.map((c) => c.id));
+        // Open the new cell (the one cell of the answer that was not there before) for editing.
+        change.mutate({ type: 'add', position, cell: NEW_CELLS[kind] ?? NEW_CELLS.calc }, { onSuccess: (result) => setActiveId(result.changed.find((c) => !before.has(c.id))?.id ?? null), onError: report });
+      },
+      importCsv: (position) => {
+        csvPosition.current = position;
+        csvInput.current?.click();
+      },
+      move: (id, position) => change.mutate({ type: 'move', cellId: id, position }, { onError: report }),
+      remove: (cell) => {
+        const position = cellsRef.current.findIndex((c) => c.id === cell.id);
+        change.mutate(
+          { type: 'delete', cellId: cell.id },
+          { onSuccess: () => (setDeleted((d) => [...d, { cell, position }]), setNotice(`Cell ${position + 1} deleted.`)), onError: report },
+        );
+      },
+      scopeBefore: (position) => scopeOf(cellsRef.current, position),
+    }),
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+    [sheet.id],
+  );
+
+  const restore = useCallback(() => {
+    const last = deleted[deleted.length - 1];
+    if (!last) return;
+    change.mutate(
+      { type: 'add', position: last.position, cell: cellBody(last.cell) },
+      { onSuccess: () => (setDeleted((d) => d.slice(0, -1)), setNotice(`Cell ${last.position + 1} restored.`)), onError: report },
+    );
+  }, [deleted, change]);
+
+  const onCsv = (e: React.ChangeEvent<HTMLInputElement>) => {
+    const file = e.target.files?.[0];
+    e.target.value = '';
+    if (!file) return;
+    change.mutate({ type: 'import-csv', position: csvPosition.current, file }, { onSuccess: () => setNotice(`${file.name} imported as a table.`), onError: report });
+  };
+
+  return (
+    <Stack spacing={2} data-testid="sheet-editor">
+      {sheet.cells.map((cell, i) => (
+        <CellFrame key={cell.id} sheetId={sheet.id} cell={cell} index={i} count={sheet.cells.length} active={activeId === cell.id} editable={editable} actions={actions} />
+      ))}
+      {sheet.cells.length === 0 && <Typography color="text.secondary">This sheet has no cells yet.</Typography>}
+      {change.isError && <Alert severity="error" onClose={() => change.reset()}>{change.error.message}</Alert>}
+      {editable && (
+        <Box component="nav" aria-label="Sheet tools" sx={{ display: 'flex', gap: 1, flexWrap: 'wrap' }}>
+          <AddCellMenu label="Add a cell at the end" onAdd={(kind) => actions.add(sheet.cells.length, kind)} onImportCsv={() => actions.importCsv(sheet.cells.length)} />
+          {deleted.length > 0 && <Button size="small" onClick={restore}>Restore the last deleted cell</Button>}
+          <input ref={csvInput} type="file" accept=".csv,text/csv" hidden onChange={onCsv} data-testid="csv-input" />
+        </Box>
+      )}
+      <Snackbar open={!!notice} autoHideDuration={6000} onClose={() => setNotice(null)} message={notice} action={deleted.length > 0 && notice?.endsWith('deleted.') ? <Button color="secondary" size="small" onClick={restore}>Undo</Button> : undefined} />
+    </Stack>
+  );
+}

@@ -1,0 +1,89 @@
+/**
+ * One cell's edit in progress: the draft the user is typing, saved 250 ms after typing stops (so the
+ * server's results arrive within about 300 ms), or at once on Mod-Enter. The draft is never thrown
+ * away by a failed save: it stays in the editor, the save is retried, and a conflict shows both texts.
+ */
+import { useCallback, useEffect, useRef, useState } from 'react';
+import { useBeforeUnload } from 'react-router-dom';
+import type { CellDto } from '@ampwright/common';
+import { cellSchema } from '@ampwright/common/sheet/sheet-format';
+import { cellBody, EditConflict, sameCell, useCellChange, type CellBody } from '../api/sheet-editing';
+
+export const SAVE_DELAY_MS = 250;
+
+export type SaveState = 'saved' | 'unsaved' | 'saving' | 'invalid' | 'failed' | 'conflict';
+
+export function useCellDraft(sheetId: string, cell: CellDto) {
+  const change = useCellChange(sheetId);
+  const server = cellBody(cell);
+  const [draft, setDraftState] = useState<CellBody | null>(null);
+  const [conflict, setConflict] = useState<EditConflict | null>(null);
+  const [invalid, setInvalid] = useState<string | null>(null);
+  const draftRef = useRef<CellBody | null>(null);
+  // The content the server holds (or will hold, once the queued saves are through) for this cell.
+  const base = useRef<CellBody>(server);
+  if (draft === null && !change.isPending && !sameCell(base.current, server)) base.current = server;
+  const timer = useRef<ReturnType<typeof setTimeout>>(undefined);
+
+  const setDraft = (body: CellBody | null) => {
+    draftRef.current = body;
+    setDraftState(body);
+  };
+
+  const flush = useCallback(() => {
+    clearTimeout(timer.current);
+    const body = draftRef.current;
+    if (!body || conflict) return;
+    const parsed = cellSchema.safeParse(body);
+    if (!parsed.success) {
+      setInvalid(parsed.error.issues.map((i) => i.message).join('; '));
+      return;
+    }
+    setInvalid(null);
+    if (sameCell(body, base.current)) {
+      setDraft(null);
+      return;
+    }
+    const from = base.current;
+    base.current = body;
+    change.mutate(
+      { type: 'update', cellId: cell.id, cell: body, base: from },
+      {
+        onSuccess: () => {
+          if (draftRef.current && sameCell(draftRef.current, body)) setDraft(null);
+        },
+        onError: (err) => {
+          base.current = from;
+          if (err instanceof EditConflict) setConflict(err);
+        },
+      },
+    );
+  }, [cell.id, change, conflict]);
+
+  const edit = useCallback(
+    (body: CellBody) => {
+      setDraft(body);
+      clearTimeout(timer.current);
+      timer.current = setTimeout(flush, SAVE_DELAY_MS);
+    },
+    [flush],
+  );
+
+  useEffect(() => () => clearTimeout(timer.current), []);
+  useBeforeUnload(useCallback((e) => {
+    if (draftRef.current) e.preventDefault();
+  }, []));
+
+  /** Settle a conflict: keep the user's text (saved over theirs) or take theirs. */
+  const resolve = (keep: 'mine' | 'theirs') => {
+    const theirs = conflict?.theirs;
+    setConflict(null);
+    change.reset();
+    if (theirs) base.current = cellBody(theirs);
+    if (keep === 'theirs') setDraft(null);
+    else setTimeout(flush, 0);
+  };
+
+  const state: SaveState = conflict ? 'conflict' : invalid ? 'invalid' : change.isPending ? 'saving' : change.isError ? 'failed' : draft ? 'unsaved' : 'saved';
+  return { value: draft ?? server, dirty: draft !== null, edit, flush, state, error: change.error, invalid, conflict, resolve, retry: flush };
+}
