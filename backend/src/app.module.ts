@@ -16,6 +16,8 @@ import { MembersModule } from './members/members.module';
 import { ProjectsModule } from './projects/projects.module';
 import { SheetsModule } from './sheets/sheets.module';
 import { AttachmentsModule } from './attachments/attachments.module';
+import { ReviewModule } from './review/review.module';
+import { NotificationsModule } from './notifications/notifications.module';
 import { TemplatesModule } from './templates/templates.module';
 import type { Environment } from './config/environment';
 import { AllExceptionsFilter } from './core/filters/all-exceptions.filter';
@@ -56,6 +58,8 @@ function staticFrontEnd(): DynamicModule[] {
     ProjectsModule,
     SheetsModule,
     AttachmentsModule,
+    ReviewModule,
+    NotificationsModule,
     TemplatesModule,
     MailModule,
     FilesModule,

@@ -11,3 +11,6 @@ export { csvToTableCell, type CsvTableResult } from './sheet/csv-table';
 export type { AttachmentDto, CellDto, ProjectDto, SaveResultDto, SheetDto, SheetState, SheetSummaryDto, TemplateSummaryDto } from './api/projects';
 export { MIN_PASSWORD_LENGTH } from './api/accounts';
 export { sweepChart, transientChart, calcFigures, type CalcFigure } from './plot/index';
+export type { QueryDto, QueryMessageDto, QueryStatus, RevisionSummaryDto, DiffDto, HistoryEventDto, NotificationDto } from './api/review';
+export { diffCells, type CellDiff, type SnapshotCell } from './review/diff';
+export { revisionCode, canonicalJson } from './review/revision-code';

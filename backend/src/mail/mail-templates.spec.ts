@@ -10,7 +10,7 @@ describe('mail templates', () => {
   });
 
   it('escapes HTML in values', () => {
-    const m = mailTemplates.checkRequested({ to: 'a@b.example', firm: 'F & <Co>', sheet: '<script>', preparer: 'P', url: 'http://x' });
+    const m = mailTemplates.sheetEvent({ to: 'a@b.example', firm: 'F & <Co>', subject: 'Check requested', sentence: 'P asks you to check <script>.', url: 'http://x' });
     expect(m.html).not.toContain('<script>');
     expect(m.html).toContain('F &amp; &lt;Co&gt;');
   });

@@ -41,10 +41,9 @@ export const mailTemplates = {
       ],
       { label: 'Choose a new password', url: p.url },
     ),
-  checkRequested: (p: { to: string; firm: string; sheet: string; preparer: string; url: string }) =>
-    compose(p.to, `Check requested: ${p.sheet}`, p.firm, [`${p.preparer} asks you to check the sheet "${p.sheet}".`], { label: 'Open the sheet', url: p.url }),
-  queryRaised: (p: { to: string; firm: string; sheet: string; checker: string; url: string }) =>
-    compose(p.to, `Query raised on ${p.sheet}`, p.firm, [`${p.checker} raised a query on the sheet "${p.sheet}".`], { label: 'See the query', url: p.url }),
+  /** A sheet's review event, to one person: what happened, in one sentence, with a link to the sheet. */
+  sheetEvent: (p: { to: string; firm: string; subject: string; sentence: string; url: string; action?: string }) =>
+    compose(p.to, p.subject, p.firm, [p.sentence], { label: p.action ?? 'Open the sheet', url: p.url }),
   revisionIssued: (p: { to: string; firm: string; sheet: string; revision: string; url: string }) =>
     compose(p.to, `Issued: ${p.sheet}, revision ${p.revision}`, p.firm, [`${p.firm} has issued revision ${p.revision} of "${p.sheet}".`], {
       label: 'Open the client portal',

@@ -22,12 +22,22 @@ export class ProjectsService {
       clientOrganisation: p.clientOrganisation,
       site: p.site,
       sheetCount: await this.em.count(Sheet, { project: p }),
+      openQueries: await this.openQueries(p),
       createdAt: p.createdAt.toISOString(),
       updatedAt: p.updatedAt.toISOString(),
     };
   }
 
   /** A project the caller may see: any of the firm's for a member, an invited one for a client; else 404. */
+  /** Queries not closed over the project's sheets, each for the revision it is being prepared as. */
+  private async openQueries(p: Project): Promise<number> {
+    const rows = await this.em.getConnection().execute<{ n: number }[]>(
+      'select count(*) as n from cell_query q join sheet s on s.id = q.sheet_id where s.project_id = ? and q.status <> ? and q.revision_number = s.revision_number',
+      [p.id, 'closed'],
+    );
+    return Number(rows[0]?.n ?? 0);
+  }
+
   async find(auth: AuthContext, id: string): Promise<Project> {
     const project = await this.em.findOne(Project, { id, firm: auth.session.firm });
     const visible = project && (!auth.roles.includes('client') || (await this.em.count(ProjectClient, { project, user: auth.session.user })) > 0);

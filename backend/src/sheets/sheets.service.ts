@@ -12,12 +12,17 @@ import { Sheet, type SheetState } from './entities/sheet.entity';
 import { sheetFromFile } from './sheet-file';
 import { isPlainText } from '../files/uploads';
 import { User } from '../users/entities/user.entity';
+import { AuditService } from '../audit/audit.service';
+import { CellQuery } from '../review/entities/cell-query.entity';
+import { revisionCode } from '@ampwright/common';
 
 export enum SheetErrorCode {
   NumberTaken = 'SHEET_NUMBER_TAKEN',
   StaleVersion = 'STALE_VERSION',
   ReadOnly = 'SHEET_READ_ONLY',
   BadCell = 'INVALID_CELL',
+  NotIndependent = 'NOT_INDEPENDENT',
+  HasRevisions = 'SHEET_HAS_REVISIONS',
 }
 
 const EDITABLE: SheetState[] = ['being-prepared', 'with-checker'];
@@ -34,7 +39,11 @@ const cellView = (c: Cell): CellView => ({
   results: (c.results as CellResult | undefined) ?? null,
   changedBy: c.changedBy?.name ?? null,
   changedAt: c.changedAt.toISOString(),
+  agreedBy: c.agreedBy?.name ?? null,
+  changedAfterAgreement: c.changedAfterAgreement,
 });
+
+const person = (u?: User) => (u ? { id: u.id, name: u.name } : null);
 
 function splitCell(cell: unknown): { kind: string; fields: Record<string, unknown> } {
   const parsed = cellSchema.safeParse(cell);
@@ -53,11 +62,12 @@ export class SheetsService {
     private readonly projects: ProjectsService,
     private readonly templates: TemplatesService,
     private readonly evaluation: EvaluationService,
+    private readonly audit: AuditService,
   ) {}
 
   /** A sheet of the caller's firm (members only); another firm's id is 404. */
   private async find(auth: AuthContext, id: string): Promise<Sheet> {
-    const sheet = await this.em.findOne(Sheet, { id, project: { firm: auth.session.firm } }, { populate: ['project', 'preparer'] });
+    const sheet = await this.em.findOne(Sheet, { id, project: { firm: auth.session.firm } }, { populate: ['project', 'preparer', 'checker', 'approver'] });
     if (!sheet) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
     return sheet;
   }
@@ -71,6 +81,9 @@ export class SheetsService {
   async findEditable(auth: AuthContext, id: string): Promise<Sheet> {
     const sheet = await this.find(auth, id);
     this.assertEditable(sheet);
+    if ((sheet.checker?.id === auth.session.user.id || sheet.approver?.id === auth.session.user.id) && sheet.preparer.id !== auth.session.user.id) {
+      throw new AppException(SheetErrorCode.NotIndependent, 'You are this sheet\'s checker or approver, so you do not edit it: raise a query for the preparer instead.', HttpStatus.FORBIDDEN);
+    }
     return sheet;
   }
 
@@ -81,7 +94,7 @@ export class SheetsService {
   }
 
   private async cells(sheet: Sheet): Promise<Cell[]> {
-    return this.em.find(Cell, { sheet }, { orderBy: { position: 'asc' }, populate: ['changedBy'] });
+    return this.em.find(Cell, { sheet }, { orderBy: { position: 'asc' }, populate: ['changedBy', 'agreedBy'] });
   }
 
   private async view(sheet: Sheet): Promise<SheetView> {
@@ -95,6 +108,11 @@ export class SheetsService {
       version: sheet.version,
       engineVersion: sheet.engineVersion ?? null,
       preparer: { id: sheet.preparer.id, name: sheet.preparer.name },
+      checker: person(sheet.checker),
+      approver: person(sheet.approver),
+      revisionNumber: sheet.revisionNumber,
+      revisionCode: revisionCode(sheet.revisionNumber),
+      openQueries: await this.em.count(CellQuery, { sheet, revisionNumber: sheet.revisionNumber, status: { $ne: 'closed' } }),
       cells: (await this.cells(sheet)).map(cellView),
     };
   }
@@ -106,7 +124,18 @@ export class SheetsService {
   async list(auth: AuthContext, projectId: string) {
     const project = await this.projects.find(auth, projectId);
     const sheets = await this.em.find(Sheet, { project }, { orderBy: { number: 'asc' }, populate: ['preparer'] });
-    return sheets.map((s) => ({ id: s.id, number: s.number, title: s.title, state: s.state, version: s.version, preparer: s.preparer.name, updatedAt: s.updatedAt.toISOString() }));
+    const open = await this.openQueryCounts(sheets);
+    return sheets.map((s) => ({ id: s.id, number: s.number, title: s.title, state: s.state, version: s.version, preparer: s.preparer.name, openQueries: open.get(s.id) ?? 0, updatedAt: s.updatedAt.toISOString() }));
+  }
+
+  /** Queries not closed, by sheet, for the revision each sheet is being prepared as. */
+  async openQueryCounts(sheets: Sheet[]): Promise<Map<string, number>> {
+    const counts = new Map<string, number>();
+    if (!sheets.length) return counts;
+    const rows = await this.em.find(CellQuery, { sheet: { $in: sheets.map((s) => s.id) }, status: { $ne: 'closed' } }, { fields: ['sheet', 'revisionNumber'] });
+    const current = new Map(sheets.map((s) => [s.id, s.revisionNumber]));
+    for (const q of rows) if (current.get(q.sheet.id) === q.revisionNumber) counts.set(q.sheet.id, (counts.get(q.sheet.id) ?? 0) + 1);
+    return counts;
   }
 
   async get(auth: AuthContext, id: string): Promise<SheetView> {
@@ -147,8 +176,8 @@ export class SheetsService {
   }
 
   async remove(auth: AuthContext, id: string): Promise<void> {
-    const sheet = await this.find(auth, id);
-    if (!EDITABLE.includes(sheet.state)) throw new AppException(SheetErrorCode.ReadOnly, 'An approved or issued sheet cannot be deleted.', HttpStatus.CONFLICT);
+    const sheet = await this.findEditable(auth, id);
+    if (sheet.revisionNumber > 1) throw new AppException(SheetErrorCode.HasRevisions, 'This sheet has issued revisions, which are kept for good; it cannot be deleted.', HttpStatus.CONFLICT);
     await this.em.remove(sheet).flush();
   }
 
@@ -241,17 +270,30 @@ export class SheetsService {
     return this.addCell(auth, id, { version: dto.version, position: dto.position, cell: parsed.cell as unknown as Record<string, unknown> });
   }
 
-  updateCell(auth: AuthContext, id: string, cellId: string, dto: UpdateCellDto): Promise<SaveResult> {
+  async updateCell(auth: AuthContext, id: string, cellId: string, dto: UpdateCellDto): Promise<SaveResult> {
     const { kind, fields } = splitCell(dto.cell);
-    return this.change(auth, id, dto.version, (_sheet, cells, em) => {
+    const withdrawn: string[] = [];
+    const result = await this.change(auth, id, dto.version, (_sheet, cells, em) => {
       const cell = cells.find((c) => c.id === cellId);
       if (!cell) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
+      const changed = cell.kind !== kind || JSON.stringify(cell.fields) !== JSON.stringify(fields);
       cell.kind = kind;
       cell.fields = fields;
       cell.changedBy = em.getReference(User, auth.session.user.id);
       cell.changedAt = new Date();
+      // An edit withdraws the checker's agreement, and marks the cell for the checker to look at again.
+      if (changed && cell.agreedBy) {
+        cell.agreedBy = undefined;
+        cell.agreedAt = undefined;
+        cell.changedAfterAgreement = true;
+        withdrawn.push(cell.id);
+      }
       return new Set([cell.id]);
     });
+    for (const cell of withdrawn) {
+      await this.audit.record('agreement-withdrawn', { firmId: auth.session.firm.id, userId: auth.session.user.id, subjectId: id, detail: { cell, reason: 'edited after the checker agreed it' } });
+    }
+    return result;
   }
 
   moveCell(auth: AuthContext, id: string, cellId: string, dto: MoveCellDto): Promise<SaveResult> {

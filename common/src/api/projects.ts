@@ -10,6 +10,8 @@ export interface ProjectDto {
   clientOrganisation: string;
   site: string;
   sheetCount: number;
+  /** Queries not yet closed, over the project's sheets. */
+  openQueries: number;
   createdAt: string;
   updatedAt: string;
 }
@@ -21,6 +23,7 @@ export interface SheetSummaryDto {
   state: SheetState;
   version: number;
   preparer: string;
+  openQueries: number;
   updatedAt: string;
 }
 
@@ -34,6 +37,10 @@ export interface CellDto {
   results: CellResult | null;
   changedBy: string | null;
   changedAt: string;
+  /** The checker's agreement with this cell, withdrawn when the cell is edited. */
+  agreedBy: string | null;
+  /** Edited after the checker agreed it: shown to the checker. */
+  changedAfterAgreement: boolean;
 }
 
 export interface SheetDto {
@@ -46,6 +53,12 @@ export interface SheetDto {
   version: number;
   engineVersion: string | null;
   preparer: { id: string; name: string };
+  checker: { id: string; name: string } | null;
+  approver: { id: string; name: string } | null;
+  /** The revision this sheet is being prepared as (its next issue), e.g. "A"; the last issued one once issued. */
+  revisionCode: string;
+  revisionNumber: number;
+  openQueries: number;
   cells: CellDto[];
 }
 

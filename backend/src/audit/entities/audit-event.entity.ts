@@ -3,7 +3,9 @@ import { Entity, Index, Opt, PrimaryKey, Property } from '@mikro-orm/core';
 
 export type AuditType =
   | 'sign-in' | 'sign-in-failed' | 'sign-out' | 'firm-registered' | 'role-changed' | 'member-removed'
-  | 'invitation-sent' | 'invitation-accepted' | 'password-reset-requested' | 'password-reset';
+  | 'invitation-sent' | 'invitation-accepted' | 'password-reset-requested' | 'password-reset'
+  | 'check-requested' | 'sheet-returned' | 'check-passed' | 'sheet-approved' | 'revision-issued' | 'revision-started'
+  | 'query-raised' | 'query-replied' | 'query-closed' | 'cell-agreed' | 'agreement-withdrawn';
 
 /** Who did what and when. Ids, not references, so the record outlives what it names. */
 @Entity({ tableName: 'audit_event' })
@@ -25,6 +27,10 @@ export class AuditEvent {
   @Property({ length: 254, nullable: true })
   email?: string;
 
+  /** What the event is about (a sheet's id), for that thing's history. */
+  @Property({ type: 'uuid', nullable: true, index: true })
+  subjectId?: string;
+
   @Property({ type: 'json', nullable: true })
   detail?: Record<string, unknown>;
 
@@ -35,7 +41,7 @@ export class AuditEvent {
   @Property({ type: 'datetime', length: 3 })
   createdAt: Date & Opt = new Date();
 
-  constructor(type: AuditType, fields: Partial<Pick<AuditEvent, 'firmId' | 'userId' | 'email' | 'detail' | 'ip'>> = {}) {
+  constructor(type: AuditType, fields: Partial<Pick<AuditEvent, 'firmId' | 'userId' | 'email' | 'detail' | 'ip' | 'subjectId'>> = {}) {
     this.type = type;
     Object.assign(this, fields);
   }

@@ -32,6 +32,17 @@ export class Cell {
   @Property({ type: 'datetime', length: 3 })
   changedAt: Date & Opt = new Date();
 
+  /** The checker who agreed this cell as it stands; cleared by an edit. */
+  @ManyToOne(() => User, { deleteRule: 'set null', nullable: true })
+  agreedBy?: User;
+
+  @Property({ type: 'datetime', length: 3, nullable: true })
+  agreedAt?: Date;
+
+  /** Edited after the checker agreed it, so the checker should look again. */
+  @Property({ type: 'boolean' })
+  changedAfterAgreement: boolean & Opt = false;
+
   constructor(sheet: Sheet, position: number, kind: string, fields: Record<string, unknown>, changedBy?: User) {
     this.sheet = sheet;
     this.position = position;

@@ -42,6 +42,19 @@ export class Sheet {
   @ManyToOne(() => User, { deleteRule: 'set null', nullable: true })
   approver?: User;
 
+  /** The revision being prepared (1 = A); raised when a new revision is started after an issue. */
+  @Property({ type: 'integer' })
+  revisionNumber: number & Opt = 1;
+
+  @Property({ type: 'datetime', length: 3, nullable: true })
+  checkRequestedAt?: Date;
+
+  @Property({ type: 'datetime', length: 3, nullable: true })
+  checkedAt?: Date;
+
+  @Property({ type: 'datetime', length: 3, nullable: true })
+  approvedAt?: Date;
+
   /** Raised by every saved change; a save based on an older version is refused (409). */
   @Property({ type: 'integer' })
   version: number & Opt = 1;

@@ -1,0 +1,44 @@
+/** The rules of who may act on a sheet under review; each refusal says why. */
+import { HttpStatus } from '@nestjs/common';
+import type { SheetState } from '@ampwright/common';
+import { AppException } from '../core/errors/app-exception';
+import type { AuthContext } from '../core/guards/auth.guard';
+import type { Sheet } from '../sheets/entities/sheet.entity';
+
+export enum ReviewErrorCode {
+  OutOfTurn = 'OUT_OF_TURN',
+  NotYours = 'NOT_ASSIGNED',
+  NotIndependent = 'NOT_INDEPENDENT',
+  OpenQueries = 'OPEN_QUERIES',
+  BadAssignee = 'BAD_ASSIGNEE',
+}
+
+export const STATE_WORDS: Record<SheetState, string> = {
+  'being-prepared': 'being prepared',
+  'with-checker': 'with the checker',
+  checked: 'checked',
+  approved: 'approved',
+  issued: 'issued',
+};
+
+export function requireState(sheet: Sheet, allowed: SheetState[], action: string): void {
+  if (!allowed.includes(sheet.state)) {
+    throw new AppException(ReviewErrorCode.OutOfTurn, `You cannot ${action}: the sheet is ${STATE_WORDS[sheet.state as SheetState]}, and this needs it ${allowed.map((s) => STATE_WORDS[s]).join(' or ')}.`, HttpStatus.CONFLICT);
+  }
+}
+
+export const isUser = (auth: AuthContext, user: { id: string } | undefined | null) => !!user && user.id === auth.session.user.id;
+
+export function requireChecker(auth: AuthContext, sheet: Sheet, action: string): void {
+  if (!isUser(auth, sheet.checker)) {
+    throw new AppException(ReviewErrorCode.NotYours, `Only the sheet's assigned checker${sheet.checker ? ` (${sheet.checker.name})` : ''} can ${action}.`, HttpStatus.FORBIDDEN);
+  }
+}
+
+export function requirePreparer(auth: AuthContext, sheet: Sheet, action: string): void {
+  if (!isUser(auth, sheet.preparer)) throw new AppException(ReviewErrorCode.NotYours, `Only the sheet's preparer (${sheet.preparer.name}) can ${action}.`, HttpStatus.FORBIDDEN);
+}
+
+export function requireNotPreparer(auth: AuthContext, sheet: Sheet, action: string): void {
+  if (isUser(auth, sheet.preparer)) throw new AppException(ReviewErrorCode.NotIndependent, `You prepared this sheet, so you cannot ${action}: checking and approval are done by someone else.`, HttpStatus.FORBIDDEN);
+}

@@ -1,0 +1,159 @@
+/**
+ * The life of a sheet: being prepared → with the checker → checked → approved → issued, and back from
+ * the checker to the preparer. Each move locks the sheet's row (SELECT … FOR UPDATE) and checks the
+ * state inside that lock, so of two people acting at once one wins and the other is told why.
+ */
+import { EntityManager, LockMode } from '@mikro-orm/core';
+import { HttpStatus, Injectable } from '@nestjs/common';
+import { AuditService } from '../audit/audit.service';
+import type { AuditType } from '../audit/entities/audit-event.entity';
+import { AppException } from '../core/errors/app-exception';
+import type { AuthContext } from '../core/guards/auth.guard';
+import type { Role } from '../core/roles';
+import { Membership } from '../firms/entities/membership.entity';
+import { NotificationsService, type NoticeTarget } from '../notifications/notifications.service';
+import { ProjectClient } from '../projects/entities/project.entity';
+import { Sheet } from '../sheets/entities/sheet.entity';
+import { SheetsService } from '../sheets/sheets.service';
+import { User } from '../users/entities/user.entity';
+import { mailTemplates } from '../mail/mail-templates';
+import type { NoteDto, RequestCheckDto } from './dto/review.dto';
+import { CellQuery } from './entities/cell-query.entity';
+import { Revision } from './entities/revision.entity';
+import { isUser, requireChecker, requireNotPreparer, requirePreparer, requireState, ReviewErrorCode } from './review-access';
+import { RevisionsService } from './revisions.service';
+
+@Injectable()
+export class WorkflowService {
+  constructor(
+    private readonly em: EntityManager,
+    private readonly sheets: SheetsService,
+    private readonly revisions: RevisionsService,
+    private readonly notifications: NotificationsService,
+    private readonly audit: AuditService,
+  ) {}
+
+  /** Runs `act` on the sheet locked for update, then records the event and tells people. */
+  private async locked<T>(auth: AuthContext, id: string, act: (sheet: Sheet, em: EntityManager) => Promise<T>): Promise<{ sheet: Sheet; out: T }> {
+    await this.sheets.findReadable(auth, id);
+    let sheet!: Sheet;
+    let out!: T;
+    await this.em.transactional(async (em) => {
+      sheet = await em.findOneOrFail(Sheet, { id }, { lockMode: LockMode.PESSIMISTIC_WRITE });
+      await em.populate(sheet, ['preparer', 'checker', 'approver', 'project', 'project.firm']);
+      out = await act(sheet, em);
+      sheet.version += 1;
+      await em.flush();
+    });
+    this.em.clear();
+    return { sheet, out };
+  }
+
+  private async member(auth: AuthContext, userId: string, role: Role, what: string): Promise<User> {
+    const m = await this.em.findOne(Membership, { firm: auth.session.firm, user: userId }, { populate: ['user'] });
+    if (!m || !m.roles.includes(role)) throw new AppException(ReviewErrorCode.BadAssignee, `The ${what} must be a member of the firm with the ${role} role.`, HttpStatus.BAD_REQUEST, [{ field: `${what}Id`, message: `not a ${role} of the firm` }]);
+    return m.user;
+  }
+
+  private link(sheet: Sheet) {
+    return `/projects/${sheet.project.id}/sheets/${sheet.id}`;
+  }
+
+  private async record(auth: AuthContext, type: AuditType, sheet: Sheet, detail: Record<string, unknown> = {}) {
+    await this.audit.record(type, { firmId: auth.session.firm.id, userId: auth.session.user.id, subjectId: sheet.id, detail: { sheet: sheet.number, ...detail } });
+  }
+
+  private tell(sheet: Sheet, targets: (User | undefined)[], kind: string, subject: string, text: string) {
+    return this.notifications.notify(targets.filter((u): u is User => !!u).map((user) => ({ user })), { kind, subject, text, link: this.link(sheet), firm: sheet.project.firm.name });
+  }
+
+  async requestCheck(auth: AuthContext, id: string, dto: RequestCheckDto) {
+    const { sheet } = await this.locked(auth, id, async (s) => {
+      requireState(s, ['being-prepared'], 'ask for a check');
+      requirePreparer(auth, s, 'ask for a check');
+      if (dto.checkerId === s.preparer.id) throw new AppException(ReviewErrorCode.NotIndependent, 'The checker cannot be the sheet\'s preparer: choose someone else to check it.', HttpStatus.BAD_REQUEST, [{ field: 'checkerId', message: 'the preparer cannot check their own sheet' }]);
+      if (dto.approverId === s.preparer.id) throw new AppException(ReviewErrorCode.NotIndependent, 'The approver cannot be the sheet\'s preparer.', HttpStatus.BAD_REQUEST, [{ field: 'approverId', message: 'the preparer cannot approve their own sheet' }]);
+      s.checker = await this.member(auth, dto.checkerId, 'checker', 'checker');
+      if (dto.approverId) s.approver = await this.member(auth, dto.approverId, 'approver', 'approver');
+      s.state = 'with-checker';
+      s.checkRequestedAt = new Date();
+      s.checkedAt = undefined;
+    });
+    await this.record(auth, 'check-requested', sheet, { checker: sheet.checker!.name });
+    await this.tell(sheet, [sheet.checker], 'check-requested', `Check requested: ${sheet.number}`, `${auth.session.user.name} asks you to check sheet ${sheet.number} "${sheet.title}".`);
+    return this.sheets.get(auth, id);
+  }
+
+  async returnToPreparer(auth: AuthContext, id: string, dto: NoteDto) {
+    const { sheet } = await this.locked(auth, id, async (s) => {
+      requireState(s, ['with-checker'], 'return the sheet');
+      requireChecker(auth, s, 'return the sheet');
+      s.state = 'being-prepared';
+    });
+    await this.record(auth, 'sheet-returned', sheet, { note: dto.note ?? null });
+    await this.tell(sheet, [sheet.preparer], 'sheet-returned', `Returned: ${sheet.number}`, `${auth.session.user.name} returned sheet ${sheet.number} to you${dto.note ? `: ${dto.note}` : '.'}`);
+    return this.sheets.get(auth, id);
+  }
+
+  async passCheck(auth: AuthContext, id: string) {
+    const { sheet } = await this.locked(auth, id, async (s, em) => {
+      requireState(s, ['with-checker'], 'pass the check');
+      requireChecker(auth, s, 'pass the check');
+      const open = await em.count(CellQuery, { sheet: s, revisionNumber: s.revisionNumber, status: { $ne: 'closed' } });
+      if (open) throw new AppException(ReviewErrorCode.OpenQueries, `The check cannot pass while ${open} ${open === 1 ? 'query is' : 'queries are'} not closed.`, HttpStatus.CONFLICT);
+      s.state = 'checked';
+      s.checkedAt = new Date();
+    });
+    await this.record(auth, 'check-passed', sheet);
+    await this.tell(sheet, [sheet.preparer, sheet.approver], 'check-passed', `Check passed: ${sheet.number}`, `${auth.session.user.name} passed the check of sheet ${sheet.number} "${sheet.title}".`);
+    return this.sheets.get(auth, id);
+  }
+
+  async approve(auth: AuthContext, id: string) {
+    const { sheet } = await this.locked(auth, id, async (s) => {
+      requireState(s, ['checked'], 'approve the sheet');
+      requireNotPreparer(auth, s, 'approve it');
+      if (s.approver && !isUser(auth, s.approver)) throw new AppException(ReviewErrorCode.NotYours, `The sheet is to be approved by ${s.approver.name}.`, HttpStatus.FORBIDDEN);
+      s.approver = this.em.getReference(User, auth.session.user.id);
+      s.state = 'approved';
+      s.approvedAt = new Date();
+    });
+    await this.record(auth, 'sheet-approved', sheet);
+    await this.tell(sheet, [sheet.preparer], 'sheet-approved', `Approved: ${sheet.number}`, `${auth.session.user.name} approved sheet ${sheet.number} "${sheet.title}".`);
+    return this.sheets.get(auth, id);
+  }
+
+  /** Freezes the sheet as the next revision: an immutable snapshot with its SHA-256. */
+  async issue(auth: AuthContext, id: string) {
+    const { sheet, out: revision } = await this.locked(auth, id, async (s, em) => {
+      requireState(s, ['approved'], 'issue a revision');
+      requireNotPreparer(auth, s, 'issue it');
+      if (!isUser(auth, s.approver)) throw new AppException(ReviewErrorCode.NotYours, `Only the approver${s.approver ? ` (${s.approver.name})` : ''} can issue the sheet.`, HttpStatus.FORBIDDEN);
+      const revision = await this.revisions.freeze(em, s);
+      s.state = 'issued';
+      return revision;
+    });
+    await this.record(auth, 'revision-issued', sheet, { revision: revision.code, sha256: revision.snapshotSha256 });
+    await this.tell(sheet, [sheet.approver, sheet.preparer, sheet.checker], 'revision-issued', `Issued: ${sheet.number} revision ${revision.code}`, `Sheet ${sheet.number} "${sheet.title}" was issued as revision ${revision.code}.`);
+    const clients = await this.em.find(ProjectClient, { project: sheet.project.id }, { populate: ['user'] });
+    const firm = sheet.project.firm.name;
+    const targets: NoticeTarget[] = clients.map((c) => ({ user: c.user, mail: mailTemplates.revisionIssued({ to: c.user.email, firm, sheet: `${sheet.number} ${sheet.title}`, revision: revision.code, url: this.notifications.url('/portal') }) }));
+    await this.notifications.notify(targets, { kind: 'revision-issued', subject: `Issued: ${sheet.number} revision ${revision.code}`, text: `${firm} issued revision ${revision.code} of sheet ${sheet.number} "${sheet.title}".`, link: '/portal', firm });
+    return this.revisions.summary(revision.id);
+  }
+
+  /** A new draft after an issue: the cells as in the last issued snapshot, the next revision number. */
+  async startRevision(auth: AuthContext, id: string) {
+    const { sheet } = await this.locked(auth, id, async (s, em) => {
+      requireState(s, ['issued'], 'start a new revision');
+      const last = await em.findOneOrFail(Revision, { sheet: s }, { orderBy: { number: 'desc' } });
+      await this.revisions.restoreCells(em, last, s, em.getReference(User, auth.session.user.id));
+      s.revisionNumber = last.number + 1;
+      s.state = 'being-prepared';
+      s.preparer = em.getReference(User, auth.session.user.id);
+      s.checkRequestedAt = s.checkedAt = s.approvedAt = undefined;
+    });
+    await this.record(auth, 'revision-started', sheet, { revisionNumber: sheet.revisionNumber });
+    return this.sheets.get(auth, id);
+  }
+}
