@@ -7,6 +7,8 @@ import { PortalPage } from '../routes/portal';
 import { ProjectPage } from '../routes/project';
 import { ProjectsPage } from '../routes/projects';
 import { SheetPage } from '../routes/sheet';
+import { SheetHistoryPage } from '../routes/sheet-history';
+import { NotificationsPage } from '../routes/notifications';
 import { SignInPage } from '../routes/sign-in';
 import { VerifyPage } from '../routes/verify';
 import { AcceptInvitationPage } from '../routes/accept-invitation';
@@ -39,6 +41,8 @@ export const routes: RouteObject[] = [
       { path: 'projects', element: <RequireAuth roles={MEMBERS}><ProjectsPage /></RequireAuth> },
       { path: 'projects/:projectId', element: <RequireAuth roles={MEMBERS}><ProjectPage /></RequireAuth> },
       { path: 'projects/:projectId/sheets/:sheetId', element: <RequireAuth roles={MEMBERS}><SheetPage /></RequireAuth> },
+      { path: 'projects/:projectId/sheets/:sheetId/history', element: <RequireAuth roles={MEMBERS}><SheetHistoryPage /></RequireAuth> },
+      { path: 'notifications', element: <RequireAuth><NotificationsPage /></RequireAuth> },
       { path: 'portal', element: <RequireAuth><PortalPage /></RequireAuth> },
       { path: 'verify', element: <VerifyPage /> },
       { path: '*', element: <NotFoundPage /> },

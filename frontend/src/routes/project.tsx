@@ -52,6 +52,7 @@ export function ProjectPage() {
               <TableCell>Title</TableCell>
               <TableCell>State</TableCell>
               <TableCell>Prepared by</TableCell>
+              <TableCell>Open queries</TableCell>
             </TableRow>
           </TableHead>
           <TableBody>
@@ -61,9 +62,10 @@ export function ProjectPage() {
                 <TableCell>{s.title}</TableCell>
                 <TableCell><Chip size="small" label={STATE_LABELS[s.state]} /></TableCell>
                 <TableCell>{s.preparer}</TableCell>
+                <TableCell>{s.openQueries ? <Chip size="small" color="warning" label={s.openQueries} /> : '—'}</TableCell>
               </TableRow>
             ))}
-            {sheets.isSuccess && sheets.data.length === 0 && <TableRow><TableCell colSpan={4}>No sheets yet.</TableCell></TableRow>}
+            {sheets.isSuccess && sheets.data.length === 0 && <TableRow><TableCell colSpan={5}>No sheets yet.</TableCell></TableRow>}
           </TableBody>
         </Table>
       </Paper>

@@ -64,6 +64,7 @@ export function ProjectsPage() {
               {header('title', 'Title')}
               {header('clientOrganisation', 'Client')}
               <TableCell>Sheets</TableCell>
+              <TableCell>Open queries</TableCell>
               {header('updatedAt', 'Updated')}
             </TableRow>
           </TableHead>
@@ -74,11 +75,12 @@ export function ProjectsPage() {
                 <TableCell>{p.title}</TableCell>
                 <TableCell>{p.clientOrganisation}</TableCell>
                 <TableCell>{p.sheetCount}</TableCell>
+                <TableCell data-testid="project-open-queries">{p.openQueries || '—'}</TableCell>
                 <TableCell>{new Date(p.updatedAt).toLocaleDateString()}</TableCell>
               </TableRow>
             ))}
             {projects.isSuccess && rows.length === 0 && (
-              <TableRow><TableCell colSpan={5}>{filter ? 'No project matches the filter.' : 'No projects yet.'}</TableCell></TableRow>
+              <TableRow><TableCell colSpan={6}>{filter ? 'No project matches the filter.' : 'No projects yet.'}</TableCell></TableRow>
             )}
           </TableBody>
         </Table>

@@ -1,36 +1,55 @@
-import { Alert, Button, Chip, CircularProgress, Stack, Typography } from '@mui/material';
+import { Alert, Button, CircularProgress, FormControlLabel, Stack, Switch, Typography } from '@mui/material';
+import { useMemo, useState } from 'react';
 import { useParams } from 'react-router-dom';
 import { CautionNotice } from '../components/layout/caution-notice';
 import { PageHeading } from '../components/layout/page-heading';
 import { useMe } from '../features/auth/api/get-me';
+import { useQueries } from '../features/review/api/review';
+import type { ReviewContext } from '../features/review/components/cell-review';
+import { WorkflowBar } from '../features/review/components/workflow-bar';
 import { STATE_LABELS, useSheet } from '../features/sheets/api/sheets';
-import { SheetEditor } from '../features/sheets/editor/sheet-editor';
 import { AttachmentsPanel } from '../features/sheets/components/attachments-panel';
+import { SheetEditor } from '../features/sheets/editor/sheet-editor';
 
 const EDITABLE_STATES = ['being-prepared', 'with-checker'];
 
-/** A sheet: its cells, edited and evaluated in place by those who may, read-only for everyone else. */
+/**
+ * A sheet: its review bar, then its cells, edited and evaluated in place by those who may (the
+ * preparer's side), read-only for everyone else; the checker sees each cell's queries beside it.
+ */
 export function SheetPage() {
   const { sheetId = '' } = useParams();
   const { data: me } = useMe();
   const sheet = useSheet(sheetId);
+  const queries = useQueries(sheetId);
+  const [openOnly, setOpenOnly] = useState(false);
+  const s = sheet.data;
+  const uid = me?.user.id;
+  const review: ReviewContext = useMemo(
+    () => ({ sheetId, checking: !!s && s.state === 'with-checker' && s.checker?.id === uid, answering: !!s && EDITABLE_STATES.includes(s.state) && s.preparer.id === uid }),
+    [sheetId, s, uid],
+  );
   if (sheet.isPending) return <CircularProgress aria-label="Loading" />;
   if (sheet.isError) return <Alert severity="error">{sheet.error.message}</Alert>;
-  const s = sheet.data;
-  const mayEdit = !!me?.roles.some((r) => r === 'owner' || r === 'engineer');
-  const editable = mayEdit && EDITABLE_STATES.includes(s.state);
+  if (!s || !me) return null;
+  const mayEdit = me.roles.some((r) => r === 'owner' || r === 'engineer');
+  const reviewing = (s.checker?.id === uid || s.approver?.id === uid) && s.preparer.id !== uid;
+  const editable = mayEdit && EDITABLE_STATES.includes(s.state) && !reviewing;
   return (
     <Stack spacing={2}>
       <PageHeading overline={`Sheet ${s.number}`}>{s.title}</PageHeading>
+      <WorkflowBar sheet={s} me={me} />
       <Stack direction="row" spacing={1} sx={{ alignItems: 'center', flexWrap: 'wrap' }}>
-        <Chip size="small" label={STATE_LABELS[s.state]} />
-        <Typography variant="body2" color="text.secondary">Prepared by {s.preparer.name} · version {s.version}{s.engineVersion ? ` · engine ${s.engineVersion}` : ''}</Typography>
+        <Typography variant="body2" color="text.secondary">Version {s.version}{s.engineVersion ? ` · engine ${s.engineVersion}` : ''}</Typography>
         <Button size="small" href={`/api/sheets/${s.id}/export`} download={`${s.number}.json`}>Export as a sheet file</Button>
+        <FormControlLabel control={<Switch size="small" checked={openOnly} onChange={(e) => setOpenOnly(e.target.checked)} />} label="Only cells with open queries" />
       </Stack>
-      {mayEdit && !editable && <Alert severity="info">This sheet is {STATE_LABELS[s.state].toLowerCase()} and can no longer be edited.</Alert>}
+      {mayEdit && !editable && !reviewing && <Alert severity="info">This sheet is {STATE_LABELS[s.state].toLowerCase()} and can no longer be edited.</Alert>}
+      {reviewing && EDITABLE_STATES.includes(s.state) && <Alert severity="info">You review this sheet, so you do not edit it: raise queries on its cells for the preparer.</Alert>}
       {editable && <Typography variant="caption" color="text.secondary">Changes are saved and evaluated as you type. Keys: Ctrl+Enter evaluates now, Alt+Enter adds a cell below, Alt+↑ and Alt+↓ move between cells.</Typography>}
       <CautionNotice />
-      <SheetEditor sheet={s} editable={editable} />
+      {queries.isError && <Alert severity="error">The queries could not be loaded: {queries.error.message}</Alert>}
+      <SheetEditor sheet={s} editable={editable} queries={queries.data ?? []} review={review} openOnly={openOnly} />
       <AttachmentsPanel sheetId={s.id} editable={editable} />
     </Stack>
   );

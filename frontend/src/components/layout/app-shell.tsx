@@ -4,6 +4,7 @@ import { useSignOut } from '../../features/auth/api/auth-mutations';
 import { isMember, useMe } from '../../features/auth/api/get-me';
 import { ROLE_LABELS } from '../../features/members/api/members';
 import { useHealth } from '../../features/health/api/get-health';
+import { useNotifications } from '../../features/review/api/review';
 import { palette } from '../../app/theme';
 
 const NAV = [
@@ -27,6 +28,7 @@ function Account() {
   }
   return (
     <Stack direction="row" spacing={1} sx={{ alignItems: "center" }} data-testid="account">
+      <Unread />
       <Box sx={{ textAlign: 'right', lineHeight: 1.1 }}>
         <Typography component={NavLink} to="/profile" variant="body2" sx={{ color: '#fff', textDecoration: 'none', fontWeight: 600, display: 'block' }}>{me.user.name}</Typography>
         <Typography variant="caption" sx={{ color: 'rgba(255,255,255,0.75)' }} data-testid="firm-and-roles">
@@ -37,6 +39,17 @@ function Account() {
         Sign out
       </Button>
     </Stack>
+  );
+}
+
+/** The count of unread notifications, linking to them. */
+function Unread() {
+  const { data } = useNotifications(true);
+  const unread = data?.filter((n) => !n.readAt).length ?? 0;
+  return (
+    <Button component={NavLink} to="/notifications" size="small" color="inherit" aria-label={`Notifications: ${unread} unread`} sx={{ color: '#fff' }}>
+      Notices{unread ? <Chip size="small" label={unread} sx={{ ml: 0.75, height: 18, bgcolor: palette.copper, color: '#fff' }} /> : null}
+    </Button>
   );
 }
 

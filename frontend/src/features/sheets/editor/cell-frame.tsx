@@ -1,7 +1,8 @@
 /** One cell on the sheet: its header with the save state and tools, its editor or source, and its results. */
 import { Alert, Box, Button, Chip, Menu, MenuItem, Paper, Stack, Tooltip, Typography } from '@mui/material';
 import { memo, useState } from 'react';
-import type { CellDto } from '@ampwright/common';
+import type { CellDto, QueryDto } from '@ampwright/common';
+import { CellReview, type ReviewContext } from '../../review/components/cell-review';
 import { palette } from '../../../app/theme';
 import { CellResults, KIND_LABELS, NoteText, SourceText, TableView } from '../components/cell-results';
 import { cellBody, type CellBody } from '../api/sheet-editing';
@@ -35,6 +36,8 @@ interface CellFrameProps {
   active: boolean;
   editable: boolean;
   actions: CellActions;
+  queries: QueryDto[];
+  review: ReviewContext;
 }
 
 function sourceOf(value: CellBody): string {
@@ -60,7 +63,7 @@ export function AddCellMenu({ onAdd, onImportCsv, label = 'Add a cell' }: { onAd
   );
 }
 
-function CellFrameInner({ sheetId, cell, index, count, active, editable, actions }: CellFrameProps) {
+function CellFrameInner({ sheetId, cell, index, count, active, editable, actions, queries, review }: CellFrameProps) {
   const d = useCellDraft(sheetId, cell);
   const r = cell.results;
   const Editor = KIND_EDITORS[cell.kind];
@@ -88,7 +91,7 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
       aria-label={`Cell ${index + 1}: ${KIND_LABELS[cell.kind] ?? cell.kind}`}
       data-cell-id={cell.id}
       onKeyDown={onKeyDown}
-      sx={{ p: 2, borderLeft: `3px solid ${failed || checkFailed ? palette.fail : cell.kind === 'check' ? palette.copper : palette.ink}`, outline: active ? `1px solid ${palette.inkLight}` : undefined, contentVisibility: active ? undefined : 'auto', containIntrinsicSize: 'auto 160px' }}
+      sx={{ p: 2, borderLeft: `3px solid ${failed || checkFailed ? palette.fail : cell.kind === 'check' ? palette.copper : palette.ink}`, ...(cell.changedAfterAgreement && review.checking ? { bgcolor: '#fff6e5' } : {}), outline: active ? `1px solid ${palette.inkLight}` : undefined, contentVisibility: active ? undefined : 'auto', containIntrinsicSize: 'auto 160px' }}
     >
       <Stack direction="row" spacing={1} sx={{ alignItems: 'center', mb: 1, flexWrap: 'wrap' }}>
         <Typography variant="overline" color="text.secondary">{index + 1} · {KIND_LABELS[cell.kind] ?? cell.kind}</Typography>
@@ -131,6 +134,7 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
       <Box sx={{ opacity: stale ? 0.55 : 1, transition: 'opacity 120ms', mt: 1 }} aria-busy={stale} data-testid="cell-results">
         <CellResults kind={cell.kind} fields={cell.fields} result={r} />
       </Box>
+      <CellReview cell={cell} queries={queries} ctx={review} />
     </Paper>
   );
 }

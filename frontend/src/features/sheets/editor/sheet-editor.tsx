@@ -5,7 +5,8 @@
  */
 import { Alert, Box, Button, Snackbar, Stack, Typography } from '@mui/material';
 import { useCallback, useMemo, useRef, useState } from 'react';
-import type { CellDto, SheetDto } from '@ampwright/common';
+import type { CellDto, QueryDto, SheetDto } from '@ampwright/common';
+import type { ReviewContext } from '../../review/components/cell-review';
 import { cellBody, useCellChange } from '../api/sheet-editing';
 import { AddCellMenu, CellFrame, type CellActions } from './cell-frame';
 import { NEW_CELLS } from './cell-editors';
@@ -19,7 +20,15 @@ function scopeOf(cells: CellDto[], position: number) {
   return [...names.entries()].map(([label, detail]) => ({ label, detail: `= ${detail}` }));
 }
 
-export function SheetEditor({ sheet, editable }: { sheet: SheetDto; editable: boolean }) {
+const NO_QUERIES: QueryDto[] = [];
+
+export function SheetEditor({ sheet, editable, queries, review, openOnly = false }: { sheet: SheetDto; editable: boolean; queries: QueryDto[]; review: ReviewContext; openOnly?: boolean }) {
+  const byCell = useMemo(() => {
+    const m = new Map<string, QueryDto[]>();
+    for (const q of queries) if (q.cellId) m.set(q.cellId, [...(m.get(q.cellId) ?? []), q]);
+    return m;
+  }, [queries]);
+  const shown = openOnly ? sheet.cells.filter((c) => byCell.get(c.id)?.some((q) => q.status !== 'closed')) : sheet.cells;
   const change = useCellChange(sheet.id);
   const [activeId, setActiveId] = useState<string | null>(null);
   const [deleted, setDeleted] = useState<{ cell: CellDto; position: number }[]>([]);
@@ -84,9 +93,10 @@ export function SheetEditor({ sheet, editable }: { sheet: SheetDto; editable: bo
 
   return (
     <Stack spacing={2} data-testid="sheet-editor">
-      {sheet.cells.map((cell, i) => (
-        <CellFrame key={cell.id} sheetId={sheet.id} cell={cell} index={i} count={sheet.cells.length} active={activeId === cell.id} editable={editable} actions={actions} />
+      {shown.map((cell) => (
+        <CellFrame key={cell.id} sheetId={sheet.id} cell={cell} index={cell.position} count={sheet.cells.length} active={activeId === cell.id} editable={editable} actions={actions} queries={byCell.get(cell.id) ?? NO_QUERIES} review={review} />
       ))}
+      {openOnly && shown.length === 0 && <Typography color="text.secondary">No cell has an open query.</Typography>}
       {sheet.cells.length === 0 && <Typography color="text.secondary">This sheet has no cells yet.</Typography>}
       {change.isError && <Alert severity="error" onClose={() => change.reset()}>{change.error.message}</Alert>}
       {editable && (

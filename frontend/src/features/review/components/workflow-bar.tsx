@@ -1,0 +1,81 @@
+/** Where the sheet is in its review, and the next step for whoever may take it. */
+import { Alert, Box, Button, Chip, MenuItem, Paper, Stack, TextField, Typography } from '@mui/material';
+import { useState } from 'react';
+import { Link } from 'react-router-dom';
+import type { SheetDto } from '@ampwright/common';
+import type { Me } from '../../auth/api/get-me';
+import { useMembers } from '../../members/api/members';
+import { STATE_LABELS } from '../../sheets/api/sheets';
+import { useRequestCheck, useSheetAction, type SheetAction } from '../api/review';
+
+function RequestCheck({ sheet, onDone }: { sheet: SheetDto; onDone: () => void }) {
+  const members = useMembers();
+  const request = useRequestCheck(sheet.id);
+  const [checkerId, setChecker] = useState(sheet.checker?.id ?? '');
+  const [approverId, setApprover] = useState(sheet.approver?.id ?? '');
+  const others = (members.data ?? []).filter((m) => m.user.id !== sheet.preparer.id);
+  const checkers = others.filter((m) => m.roles.includes('checker'));
+  const approvers = others.filter((m) => m.roles.includes('approver'));
+  const fieldError = (f: string) => request.error && 'details' in request.error ? (request.error as { details: { field?: string; message: string }[] }).details.find((d) => d.field === f)?.message : undefined;
+  return (
+    <Stack direction={{ xs: 'column', sm: 'row' }} spacing={1.5} sx={{ alignItems: { sm: 'flex-start' }, mt: 1 }} component="form" onSubmit={(e) => (e.preventDefault(), request.mutate({ checkerId, ...(approverId ? { approverId } : {}) }, { onSuccess: onDone }))}>
+      <TextField select size="small" label="Checker" value={checkerId} onChange={(e) => setChecker(e.target.value)} sx={{ minWidth: 220 }} required error={!!fieldError('checkerId')} helperText={fieldError('checkerId') ?? 'Not the preparer'}>
+        {checkers.map((m) => <MenuItem key={m.user.id} value={m.user.id}>{m.user.name}</MenuItem>)}
+      </TextField>
+      <TextField select size="small" label="Approver (optional)" value={approverId} onChange={(e) => setApprover(e.target.value)} sx={{ minWidth: 220 }} helperText={fieldError('approverId') ?? 'Any approver if left empty'}>
+        <MenuItem value="">Any approver</MenuItem>
+        {approvers.map((m) => <MenuItem key={m.user.id} value={m.user.id}>{m.user.name}</MenuItem>)}
+      </TextField>
+      <Button type="submit" variant="contained" disabled={!checkerId || request.isPending}>Send for checking</Button>
+      <Button onClick={onDone}>Cancel</Button>
+      {request.isError && !fieldError('checkerId') && <Alert severity="error">{request.error.message}</Alert>}
+    </Stack>
+  );
+}
+
+export function WorkflowBar({ sheet, me }: { sheet: SheetDto; me: Me }) {
+  const action = useSheetAction(sheet.id);
+  const [asking, setAsking] = useState(false);
+  const [returning, setReturning] = useState(false);
+  const [note, setNote] = useState('');
+  const uid = me.user.id;
+  const has = (r: string) => me.roles.includes(r as never);
+  const isPreparer = sheet.preparer.id === uid;
+  const isChecker = sheet.checker?.id === uid;
+  const mayApprove = has('approver') && !isPreparer && (!sheet.approver || sheet.approver.id === uid);
+  const act = (a: SheetAction, n?: string) => action.mutate({ action: a, note: n });
+  const issued = sheet.state === 'issued';
+  return (
+    <Paper component="section" aria-label="Review" sx={{ p: 1.5 }}>
+      <Stack direction="row" spacing={1} sx={{ alignItems: 'center', flexWrap: 'wrap', rowGap: 1 }}>
+        <Chip label={STATE_LABELS[sheet.state]} color={issued ? 'success' : sheet.state === 'with-checker' ? 'secondary' : 'default'} data-testid="sheet-state" />
+        <Typography variant="body2">Revision {sheet.revisionCode}{issued ? '' : ' (draft)'}</Typography>
+        <Typography variant="body2" color="text.secondary">
+          Prepared by {sheet.preparer.name}{sheet.checker ? ` · checker ${sheet.checker.name}` : ''}{sheet.approver ? ` · approver ${sheet.approver.name}` : ''}
+        </Typography>
+        {sheet.openQueries > 0 && <Chip size="small" color="warning" label={`${sheet.openQueries} open ${sheet.openQueries === 1 ? 'query' : 'queries'}`} data-testid="open-queries" />}
+        <Box sx={{ flex: 1 }} />
+        <Button size="small" component={Link} to="history">History and revisions</Button>
+        {sheet.state === 'being-prepared' && isPreparer && !asking && <Button variant="contained" size="small" onClick={() => setAsking(true)}>Ask for a check</Button>}
+        {sheet.state === 'with-checker' && isChecker && (
+          <>
+            <Button size="small" variant="outlined" onClick={() => setReturning(true)}>Return to the preparer</Button>
+            <Button size="small" variant="contained" color="success" disabled={sheet.openQueries > 0} onClick={() => act('pass')} title={sheet.openQueries > 0 ? 'Close every query first' : undefined}>Pass the check</Button>
+          </>
+        )}
+        {sheet.state === 'checked' && mayApprove && <Button size="small" variant="contained" onClick={() => act('approve')}>Approve</Button>}
+        {sheet.state === 'approved' && sheet.approver?.id === uid && <Button size="small" variant="contained" color="secondary" onClick={() => act('issue')}>Issue revision {sheet.revisionCode}</Button>}
+        {issued && (has('engineer') || has('owner')) && <Button size="small" variant="outlined" onClick={() => act('new-revision')}>Start the next revision</Button>}
+      </Stack>
+      {asking && <RequestCheck sheet={sheet} onDone={() => setAsking(false)} />}
+      {returning && (
+        <Stack direction="row" spacing={1} sx={{ mt: 1 }}>
+          <TextField size="small" label="Why (optional)" value={note} onChange={(e) => setNote(e.target.value)} sx={{ flex: 1 }} />
+          <Button variant="contained" onClick={() => (act('return', note.trim() || undefined), setReturning(false))}>Return</Button>
+          <Button onClick={() => setReturning(false)}>Cancel</Button>
+        </Stack>
+      )}
+      {action.isError && <Alert severity="error" sx={{ mt: 1 }} onClose={() => action.reset()}>{action.error.message}</Alert>}
+    </Paper>
+  );
+}
