@@ -4,18 +4,28 @@
  */
 import 'reflect-metadata';
 import { MikroORM } from '@mikro-orm/mariadb';
+import { NestFactory } from '@nestjs/core';
+import { AppModule } from '../app.module';
 import { validateEnvironment } from '../config/environment';
 import { ormConfig } from './mikro-orm.config';
+import { seedDemoReview } from './seeders/demo-review';
 import { seedDemo } from './seeders/demo.seeder';
 
 async function seed() {
   const env = validateEnvironment(process.env);
   const orm = await MikroORM.init(ormConfig(env));
   try {
-    const summary = await seedDemo(orm.em.fork(), env.BCRYPT_COST);
-    console.log(summary);
+    console.log(await seedDemo(orm.em.fork(), env.BCRYPT_COST));
   } finally {
     await orm.close(true);
+  }
+  // The issued revision goes through the app's own services (evaluation, snapshot, notifications).
+  const app = await NestFactory.createApplicationContext(AppModule, { logger: ['error', 'warn'] });
+  try {
+    const issued = await seedDemoReview(app);
+    if (issued) console.log(`demo seed: ${issued}`);
+  } finally {
+    await app.close();
   }
 }
 
