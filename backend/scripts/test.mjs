@@ -62,6 +62,7 @@ main(async () => {
     // the per-account limit (5 a minute) is the one the tests exercise.
     BCRYPT_COST: '4',
     THROTTLE_AUTH_PER_ADDRESS: '1000',
+    THROTTLE_VERIFY_PER_ADDRESS: '1000',
   };
   migrateAndSeed(env);
 

@@ -17,6 +17,7 @@ import { ProjectsModule } from './projects/projects.module';
 import { SheetsModule } from './sheets/sheets.module';
 import { AttachmentsModule } from './attachments/attachments.module';
 import { ReviewModule } from './review/review.module';
+import { PackagesModule } from './packages/packages.module';
 import { NotificationsModule } from './notifications/notifications.module';
 import { TemplatesModule } from './templates/templates.module';
 import type { Environment } from './config/environment';
@@ -59,6 +60,7 @@ function staticFrontEnd(): DynamicModule[] {
     SheetsModule,
     AttachmentsModule,
     ReviewModule,
+    PackagesModule,
     NotificationsModule,
     TemplatesModule,
     MailModule,

@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import type { INestApplication } from '@nestjs/common';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { as, makeCaller, type Caller } from './support/sessions';
+import { as, binary, makeCaller, type Caller } from './support/sessions';
 import { createTestApp } from './support/test-app';
 
 // The smallest well-formed files of each kind, by their published signatures (PDF 1.4 header, PNG
@@ -37,11 +37,7 @@ describe('attachments', () => {
     expect(res.body).toMatchObject({ fileName: 'datasheet.pdf', mediaType: 'application/pdf', size: PDF.length, sha256: createHash('sha256').update(PDF).digest('hex') });
     const list = await as(app, checker, 'get', `/api/sheets/${sheetId}/attachments`).expect(200);
     expect(list.body.map((a: { id: string }) => a.id)).toContain(res.body.id);
-    const down = await as(app, checker, 'get', `/api/attachments/${res.body.id}/download`).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (c: Buffer) => chunks.push(c));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    }).expect(200);
+    const down = await binary(as(app, checker, 'get', `/api/attachments/${res.body.id}/download`)).expect(200);
     expect(Buffer.compare(down.body as Buffer, PDF)).toBe(0);
     expect(down.headers['content-disposition']).toMatch(/^attachment; filename="datasheet.pdf"/);
     expect(down.headers['x-content-type-options']).toBe('nosniff');

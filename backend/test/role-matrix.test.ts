@@ -71,6 +71,13 @@ const MATRIX: Record<string, Allowed> = {
   'GET /api/notifications': 'signed-in',
   'POST /api/notifications/read-all': 'signed-in',
   'POST /api/notifications/:id/read': 'signed-in',
+  'GET /api/revisions/:id/package/status': [...MEMBERS, 'client'],
+  'POST /api/revisions/:id/package/retry': ['owner', 'approver'],
+  'GET /api/revisions/:id/package': [...MEMBERS, 'client'],
+  'GET /api/portal/revisions': ['client'],
+  'POST /api/verify': 'public',
+  'GET /api/firm/certificate': ['owner'],
+  'POST /api/firm/certificate': ['owner'],
 };
 
 const CALLERS: (Role | 'signed-out')[] = ['signed-out', 'owner', 'engineer', 'checker', 'approver', 'client'];

@@ -4,7 +4,7 @@
  */
 import 'reflect-metadata';
 import { plainToInstance, Type } from 'class-transformer';
-import { IsIn, IsInt, IsNotEmpty, IsOptional, IsString, IsUrl, Max, Min, validateSync } from 'class-validator';
+import { IsIn, IsInt, IsNotEmpty, IsOptional, IsString, IsUrl, Max, Min, MinLength, validateSync } from 'class-validator';
 
 export class Environment {
   @IsIn(['development', 'production', 'test'])
@@ -69,6 +69,14 @@ export class Environment {
   /** Set when the app is served over HTTPS, so the session cookie is only sent over it. */
   @IsIn(['true', 'false'])
   COOKIE_SECURE: 'true' | 'false' = 'false';
+
+  /** Seals the firms' certificate passwords at rest (AES-256-GCM). Set a long random value in production. */
+  @IsString() @IsNotEmpty() @MinLength(16, { message: 'CERTIFICATE_SECRET must be at least 16 characters' })
+  CERTIFICATE_SECRET = 'ampwright-local-only-certificate-secret';
+
+  /** Whether this instance makes packages (a worker polling the job table); several may. */
+  @IsIn(['true', 'false'])
+  PACKAGE_WORKER: 'true' | 'false' = 'true';
 
   /** The built front end to serve; empty serves the API only. */
   @IsOptional() @IsString()

@@ -20,3 +20,8 @@ export const AUTH_THROTTLE = {
   address: { ttl: 60_000, limit: Number(process.env.THROTTLE_AUTH_PER_ADDRESS ?? 5) },
   account: { ttl: 60_000, limit: 5 },
 };
+
+/** The public verification page: 10 uploads a minute per client address (by default). */
+export const VERIFY_THROTTLE = {
+  address: { ttl: 60_000, limit: Number(process.env.THROTTLE_VERIFY_PER_ADDRESS ?? 10) },
+};

@@ -34,11 +34,13 @@ export class EvaluationPool {
   private readonly idle: Worker[] = [];
   private readonly queue: Job[] = [];
   private readonly busy = new Map<Worker, { job: Job; timer: NodeJS.Timeout }>();
+  /** Workers still loading the engine: a deadline does not count their start-up. */
+  private readonly starting = new Set<Worker>();
   private nextId = 1;
   private closed = false;
 
   constructor(private readonly limits: PoolLimits) {
-    for (let k = 0; k < limits.workers; k++) this.idle.push(this.spawn());
+    for (let k = 0; k < limits.workers; k++) this.spawn();
   }
 
   evaluate(sheet: SheetFile): Promise<PoolOutcome> {
@@ -51,7 +53,8 @@ export class EvaluationPool {
 
   async close(): Promise<void> {
     this.closed = true;
-    const all = [...this.idle, ...this.busy.keys()];
+    const all = [...this.idle, ...this.busy.keys(), ...this.starting];
+    this.starting.clear();
     this.idle.length = 0;
     for (const [, { job, timer }] of this.busy) {
       clearTimeout(timer);
@@ -65,7 +68,15 @@ export class EvaluationPool {
     const worker = new Worker(workerFile(), {
       resourceLimits: { maxOldGenerationSizeMb: this.limits.memoryMb, maxYoungGenerationSizeMb: Math.max(16, this.limits.memoryMb / 8) },
     });
-    worker.on('message', (msg: { id: number; ok: boolean; cells?: CellResult[]; engineVersion?: string; message?: string }) => {
+    this.starting.add(worker);
+    worker.on('message', (msg: { ready?: boolean; id: number; ok: boolean; cells?: CellResult[]; engineVersion?: string; message?: string }) => {
+      if (msg.ready) {
+        this.starting.delete(worker);
+        if (this.closed) return;
+        this.idle.push(worker);
+        this.dispatch();
+        return;
+      }
       const running = this.busy.get(worker);
       if (!running || running.job.id !== msg.id) return;
       clearTimeout(running.timer);
@@ -83,20 +94,18 @@ export class EvaluationPool {
   private fail(worker: Worker, reason: 'timeout' | 'memory' | 'crash', message: string): void {
     const running = this.busy.get(worker);
     const idleAt = this.idle.indexOf(worker);
+    const wasStarting = this.starting.delete(worker);
     if (idleAt >= 0) this.idle.splice(idleAt, 1);
     if (running) {
       clearTimeout(running.timer);
       this.busy.delete(worker);
       running.job.resolve({ ok: false, reason, message });
-    } else if (idleAt < 0) {
+    } else if (idleAt < 0 && !wasStarting) {
       return; // already replaced
     }
     worker.removeAllListeners('exit');
     void worker.terminate();
-    if (!this.closed) {
-      this.idle.push(this.spawn());
-      this.dispatch();
-    }
+    if (!this.closed) this.spawn();
   }
 
   private dispatch(): void {

@@ -10,3 +10,6 @@ parentPort?.on('message', (message: { id: number; sheet: SheetFile }) => {
     parentPort?.postMessage({ id: message.id, ok: false, message: (err as Error).message });
   }
 });
+
+// Loaded (the engine is imported above): the pool starts an evaluation's deadline only from here on.
+parentPort?.postMessage({ ready: true });

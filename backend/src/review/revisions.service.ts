@@ -108,7 +108,7 @@ export class RevisionsService {
     for (const extra of existing.values()) em.remove(extra);
   }
 
-  private toSummary(r: Revision): RevisionSummaryDto {
+  toSummary(r: Revision): RevisionSummaryDto {
     return {
       id: r.id,
       code: r.code,
@@ -128,6 +128,12 @@ export class RevisionsService {
 
   async summary(id: string): Promise<RevisionSummaryDto> {
     return this.toSummary(await this.em.findOneOrFail(Revision, id, { populate: ['preparedBy', 'checkedBy', 'approvedBy'] }));
+  }
+
+  /** Every issued revision of a sheet, oldest first (no access check: for the package maker). */
+  async summaries(sheetId: string): Promise<RevisionSummaryDto[]> {
+    const rows = await this.em.find(Revision, { sheet: sheetId }, { orderBy: { number: 'asc' }, populate: ['preparedBy', 'checkedBy', 'approvedBy'] });
+    return rows.map((r) => this.toSummary(r));
   }
 
   async list(auth: AuthContext, sheetId: string): Promise<RevisionSummaryDto[]> {

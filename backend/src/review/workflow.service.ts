@@ -20,6 +20,7 @@ import { mailTemplates } from '../mail/mail-templates';
 import type { NoteDto, RequestCheckDto } from './dto/review.dto';
 import { CellQuery } from './entities/cell-query.entity';
 import { Revision } from './entities/revision.entity';
+import { PackageJob } from '../packages/entities/package-job.entity';
 import { isUser, requireChecker, requireNotPreparer, requirePreparer, requireState, ReviewErrorCode } from './review-access';
 import { RevisionsService } from './revisions.service';
 
@@ -130,6 +131,8 @@ export class WorkflowService {
       requireNotPreparer(auth, s, 'issue it');
       if (!isUser(auth, s.approver)) throw new AppException(ReviewErrorCode.NotYours, `Only the approver${s.approver ? ` (${s.approver.name})` : ''} can issue the sheet.`, HttpStatus.FORBIDDEN);
       const revision = await this.revisions.freeze(em, s);
+      // The signed package is made by a worker, off this request (see PackagesService).
+      em.persist(new PackageJob(revision));
       s.state = 'issued';
       return revision;
     });

@@ -47,3 +47,11 @@ export function cookieFrom(res: request.Response): string {
   if (!found) throw new Error('no session cookie was set');
   return found.split(';')[0];
 }
+
+/** Reads a response body as bytes (for PDFs and downloads). */
+export const binary = (res: request.Test) =>
+  res.buffer(true).parse((r, cb) => {
+    const chunks: Buffer[] = [];
+    r.on('data', (c: Buffer) => chunks.push(c));
+    r.on('end', () => cb(null, Buffer.concat(chunks)));
+  });

@@ -65,7 +65,7 @@ export function sweepChart(result: SweepResult, options: ChartOptions = {}): str
     const finite = all.filter(Number.isFinite);
     const wide = positive && finite.length > 0 && Math.max(...finite) / Math.min(...finite) > 100;
     const y = scaleFor(all, [top + panelH, top], !panel.phase && wide, 0.05);
-    const label = panel.phase ? 'phase [deg]' : axisLabel(panel.series.length === 1 ? `|${shortName(panel.series[0].name)}|` : 'magnitude', panel.unit);
+    const label = panel.phase ? 'phase [deg]' : axisLabel(panel.series.length === 1 ? (panel.series[0].complex ? `|${shortName(panel.series[0].name)}|` : shortName(panel.series[0].name)) : panel.series.some((s) => s.complex) ? 'magnitude' : 'value', panel.unit);
     out.push(...drawAxes(frame, x, y, axisLabel(v.name, v.unit), label));
     ys.forEach((vals, i) => out.push(el('path', { d: path(v.values, vals, x, y), fill: 'none', stroke: TRACE[i % TRACE.length], 'stroke-width': 1.6 })));
     if (panel.series.length > 1) out.push(...legend(left + 10, top + 12, panel.series.map((s, i) => ({ label: shortName(s.name), colour: TRACE[i % TRACE.length] }))));

@@ -1,0 +1,72 @@
+import { EntityManager } from '@mikro-orm/core';
+import { HttpStatus, Injectable } from '@nestjs/common';
+import { ConfigService } from '@nestjs/config';
+import type { Environment } from '../config/environment';
+import { AppException, ErrorCode } from '../core/errors/app-exception';
+import type { AuthContext } from '../core/guards/auth.guard';
+import { Firm } from '../firms/entities/firm.entity';
+import { FirmCertificate } from './entities/firm-certificate.entity';
+import { CertificateProblem, makeSelfSignedP12, openSecret, readP12, sealSecret } from './signing';
+import { randomBytes } from 'node:crypto';
+
+export interface CertificateView {
+  subject: string;
+  issuer: string;
+  notBefore: string;
+  notAfter: string;
+  fingerprint: string;
+  selfSigned: boolean;
+}
+
+const view = (c: FirmCertificate): CertificateView => ({ subject: c.subject, issuer: c.issuer, notBefore: c.notBefore.toISOString(), notAfter: c.notAfter.toISOString(), fingerprint: c.fingerprint, selfSigned: c.selfSigned });
+
+@Injectable()
+export class CertificatesService {
+  private readonly secret: string;
+
+  constructor(
+    private readonly em: EntityManager,
+    config: ConfigService<Environment, true>,
+  ) {
+    this.secret = config.get('CERTIFICATE_SECRET', { infer: true });
+  }
+
+  async current(auth: AuthContext): Promise<CertificateView | null> {
+    const c = await this.em.findOne(FirmCertificate, { firm: auth.session.firm });
+    return c ? view(c) : null;
+  }
+
+  /** The owner's upload of the firm's PKCS#12 certificate, refused with the reason if it cannot sign. */
+  async upload(auth: AuthContext, file: { buffer: Buffer } | undefined, password: string | undefined): Promise<CertificateView> {
+    if (!file) throw new AppException(ErrorCode.ValidationFailed, 'Attach the .p12 or .pfx file in the field "file".', HttpStatus.BAD_REQUEST, [{ field: 'file', message: 'no file was sent' }]);
+    if (typeof password !== 'string') throw new AppException(ErrorCode.ValidationFailed, 'Give the certificate\'s password in the field "password".', HttpStatus.BAD_REQUEST, [{ field: 'password', message: 'required' }]);
+    let facts;
+    try {
+      facts = readP12(file.buffer, password);
+    } catch (err) {
+      if (err instanceof CertificateProblem) throw new AppException('CERTIFICATE_REFUSED', `The certificate was refused: ${err.message}`, HttpStatus.BAD_REQUEST, [{ field: err.message.includes('password') ? 'password' : 'file', message: err.message }]);
+      throw err;
+    }
+    return view(await this.store(auth.session.firm, file.buffer, password, facts, false));
+  }
+
+  private async store(firm: Firm, p12: Buffer, password: string, facts: ReturnType<typeof readP12>, selfSigned: boolean): Promise<FirmCertificate> {
+    const em = this.em.fork();
+    await em.nativeDelete(FirmCertificate, { firm: firm.id });
+    const c = new FirmCertificate(em.getReference(Firm, firm.id), { p12, passwordSealed: sealSecret(password, this.secret), ...facts, selfSigned });
+    await em.persist(c).flush();
+    return c;
+  }
+
+  /** The firm's certificate and its password for signing; a self-signed one is made if the firm has none. */
+  async forSigning(firm: Firm): Promise<{ p12: Buffer; password: string; selfSigned: boolean }> {
+    const em = this.em.fork();
+    let c = await em.findOne(FirmCertificate, { firm: firm.id }, { populate: ['p12'] });
+    if (!c || c.notAfter < new Date()) {
+      const password = randomBytes(18).toString('base64url');
+      const p12 = makeSelfSignedP12(firm.name, password);
+      c = await this.store(firm, p12, password, readP12(p12, password), true);
+    }
+    return { p12: c.p12, password: openSecret(c.passwordSealed, this.secret), selfSigned: c.selfSigned };
+  }
+}

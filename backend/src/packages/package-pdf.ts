@@ -1,0 +1,339 @@
+/**
+ * The calculation package as a PDF (pdfkit, with the IBM Plex fonts embedded): cover sheet, revision
+ * history, contents, every cell in order (formulas, working and results as vector MathJax drawings,
+ * checks, charts from common/plot, tables), the attachments listed and embedded, and the query
+ * register; a header and a footer on every page. The same snapshot always gives the same bytes:
+ * every date in the file is the issue date, and nothing random is written.
+ */
+import { dirname, join } from 'node:path';
+import PDFDocument from 'pdfkit';
+import SVGtoPDF from 'svg-to-pdfkit';
+import { calcFigures, sweepChart, transientChart, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
+import type { RevisionSnapshot } from '../review/revisions.service';
+import { texToSvg } from './tex-svg';
+
+export const CAUTION_TEXT =
+  'Results are for use by qualified engineers. Check them independently before relying on them; locally adopted electrical codes and licensed practice take precedence, and the engineer of record remains responsible.';
+
+export interface PackageAttachment {
+  fileName: string;
+  mediaType: string;
+  size: number;
+  sha256: string;
+  body: Buffer;
+}
+
+export interface PackageInput {
+  revisionId: string;
+  snapshot: RevisionSnapshot;
+  /** Every issued revision of the sheet up to this one. */
+  history: RevisionSummaryDto[];
+  attachments: PackageAttachment[];
+  /** Called with a fraction as the pages are laid out. */
+  onProgress?: (fraction: number) => void;
+}
+
+const INK = '#16324a';
+const COPPER = '#b5561c';
+const TEXT = '#1c2328';
+const MUTED = '#4f5a62';
+const RULE = '#d9d1c3';
+const PASS = '#2e6b3a';
+const FAIL = '#a3261b';
+
+const fontDir = (pkg: string) => join(dirname(require.resolve(`${pkg}/package.json`)), 'fonts', 'complete', 'woff');
+const FONTS = {
+  sans: join(fontDir('@ibm/plex-sans'), 'IBMPlexSans-Regular.woff'),
+  bold: join(fontDir('@ibm/plex-sans'), 'IBMPlexSans-SemiBold.woff'),
+  italic: join(fontDir('@ibm/plex-sans'), 'IBMPlexSans-Italic.woff'),
+  mono: join(fontDir('@ibm/plex-mono'), 'IBMPlexMono-Regular.woff'),
+};
+
+/** The metadata key that carries the revision id (read back by the verification page). */
+export const REVISION_KEY = 'AmpwrightRevision';
+
+const M = 56; // margin
+const date = (iso: string | null) => (iso ? `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC` : '—');
+
+/** Inline TeX in notes, made readable as text. */
+function plainMaths(s: string): string {
+  const words: Record<string, string> = { omega: 'ω', Omega: 'Ω', pi: 'π', phi: 'φ', varphi: 'φ', theta: 'θ', alpha: 'α', beta: 'β', zeta: 'ζ', mu: 'µ', sqrt: '√', cdot: '·', times: '×', le: '≤', leq: '≤', ge: '≥', geq: '≥', approx: '≈', sin: 'sin', cos: 'cos', tan: 'tan', angle: '∠' };
+  return s.replace(/\$([^$]+)\$/g, (_, m: string) => m.replace(/\\([A-Za-z]+)/g, (w, n: string) => words[n] ?? n).replace(/[{}]/g, '').replace(/_/g, '').replace(/\\,/g, ' '));
+}
+
+export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
+  const { snapshot: snap } = input;
+  const issued = new Date(snap.dates.issuedAt);
+  const doc = new PDFDocument({
+    size: 'A4',
+    margins: { top: M + 10, bottom: M, left: M, right: M },
+    bufferPages: true,
+    autoFirstPage: false,
+    info: {
+      Title: `${snap.project.jobNumber} ${snap.sheetNumber} revision ${snap.revision.code}: ${snap.sheet.title}`,
+      Author: snap.firm,
+      Subject: `Calculation package, ${snap.project.title}`,
+      Keywords: `${REVISION_KEY}:${input.revisionId}`,
+      Creator: 'Ampwright',
+      Producer: 'Ampwright (pdfkit)',
+      CreationDate: issued,
+      ModDate: issued,
+      [REVISION_KEY]: input.revisionId,
+    } as PDFKit.DocumentInfo,
+  });
+  const chunks: Buffer[] = [];
+  doc.on('data', (c: Buffer) => chunks.push(c));
+  const done = new Promise<Buffer>((resolve, reject) => {
+    doc.on('end', () => resolve(Buffer.concat(chunks)));
+    doc.on('error', reject);
+  });
+  doc.registerFont('sans', FONTS.sans);
+  doc.registerFont('bold', FONTS.bold);
+  doc.registerFont('italic', FONTS.italic);
+  doc.registerFont('mono', FONTS.mono);
+
+  const width = () => doc.page.width - 2 * M;
+  const bottom = () => doc.page.height - M - 8;
+  const ensure = (h: number) => {
+    if (doc.y + h > bottom()) doc.addPage();
+  };
+  const heading = (text: string, size = 15) => {
+    ensure(size * 3);
+    doc.moveDown(0.6).font('bold').fontSize(size).fillColor(INK).text(text, M, doc.y);
+    doc.moveDown(0.3).fillColor(TEXT).font('sans').fontSize(10);
+  };
+  const para = (text: string, opts: { font?: string; size?: number; colour?: string } = {}) => {
+    doc.font(opts.font ?? 'sans').fontSize(opts.size ?? 10).fillColor(opts.colour ?? TEXT);
+    ensure(doc.heightOfString(text, { width: width() }) + 4);
+    doc.text(text, M, doc.y, { width: width() });
+  };
+  /** A TeX drawing at (x, y), scaled down to fit maxWidth; returns its height. */
+  const tex = (source: string, x: number, y: number, maxWidth: number, size = 10.5): { w: number; h: number } => {
+    try {
+      const t = texToSvg(source, size);
+      const k = t.width > maxWidth ? maxWidth / t.width : 1;
+      SVGtoPDF(doc, t.svg.replace(/currentColor/g, TEXT), x, y, { width: t.width * k, height: t.height * k, assumePt: true });
+      return { w: t.width * k, h: t.height * k };
+    } catch {
+      doc.font('mono').fontSize(8).fillColor(TEXT).text(source, x, y, { width: maxWidth });
+      return { w: maxWidth, h: doc.heightOfString(source, { width: maxWidth }) };
+    }
+  };
+  const svgFigure = (svg: string, maxWidth: number) => {
+    const m = /viewBox="0 0 ([\d.]+) ([\d.]+)"/.exec(svg);
+    if (!m) return;
+    const w0 = Number(m[1]);
+    const h0 = Number(m[2]);
+    const w = Math.min(maxWidth, w0 * 0.75);
+    const h = (h0 * w) / w0;
+    ensure(h + 8);
+    // The drawing's own size attributes are set to the size on the page (svg-to-pdfkit follows them).
+    const sized = svg.replace(/^<svg([^>]*?) width="[^"]*" height="[^"]*"/, `<svg$1 width="${w.toFixed(2)}" height="${h.toFixed(2)}"`);
+    SVGtoPDF(doc, sized.replace(/∠/g, 'at'), M, doc.y, { width: w, height: h, assumePt: true, fontCallback: () => 'sans' });
+    doc.y += h + 8;
+  };
+
+  // Cover sheet.
+  doc.addPage();
+  doc.font('bold').fontSize(11).fillColor(COPPER).text(snap.firm.toUpperCase(), M, M + 20, { characterSpacing: 1 });
+  doc.moveDown(2).font('bold').fontSize(24).fillColor(INK).text('Calculation package');
+  doc.moveDown(0.4).font('sans').fontSize(16).fillColor(TEXT).text(snap.sheet.title, { width: width() });
+  doc.moveDown(1.2);
+  const facts: [string, string][] = [
+    ['Project', snap.project.title],
+    ['Job number', snap.project.jobNumber],
+    ['Client', snap.project.clientOrganisation],
+    ['Site', snap.project.site],
+    ['Sheet', snap.sheetNumber],
+    ['Revision', snap.revision.code],
+    ['Prepared by', `${snap.people.preparedBy}, check asked ${date(snap.dates.checkRequestedAt)}`],
+    ['Checked by', `${snap.people.checkedBy}, ${date(snap.dates.checkedAt)}`],
+    ['Approved by', `${snap.people.approvedBy}, ${date(snap.dates.approvedAt)}`],
+    ['Issued', date(snap.dates.issuedAt)],
+    ['Engine', `Ampwright engine ${snap.engineVersion}`],
+  ];
+  for (const [k, v] of facts) {
+    const y = doc.y;
+    doc.font('bold').fontSize(10).fillColor(MUTED).text(k, M, y, { width: 110 });
+    doc.font('sans').fillColor(TEXT).text(v, M + 120, y, { width: width() - 120 });
+    doc.moveDown(0.35);
+  }
+  doc.moveDown(1.5);
+  const cy = doc.y;
+  const ch = doc.font('sans').fontSize(10).heightOfString(CAUTION_TEXT, { width: width() - 24 }) + 30;
+  doc.rect(M, cy, width(), ch).lineWidth(1).strokeColor('#8a5a00').stroke();
+  doc.font('bold').fontSize(10).fillColor('#8a5a00').text('Caution', M + 12, cy + 8);
+  doc.font('sans').fillColor(TEXT).text(CAUTION_TEXT, M + 12, cy + 22, { width: width() - 24 });
+
+  // Revision history and contents.
+  doc.addPage();
+  heading('Revision history');
+  for (const r of input.history) {
+    para(`${r.code} — issued ${date(r.issuedAt)}; prepared by ${r.preparedBy}, checked by ${r.checkedBy} (${date(r.checkedAt)}), approved by ${r.approvedBy} (${date(r.approvedAt)}); snapshot SHA-256 ${r.snapshotSha256}`, { size: 9 });
+    doc.moveDown(0.3);
+  }
+  heading('Contents');
+  const contentsPage = doc.bufferedPageRange().count - 1;
+  const contentsY = doc.y;
+  const cells = snap.sheet.cells;
+  const entries: { label: string; page: number }[] = [];
+  doc.y += (cells.length + 3) * 13;
+  if (doc.y > bottom()) doc.addPage();
+
+  // The cells.
+  doc.addPage();
+  cells.forEach((fileCell, i) => {
+    const cell = fileCell as Record<string, unknown> & { kind: string };
+    const result = (snap.results[i] ?? null) as CellResult | null;
+    ensure(40);
+    entries.push({ label: `Cell ${i + 1}: ${cell.kind}${cell.kind === 'note' ? ` — ${String(cell.text ?? '').split('\n')[0].replace(/^#+\s*/, '').slice(0, 60)}` : ''}`, page: doc.bufferedPageRange().count });
+    doc.moveDown(0.5);
+    doc.font('bold').fontSize(8).fillColor(MUTED).text(`${i + 1} · ${cell.kind.toUpperCase()}`, M, doc.y, { characterSpacing: 0.8 });
+    doc.moveTo(M, doc.y + 1).lineTo(M + width(), doc.y + 1).lineWidth(0.5).strokeColor(RULE).stroke();
+    doc.moveDown(0.4);
+    if (cell.kind === 'note') {
+      for (const block of String(cell.text ?? '').split(/\n{2,}/)) {
+        const h = /^(#{1,3})\s+(.*)/.exec(block);
+        if (h) para(plainMaths(h[2]), { font: 'bold', size: h[1].length === 1 ? 14 : 12, colour: INK });
+        else {
+          const italic = /^\*(.*)\*$/s.exec(block);
+          para(plainMaths((italic ? italic[1] : block).replace(/\n/g, ' ')), { font: italic ? 'italic' : 'sans' });
+        }
+        doc.moveDown(0.4);
+      }
+    } else if (cell.kind === 'calc' && result?.kind === 'calc') {
+      drawCalc(result);
+    } else if (cell.kind === 'check' && result?.kind === 'check') {
+      drawCheck(result, cell);
+    } else if (cell.kind === 'sweep' && result?.kind === 'sweep') {
+      para(`${cell.variable} from ${cell.from} to ${cell.to}, ${cell.points} points (${cell.spacing ?? 'linear'}); outputs: ${((cell.outputs as string[]) ?? []).join('; ')}`, { size: 9, colour: MUTED });
+      const svg = sweepChart(result as SweepResult, { logX: cell.spacing === 'log' });
+      if (svg) svgFigure(svg, width());
+    } else if (cell.kind === 'transient' && result?.kind === 'transient') {
+      const t = result as TransientResult;
+      para(`R = ${cell.R}, L = ${cell.L}, C = ${cell.C}, E(t) = ${cell.source}, over ${cell.span}. ${t.dampingCase ?? ''}; peak current ${t.peakCurrent?.display ?? '—'} at ${t.peakTime?.display ?? '—'}; solver ${t.solver?.name ?? ''} ${t.solver?.version ?? ''}${t.analytic?.available ? `; the analytic solution agrees within ${((t.maxRelativeDeviation ?? 0) * 100).toExponential(1)} % of the peak` : ''}.`, { size: 9 });
+      const svg = transientChart(t);
+      if (svg) svgFigure(svg, width());
+    } else if (cell.kind === 'table') {
+      drawTable(cell);
+    } else if (cell.kind === 'figure') {
+      para(String(cell.caption ?? ''), { font: 'italic' });
+    }
+    if (result && result.errors.length) for (const e of result.errors) para(`Error, line ${e.line}, column ${e.column}: ${e.message}`, { colour: FAIL, size: 9 });
+    input.onProgress?.((i + 1) / cells.length * 0.9);
+  });
+
+  function drawCalc(result: CalcResult) {
+    for (const line of result.lines) {
+      if (!line.tex) continue;
+      const f = texToSvgSize(line.tex.formula);
+      ensure(Math.max(f, 14) + 30);
+      const y = doc.y;
+      const left = tex(line.tex.formula, M, y, width() * 0.55);
+      const right = tex(line.tex.result, M + width() * 0.62, y, width() * 0.38);
+      let y2 = y + Math.max(left.h, right.h) + 3;
+      const working = tex(line.tex.working, M + 14, y2, width() - 14, 9);
+      y2 += working.h + 2;
+      doc.y = y2;
+      if (line.description) {
+        doc.font('italic').fontSize(8).fillColor(MUTED).text(line.description, M + 14, doc.y, { width: width() - 14 });
+      }
+      doc.moveDown(0.35);
+    }
+    for (const fig of calcFigures(result)) svgFigure(fig.svg, width() * 0.6);
+  }
+
+  function texToSvgSize(source: string): number {
+    try {
+      return texToSvg(source, 10).height;
+    } catch {
+      return 12;
+    }
+  }
+
+  function drawCheck(result: CheckResult, cell: Record<string, unknown>) {
+    ensure(70);
+    const y = doc.y;
+    const ok = result.pass === true;
+    const label = result.pass === null ? 'NOT EVALUATED' : ok ? 'PASS' : 'FAIL';
+    doc.rect(M, y, 64, 16).fillColor(result.pass === null ? MUTED : ok ? PASS : FAIL).fill();
+    doc.font('bold').fontSize(9).fillColor('#ffffff').text(label, M, y + 4, { width: 64, align: 'center' });
+    if (result.tex) tex(result.tex.formula, M + 76, y + 1, width() - 76);
+    doc.y = y + 22;
+    if (result.tex?.working) {
+      const w = tex(result.tex.working, M + 14, doc.y, width() - 14, 9);
+      doc.y += w.h + 4;
+    }
+    if (result.utilization !== null) {
+      const u = result.utilization;
+      const barW = 220;
+      doc.rect(M + 14, doc.y, barW, 6).fillColor(RULE).fill();
+      doc.rect(M + 14, doc.y, Math.min(1, Math.max(0, u)) * barW, 6).fillColor(u > 1 ? FAIL : u > 0.9 ? '#8a5a00' : PASS).fill();
+      doc.font('sans').fontSize(9).fillColor(TEXT).text(`Utilisation ${(u * 100).toFixed(1)} %${result.margin !== null ? `, margin ${(result.margin * 100).toFixed(1)} %` : ''}${result.severity === 'advisory' ? ' (advisory)' : ''}`, M + 24 + barW, doc.y - 2);
+      doc.moveDown(0.2);
+    }
+    if (cell.basis) para(`Basis: ${String(cell.basis)}`, { size: 9, colour: MUTED });
+  }
+
+  function drawTable(cell: Record<string, unknown>) {
+    const columns = (cell.columns as { name: string; unit?: string }[]) ?? [];
+    const rows = (cell.rows as unknown[][]) ?? [];
+    const colW = Math.min(110, width() / Math.max(1, columns.length));
+    const row = (values: string[], font: string) => {
+      ensure(14);
+      const y = doc.y;
+      values.forEach((v, j) => doc.font(font).fontSize(9).fillColor(TEXT).text(v, M + j * colW, y, { width: colW - 6, lineBreak: false, ellipsis: true }));
+      doc.y = y + 13;
+    };
+    row(columns.map((c) => (c.unit ? `${c.name} [${c.unit}]` : c.name)), 'bold');
+    for (const r of rows) row(r.map((v) => (v === null || v === undefined ? '' : String(v))), 'mono');
+    doc.moveDown(0.3);
+  }
+
+  // Attachments.
+  doc.addPage();
+  heading('Attachments');
+  if (!input.attachments.length) para('None.');
+  for (const a of input.attachments) {
+    para(`${a.fileName} — ${a.mediaType}, ${a.size} bytes`, { font: 'bold', size: 9 });
+    para(`SHA-256 ${a.sha256}`, { font: 'mono', size: 8, colour: MUTED });
+    doc.file(a.body, { name: a.fileName, type: a.mediaType, description: `SHA-256 ${a.sha256}`, creationDate: issued, modifiedDate: issued });
+    doc.moveDown(0.3);
+  }
+  if (input.attachments.length) para('The attachments are embedded in this file (open the attachments panel of your PDF reader).', { size: 9, colour: MUTED });
+
+  // Query register.
+  heading('Appendix: query register');
+  if (!snap.queries.length) para('No queries were raised for this revision.');
+  snap.queries.forEach((q: QueryDto, k) => {
+    const where = q.cellId ? `cell ${snap.cellIds.indexOf(q.cellId) + 1}${q.line ? `, line ${q.line}` : ''}` : 'a cell since removed';
+    para(`Query ${k + 1} on ${where} — ${q.status}${q.closedBy ? `, closed by ${q.closedBy} ${date(q.closedAt)}` : ''}`, { font: 'bold', size: 9 });
+    for (const m of q.messages) para(`${m.author} (${date(m.createdAt)}): ${m.text}`, { size: 9 });
+    doc.moveDown(0.3);
+  });
+
+  // Contents, headers and footers, now that the pages are known.
+  const range = doc.bufferedPageRange();
+  doc.switchToPage(contentsPage);
+  let y = contentsY;
+  for (const e of entries) {
+    doc.font('sans').fontSize(9).fillColor(TEXT).text(e.label, M, y, { width: width() - 50, lineBreak: false, ellipsis: true });
+    doc.text(String(e.page), M + width() - 40, y, { width: 40, align: 'right', lineBreak: false });
+    y += 13;
+    if (y > bottom()) break;
+  }
+  for (let p = 0; p < range.count; p++) {
+    doc.switchToPage(range.start + p);
+    const keep = doc.page.margins.bottom;
+    doc.page.margins.bottom = 0;
+    doc.font('sans').fontSize(8).fillColor(MUTED);
+    doc.text(`${snap.firm} · Job ${snap.project.jobNumber} · Sheet ${snap.sheetNumber} · Revision ${snap.revision.code}`, M, M - 24, { width: width(), lineBreak: false });
+    doc.moveTo(M, M - 12).lineTo(M + width(), M - 12).lineWidth(0.5).strokeColor(RULE).stroke();
+    doc.text(`For qualified engineers; check independently; local codes and licensed practice prevail.`, M, doc.page.height - M + 14, { width: width() - 80, lineBreak: false });
+    doc.text(`Page ${p + 1} of ${range.count}`, M + width() - 80, doc.page.height - M + 14, { width: 80, align: 'right', lineBreak: false });
+    doc.page.margins.bottom = keep;
+  }
+  input.onProgress?.(1);
+  doc.end();
+  return done;
+}

@@ -1,0 +1,220 @@
+/**
+ * Packages: the job that makes a revision's signed PDF (run by a worker that polls the job table, so
+ * it is off the request path and any app instance can take it), downloads for members and clients,
+ * the client portal's list, and public verification of an uploaded PDF.
+ */
+import { createHash, randomUUID } from 'node:crypto';
+import { hostname } from 'node:os';
+import { EntityManager, MikroORM, RequestContext } from '@mikro-orm/core';
+import { HttpStatus, Injectable, Logger, OnApplicationBootstrap, OnApplicationShutdown } from '@nestjs/common';
+import { ConfigService } from '@nestjs/config';
+import type { RevisionSummaryDto } from '@ampwright/common';
+import { Attachment } from '../attachments/entities/attachment.entity';
+import type { Environment } from '../config/environment';
+import { AppException, ErrorCode } from '../core/errors/app-exception';
+import type { AuthContext } from '../core/guards/auth.guard';
+import { ObjectStoreService } from '../files/object-store.service';
+import { ProjectClient } from '../projects/entities/project.entity';
+import { Revision } from '../review/entities/revision.entity';
+import type { RevisionSnapshot } from '../review/revisions.service';
+import { RevisionsService } from '../review/revisions.service';
+import { CertificatesService } from './certificates.service';
+import { PackageJob } from './entities/package-job.entity';
+import { buildPackagePdf, REVISION_KEY } from './package-pdf';
+import { signPdf } from './signing';
+
+export interface PackageStatus {
+  status: 'queued' | 'running' | 'done' | 'failed' | 'none';
+  percent: number;
+  error: string | null;
+  pdfSha256: string | null;
+}
+
+export interface PortalRevision extends RevisionSummaryDto {
+  sheetId: string;
+  sheetNumber: string;
+  sheetTitle: string;
+  projectId: string;
+  jobNumber: string;
+  projectTitle: string;
+  packageReady: boolean;
+}
+
+export type Verdict =
+  | { verdict: 'unaltered'; project: string; jobNumber: string; sheet: string; sheetTitle: string; revision: string; issuedAt: string; firm: string }
+  | { verdict: 'altered'; message: string }
+  | { verdict: 'unknown'; message: string };
+
+const MAX_ATTEMPTS = 3;
+const STALE_LOCK_MS = 5 * 60_000;
+
+@Injectable()
+export class PackagesService implements OnApplicationBootstrap, OnApplicationShutdown {
+  private readonly logger = new Logger(PackagesService.name);
+  private readonly instance = `${hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
+  private timer?: NodeJS.Timeout;
+  private busy = false;
+  private stopped = false;
+
+  constructor(
+    private readonly orm: MikroORM,
+    private readonly em: EntityManager,
+    private readonly store: ObjectStoreService,
+    private readonly certificates: CertificatesService,
+    private readonly revisions: RevisionsService,
+    private readonly config: ConfigService<Environment, true>,
+  ) {}
+
+  onApplicationBootstrap(): void {
+    if (this.config.get('PACKAGE_WORKER', { infer: true }) !== 'true') return;
+    this.timer = setInterval(() => void this.tick(), 500);
+    this.timer.unref();
+  }
+
+  onApplicationShutdown(): void {
+    this.stopped = true;
+    clearInterval(this.timer);
+  }
+
+  /** Takes the oldest waiting job (or one whose instance died) and makes its package. */
+  async tick(): Promise<boolean> {
+    if (this.busy || this.stopped) return false;
+    this.busy = true;
+    try {
+      return await RequestContext.create(this.orm.em, async () => {
+        const conn = this.em.getConnection();
+        const res = await conn.execute(
+          `update package_job set status = 'running', locked_by = ?, locked_at = now(3), attempts = attempts + 1, updated_at = now(3)
+           where status = 'queued' or (status = 'running' and locked_at < now(3) - interval ? second) order by created_at limit 1`,
+          [this.instance, STALE_LOCK_MS / 1000],
+          'run',
+        );
+        if (!(res as { affectedRows?: number }).affectedRows) return false;
+        const job = await this.em.findOneOrFail(PackageJob, { lockedBy: this.instance, status: 'running' }, { populate: ['revision', 'revision.sheet', 'revision.sheet.project', 'revision.sheet.project.firm'] });
+        await this.run(job);
+        return true;
+      });
+    } catch (err) {
+      this.logger.error(`package worker: ${(err as Error).stack ?? err}`);
+      return false;
+    } finally {
+      this.busy = false;
+    }
+  }
+
+  private async run(job: PackageJob): Promise<void> {
+    const revision = job.revision;
+    const progress = (fraction: number) => {
+      const percent = Math.round(fraction * 80);
+      if (percent > job.percent + 9) {
+        job.percent = percent;
+        void this.orm.em.fork().nativeUpdate(PackageJob, { id: job.id }, { percent }).catch(() => undefined);
+      }
+    };
+    try {
+      const pdf = await this.make(revision, progress);
+      const key = `packages/${revision.sheet.id}/${revision.code}-${revision.id}.pdf`;
+      await this.store.put(key, pdf, 'application/pdf');
+      const sha = createHash('sha256').update(pdf).digest('hex');
+      await this.em.nativeUpdate(Revision, { id: revision.id, pdfSha256: null }, { pdfSha256: sha, pdfObjectKey: key });
+      await this.em.nativeUpdate(PackageJob, { id: job.id }, { status: 'done', percent: 100, error: null, lockedBy: null });
+      this.logger.log(`package of ${revision.sheet.number} revision ${revision.code} made (${pdf.length} bytes, sha256 ${sha.slice(0, 12)}…)`);
+    } catch (err) {
+      const retry = job.attempts < MAX_ATTEMPTS;
+      this.logger.warn(`package of revision ${revision.id} failed (attempt ${job.attempts}): ${(err as Error).message}`);
+      await this.em.nativeUpdate(PackageJob, { id: job.id }, { status: retry ? 'queued' : 'failed', error: (err as Error).message.slice(0, 500), lockedBy: null });
+    }
+  }
+
+  /** The signed PDF of a revision. The same snapshot always gives the same document before signing. */
+  async make(revision: Revision, onProgress?: (f: number) => void): Promise<Buffer> {
+    const snapshot = revision.snapshot as unknown as RevisionSnapshot;
+    const history = (await this.revisions.summaries(revision.sheet.id)).filter((r) => r.number <= revision.number);
+    const stored = await this.em.find(Attachment, { id: { $in: snapshot.attachments.map((a) => a.id) } });
+    const attachments = await Promise.all(
+      snapshot.attachments.map(async (a) => {
+        const row = stored.find((s) => s.id === a.id);
+        const body = row ? await this.store.get(row.objectKey) : Buffer.alloc(0);
+        return { ...a, body };
+      }),
+    );
+    const unsigned = await buildPackagePdf({ revisionId: revision.id, snapshot, history, attachments, onProgress });
+    const cert = await this.certificates.forSigning(revision.sheet.project.firm);
+    return signPdf(unsigned, cert.p12, cert.password, { firm: snapshot.firm, reason: `Issue of ${snapshot.sheetNumber} revision ${snapshot.revision.code}` });
+  }
+
+  private async findRevision(auth: AuthContext, id: string): Promise<Revision> {
+    const isClient = auth.roles.includes('client');
+    const where = isClient
+      ? { id, sheet: { project: { id: { $in: (await this.em.find(ProjectClient, { user: auth.session.user })).map((c) => c.project.id) } } } }
+      : { id, sheet: { project: { firm: auth.session.firm } } };
+    const r = await this.em.findOne(Revision, where, { populate: ['sheet', 'sheet.project'] });
+    if (!r) throw new AppException(ErrorCode.NotFound, 'No such revision.', HttpStatus.NOT_FOUND);
+    return r;
+  }
+
+  async status(auth: AuthContext, revisionId: string): Promise<PackageStatus> {
+    const r = await this.findRevision(auth, revisionId);
+    const job = await this.em.findOne(PackageJob, { revision: r });
+    return { status: job?.status ?? 'none', percent: job?.percent ?? 0, error: job?.error ?? null, pdfSha256: r.pdfSha256 ?? null };
+  }
+
+  /** Puts a failed (or missing) job back in the queue. */
+  async retry(auth: AuthContext, revisionId: string): Promise<PackageStatus> {
+    const r = await this.findRevision(auth, revisionId);
+    if (r.pdfSha256) throw new AppException(ErrorCode.Conflict, 'The package of this revision is made already; it is never made again.', HttpStatus.CONFLICT);
+    const job = (await this.em.findOne(PackageJob, { revision: r })) ?? this.em.create(PackageJob, { revision: r });
+    job.status = 'queued';
+    job.attempts = 0;
+    job.error = undefined;
+    await this.em.flush();
+    return this.status(auth, revisionId);
+  }
+
+  async download(auth: AuthContext, revisionId: string): Promise<{ body: Buffer; fileName: string; sha256: string }> {
+    const r = await this.findRevision(auth, revisionId);
+    if (!r.pdfObjectKey || !r.pdfSha256) throw new AppException('PACKAGE_NOT_READY', 'The package of this revision is still being made; try again in a moment.', HttpStatus.CONFLICT);
+    const body = await this.store.get(r.pdfObjectKey);
+    return { body, fileName: `${r.sheet.project.jobNumber}-${r.sheet.number}-rev${r.code}.pdf`.replace(/[^A-Za-z0-9._-]/g, '_'), sha256: r.pdfSha256 };
+  }
+
+  /** For a client: the issued revisions of the projects they were invited to, nothing else. */
+  async portal(auth: AuthContext): Promise<PortalRevision[]> {
+    const projectIds = (await this.em.find(ProjectClient, { user: auth.session.user })).map((c) => c.project.id);
+    if (!projectIds.length) return [];
+    const rows = await this.em.find(Revision, { sheet: { project: { $in: projectIds } } }, { populate: ['sheet', 'sheet.project', 'preparedBy', 'checkedBy', 'approvedBy'], orderBy: { issuedAt: 'desc' } });
+    return rows.map((r) => ({
+      ...this.revisions.toSummary(r),
+      sheetId: r.sheet.id,
+      sheetNumber: r.sheet.number,
+      sheetTitle: (r.snapshot as unknown as RevisionSnapshot).sheet.title,
+      projectId: r.sheet.project.id,
+      jobNumber: r.sheet.project.jobNumber,
+      projectTitle: r.sheet.project.title,
+      packageReady: !!r.pdfSha256,
+    }));
+  }
+
+  /**
+   * Whether an uploaded PDF is a package this service issued, unchanged. A file whose SHA-256 is an
+   * issued package's is unaltered; one that names a revision but differs was altered; anything else is
+   * not ours. Nothing is said about work that was not issued.
+   */
+  async verify(file: { buffer: Buffer; size: number } | undefined): Promise<Verdict> {
+    if (!file || file.size === 0) throw new AppException(ErrorCode.ValidationFailed, 'Choose a PDF file to check.', HttpStatus.BAD_REQUEST, [{ field: 'file', message: 'no file was sent' }]);
+    if (!file.buffer.subarray(0, 1024).toString('latin1').includes('%PDF-')) {
+      throw new AppException(ErrorCode.UnsupportedMediaType, 'This file is not a PDF, so it cannot be one of our packages.', HttpStatus.UNSUPPORTED_MEDIA_TYPE, [{ field: 'file', message: 'not a PDF' }]);
+    }
+    const sha = createHash('sha256').update(file.buffer).digest('hex');
+    const match = await this.em.findOne(Revision, { pdfSha256: sha }, { populate: ['sheet', 'sheet.project', 'sheet.project.firm'] });
+    if (match) {
+      const snap = match.snapshot as unknown as RevisionSnapshot;
+      return { verdict: 'unaltered', project: match.sheet.project.title, jobNumber: match.sheet.project.jobNumber, sheet: match.sheet.number, sheetTitle: snap.sheet.title, revision: match.code, issuedAt: match.issuedAt.toISOString(), firm: match.sheet.project.firm.name };
+    }
+    const named = new RegExp(`${REVISION_KEY}[:(\\s]+([0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12})`).exec(file.buffer.toString('latin1'));
+    if (named && (await this.em.count(Revision, { id: named[1], pdfSha256: { $ne: null } }))) {
+      return { verdict: 'altered', message: 'This file claims to be one of our packages, but it is not the file we issued: it was altered after signing (or damaged). Do not rely on it; ask the issuing firm for the original.' };
+    }
+    return { verdict: 'unknown', message: 'This PDF is not a package issued by this service.' };
+  }
+}

@@ -1,0 +1,150 @@
+import { execFileSync, spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import type { INestApplication } from '@nestjs/common';
+import { EntityManager } from '@mikro-orm/core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ProjectClient } from '../src/projects/entities/project.entity';
+import { makeSelfSignedP12 } from '../src/packages/signing';
+import { as, binary, makeCaller, type Caller } from './support/sessions';
+import { createTestApp } from './support/test-app';
+
+const toFile = (pdf: Buffer) => {
+  const file = join(mkdtempSync(join(tmpdir(), 'aw-pdf-')), 'package.pdf');
+  writeFileSync(file, pdf);
+  return file;
+};
+
+/** poppler's pdfsig on a file: its report and exit status (Debian poppler-utils). */
+function pdfsig(pdf: Buffer): { out: string; status: number | null } {
+  const file = toFile(pdf);
+  const r = spawnSync('pdfsig', [file], { encoding: 'utf8' });
+  return { out: `${r.stdout}${r.stderr}`, status: r.status };
+}
+
+describe('signed packages, the client portal and verification', () => {
+  let app: INestApplication;
+  let owner: Caller;
+  let engineer: Caller;
+  let checker: Caller;
+  let approver: Caller;
+  let client: Caller;
+  let otherClient: Caller;
+  let revisionId: string;
+  let pdf: Buffer;
+
+  beforeAll(async () => {
+    app = await createTestApp();
+    owner = await makeCaller(app, ['owner']);
+    engineer = await makeCaller(app, ['engineer'], owner.firm);
+    checker = await makeCaller(app, ['checker'], owner.firm);
+    approver = await makeCaller(app, ['approver'], owner.firm);
+    client = await makeCaller(app, ['client'], owner.firm);
+    otherClient = await makeCaller(app, ['client'], owner.firm);
+    const project = (await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'P-1', title: 'Packages', clientOrganisation: 'Client', site: 'Site' }).expect(201)).body;
+    const other = (await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'P-2', title: 'Other', clientOrganisation: 'Other client', site: 'Site' }).expect(201)).body;
+    const em = app.get(EntityManager).fork();
+    em.persist([new ProjectClient(em.getReference('Project', project.id) as never, em.getReference('User', client.user.id) as never), new ProjectClient(em.getReference('Project', other.id) as never, em.getReference('User', otherClient.user.id) as never)]);
+    await em.flush();
+    const sheet = (await as(app, engineer, 'post', `/api/projects/${project.id}/sheets`).send({ number: 'C-1', templateId: 'series-rlc-steady-state' }).expect(201)).body;
+    await as(app, engineer, 'post', `/api/sheets/${sheet.id}/attachments`).attach('file', Buffer.from('site reading 1\n'), 'site.txt').expect(201);
+    // A draft on the other project that must never reach anyone outside the firm.
+    await as(app, engineer, 'post', `/api/projects/${other.id}/sheets`).send({ number: 'C-9', title: 'Draft only' }).expect(201);
+    await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checker.user.id }).expect(200);
+    await as(app, checker, 'post', `/api/sheets/${sheet.id}/pass`).expect(200);
+    await as(app, approver, 'post', `/api/sheets/${sheet.id}/approve`).expect(200);
+    revisionId = (await as(app, approver, 'post', `/api/sheets/${sheet.id}/issue`).expect(200)).body.id;
+  });
+  afterAll(async () => {
+    await app?.close();
+  });
+
+  it('makes the package off the request path, with its progress, and keeps its SHA-256 on the revision', async () => {
+    const deadline = Date.now() + 60_000;
+    let status = (await as(app, approver, 'get', `/api/revisions/${revisionId}/package/status`).expect(200)).body;
+    expect(['queued', 'running', 'done']).toContain(status.status);
+    while (status.status !== 'done' && Date.now() < deadline) {
+      expect(status.status).not.toBe('failed');
+      await new Promise((r) => setTimeout(r, 300));
+      status = (await as(app, approver, 'get', `/api/revisions/${revisionId}/package/status`)).body;
+    }
+    expect(status).toMatchObject({ status: 'done', percent: 100, error: null });
+    const res = await binary(as(app, approver, 'get', `/api/revisions/${revisionId}/package`)).expect(200);
+    pdf = res.body as Buffer;
+    expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
+    expect(createHash('sha256').update(pdf).digest('hex')).toBe(status.pdfSha256);
+    const revision = (await as(app, engineer, 'get', `/api/revisions/${revisionId}`)).body;
+    expect(revision.pdfSha256).toBe(status.pdfSha256);
+  }, 90_000);
+
+  it('is signed: pdfsig (poppler) calls the signature valid and the document unmodified', () => {
+    const { out } = pdfsig(pdf);
+    expect(out).toMatch(/Signature Validation: Signature is Valid\./);
+    expect(out).toMatch(/Total document signed/);
+    expect(out).toMatch(/adbe\.pkcs7\.detached/);
+  });
+
+  it('renders as real pages: the text of the cover, the cells, the caution and the page numbers', () => {
+    const file = toFile(pdf);
+    const text = execFileSync('pdftotext', ['-layout', file, '-']).toString();
+    for (const words of ['Calculation package', 'Job number', 'P-1', 'Revision', 'Checked by', 'qualified engineers', 'Attachments', 'site.txt', 'Appendix: query register']) expect(text).toContain(words);
+    const pages = Number(/Pages:\s+(\d+)/.exec(execFileSync('pdfinfo', [file]).toString())![1]);
+    expect(pages).toBeGreaterThan(3);
+    expect(text).toContain(`Page ${pages} of ${pages}`);
+    // The attachment is embedded in the file.
+    expect(execFileSync('pdfdetach', ['-list', file]).toString()).toContain('site.txt');
+  });
+
+  it('calls a package with one byte changed altered, in pdfsig and on the verification page', async () => {
+    const ok = await as(app, undefined, 'post', '/api/verify').attach('file', pdf, 'package.pdf').expect(200);
+    expect(ok.body).toMatchObject({ verdict: 'unaltered', jobNumber: 'P-1', sheet: 'C-1', revision: 'A', firm: owner.firm.name });
+    const altered = Buffer.from(pdf);
+    // A byte inside the signed content (a page's drawing), not the signature itself.
+    const at = altered.indexOf('Calculation package') >= 0 ? altered.indexOf('stream') + 20 : 2000;
+    altered[at] = altered[at] ^ 0x01;
+    expect(pdfsig(altered).out).not.toMatch(/Signature is Valid\./);
+    const res = await as(app, undefined, 'post', '/api/verify').attach('file', altered, 'package.pdf').expect(200);
+    expect(res.body.verdict).toBe('altered');
+  });
+
+  it('answers a file that is not a PDF, an empty one, and a PDF that is not ours, without saying anything of unissued work', async () => {
+    const notPdf = await as(app, undefined, 'post', '/api/verify').attach('file', Buffer.from('hello'), 'x.pdf').expect(415);
+    expect(notPdf.body.message).toMatch(/not a PDF/);
+    await as(app, undefined, 'post', '/api/verify').attach('file', Buffer.alloc(0), 'x.pdf').expect(400);
+    const foreign = await as(app, undefined, 'post', '/api/verify').attach('file', Buffer.from('%PDF-1.4\n1 0 obj<<>>endobj\ntrailer<<>>\n%%EOF\n'), 'x.pdf').expect(200);
+    expect(foreign.body).toEqual({ verdict: 'unknown', message: 'This PDF is not a package issued by this service.' });
+    const big = await as(app, undefined, 'post', '/api/verify').attach('file', Buffer.concat([Buffer.from('%PDF-1.4\n'), Buffer.alloc(25 * 1024 * 1024)]), 'big.pdf').expect(413);
+    expect(big.body.message).toMatch(/25 MB/);
+  });
+
+  it('shows a client exactly the issued revisions of their projects, and nothing else', async () => {
+    const mine = (await as(app, client, 'get', '/api/portal/revisions').expect(200)).body;
+    expect(mine.map((r: { jobNumber: string; code: string }) => `${r.jobNumber} ${r.code}`)).toEqual(['P-1 A']);
+    await binary(as(app, client, 'get', `/api/revisions/${revisionId}/package`)).expect(200);
+    expect((await as(app, otherClient, 'get', '/api/portal/revisions').expect(200)).body).toEqual([]);
+    await as(app, otherClient, 'get', `/api/revisions/${revisionId}/package`).expect(404);
+    // A client reaches no draft, no query, no sheet.
+    await as(app, client, 'get', `/api/revisions/${revisionId}`).expect(403);
+    const sheets = await as(app, client, 'get', '/api/projects').expect(200);
+    for (const p of sheets.body as { id: string }[]) await as(app, client, 'get', `/api/projects/${p.id}/sheets`).expect(403);
+  });
+
+  it('takes the owner\'s PKCS#12 certificate, and refuses a wrong password or an expired certificate with the reason', async () => {
+    const p12 = makeSelfSignedP12('Upload Test Firm', 'right-password');
+    const wrong = await as(app, owner, 'post', '/api/firm/certificate').field('password', 'wrong-password').attach('file', p12, 'firm.p12').expect(400);
+    expect(wrong.body.message).toBe('The certificate was refused: The password does not open this certificate file.');
+    const expired = makeSelfSignedP12('Old Firm', 'pw', 1, new Date(Date.now() - 3 * 365 * 86400_000));
+    const old = await as(app, owner, 'post', '/api/firm/certificate').field('password', 'pw').attach('file', expired, 'old.p12').expect(400);
+    expect(old.body.message).toMatch(/The certificate expired on \d{4}-\d{2}-\d{2}\./);
+    const junk = await as(app, owner, 'post', '/api/firm/certificate').field('password', 'x').attach('file', Buffer.from('not a certificate'), 'x.p12').expect(400);
+    expect(junk.body.message).toMatch(/not a PKCS#12/);
+    const ok = await as(app, owner, 'post', '/api/firm/certificate').field('password', 'right-password').attach('file', p12, 'firm.p12').expect(201);
+    expect(ok.body).toMatchObject({ subject: expect.stringContaining('Upload Test Firm'), selfSigned: false });
+    expect((await as(app, owner, 'get', '/api/firm/certificate').expect(200)).body.fingerprint).toBe(ok.body.fingerprint);
+    // The password is sealed at rest, never stored as given.
+    const rows = await app.get(EntityManager).getConnection().execute<{ password_sealed: string }[]>('select password_sealed from firm_certificate where fingerprint = ?', [ok.body.fingerprint]);
+    expect(rows[0].password_sealed).not.toContain('right-password');
+  });
+});
