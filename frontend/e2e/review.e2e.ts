@@ -28,7 +28,7 @@ describe('independent checking and revisions in a real browser', () => {
     await page.getByLabel('Approver (optional)').click();
     await page.getByRole('option', { name: 'Hal Vermeulen' }).click();
     await page.getByRole('button', { name: 'Send for checking' }).click();
-    await expect.poll(() => page.getByTestId('sheet-state').textContent()).toBe('With the checker');
+    await expect.poll(() => page.getByTestId('sheet-state').textContent(), { timeout: 15_000 }).toBe('With the checker');
 
     // The checker raises two queries.
     const checker = await pageFor(browser, 'checker@northfold.example', sheetPath);
@@ -61,18 +61,18 @@ describe('independent checking and revisions in a real browser', () => {
       await expect.poll(() => cell(checker, n).getByTestId('query-status').textContent()).toBe('Closed');
     }
     await checker.getByRole('button', { name: 'Pass the check' }).click();
-    await expect.poll(() => checker.getByTestId('sheet-state').textContent()).toBe('Checked');
+    await expect.poll(() => checker.getByTestId('sheet-state').textContent(), { timeout: 15_000 }).toBe('Checked');
 
     // The approver approves and issues revision A.
     const approver = await pageFor(browser, 'approver@northfold.example', sheetPath);
     await approver.getByRole('button', { name: 'Approve' }).click();
     await approver.getByRole('button', { name: 'Issue revision A' }).click();
-    await expect.poll(() => approver.getByTestId('sheet-state').textContent()).toBe('Issued');
+    await expect.poll(() => approver.getByTestId('sheet-state').textContent(), { timeout: 20_000 }).toBe('Issued');
 
     // The engineer starts revision B and changes R; the diff shows R and what follows from it.
     await page.reload();
     await page.getByRole('button', { name: 'Start the next revision' }).click();
-    await expect.poll(() => page.getByTestId('sheet-state').textContent()).toBe('Being prepared');
+    await expect.poll(() => page.getByTestId('sheet-state').textContent(), { timeout: 15_000 }).toBe('Being prepared');
     await cell(page, 2).getByRole('button', { name: 'Edit' }).click();
     await page.getByRole('textbox', { name: 'Cell 2 source' }).click();
     await page.keyboard.press('Control+a');

@@ -19,7 +19,9 @@ async function seed() {
   } finally {
     await orm.close(true);
   }
-  // The issued revision goes through the app's own services (evaluation, snapshot, notifications).
+  // The issued revision goes through the app's own services (evaluation, snapshot, notifications);
+  // its package is left queued for the app's worker, not made by this short-lived process.
+  process.env.PACKAGE_WORKER = 'false';
   const app = await NestFactory.createApplicationContext(AppModule, { logger: ['error', 'warn'] });
   try {
     const issued = await seedDemoReview(app);

@@ -6,7 +6,7 @@
 import { createHash, randomUUID } from 'node:crypto';
 import { hostname } from 'node:os';
 import { EntityManager, MikroORM, RequestContext } from '@mikro-orm/core';
-import { HttpStatus, Injectable, Logger, OnApplicationBootstrap, OnApplicationShutdown } from '@nestjs/common';
+import { BeforeApplicationShutdown, HttpStatus, Injectable, Logger, OnApplicationBootstrap } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import type { RevisionSummaryDto } from '@ampwright/common';
 import { Attachment } from '../attachments/entities/attachment.entity';
@@ -20,7 +20,8 @@ import type { RevisionSnapshot } from '../review/revisions.service';
 import { RevisionsService } from '../review/revisions.service';
 import { CertificatesService } from './certificates.service';
 import { PackageJob } from './entities/package-job.entity';
-import { buildPackagePdf, REVISION_KEY } from './package-pdf';
+import { buildPackageInWorker } from './build-in-worker';
+import { REVISION_KEY } from './package-pdf';
 import { signPdf } from './signing';
 
 export interface PackageStatus {
@@ -49,7 +50,7 @@ const MAX_ATTEMPTS = 3;
 const STALE_LOCK_MS = 5 * 60_000;
 
 @Injectable()
-export class PackagesService implements OnApplicationBootstrap, OnApplicationShutdown {
+export class PackagesService implements OnApplicationBootstrap, BeforeApplicationShutdown {
   private readonly logger = new Logger(PackagesService.name);
   private readonly instance = `${hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
   private timer?: NodeJS.Timeout;
@@ -71,9 +72,13 @@ export class PackagesService implements OnApplicationBootstrap, OnApplicationShu
     this.timer.unref();
   }
 
-  onApplicationShutdown(): void {
+  /** On a clean stop: let the job in hand finish (up to 30 s), then hand back any job still held. */
+  async beforeApplicationShutdown(): Promise<void> {
     this.stopped = true;
     clearInterval(this.timer);
+    const until = Date.now() + 30_000;
+    while (this.busy && Date.now() < until) await new Promise((r) => setTimeout(r, 100));
+    await this.orm.em.fork().nativeUpdate(PackageJob, { lockedBy: this.instance, status: 'running' }, { status: 'queued', lockedBy: null }).catch(() => undefined);
   }
 
   /** Takes the oldest waiting job (or one whose instance died) and makes its package. */
@@ -138,7 +143,7 @@ export class PackagesService implements OnApplicationBootstrap, OnApplicationShu
         return { ...a, body };
       }),
     );
-    const unsigned = await buildPackagePdf({ revisionId: revision.id, snapshot, history, attachments, onProgress });
+    const unsigned = await buildPackageInWorker({ revisionId: revision.id, snapshot, history, attachments, onProgress });
     const cert = await this.certificates.forSigning(revision.sheet.project.firm);
     return signPdf(unsigned, cert.p12, cert.password, { firm: snapshot.firm, reason: `Issue of ${snapshot.sheetNumber} revision ${snapshot.revision.code}` });
   }

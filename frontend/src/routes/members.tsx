@@ -1,3 +1,4 @@
+import { CertificatePanel } from '../features/packages/components/certificate-panel';
 import { Alert, Button, Checkbox, Chip, FormControlLabel, FormGroup, FormHelperText, Paper, Stack, Table, TableBody, TableCell, TableHead, TableRow, TextField, Typography } from '@mui/material';
 import { useState } from 'react';
 import { FormCard } from '../components/forms/form-card';
@@ -91,6 +92,7 @@ export function MembersPage() {
         </Table>
       </Paper>
       {isOwner && <InviteForm />}
+      {isOwner && <CertificatePanel />}
       {isOwner && !!invitations.data?.length && (
         <Paper sx={{ p: 2 }}>
           <Typography variant="h4" gutterBottom>Invitations</Typography>

@@ -6,6 +6,7 @@ import { PageHeading } from '../components/layout/page-heading';
 import { monoFont, palette } from '../app/theme';
 import { useDiff, useHistory, useRevisions } from '../features/review/api/review';
 import { useSheet } from '../features/sheets/api/sheets';
+import { PackageLink } from '../features/packages/components/package-link';
 
 const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString() : '—');
 const show = (v: unknown) => (v === undefined ? '—' : typeof v === 'string' ? v : JSON.stringify(v));
@@ -46,7 +47,7 @@ export function SheetHistoryPage() {
         {list.length > 0 && (
           <Table size="small" aria-label="Revisions">
             <TableHead>
-              <TableRow><TableCell>Revision</TableCell><TableCell>Prepared by</TableCell><TableCell>Checked by</TableCell><TableCell>Approved by</TableCell><TableCell>Issued</TableCell><TableCell>Snapshot SHA-256</TableCell></TableRow>
+              <TableRow><TableCell>Revision</TableCell><TableCell>Prepared by</TableCell><TableCell>Checked by</TableCell><TableCell>Approved by</TableCell><TableCell>Issued</TableCell><TableCell>Snapshot SHA-256</TableCell><TableCell>Package</TableCell></TableRow>
             </TableHead>
             <TableBody>
               {list.map((r) => (
@@ -57,6 +58,7 @@ export function SheetHistoryPage() {
                   <TableCell>{r.approvedBy}<br /><Typography variant="caption">{when(r.approvedAt)}</Typography></TableCell>
                   <TableCell>{when(r.issuedAt)}</TableCell>
                   <TableCell sx={{ fontFamily: monoFont, fontSize: 11 }} title={r.snapshotSha256}>{r.snapshotSha256.slice(0, 20)}…</TableCell>
+                  <TableCell><PackageLink revisionId={r.id} canRetry /></TableCell>
                 </TableRow>
               ))}
             </TableBody>

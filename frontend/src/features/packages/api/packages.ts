@@ -1,0 +1,73 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { RevisionSummaryDto } from '@ampwright/common';
+import { api } from '../../../lib/api-client';
+
+export interface PackageStatus {
+  status: 'queued' | 'running' | 'done' | 'failed' | 'none';
+  percent: number;
+  error: string | null;
+  pdfSha256: string | null;
+}
+
+export interface PortalRevision extends RevisionSummaryDto {
+  sheetId: string;
+  sheetNumber: string;
+  sheetTitle: string;
+  projectId: string;
+  jobNumber: string;
+  projectTitle: string;
+  packageReady: boolean;
+}
+
+export type Verdict =
+  | { verdict: 'unaltered'; project: string; jobNumber: string; sheet: string; sheetTitle: string; revision: string; issuedAt: string; firm: string }
+  | { verdict: 'altered' | 'unknown'; message: string };
+
+export interface CertificateView {
+  subject: string;
+  issuer: string;
+  notBefore: string;
+  notAfter: string;
+  fingerprint: string;
+  selfSigned: boolean;
+}
+
+/** A package's making, polled every second until it is done or failed. */
+export const usePackageStatus = (revisionId: string) =>
+  useQuery({
+    queryKey: ['revisions', revisionId, 'package'],
+    queryFn: ({ signal }) => api.get<PackageStatus>(`/revisions/${revisionId}/package/status`, { signal }),
+    refetchInterval: (q) => (q.state.data && (q.state.data.status === 'done' || q.state.data.status === 'failed') ? false : 1000),
+  });
+
+export function useRetryPackage(revisionId: string) {
+  const qc = useQueryClient();
+  return useMutation({ mutationFn: () => api.post<PackageStatus>(`/revisions/${revisionId}/package/retry`), onSuccess: (s) => qc.setQueryData(['revisions', revisionId, 'package'], s) });
+}
+
+export const usePortal = () => useQuery({ queryKey: ['portal'], queryFn: ({ signal }) => api.get<PortalRevision[]>('/portal/revisions', { signal }) });
+
+export function useVerify() {
+  return useMutation({
+    mutationFn: (file: File) => {
+      const form = new FormData();
+      form.set('file', file);
+      return api.post<Verdict>('/verify', form);
+    },
+  });
+}
+
+export const useCertificate = () => useQuery({ queryKey: ['firm', 'certificate'], queryFn: ({ signal }) => api.get<CertificateView | null>('/firm/certificate', { signal }) });
+
+export function useUploadCertificate() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: ({ file, password }: { file: File; password: string }) => {
+      const form = new FormData();
+      form.set('password', password);
+      form.set('file', file);
+      return api.post<CertificateView>('/firm/certificate', form);
+    },
+    onSuccess: (c) => qc.setQueryData(['firm', 'certificate'], c),
+  });
+}
