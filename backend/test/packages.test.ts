@@ -8,6 +8,7 @@ import { EntityManager } from '@mikro-orm/core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ProjectClient } from '../src/projects/entities/project.entity';
 import { makeSelfSignedP12 } from '../src/packages/signing';
+import { buildPackageInWorker } from '../src/packages/build-in-worker';
 import { as, binary, makeCaller, type Caller } from './support/sessions';
 import { createTestApp } from './support/test-app';
 
@@ -78,6 +79,14 @@ describe('signed packages, the client portal and verification', () => {
     const revision = (await as(app, engineer, 'get', `/api/revisions/${revisionId}`)).body;
     expect(revision.pdfSha256).toBe(status.pdfSha256);
   }, 90_000);
+
+  it('lays out the same document from the same snapshot every time (only the signature differs)', async () => {
+    const revision = (await as(app, engineer, 'get', `/api/revisions/${revisionId}`)).body;
+    const input = { revisionId, snapshot: revision.snapshot, history: [revision], attachments: [{ ...revision.snapshot.attachments[0], body: Buffer.from('site reading 1\n') }] };
+    const [a, b] = await Promise.all([buildPackageInWorker(input), buildPackageInWorker(input)]);
+    expect(a.length).toBeGreaterThan(10_000);
+    expect(Buffer.compare(a, b)).toBe(0);
+  }, 60_000);
 
   it('is signed: pdfsig (poppler) calls the signature valid and the document unmodified', () => {
     const { out } = pdfsig(pdf);

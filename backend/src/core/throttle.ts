@@ -10,7 +10,7 @@ const perAccount = (req: Record<string, unknown>) => {
 };
 
 export const THROTTLERS: ThrottlerOptions[] = [
-  { name: 'default', ttl: 60_000, limit: 600 },
+  { name: 'default', ttl: 60_000, limit: Number(process.env.THROTTLE_DEFAULT_PER_ADDRESS ?? 600) },
   { name: 'address', ttl: 60_000, limit: 1_000_000_000 },
   { name: 'account', ttl: 60_000, limit: 1_000_000_000, getTracker: perAccount as never },
 ];

@@ -226,7 +226,7 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
   function drawCalc(result: CalcResult) {
     for (const line of result.lines) {
       if (!line.tex) continue;
-      const f = texToSvgSize(line.tex.formula);
+      const f = texToSvgSize(line.tex.formula, 10.5);
       ensure(Math.max(f, 14) + 30);
       const y = doc.y;
       const left = tex(line.tex.formula, M, y, width() * 0.55);
@@ -243,9 +243,9 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     for (const fig of calcFigures(result)) svgFigure(fig.svg, width() * 0.6);
   }
 
-  function texToSvgSize(source: string): number {
+  function texToSvgSize(source: string, size: number): number {
     try {
-      return texToSvg(source, 10).height;
+      return texToSvg(source, size).height;
     } catch {
       return 12;
     }

@@ -25,7 +25,21 @@ export interface TexSvg {
   depth: number;
 }
 
+const cache = new Map<string, TexSvg>();
+
+/** Converted once per formula and size (a layout asks for a formula's size before drawing it). */
 export function texToSvg(tex: string, fontSize: number): TexSvg {
+  const key = `${fontSize}|${tex}`;
+  let hit = cache.get(key);
+  if (!hit) {
+    if (cache.size > 5000) cache.clear();
+    hit = convert(tex, fontSize);
+    cache.set(key, hit);
+  }
+  return hit;
+}
+
+function convert(tex: string, fontSize: number): TexSvg {
   const node = doc.convert(`\\displaystyle ${tex}`, { display: false });
   const svgNode = adaptor.firstChild(node) as unknown as Parameters<typeof adaptor.outerHTML>[0];
   const svg = adaptor.outerHTML(svgNode);

@@ -1,0 +1,59 @@
+/**
+ * Generators of hostile calc sources for fuzzing the language: deep nesting, huge and tiny numbers,
+ * unit soup, attempts to escape the sandbox, huge matrices and odd unicode, mixed with ordinary
+ * expressions so that the engine's normal paths are reached too.
+ */
+import fc from 'fast-check';
+
+const NAMES = ['R', 'L', 'C', 'f', 'w', 'x', 'I', 'V_1', 'Z_c', 'j', 'i', 'pi', 'e'];
+const UNITS = ['V', 'A', 'ohm', 'kohm', 'mH', 'uF', 'Hz', 'kHz', 'rad', 'deg', 's', 'ms', 'W', 'kW', 'var', 'kvar', 'VA', 'J', 'C', 'F', 'H', 'S', 'm', 'kg', 'K', 'degC', 'rad/s', 'V/m', 'qV', 'QW', 'bogus', 'µF', 'Ω'];
+const FUNCTIONS = ['sqrt', 'abs', 'arg', 're', 'im', 'conj', 'sin', 'cos', 'exp', 'log', 'max', 'sum', 'series', 'parallel', 'phasor', 'rms', 'rlc_impedance', 'delay_angle', 'resonant_frequency', 'power_factor', 'round', 'ones', 'zeros', 'det', 'inv'];
+const ESCAPES = [
+  'import({x: 1})', 'evaluate("1+1")', 'parse("1")', 'compile("1")', 'createUnit("foo")', 'simplify("x")', 'derivative("x^2", "x")', 'resolve(x)',
+  'f(x) = x^2', 'cos.constructor("return process")()', 'x.constructor', '[].constructor.constructor("return 1")()', '__proto__', 'x["constructor"]',
+  'config({number: "BigNumber"})', 'typed()', 'chain(1)', 'reviver', 'Unit', 'process.exit(1)', 'require("fs")', 'this', 'globalThis', '"\\u0000"',
+];
+const UNICODE = ['\u202e', '\u200b', '\uFEFF', 'µ', 'Ω', '∠', '√', '²', '−', '×', '·', '🙂', '\u0301', '\uD800', 'ℎ', 'ﬁ', '\t', '\r'];
+
+const num = fc.oneof(
+  fc.constantFrom('0', '1', '-1', '1e308', '-1e308', '1e-308', '5e-324', '1e400', '1e-400', '0.1', '3.14159', '1e15', '9007199254740993', 'NaN', 'Infinity'),
+  fc.double({ noNaN: false }).map((d) => String(d)),
+  fc.integer().map(String),
+);
+
+const atom = fc.oneof(num, fc.constantFrom(...NAMES), fc.tuple(num, fc.constantFrom(...UNITS)).map(([n, u]) => `${n} ${u}`), fc.constantFrom(...ESCAPES), fc.constantFrom(...UNICODE));
+
+/** An expression tree of bounded depth. */
+const expr: fc.Arbitrary<string> = fc.letrec<{ e: string }>((tie) => ({
+  e: fc.oneof(
+    { depthSize: 'small', withCrossShrink: true },
+    atom,
+    fc.tuple(tie('e'), fc.constantFrom('+', '-', '*', '/', '^', '==', '<=', ' to ', '.*', ' and ', ' mod '), tie('e')).map(([a, op, b]) => `${a}${op}${b}`),
+    fc.tuple(fc.constantFrom(...FUNCTIONS), fc.array(tie('e'), { maxLength: 4 })).map(([f, args]) => `${f}(${args.join(', ')})`),
+    tie('e').map((a) => `(${a})`),
+    fc.array(tie('e'), { maxLength: 5 }).map((xs) => `[${xs.join(', ')}]`),
+    fc.tuple(tie('e'), fc.constantFrom(...UNITS)).map(([a, u]) => `${a} to ${u}`),
+  ),
+})).e;
+
+/** Shapes that target limits directly. */
+const extreme = fc.oneof(
+  fc.integer({ min: 100, max: 5000 }).map((n) => `${'('.repeat(n)}1${')'.repeat(n)}`),
+  fc.integer({ min: 2, max: 400 }).map((n) => Array.from({ length: n }, () => '2').join('^')),
+  fc.integer({ min: 10, max: 3000 }).map((n) => `zeros(${n}, ${n})`),
+  fc.integer({ min: 10, max: 1e6 }).map((n) => `ones(${n}) * 2 V`),
+  fc.integer({ min: 50, max: 3000 }).map((n) => Array.from({ length: n }, (_, k) => `${k} ${UNITS[k % UNITS.length]}`).join(' + ')),
+  fc.integer({ min: 1, max: 2000 }).map((n) => `"${'a'.repeat(n * 50)}"`),
+  fc.string({ unit: 'binary', maxLength: 200 }),
+  fc.string({ unit: 'grapheme', maxLength: 200 }),
+);
+
+/** A calc line (`name = expression`, sometimes broken on purpose) and a check condition. */
+export const hostileSource = fc.tuple(fc.constantFrom(...NAMES, 'y', 'z', '_', '1x', 'to', 'pi', 'sqrt', ''), fc.oneof({ weight: 4, arbitrary: expr }, { weight: 1, arbitrary: extreme }), fc.option(fc.constantFrom('# note', ' to mA', ' to', '=', ' # ∠ ok'), { nil: '' })).map(([name, e, tail]) => `${name} = ${e}${tail}`);
+
+export const hostileSheet = fc.tuple(fc.array(hostileSource, { minLength: 1, maxLength: 4 }), fc.oneof(expr, extreme)).map(([lines, condition]) => ({
+  cells: [
+    { kind: 'calc' as const, source: `R = 5 ohm\nL = 10 mH\nC = 100 uF\nf = 50 Hz\nw = 2 pi f\nx = 2 A\n${lines.join('\n')}` },
+    { kind: 'check' as const, condition },
+  ],
+}));
