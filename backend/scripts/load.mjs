@@ -12,6 +12,7 @@ const PORT = Number(process.env.LOAD_APP_PORT ?? 3200);
 const BASE = `http://127.0.0.1:${PORT}`;
 const SECONDS = Number(process.env.LOAD_SECONDS ?? 60);
 const READERS = 35;
+const statuses = new Map();
 const WRITERS = 15;
 
 async function json(path, { method = 'GET', body, session } = {}) {
@@ -88,19 +89,19 @@ main(async () => {
     duration: SECONDS,
     requests: [{ method: 'GET', setupRequest: (req) => ({ ...req, path: `/api/sheets/${readSheets[readerIndex++ % readSheets.length]}`, headers: { cookie: sessions[readerIndex % 2].cookie } }) }],
   });
-  let writerIndex = 0;
+  // Each writer's sheet is saved by one request at a time (taken from a free list, given back on the
+  // answer), so every save is based on the version that writer last saw: a 409 would be a real conflict.
+  const free = [...writers];
   const saves = autocannon({
     url: BASE,
     connections: WRITERS,
     duration: SECONDS,
-    // One writer per connection, each on its own sheet, so every save is based on the version it last saw.
-    initialContext: {},
     requests: [
       {
         method: 'PATCH',
         setupRequest: (req, context) => {
-          context.w ??= writers[writerIndex++ % writers.length];
-          const w = context.w;
+          const w = free.shift();
+          context.w = w;
           w.n += 1;
           return {
             ...req,
@@ -111,6 +112,8 @@ main(async () => {
         },
         onResponse: (status, body, context) => {
           if (status === 200) context.w.version = JSON.parse(body).version;
+          else statuses.set(status, (statuses.get(status) ?? 0) + 1);
+          free.push(context.w);
         },
       },
     ],
@@ -119,5 +122,6 @@ main(async () => {
   process.stdout.write(`\nLoad: ${READERS + WRITERS} users for ${SECONDS} s on ${BASE} (${new Date().toISOString().slice(0, 10)})\n`);
   report('reads', r, 100);
   report('saves', w, 250);
+  if (statuses.size) process.stdout.write(`saves answered other than 200: ${[...statuses].map(([k, v]) => `${v} × ${k}`).join(', ')}\n`);
   return 0;
 });
