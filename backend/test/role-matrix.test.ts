@@ -32,6 +32,8 @@ const MATRIX: Record<string, Allowed> = {
   'DELETE /api/members/:id': ['owner'],
   'GET /api/audit': ['owner'],
   'GET /api/templates': MEMBERS,
+  'POST /api/templates': ['owner', 'engineer'],
+  'DELETE /api/templates/:id': ['owner', 'engineer'],
   'GET /api/projects': 'signed-in',
   'POST /api/projects': ['owner', 'engineer'],
   'GET /api/projects/:id': MEMBERS,

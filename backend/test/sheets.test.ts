@@ -45,6 +45,25 @@ describe('projects and sheets', () => {
     expect(evaluated.body.cells[2].values.Z.si).toBeCloseTo(calc.results.values.Z.si, 12);
   });
 
+  it('saves a sheet as a firm template, offers it beside the built-in ones, and starts new sheets from it', async () => {
+    const from = (await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'T-1', sheet: { format: 'ampwright.sheet/1', title: 'Our branch check', cells: [{ kind: 'calc', source: 'R = 3 ohm\nX = 4 ohm\nZ = sqrt(R^2 + X^2)' }] } }).expect(201)).body;
+    const saved = (await as(app, engineer, 'post', '/api/templates').send({ sheetId: from.id, title: 'Firm branch check' }).expect(201)).body;
+    expect(saved).toMatchObject({ title: 'Firm branch check', cellCount: 1, source: 'firm' });
+    const list = (await as(app, checker, 'get', '/api/templates').expect(200)).body as { id: string; source: string }[];
+    expect(list.filter((t) => t.source === 'built-in').length).toBeGreaterThanOrEqual(6);
+    expect(list.map((t) => t.id)).toContain(saved.id);
+    const made = (await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'T-2', templateId: saved.id }).expect(201)).body;
+    expect(made.title).toBe('Firm branch check');
+    expect(made.cells[0].results.values.Z.si).toBeCloseTo(5, 12); // 3-4-5 (Pythagoras)
+    // Another firm neither sees nor uses it, and a built-in template cannot be removed.
+    expect(((await as(app, outsider, 'get', '/api/templates')).body as { id: string }[]).map((t) => t.id)).not.toContain(saved.id);
+    const outsiderProject = (await as(app, outsider, 'get', '/api/projects')).body[0];
+    await as(app, outsider, 'post', `/api/projects/${outsiderProject.id}/sheets`).send({ number: 'X-1', templateId: saved.id }).expect(404);
+    await as(app, engineer, 'post', '/api/templates').send({ sheetId: 'nope' }).expect(400);
+    await as(app, engineer, 'delete', `/api/templates/${saved.id}`).expect(204);
+    expect(((await as(app, engineer, 'get', '/api/templates')).body as { id: string }[]).map((t) => t.id)).not.toContain(saved.id);
+  });
+
   it('imports a sheet file, keeping fields it does not know', async () => {
     const sheet = { format: 'ampwright.sheet/1', title: 'Imported', reviewNote: 'keep me', cells: [{ kind: 'note', text: 'hello', colour: 'teal' }] };
     const res = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-102', sheet }).expect(201);

@@ -3,6 +3,7 @@ import { Revision } from '../review/entities/revision.entity';
 import { Notification } from '../notifications/entities/notification.entity';
 import { FirmCertificate } from '../packages/entities/firm-certificate.entity';
 import { PackageJob } from '../packages/entities/package-job.entity';
+import { Template } from '../templates/entities/template.entity';
 import { Attachment } from '../attachments/entities/attachment.entity';
 import { AuditEvent } from '../audit/entities/audit-event.entity';
 import { PasswordReset } from '../auth/entities/password-reset.entity';
@@ -16,4 +17,4 @@ import { Sheet } from '../sheets/entities/sheet.entity';
 import { User } from '../users/entities/user.entity';
 
 /** Every entity, listed once: the ORM, the migrator and the seed read this list. */
-export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent, Project, ProjectClient, Sheet, Cell, Attachment, CellQuery, QueryMessage, Revision, Notification, FirmCertificate, PackageJob];
+export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent, Project, ProjectClient, Sheet, Cell, Attachment, CellQuery, QueryMessage, Revision, Notification, FirmCertificate, PackageJob, Template];

@@ -150,7 +150,7 @@ export class SheetsService {
   async create(auth: AuthContext, projectId: string, dto: CreateSheetDto): Promise<SheetView> {
     const project = await this.projects.find(auth, projectId);
     if (dto.templateId && dto.sheet) throw new AppException(ErrorCode.ValidationFailed, 'Give a template or a sheet file, not both.', HttpStatus.BAD_REQUEST);
-    let file: SheetFile | undefined = dto.templateId ? this.templates.get(dto.templateId) : undefined;
+    let file: SheetFile | undefined = dto.templateId ? await this.templates.get(auth, dto.templateId) : undefined;
     if (dto.sheet) {
       const parsed = parseSheetFile(dto.sheet);
       if (!parsed.ok) {

@@ -1,6 +1,6 @@
 import { Module } from '@nestjs/common';
-import { TemplatesController } from './templates.controller';
 import { TemplatesService } from './templates.service';
 
-@Module({ controllers: [TemplatesController], providers: [TemplatesService], exports: [TemplatesService] })
+/** The templates' service; its controller sits in SheetsModule, since saving a template reads a sheet. */
+@Module({ providers: [TemplatesService], exports: [TemplatesService] })
 export class TemplatesModule {}

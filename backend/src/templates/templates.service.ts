@@ -1,32 +1,59 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
+import { EntityManager } from '@mikro-orm/core';
 import { HttpStatus, Injectable } from '@nestjs/common';
 import { parseSheetJson, type SheetFile, type TemplateSummaryDto } from '@ampwright/common';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
+import type { AuthContext } from '../core/guards/auth.guard';
+import { User } from '../users/entities/user.entity';
+import { Template } from './entities/template.entity';
 
 export type TemplateSummary = TemplateSummaryDto;
 
-/** The sheet templates shipped in templates/ (read once at start-up; each is a valid sheet file). */
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/;
+
+/**
+ * Templates: the built-in ones shipped in templates/ (read once at start-up; each a valid sheet file,
+ * with its file name as id), and each firm's own, saved from its sheets (Template, with a uuid).
+ */
 @Injectable()
 export class TemplatesService {
-  private readonly templates = new Map<string, SheetFile>();
+  private readonly builtIn = new Map<string, SheetFile>();
 
-  constructor() {
+  constructor(private readonly em: EntityManager) {
     const dir = process.env.TEMPLATES_DIR ?? resolve(__dirname, '..', '..', '..', 'templates');
     for (const file of readdirSync(dir).filter((f) => f.endsWith('.json')).sort()) {
       const parsed = parseSheetJson(readFileSync(join(dir, file), 'utf8'));
       if (!parsed.ok) throw new Error(`template ${file} is not a valid sheet file: ${parsed.problems.map((p) => `${p.path}: ${p.message}`).join('; ')}`);
-      this.templates.set(file.replace(/\.json$/, ''), parsed.sheet);
+      this.builtIn.set(file.replace(/\.json$/, ''), parsed.sheet);
     }
   }
 
-  list(): TemplateSummary[] {
-    return [...this.templates].map(([id, t]) => ({ id, title: t.title, cellCount: t.cells.length }));
+  async list(auth: AuthContext): Promise<TemplateSummary[]> {
+    const own = await this.em.find(Template, { firm: auth.session.firm }, { orderBy: { title: 'asc' } });
+    return [
+      ...[...this.builtIn].map(([id, t]) => ({ id, title: t.title, cellCount: t.cells.length, source: 'built-in' as const })),
+      ...own.map((t) => ({ id: t.id, title: t.title, cellCount: t.sheet.cells.length, source: 'firm' as const })),
+    ];
   }
 
-  get(id: string): SheetFile {
-    const t = this.templates.get(id);
-    if (!t) throw new AppException(ErrorCode.NotFound, `No template named ${id}.`, HttpStatus.NOT_FOUND, [{ field: 'templateId', message: 'no such template' }]);
-    return structuredClone(t);
+  async get(auth: AuthContext, id: string): Promise<SheetFile> {
+    const builtIn = this.builtIn.get(id);
+    if (builtIn) return structuredClone(builtIn);
+    const own = UUID.test(id) ? await this.em.findOne(Template, { id, firm: auth.session.firm }) : null;
+    if (!own) throw new AppException(ErrorCode.NotFound, `No template named ${id}.`, HttpStatus.NOT_FOUND, [{ field: 'templateId', message: 'no such template' }]);
+    return structuredClone(own.sheet);
+  }
+
+  async save(auth: AuthContext, title: string, sheet: SheetFile): Promise<TemplateSummary> {
+    const t = new Template(auth.session.firm, title, { ...sheet, title }, this.em.getReference(User, auth.session.user.id));
+    await this.em.persist(t).flush();
+    return { id: t.id, title: t.title, cellCount: t.sheet.cells.length, source: 'firm' };
+  }
+
+  async remove(auth: AuthContext, id: string): Promise<void> {
+    const t = await this.em.findOne(Template, { id, firm: auth.session.firm });
+    if (!t) throw new AppException(ErrorCode.NotFound, 'No such template of your firm (built-in templates cannot be removed).', HttpStatus.NOT_FOUND);
+    await this.em.remove(t).flush();
   }
 }

@@ -70,9 +70,11 @@ export interface SaveResultDto {
 }
 
 export interface TemplateSummaryDto {
+  /** A built-in template's file name, or a firm template's uuid. */
   id: string;
   title: string;
   cellCount: number;
+  source: 'built-in' | 'firm';
 }
 
 export interface AttachmentDto {

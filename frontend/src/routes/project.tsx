@@ -22,7 +22,7 @@ function NewSheetForm({ projectId, onDone }: { projectId: string; onDone: () => 
       <TextField label="Sheet number" value={form.values.number} onChange={(e) => form.set('number', e.target.value)} error={!!form.errors.number} helperText={form.errors.number ?? 'For example C-201'} required />
       <TextField select label="Start from" value={form.values.templateId} onChange={(e) => form.set('templateId', e.target.value)} helperText="A template, or a blank sheet">
         <MenuItem value="">Blank sheet</MenuItem>
-        {templates.data?.map((t) => <MenuItem key={t.id} value={t.id}>{t.title}</MenuItem>)}
+        {templates.data?.map((t) => <MenuItem key={t.id} value={t.id}>{t.title}{t.source === 'firm' ? ' (our template)' : ''}</MenuItem>)}
       </TextField>
       <TextField label="Title" value={form.values.title} onChange={(e) => form.set('title', e.target.value)} error={!!form.errors.title} helperText={form.errors.title ?? 'Leave empty to use the template\'s title'} />
     </FormCard>

@@ -7,7 +7,7 @@ import { useMe } from '../features/auth/api/get-me';
 import { useQueries } from '../features/review/api/review';
 import type { ReviewContext } from '../features/review/components/cell-review';
 import { WorkflowBar } from '../features/review/components/workflow-bar';
-import { STATE_LABELS, useSheet } from '../features/sheets/api/sheets';
+import { STATE_LABELS, useSaveAsTemplate, useSheet } from '../features/sheets/api/sheets';
 import { AttachmentsPanel } from '../features/sheets/components/attachments-panel';
 import { SheetEditor } from '../features/sheets/editor/sheet-editor';
 
@@ -23,6 +23,7 @@ export function SheetPage() {
   const sheet = useSheet(sheetId);
   const queries = useQueries(sheetId);
   const [openOnly, setOpenOnly] = useState(false);
+  const saveTemplate = useSaveAsTemplate();
   const s = sheet.data;
   const uid = me?.user.id;
   const review: ReviewContext = useMemo(
@@ -42,8 +43,11 @@ export function SheetPage() {
       <Stack direction="row" spacing={1} sx={{ alignItems: 'center', flexWrap: 'wrap' }}>
         <Typography variant="body2" color="text.secondary">Version {s.version}{s.engineVersion ? ` · engine ${s.engineVersion}` : ''}</Typography>
         <Button size="small" href={`/api/sheets/${s.id}/export`} download={`${s.number}.json`}>Export as a sheet file</Button>
+        {mayEdit && <Button size="small" disabled={saveTemplate.isPending} onClick={() => saveTemplate.mutate({ sheetId: s.id })}>Save as a template</Button>}
         <FormControlLabel control={<Switch size="small" checked={openOnly} onChange={(e) => setOpenOnly(e.target.checked)} />} label="Only cells with open queries" />
       </Stack>
+      {saveTemplate.isSuccess && <Alert severity="success" onClose={() => saveTemplate.reset()}>Saved as the firm template “{saveTemplate.data.title}”: new sheets can start from it.</Alert>}
+      {saveTemplate.isError && <Alert severity="error" onClose={() => saveTemplate.reset()}>{saveTemplate.error.message}</Alert>}
       {mayEdit && !editable && !reviewing && <Alert severity="info">This sheet is {STATE_LABELS[s.state].toLowerCase()} and can no longer be edited.</Alert>}
       {reviewing && EDITABLE_STATES.includes(s.state) && <Alert severity="info">You review this sheet, so you do not edit it: raise queries on its cells for the preparer.</Alert>}
       {editable && <Typography variant="caption" color="text.secondary">Changes are saved and evaluated as you type. Keys: Ctrl+Enter evaluates now, Alt+Enter adds a cell below, Alt+↑ and Alt+↓ move between cells.</Typography>}

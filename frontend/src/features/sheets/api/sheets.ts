@@ -30,7 +30,7 @@ export const useProjectSheets = (projectId: string) =>
 export const sheetQueryOptions = (id: string) => queryOptions({ queryKey: sheetKeys.one(id), queryFn: ({ signal }) => api.get<SheetView>(`/sheets/${id}`, { signal }) });
 export const useSheet = (id: string) => useQuery(sheetQueryOptions(id));
 
-export const useTemplates = () => useQuery(queryOptions({ queryKey: sheetKeys.templates, queryFn: ({ signal }) => api.get<TemplateSummary[]>('/templates', { signal }), staleTime: Infinity }));
+export const useTemplates = () => useQuery(queryOptions({ queryKey: sheetKeys.templates, queryFn: ({ signal }) => api.get<TemplateSummary[]>('/templates', { signal }), staleTime: 60_000 }));
 
 export const newSheetSchema = z.object({
   number: z.string().trim().min(1, 'Enter a sheet number').max(40, 'At most 40 characters').regex(/^[A-Za-z0-9][A-Za-z0-9._/-]*$/, 'Letters, digits and . _ / - only'),
@@ -48,5 +48,13 @@ export function useCreateSheet(projectId: string) {
       void queryClient.invalidateQueries({ queryKey: sheetKeys.ofProject(projectId) });
       void queryClient.invalidateQueries({ queryKey: projectKeys.all });
     },
+  });
+}
+
+export function useSaveAsTemplate() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: { sheetId: string; title?: string }) => api.post<TemplateSummary>('/templates', body),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: sheetKeys.templates }),
   });
 }
