@@ -3,7 +3,7 @@
  * has every save it acknowledged in MariaDB. The app runs as a separate process (dist/main.js) on a
  * port of its own, against the test database.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
+import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
 import { join } from 'node:path';
 import type { INestApplication } from '@nestjs/common';
 import { EntityManager } from '@mikro-orm/core';
@@ -98,4 +98,38 @@ describe('durability', () => {
     const after = await (await call(`/sheets/${sheet.id}`, 'GET')).json();
     expect(after.cells).toHaveLength(8);
   }, 120_000);
+
+  it('reports itself unhealthy while MariaDB is down, recovers by itself when it returns, and loses nothing acknowledged', async () => {
+    child?.kill('SIGKILL');
+    child = startApp();
+    await ready();
+    const project = await (await call('/projects', 'POST', { jobNumber: 'D-2', title: 'Outage', clientOrganisation: 'C', site: 'S' })).json();
+    const sheet = await (await call(`/projects/${project.id}/sheets`, 'POST', { number: 'D-2', sheet: { format: 'ampwright.sheet/1', title: 'Outage', cells: [{ kind: 'calc', source: 'x = 1' }] } })).json();
+    const saved = await call(`/sheets/${sheet.id}/cells/${sheet.cells[0].id}`, 'PATCH', { version: sheet.version, cell: { kind: 'calc', source: 'x = 2' } });
+    expect(saved.status).toBe(200);
+    const version = (await saved.json()).version;
+
+    // Stop our MariaDB (a clean shutdown through its socket), as an operator or a crash would.
+    execFileSync('mariadb-admin', ['--no-defaults', `--socket=${join(__dirname, '..', '..', '.data', 'run', 'mysqld.sock')}`, '-uroot', 'shutdown']);
+    const health = await fetch(`${BASE}/api/health`);
+    expect(health.status).toBe(503);
+    expect((await health.json()).checks.database).toBe('down');
+    // A save while it is down is refused, not acknowledged.
+    const refused = await call(`/sheets/${sheet.id}/cells/${sheet.cells[0].id}`, 'PATCH', { version, cell: { kind: 'calc', source: 'x = 3' } });
+    expect(refused.status).toBeGreaterThanOrEqual(500);
+
+    const { startMariadb } = await import('../scripts/lib/provision.mjs');
+    await startMariadb();
+    const until = Date.now() + 60_000;
+    let healthy = false;
+    while (!healthy && Date.now() < until) {
+      healthy = (await fetch(`${BASE}/api/health`)).status === 200;
+      if (!healthy) await new Promise((r) => setTimeout(r, 500));
+    }
+    expect(healthy).toBe(true);
+    const after = await (await call(`/sheets/${sheet.id}`, 'GET')).json();
+    expect(after.cells[0].fields.source).toBe('x = 2');
+    const again = await call(`/sheets/${sheet.id}/cells/${sheet.cells[0].id}`, 'PATCH', { version: after.version, cell: { kind: 'calc', source: 'x = 4' } });
+    expect(again.status).toBe(200);
+  }, 180_000);
 });
