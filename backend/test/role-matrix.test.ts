@@ -39,6 +39,8 @@ const MATRIX: Record<string, Allowed> = {
   'GET /api/projects/:id': MEMBERS,
   'PATCH /api/projects/:id': ['owner', 'engineer'],
   'DELETE /api/projects/:id': ['owner'],
+  'GET /api/projects/:id/people': MEMBERS,
+  'PUT /api/projects/:id/members': ['owner', 'engineer'],
   'GET /api/projects/:projectId/sheets': MEMBERS,
   'POST /api/projects/:projectId/sheets': ['owner', 'engineer'],
   'GET /api/sheets/:id': MEMBERS,

@@ -28,6 +28,21 @@ describe('projects and sheets', () => {
     await as(app, outsider, 'post', '/api/projects').send({ jobNumber: 'J-1001', title: 'Other firm', clientOrganisation: 'X', site: 'Y' }).expect(201);
   });
 
+  it('keeps a project team of firm members, starting with its creator, and lists its invited clients', async () => {
+    const people = (await as(app, checker, 'get', `/api/projects/${projectId}/people`).expect(200)).body;
+    expect(people.members.map((m: { id: string }) => m.id)).toEqual([engineer.user.id]);
+    expect(people.clients).toEqual([]);
+    const set = (await as(app, engineer, 'put', `/api/projects/${projectId}/members`).send({ userIds: [engineer.user.id, checker.user.id] }).expect(200)).body;
+    expect(set.members.map((m: { id: string }) => m.id).sort()).toEqual([engineer.user.id, checker.user.id].sort());
+    expect(set.members.find((m: { id: string }) => m.id === checker.user.id).roles).toEqual(['checker']);
+    // Someone of another firm cannot be put on the team, and nothing changes.
+    const bad = await as(app, engineer, 'put', `/api/projects/${projectId}/members`).send({ userIds: [outsider.user.id] }).expect(400);
+    expect(bad.body.message).toMatch(/not a member of the firm/);
+    await as(app, engineer, 'put', `/api/projects/${projectId}/members`).send({ userIds: ['x'] }).expect(400);
+    expect((await as(app, engineer, 'get', `/api/projects/${projectId}/people`)).body.members).toHaveLength(2);
+    await as(app, outsider, 'get', `/api/projects/${projectId}/people`).expect(404);
+  });
+
   it('validates project fields', async () => {
     const res = await as(app, engineer, 'post', '/api/projects').send({ jobNumber: '', title: 'x' }).expect(400);
     expect(res.body.details.map((d: { field: string }) => d.field)).toEqual(expect.arrayContaining(['jobNumber', 'clientOrganisation', 'site']));

@@ -11,10 +11,10 @@ import { Session } from '../auth/entities/session.entity';
 import { Firm } from '../firms/entities/firm.entity';
 import { Membership } from '../firms/entities/membership.entity';
 import { Invitation } from '../invitations/entities/invitation.entity';
-import { Project, ProjectClient } from '../projects/entities/project.entity';
+import { Project, ProjectClient, ProjectMember } from '../projects/entities/project.entity';
 import { Cell } from '../sheets/entities/cell.entity';
 import { Sheet } from '../sheets/entities/sheet.entity';
 import { User } from '../users/entities/user.entity';
 
 /** Every entity, listed once: the ORM, the migrator and the seed read this list. */
-export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent, Project, ProjectClient, Sheet, Cell, Attachment, CellQuery, QueryMessage, Revision, Notification, FirmCertificate, PackageJob, Template];
+export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent, Project, ProjectClient, ProjectMember, Sheet, Cell, Attachment, CellQuery, QueryMessage, Revision, Notification, FirmCertificate, PackageJob, Template];

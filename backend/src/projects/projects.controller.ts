@@ -1,9 +1,10 @@
-import { Body, Controller, Delete, Get, HttpCode, Param, ParseUUIDPipe, Patch, Post } from '@nestjs/common';
+import { Body, Controller, Delete, Get, HttpCode, Param, ParseUUIDPipe, Patch, Post, Put } from '@nestjs/common';
+import type { ProjectPeopleDto } from '@ampwright/common';
 import { Roles, SignedIn } from '../core/decorators/access.decorator';
 import { CurrentAuth } from '../core/decorators/current-auth.decorator';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { MEMBER_ROLES } from '../core/roles';
-import { CreateProjectDto, UpdateProjectDto, type ProjectResponseDto } from './dto/project.dto';
+import { CreateProjectDto, ProjectMembersDto, UpdateProjectDto, type ProjectResponseDto } from './dto/project.dto';
 import { ProjectsService } from './projects.service';
 
 @Controller('projects')
@@ -33,6 +34,19 @@ export class ProjectsController {
   @Patch(':id')
   update(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Body() dto: UpdateProjectDto): Promise<ProjectResponseDto> {
     return this.projects.update(auth, id, dto);
+  }
+
+  /** The project's team and its invited clients. */
+  @Roles(...MEMBER_ROLES)
+  @Get(':id/people')
+  people(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string): Promise<ProjectPeopleDto> {
+    return this.projects.people(auth, id);
+  }
+
+  @Roles('owner', 'engineer')
+  @Put(':id/members')
+  setMembers(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Body() dto: ProjectMembersDto): Promise<ProjectPeopleDto> {
+    return this.projects.setMembers(auth, id, dto.userIds);
   }
 
   @Roles('owner')

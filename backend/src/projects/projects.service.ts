@@ -1,10 +1,13 @@
 import { EntityManager, UniqueConstraintViolationException } from '@mikro-orm/core';
 import { HttpStatus, Injectable } from '@nestjs/common';
+import { Membership } from '../firms/entities/membership.entity';
+import { User } from '../users/entities/user.entity';
+import type { ProjectPeopleDto } from '@ampwright/common';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { Sheet } from '../sheets/entities/sheet.entity';
 import type { CreateProjectDto, ProjectResponseDto, UpdateProjectDto } from './dto/project.dto';
-import { Project, ProjectClient } from './entities/project.entity';
+import { Project, ProjectClient, ProjectMember } from './entities/project.entity';
 
 export enum ProjectErrorCode {
   JobNumberTaken = 'JOB_NUMBER_TAKEN',
@@ -70,6 +73,7 @@ export class ProjectsService {
 
   async create(auth: AuthContext, dto: CreateProjectDto): Promise<ProjectResponseDto> {
     const project = new Project(auth.session.firm, dto, auth.session.user);
+    this.em.persist(new ProjectMember(project, this.em.getReference(User, auth.session.user.id)));
     await this.save(() => this.em.persist(project).flush(), dto.jobNumber);
     return this.toResponse(project);
   }
@@ -83,9 +87,35 @@ export class ProjectsService {
 
   async remove(auth: AuthContext, id: string): Promise<void> {
     const project = await this.find(auth, id);
-    if (await this.em.count(Sheet, { project, state: 'issued' })) {
+    if (await this.em.count(Sheet, { project, $or: [{ state: 'issued' }, { revisionNumber: { $gt: 1 } }] })) {
       throw new AppException('PROJECT_HAS_ISSUED_SHEETS', 'This project has issued sheets, which are kept for good: it cannot be deleted.', HttpStatus.CONFLICT);
     }
     await this.em.remove(project).flush();
+  }
+
+  /** The project's team (members of the firm) and its invited clients. */
+  async people(auth: AuthContext, id: string): Promise<ProjectPeopleDto> {
+    const project = await this.find(auth, id);
+    const team = await this.em.find(ProjectMember, { project }, { populate: ['user'], orderBy: { user: { name: 'asc' } } });
+    const roles = new Map((await this.em.find(Membership, { firm: auth.session.firm, user: { $in: team.map((t) => t.user.id) } })).map((m) => [m.user.id, m.roles]));
+    const clients = await this.em.find(ProjectClient, { project }, { populate: ['user'], orderBy: { user: { name: 'asc' } } });
+    return {
+      members: team.map((t) => ({ id: t.user.id, name: t.user.name, email: t.user.email, roles: roles.get(t.user.id) ?? [] })),
+      clients: clients.map((c) => ({ id: c.user.id, name: c.user.name, email: c.user.email })),
+    };
+  }
+
+  /** Sets the team: every id must be a member of the firm (not a client). */
+  async setMembers(auth: AuthContext, id: string, userIds: string[]): Promise<ProjectPeopleDto> {
+    const project = await this.find(auth, id);
+    const memberships = await this.em.find(Membership, { firm: auth.session.firm, user: { $in: userIds } });
+    const ok = new Set(memberships.filter((m) => m.roles.some((r) => r !== 'client')).map((m) => m.user.id));
+    const bad = [...new Set(userIds)].filter((u) => !ok.has(u));
+    if (bad.length) throw new AppException(ErrorCode.ValidationFailed, `${bad.length === 1 ? 'One person is' : `${bad.length} people are`} not a member of the firm: a project's team is made of the firm's members (clients are invited separately).`, HttpStatus.BAD_REQUEST, bad.map(() => ({ field: 'userIds', message: 'not a member of the firm' })));
+    await this.em.transactional(async (em) => {
+      await em.nativeDelete(ProjectMember, { project: project.id });
+      for (const u of new Set(userIds)) em.persist(new ProjectMember(em.getReference(Project, project.id), em.getReference(User, u)));
+    });
+    return this.people(auth, id);
   }
 }

@@ -88,3 +88,8 @@ export interface AttachmentDto {
   uploadedBy: string | null;
   createdAt: string;
 }
+
+export interface ProjectPeopleDto {
+  members: { id: string; name: string; email: string; roles: string[] }[];
+  clients: { id: string; name: string; email: string }[];
+}

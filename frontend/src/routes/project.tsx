@@ -1,6 +1,7 @@
 import { Alert, Button, Chip, Link as MuiLink, MenuItem, Paper, Stack, Table, TableBody, TableCell, TableHead, TableRow, TextField, Typography } from '@mui/material';
 import { useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
+import { ProjectPeople } from '../features/projects/components/project-people';
 import { FormCard } from '../components/forms/form-card';
 import { useForm } from '../components/forms/use-form';
 import { PageHeading } from '../components/layout/page-heading';
@@ -44,6 +45,7 @@ export function ProjectPage() {
       {p && <Typography color="text.secondary">{p.clientOrganisation} · {p.site}</Typography>}
       {canCreate && !creating && <Button variant="contained" color="secondary" sx={{ alignSelf: 'flex-start' }} onClick={() => setCreating(true)}>New sheet</Button>}
       {creating && <NewSheetForm projectId={projectId} onDone={() => setCreating(false)} />}
+      <ProjectPeople projectId={projectId} canEdit={canCreate} />
       <Paper>
         <Table size="small" aria-label="Sheets">
           <TableHead>

@@ -1,6 +1,6 @@
 import type { ProjectDto } from '@ampwright/common';
 import { Transform } from 'class-transformer';
-import { IsOptional, IsString, Length, Matches } from 'class-validator';
+import { ArrayMaxSize, IsArray, IsOptional, IsString, IsUUID, Length, Matches } from 'class-validator';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
@@ -36,3 +36,8 @@ export class UpdateProjectDto {
 
 /** The body of a project in responses (shared with the app). */
 export type ProjectResponseDto = ProjectDto;
+
+export class ProjectMembersDto {
+  @IsArray({ message: 'userIds must be a list of member ids' }) @ArrayMaxSize(200) @IsUUID('4', { each: true, message: 'each of userIds must be the id of a member' })
+  userIds: string[];
+}

@@ -59,3 +59,22 @@ export class ProjectClient {
     this.user = user;
   }
 }
+
+/** A member of the firm on a project's team (its preparers, checkers and approver). */
+@Entity({ tableName: 'project_member' })
+@Unique({ properties: ['project', 'user'] })
+export class ProjectMember {
+  @PrimaryKey({ type: 'uuid' })
+  id: string & Opt = randomUUID();
+
+  @ManyToOne(() => Project, { deleteRule: 'cascade' })
+  project: Project;
+
+  @ManyToOne(() => User, { deleteRule: 'cascade' })
+  user: User;
+
+  constructor(project: Project, user: User) {
+    this.project = project;
+    this.user = user;
+  }
+}

@@ -1,4 +1,4 @@
-import type { ProjectDto } from '@ampwright/common';
+import type { ProjectDto, ProjectPeopleDto } from '@ampwright/common';
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
@@ -29,5 +29,15 @@ export function useCreateProject() {
   return useMutation({
     mutationFn: (body: z.infer<typeof projectSchema>) => api.post<Project>('/projects', body),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: projectKeys.all }),
+  });
+}
+
+export const useProjectPeople = (id: string) => useQuery(queryOptions({ queryKey: [...projectKeys.one(id), 'people'], queryFn: ({ signal }) => api.get<ProjectPeopleDto>(`/projects/${id}/people`, { signal }) }));
+
+export function useSetProjectMembers(id: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (userIds: string[]) => api.put<ProjectPeopleDto>(`/projects/${id}/members`, { userIds }),
+    onSuccess: (people) => queryClient.setQueryData([...projectKeys.one(id), 'people'], people),
   });
 }
