@@ -7,25 +7,25 @@ import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
 import { join } from 'node:path';
 import type { INestApplication } from '@nestjs/common';
 import { EntityManager } from '@mikro-orm/core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { makeCaller, type Caller } from './support/sessions';
 import { createTestApp } from './support/test-app';
 
 const PORT = 3390;
 const BASE = `http://127.0.0.1:${PORT}`;
 
-function startApp(): ChildProcess {
+function startApp(port = PORT, worker = false): ChildProcess {
   return spawn(process.execPath, [join(__dirname, '..', 'dist', 'main.js')], {
-    env: { ...process.env, APP_PORT: String(PORT), STATIC_DIR: '', LOG_REQUESTS: 'false', PACKAGE_WORKER: 'false' },
+    env: { ...process.env, APP_PORT: String(port), STATIC_DIR: '', LOG_REQUESTS: 'false', PACKAGE_WORKER: worker ? 'true' : 'false' },
     stdio: 'ignore',
   });
 }
 
-async function ready(): Promise<void> {
+async function ready(base = BASE): Promise<void> {
   const until = Date.now() + 60_000;
   while (Date.now() < until) {
     try {
-      if ((await fetch(`${BASE}/api/health`)).ok) return;
+      if ((await fetch(`${base}/api/health`)).ok) return;
     } catch {
       /* not up yet */
     }
@@ -40,12 +40,15 @@ describe('durability', () => {
   let child: ChildProcess | undefined;
 
   beforeAll(async () => {
+    // This file's in-process app makes no packages, so a package made here was made by a spawned instance.
+    vi.stubEnv('PACKAGE_WORKER', 'false');
     app = await createTestApp();
     engineer = await makeCaller(app, ['engineer']);
   });
   afterAll(async () => {
     child?.kill('SIGKILL');
     await app?.close();
+    vi.unstubAllEnvs();
   });
 
   const call = (path: string, method: string, body?: unknown) =>
@@ -131,5 +134,40 @@ describe('durability', () => {
     expect(after.cells[0].fields.source).toBe('x = 2');
     const again = await call(`/sheets/${sheet.id}/cells/${sheet.cells[0].id}`, 'PATCH', { version: after.version, cell: { kind: 'calc', source: 'x = 4' } });
     expect(again.status).toBe(200);
+  }, 180_000);
+
+  it('runs as two instances on one MariaDB: a session and a package job move between them', async () => {
+    child?.kill('SIGKILL');
+    const a = startApp(3391, false);
+    const b = startApp(3392, true);
+    try {
+      await Promise.all([ready('http://127.0.0.1:3391'), ready('http://127.0.0.1:3392')]);
+      const checker = await makeCaller(app, ['checker'], engineer.firm);
+      const approver = await makeCaller(app, ['approver'], engineer.firm);
+      const on = (port: number, who: Caller, path: string, method = 'GET', body?: unknown) =>
+        fetch(`http://127.0.0.1:${port}/api${path}`, { method, headers: { cookie: who.cookie, 'x-ampwright-csrf': who.csrf, 'content-type': 'application/json' }, body: body ? JSON.stringify(body) : undefined });
+      // The same session cookie works on both instances (sessions live in MariaDB).
+      for (const port of [3391, 3392]) expect((await (await on(port, engineer, '/auth/me')).json()).user.id).toBe(engineer.user.id);
+      // A sheet issued through A; its package is made by B's worker (A runs none) and read through A.
+      const project = await (await on(3391, engineer, '/projects', 'POST', { jobNumber: 'D-3', title: 'Two instances', clientOrganisation: 'C', site: 'S' })).json();
+      const sheet = await (await on(3392, engineer, `/projects/${project.id}/sheets`, 'POST', { number: 'D-3', sheet: { format: 'ampwright.sheet/1', title: 'Shared', cells: [{ kind: 'calc', source: 'x = 1 V' }] } })).json();
+      expect((await on(3391, engineer, `/sheets/${sheet.id}/request-check`, 'POST', { checkerId: checker.user.id })).status).toBe(200);
+      expect((await on(3392, checker, `/sheets/${sheet.id}/pass`, 'POST')).status).toBe(200);
+      expect((await on(3391, approver, `/sheets/${sheet.id}/approve`, 'POST')).status).toBe(200);
+      const revision = await (await on(3391, approver, `/sheets/${sheet.id}/issue`, 'POST')).json();
+      const until = Date.now() + 60_000;
+      let status = { status: 'queued' };
+      while (status.status !== 'done' && Date.now() < until) {
+        await new Promise((r) => setTimeout(r, 500));
+        status = await (await on(3391, approver, `/revisions/${revision.id}/package/status`)).json();
+      }
+      expect(status.status).toBe('done');
+      const pdf = await on(3391, approver, `/revisions/${revision.id}/package`);
+      expect(pdf.status).toBe(200);
+      expect(Buffer.from(await pdf.arrayBuffer()).subarray(0, 5).toString()).toBe('%PDF-');
+    } finally {
+      a.kill('SIGKILL');
+      b.kill('SIGKILL');
+    }
   }, 180_000);
 });
