@@ -1,6 +1,7 @@
 import { EntityManager } from '@mikro-orm/core';
 import { HttpStatus, Injectable } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
+import type { CertificateDto } from '@ampwright/common';
 import type { Environment } from '../config/environment';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
@@ -9,14 +10,7 @@ import { FirmCertificate } from './entities/firm-certificate.entity';
 import { CertificateProblem, makeSelfSignedP12, openSecret, readP12, sealSecret } from './signing';
 import { randomBytes } from 'node:crypto';
 
-export interface CertificateView {
-  subject: string;
-  issuer: string;
-  notBefore: string;
-  notAfter: string;
-  fingerprint: string;
-  selfSigned: boolean;
-}
+export type CertificateView = CertificateDto;
 
 const view = (c: FirmCertificate): CertificateView => ({ subject: c.subject, issuer: c.issuer, notBefore: c.notBefore.toISOString(), notAfter: c.notAfter.toISOString(), fingerprint: c.fingerprint, selfSigned: c.selfSigned });
 

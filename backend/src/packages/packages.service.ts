@@ -8,7 +8,7 @@ import { hostname } from 'node:os';
 import { EntityManager, MikroORM, RequestContext } from '@mikro-orm/core';
 import { BeforeApplicationShutdown, HttpStatus, Injectable, Logger, OnApplicationBootstrap } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
-import type { RevisionSummaryDto } from '@ampwright/common';
+import type { PackageStatusDto, PortalRevisionDto, VerdictDto } from '@ampwright/common';
 import { Attachment } from '../attachments/entities/attachment.entity';
 import type { Environment } from '../config/environment';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
@@ -24,27 +24,9 @@ import { buildPackageInWorker } from './build-in-worker';
 import { REVISION_KEY } from './package-pdf';
 import { signPdf } from './signing';
 
-export interface PackageStatus {
-  status: 'queued' | 'running' | 'done' | 'failed' | 'none';
-  percent: number;
-  error: string | null;
-  pdfSha256: string | null;
-}
-
-export interface PortalRevision extends RevisionSummaryDto {
-  sheetId: string;
-  sheetNumber: string;
-  sheetTitle: string;
-  projectId: string;
-  jobNumber: string;
-  projectTitle: string;
-  packageReady: boolean;
-}
-
-export type Verdict =
-  | { verdict: 'unaltered'; project: string; jobNumber: string; sheet: string; sheetTitle: string; revision: string; issuedAt: string; firm: string }
-  | { verdict: 'altered'; message: string }
-  | { verdict: 'unknown'; message: string };
+export type PackageStatus = PackageStatusDto;
+export type PortalRevision = PortalRevisionDto;
+export type Verdict = VerdictDto;
 
 const MAX_ATTEMPTS = 3;
 const STALE_LOCK_MS = 5 * 60_000;

@@ -1,36 +1,11 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { RevisionSummaryDto } from '@ampwright/common';
+import type { CertificateDto, PackageStatusDto, PortalRevisionDto, VerdictDto } from '@ampwright/common';
 import { api } from '../../../lib/api-client';
 
-export interface PackageStatus {
-  status: 'queued' | 'running' | 'done' | 'failed' | 'none';
-  percent: number;
-  error: string | null;
-  pdfSha256: string | null;
-}
-
-export interface PortalRevision extends RevisionSummaryDto {
-  sheetId: string;
-  sheetNumber: string;
-  sheetTitle: string;
-  projectId: string;
-  jobNumber: string;
-  projectTitle: string;
-  packageReady: boolean;
-}
-
-export type Verdict =
-  | { verdict: 'unaltered'; project: string; jobNumber: string; sheet: string; sheetTitle: string; revision: string; issuedAt: string; firm: string }
-  | { verdict: 'altered' | 'unknown'; message: string };
-
-export interface CertificateView {
-  subject: string;
-  issuer: string;
-  notBefore: string;
-  notAfter: string;
-  fingerprint: string;
-  selfSigned: boolean;
-}
+export type PackageStatus = PackageStatusDto;
+export type PortalRevision = PortalRevisionDto;
+export type Verdict = VerdictDto;
+export type CertificateView = CertificateDto;
 
 /** A package's making, polled every second until it is done or failed. */
 export const usePackageStatus = (revisionId: string) =>
