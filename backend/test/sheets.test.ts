@@ -126,6 +126,43 @@ describe('projects and sheets', () => {
     expect(['x = 2', 'x = 3']).toContain(now.body.cells[0].fields.source);
   });
 
+  it('saves a change whose evaluation is stopped, and shows the reason in every cell instead of older numbers', async () => {
+    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-108', sheet: { format: 'ampwright.sheet/1', title: 'Runaway', cells: [{ kind: 'calc', source: 'x = 1' }, { kind: 'check', condition: 'x <= 2', basis: 'probe' }] } }).expect(201);
+    const [calc, check] = created.body.cells;
+    expect(check.results.pass).toBe(true);
+    // Some 20 products of a 316 × 316 matrix: far past the 2 s deadline (see evaluation.test.ts).
+    const runaway = 'x = 1\nM = ones(316, 316)\nP = M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M';
+    const saved = await as(app, engineer, 'patch', `/api/sheets/${created.body.id}/cells/${calc.id}`).send({ version: created.body.version, cell: { kind: 'calc', source: runaway } }).expect(200);
+    expect(saved.body.version).toBe(created.body.version + 1);
+    const now = (await as(app, engineer, 'get', `/api/sheets/${created.body.id}`).expect(200)).body;
+    expect(now.cells[0].fields.source).toBe(runaway);
+    for (const cell of now.cells) {
+      expect(cell.results).toMatchObject({ kind: 'unevaluated', status: 'error' });
+      expect(cell.results.errors[0].message).toMatch(/^Not evaluated: .*longer than 2 s/);
+      expect(cell.results.pass).toBeUndefined();
+    }
+    const fixed = await as(app, engineer, 'patch', `/api/sheets/${created.body.id}/cells/${calc.id}`).send({ version: saved.body.version, cell: { kind: 'calc', source: 'x = 3' } }).expect(200);
+    expect(fixed.body.changed.find((c: { id: string }) => c.id === check.id).results).toMatchObject({ kind: 'check', pass: false });
+  });
+
+  it('never lets the results of an older save overwrite those of a newer one', async () => {
+    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-109', sheet: { format: 'ampwright.sheet/1', title: 'Order', cells: [{ kind: 'calc', source: 'a = 1' }] } }).expect(201);
+    const id = created.body.id;
+    const cellId = created.body.cells[0].id;
+    // The first save evaluates for well under a second (six 316 × 316 products); the second, based on
+    // it, removes the slow part and is evaluated at once, so its results are stored first.
+    const slow = as(app, engineer, 'patch', `/api/sheets/${id}/cells/${cellId}`).send({ version: 1, cell: { kind: 'calc', source: 'a = 5\nM = ones(316, 316)\nP = M * M * M * M * M * M' } }).then((r) => r);
+    let seen = 1;
+    for (let k = 0; k < 100 && seen < 2; k++) seen = (await as(app, engineer, 'get', `/api/sheets/${id}`).expect(200)).body.version;
+    expect(seen).toBe(2);
+    const fast = await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${cellId}`).send({ version: 2, cell: { kind: 'calc', source: 'a = 6' } }).expect(200);
+    expect(fast.body.changed[0].results.values.a.si).toBe(6);
+    expect((await slow).status).toBe(200);
+    const now = (await as(app, engineer, 'get', `/api/sheets/${id}`).expect(200)).body;
+    expect(now.cells[0].fields.source).toBe('a = 6');
+    expect(now.cells[0].results.values).toEqual({ a: expect.objectContaining({ si: 6 }) });
+  });
+
   it('turns a CSV upload into a table cell, and stores nothing when a row is bad or the file is not text', async () => {
     const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-107', title: 'Spectrum' }).expect(201);
     const id = created.body.id;

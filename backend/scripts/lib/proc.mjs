@@ -88,9 +88,11 @@ function waitExit(child, ms) {
 let stopping = null;
 export function stopAll() {
   stopping ??= (async () => {
-    const list = [...children].reverse();
-    for (const child of list) child.kill('SIGTERM');
-    await Promise.all(list.map((c) => waitExit(c, 10000)));
+    // Last started, first stopped, one after another: the app is down before the database it uses.
+    for (const child of [...children].reverse()) {
+      child.kill('SIGTERM');
+      await waitExit(child, 10000);
+    }
     for (const fn of cleanups.reverse()) {
       try {
         await fn();

@@ -13,9 +13,15 @@ export type PoolOutcome =
   | { ok: true; cells: CellResult[]; engineVersion: string }
   | { ok: false; reason: 'timeout' | 'memory' | 'crash'; message: string };
 
+/** How long a sheet's evaluation may wait for the worker holding its cache (a fresh one costs more). */
+const AFFINITY_WAIT_MS = 50;
+
 interface Job {
   id: number;
   sheet: SheetFile;
+  /** The sheet's id, when the evaluation may use and keep a worker's incremental cache. */
+  key?: string;
+  queuedAt: number;
   resolve: (outcome: PoolOutcome) => void;
 }
 
@@ -36,6 +42,9 @@ export class EvaluationPool {
   private readonly busy = new Map<Worker, { job: Job; timer: NodeJS.Timeout }>();
   /** Workers still loading the engine: a deadline does not count their start-up. */
   private readonly starting = new Set<Worker>();
+  /** The worker that last evaluated each sheet (it holds that sheet's cache); bounded, oldest dropped. */
+  private readonly lastWorker = new Map<string, Worker>();
+  private retry: NodeJS.Timeout | undefined;
   private nextId = 1;
   private closed = false;
 
@@ -43,16 +52,18 @@ export class EvaluationPool {
     for (let k = 0; k < limits.workers; k++) this.spawn();
   }
 
-  evaluate(sheet: SheetFile): Promise<PoolOutcome> {
+  /** Evaluates a sheet; with `key` (the sheet's id) a worker that evaluated it before is preferred. */
+  evaluate(sheet: SheetFile, key?: string): Promise<PoolOutcome> {
     if (this.closed) return Promise.resolve({ ok: false, reason: 'crash', message: 'the evaluation service is shutting down' });
     return new Promise((resolve) => {
-      this.queue.push({ id: this.nextId++, sheet, resolve });
+      this.queue.push({ id: this.nextId++, sheet, key, queuedAt: Date.now(), resolve });
       this.dispatch();
     });
   }
 
   async close(): Promise<void> {
     this.closed = true;
+    clearTimeout(this.retry);
     const all = [...this.idle, ...this.busy.keys(), ...this.starting];
     this.starting.clear();
     this.idle.length = 0;
@@ -109,12 +120,35 @@ export class EvaluationPool {
   }
 
   private dispatch(): void {
-    while (this.idle.length && this.queue.length) {
-      const worker = this.idle.pop()!;
-      const job = this.queue.shift()!;
+    let k = 0;
+    let waiting = false;
+    while (this.idle.length && k < this.queue.length) {
+      const job = this.queue[k];
+      const home = job.key ? this.lastWorker.get(job.key) : undefined;
+      // A sheet waits a moment for the worker that holds its cache rather than be evaluated afresh elsewhere.
+      if (home && this.busy.has(home) && Date.now() - job.queuedAt < AFFINITY_WAIT_MS) {
+        waiting = true;
+        k++;
+        continue;
+      }
+      this.queue.splice(k, 1);
+      const at = home ? this.idle.indexOf(home) : -1;
+      const [worker] = this.idle.splice(at >= 0 ? at : this.idle.length - 1, 1);
+      if (job.key) {
+        this.lastWorker.delete(job.key);
+        this.lastWorker.set(job.key, worker);
+        if (this.lastWorker.size > 1000) this.lastWorker.delete(this.lastWorker.keys().next().value as string);
+      }
       const timer = setTimeout(() => this.fail(worker, 'timeout', `the evaluation took longer than ${this.limits.timeoutMs / 1000} s`), this.limits.timeoutMs);
       this.busy.set(worker, { job, timer });
-      worker.postMessage({ id: job.id, sheet: job.sheet });
+      worker.postMessage({ id: job.id, sheet: job.sheet, key: job.key });
+    }
+    if (waiting && !this.retry) {
+      this.retry = setTimeout(() => {
+        this.retry = undefined;
+        this.dispatch();
+      }, AFFINITY_WAIT_MS);
+      this.retry.unref();
     }
   }
 }

@@ -15,8 +15,9 @@ export enum EvaluationErrorCode {
 export class EvaluationService implements OnModuleDestroy {
   private readonly pool = new EvaluationPool({ workers: 2, timeoutMs: Number(process.env.EVALUATION_TIMEOUT_MS ?? 2000), memoryMb: 256 });
 
-  async evaluate(sheet: SheetFile): Promise<EvaluationResponseDto> {
-    const outcome = await this.pool.evaluate(sheet);
+  /** `key` (a stored sheet's id) lets the worker reuse what it computed for that sheet before. */
+  async evaluate(sheet: SheetFile, key?: string): Promise<EvaluationResponseDto> {
+    const outcome = await this.pool.evaluate(sheet, key);
     if (outcome.ok) return { engineVersion: outcome.engineVersion, cells: outcome.cells };
     const [code, message] =
       outcome.reason === 'timeout'

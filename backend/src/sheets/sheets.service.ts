@@ -1,6 +1,8 @@
-import { EntityManager, UniqueConstraintViolationException } from '@mikro-orm/core';
+import { createHash } from 'node:crypto';
+import { UniqueConstraintViolationException } from '@mikro-orm/core';
+import { EntityManager } from '@mikro-orm/mariadb';
 import { HttpStatus, Injectable } from '@nestjs/common';
-import { cellSchema, csvToTableCell, parseSheetFile, SHEET_FORMAT, type CellDto, type CellResult, type SaveResultDto, type SheetDto, type SheetFile } from '@ampwright/common';
+import { cellSchema, csvToTableCell, parseSheetFile, SHEET_FORMAT, unevaluatedResults, type CellDto, type CellResult, type SaveResultDto, type SheetDto, type SheetFile } from '@ampwright/common';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService } from '../evaluation/evaluation.service';
@@ -31,19 +33,69 @@ export type CellView = CellDto;
 export type SheetView = SheetDto;
 export type SaveResult = SaveResultDto;
 
-const cellView = (c: Cell): CellView => ({
-  id: c.id,
-  position: c.position,
-  kind: c.kind,
-  fields: c.fields,
-  results: (c.results as CellResult | undefined) ?? null,
-  changedBy: c.changedBy?.name ?? null,
-  changedAt: c.changedAt.toISOString(),
-  agreedBy: c.agreedBy?.name ?? null,
-  changedAfterAgreement: c.changedAfterAgreement,
+
+/** A cell row as read for a sheet's view, without loading entities (reads are the hot path). */
+interface CellRow {
+  id: string;
+  position: number;
+  kind: string;
+  fields: unknown;
+  results: unknown;
+  changed_at: Date | string;
+  changed_after_agreement: number | boolean;
+  changed_by: string | null;
+  agreed_by: string | null;
+}
+
+const parsedJson = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);
+const sha1 = (text: string) => createHash('sha1').update(text, 'utf8').digest('hex');
+
+const rowView = (r: CellRow): CellView => ({
+  id: r.id,
+  position: r.position,
+  kind: r.kind,
+  fields: parsedJson(r.fields) as Record<string, unknown>,
+  results: (parsedJson(r.results) as CellResult | null) ?? null,
+  changedBy: r.changed_by,
+  changedAt: new Date(r.changed_at).toISOString(),
+  agreedBy: r.agreed_by,
+  changedAfterAgreement: !!r.changed_after_agreement,
 });
 
-const person = (u?: User) => (u ? { id: u.id, name: u.name } : null);
+interface SheetRow {
+  id: string;
+  project_id: string;
+  number: string;
+  title: string;
+  settings: unknown;
+  state: SheetState;
+  version: number;
+  engine_version: string | null;
+  revision_number: number;
+  preparer_id: string;
+  preparer_name: string;
+  checker_id: string | null;
+  checker_name: string | null;
+  approver_id: string | null;
+  approver_name: string | null;
+  open_queries: number | bigint | string;
+}
+
+/** What a change did: the ids of the cells it touched, and of those it removed. */
+interface Applied {
+  touched: Set<string>;
+  removed?: string[];
+}
+
+/** A cell as the engine needs it. */
+type CellContent = Pick<Cell, 'id' | 'kind' | 'fields'>;
+
+/**
+ * A change to a sheet, run in the saving transaction. `cells` loads all the sheet's cells as entities
+ * (without their results) for changes that need them; a cell edit, the common case, loads just its own.
+ */
+type Change = (sheet: Sheet, em: EntityManager, cells: () => Promise<Cell[]>) => Promise<Applied> | Applied;
+
 
 function splitCell(cell: unknown): { kind: string; fields: Record<string, unknown> } {
   const parsed = cellSchema.safeParse(cell);
@@ -97,27 +149,57 @@ export class SheetsService {
     return this.em.find(Cell, { sheet }, { orderBy: { position: 'asc' }, populate: ['changedBy', 'agreedBy'] });
   }
 
-  private async view(sheet: Sheet): Promise<SheetView> {
+  /** The cells of a sheet as the API shows them, read in one query. */
+  private async cellViews(sheetId: string, only?: string[]): Promise<CellView[]> {
+    if (only && !only.length) return [];
+    const rows = await this.em.execute<CellRow[]>(
+      `select c.id, c.position, c.kind, c.fields, c.results, c.changed_at, c.changed_after_agreement, cu.name as changed_by, au.name as agreed_by
+         from cell c left join app_user cu on cu.id = c.changed_by_id left join app_user au on au.id = c.agreed_by_id
+        where c.sheet_id = ?${only ? ` and c.id in (${only.map(() => '?').join(', ')})` : ''} order by c.position`,
+      [sheetId, ...(only ?? [])],
+    );
+    return rows.map(rowView);
+  }
+
+  /**
+   * A sheet of the caller's firm as the API shows it (another firm's id is 404), in two queries:
+   * the sheet with its people and open-query count, then its cells. Reading a sheet is the hot path.
+   */
+  private async view(auth: AuthContext, id: string): Promise<SheetView> {
+    const [s] = await this.em.execute<SheetRow[]>(
+      `select s.id, s.project_id, s.number, s.title, s.settings, s.state, s.version, s.engine_version, s.revision_number,
+              s.preparer_id, pu.name as preparer_name, s.checker_id, cu.name as checker_name, s.approver_id, au.name as approver_name,
+              (select count(*) from cell_query q where q.sheet_id = s.id and q.revision_number = s.revision_number and q.status <> 'closed') as open_queries
+         from sheet s
+         join project p on p.id = s.project_id
+         join app_user pu on pu.id = s.preparer_id
+         left join app_user cu on cu.id = s.checker_id
+         left join app_user au on au.id = s.approver_id
+        where s.id = ? and p.firm_id = ?`,
+      [id, auth.session.firm.id],
+    );
+    if (!s) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
+    const who = (personId: string | null, name: string | null) => (personId ? { id: personId, name: name ?? '' } : null);
     return {
-      id: sheet.id,
-      projectId: sheet.project.id,
-      number: sheet.number,
-      title: sheet.title,
-      settings: sheet.settings,
-      state: sheet.state,
-      version: sheet.version,
-      engineVersion: sheet.engineVersion ?? null,
-      preparer: { id: sheet.preparer.id, name: sheet.preparer.name },
-      checker: person(sheet.checker),
-      approver: person(sheet.approver),
-      revisionNumber: sheet.revisionNumber,
-      revisionCode: revisionCode(sheet.revisionNumber),
-      openQueries: await this.em.count(CellQuery, { sheet, revisionNumber: sheet.revisionNumber, status: { $ne: 'closed' } }),
-      cells: (await this.cells(sheet)).map(cellView),
+      id: s.id,
+      projectId: s.project_id,
+      number: s.number,
+      title: s.title,
+      settings: parsedJson(s.settings) as Record<string, unknown>,
+      state: s.state,
+      version: s.version,
+      engineVersion: s.engine_version ?? null,
+      preparer: { id: s.preparer_id, name: s.preparer_name },
+      checker: who(s.checker_id, s.checker_name),
+      approver: who(s.approver_id, s.approver_name),
+      revisionNumber: s.revision_number,
+      revisionCode: revisionCode(s.revision_number),
+      openQueries: Number(s.open_queries),
+      cells: await this.cellViews(s.id),
     };
   }
 
-  toFile(sheet: Sheet, cells: Cell[]): SheetFile {
+  toFile(sheet: Sheet, cells: readonly Pick<Cell, 'kind' | 'fields'>[]): SheetFile {
     return { ...sheet.extra, format: SHEET_FORMAT, title: sheet.title, settings: sheet.settings, cells: cells.map((c) => ({ kind: c.kind, ...c.fields }) as SheetFile['cells'][number]) };
   }
 
@@ -139,7 +221,7 @@ export class SheetsService {
   }
 
   async get(auth: AuthContext, id: string): Promise<SheetView> {
-    return this.view(await this.find(auth, id));
+    return this.view(auth, id);
   }
 
   async export(auth: AuthContext, id: string): Promise<SheetFile> {
@@ -171,8 +253,8 @@ export class SheetsService {
       }
       throw err;
     }
-    await this.evaluateAndStore(sheet);
-    return this.view(sheet);
+    await this.evaluateAndStore(sheet, cells, sheet.version);
+    return this.view(auth, sheet.id);
   }
 
   async remove(auth: AuthContext, id: string): Promise<void> {
@@ -184,75 +266,103 @@ export class SheetsService {
   /**
    * Applies a change made against `version`: in one transaction, the version is raised only if it is
    * still the one the change was based on, so of two concurrent saves exactly one wins; the other gets
-   * 409 with the current sheet. Then the sheet is evaluated and the results stored with the cells.
+   * 409 with the current sheet. Then the cells as they now stand are evaluated and their results stored.
    */
-  private async change(auth: AuthContext, id: string, version: number, apply: (sheet: Sheet, cells: Cell[], em: EntityManager) => Promise<Set<string>> | Set<string>): Promise<SaveResult> {
+  private async change(auth: AuthContext, id: string, version: number, apply: Change): Promise<SaveResult> {
     const sheet = await this.findEditable(auth, id);
-    let touched = new Set<string>();
-    let removed: string[] = [];
+    let applied: Applied = { touched: new Set() };
+    let contents: CellContent[] = [];
+    let current = sheet;
     await this.em.transactional(async (em) => {
       const raised = await em.nativeUpdate(Sheet, { id: sheet.id, version }, { version: version + 1 });
       if (raised === 0) {
         throw new AppException(SheetErrorCode.StaleVersion, 'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.', HttpStatus.CONFLICT, undefined);
       }
-      const cells = await em.find(Cell, { sheet }, { orderBy: { position: 'asc' } });
-      const before = new Set(cells.map((c) => c.id));
-      touched = await apply(await em.findOneOrFail(Sheet, sheet.id), cells, em);
+      current = await em.findOneOrFail(Sheet, sheet.id);
+      // Results are not loaded: they are computed afresh below, and stored apart from the change.
+      applied = await apply(current, em, () => em.find(Cell, { sheet }, { orderBy: { position: 'asc' }, exclude: ['results'] }));
       await em.flush();
-      const after = new Set((await em.find(Cell, { sheet }, { fields: ['id'] })).map((c) => c.id));
-      removed = [...before].filter((x) => !after.has(x));
+      const rows = await em.execute<{ id: string; kind: string; fields: unknown }[]>('select id, kind, fields from cell where sheet_id = ? order by position', [sheet.id]);
+      contents = rows.map((r) => ({ id: r.id, kind: r.kind, fields: parsedJson(r.fields) as Record<string, unknown> }));
     }).catch(async (err) => {
       if (err instanceof AppException && err.code === SheetErrorCode.StaleVersion) {
         this.em.clear();
-        throw new AppException(SheetErrorCode.StaleVersion, err.message, HttpStatus.CONFLICT, undefined, await this.view(await this.find(auth, id)));
+        throw new AppException(SheetErrorCode.StaleVersion, err.message, HttpStatus.CONFLICT, undefined, await this.view(auth, id));
       }
       throw err;
     });
-    this.em.clear();
-    const fresh = await this.find(auth, id);
-    const changedByResults = await this.evaluateAndStore(fresh);
-    const cells = await this.cells(fresh);
-    const changed = cells.filter((c) => touched.has(c.id) || changedByResults.has(c.id)).map(cellView);
-    return { version: fresh.version, changed, removed };
+    const { results, changed } = await this.evaluateAndStore(current, contents, version + 1);
+    const shown = new Set(contents.filter((c) => applied.touched.has(c.id) || changed.has(c.id)).map((c) => c.id));
+    const views = await this.cellViews(sheet.id, [...shown]);
+    return { version: version + 1, changed: views.map((v) => ({ ...v, results: results.get(v.id) ?? v.results })), removed: applied.removed ?? [] };
   }
 
-  /** Evaluates the sheet in a worker and stores each cell's results; returns the ids whose results changed. */
-  private async evaluateAndStore(sheet: Sheet): Promise<Set<string>> {
-    const cells = await this.em.find(Cell, { sheet }, { orderBy: { position: 'asc' } });
-    const outcome = await this.evaluation.evaluate(this.toFile(sheet, cells));
+  /**
+   * Evaluates the cells of a sheet as they stand at `version` and stores each result that differs
+   * from the stored one. The results are stored only while the sheet is still at that version (its row
+   * locked): a later save evaluates a later state and stores that, so older results never overwrite
+   * newer ones. A sheet that cannot be evaluated at all (deadline, memory) gets, in every cell, the
+   * reason instead of a number: no result of an older state stays on screen. The change itself is saved.
+   * Returns the results by cell id and the ids whose stored results changed.
+   */
+  private async evaluateAndStore(sheet: Sheet, cells: readonly CellContent[], version: number): Promise<{ results: Map<string, CellResult>; changed: Set<string> }> {
+    let results: CellResult[];
+    let engineVersion: string | null = null;
+    try {
+      const outcome = await this.evaluation.evaluate(this.toFile(sheet, cells), sheet.id);
+      results = outcome.cells;
+      engineVersion = outcome.engineVersion;
+    } catch (err) {
+      if (!(err instanceof AppException && err.status === HttpStatus.UNPROCESSABLE_ENTITY)) throw err;
+      results = unevaluatedResults(cells.length, err.message);
+    }
+    const byId = new Map(cells.map((c, i) => [c.id, results[i]]));
     const changed = new Set<string>();
-    cells.forEach((cell, i) => {
-      const result = outcome.cells[i];
-      if (JSON.stringify(result) !== JSON.stringify(cell.results ?? null)) {
-        cell.results = result;
-        changed.add(cell.id);
+    await this.em.transactional(async (em) => {
+      const [row] = await em.execute<{ version: number }[]>('select version from sheet where id = ? for update', [sheet.id]);
+      if (row?.version !== version) return;
+      const stored = await em.execute<{ id: string; digest: string | null }[]>('select id, sha1(results) as digest from cell where sheet_id = ?', [sheet.id]);
+      const digests = new Map(stored.map((r) => [r.id, r.digest]));
+      const writes: [string, string][] = [];
+      for (const cell of cells) {
+        const json = JSON.stringify(byId.get(cell.id) ?? null);
+        if (digests.get(cell.id) !== sha1(json)) writes.push([cell.id, json]);
       }
+      for (let k = 0; k < writes.length; k += 200) {
+        const batch = writes.slice(k, k + 200);
+        await em.execute(
+          `update cell set results = case id ${batch.map(() => 'when ? then ?').join(' ')} end where id in (${batch.map(() => '?').join(', ')})`,
+          [...batch.flat(), ...batch.map(([cellId]) => cellId)],
+          'run',
+        );
+      }
+      for (const [cellId] of writes) changed.add(cellId);
+      if (engineVersion && engineVersion !== sheet.engineVersion) await em.execute('update sheet set engine_version = ? where id = ?', [engineVersion, sheet.id], 'run');
     });
-    sheet.engineVersion = outcome.engineVersion;
-    await this.em.flush();
-    return changed;
+    return { results: byId, changed };
   }
 
   update(auth: AuthContext, id: string, dto: UpdateSheetDto): Promise<SaveResult> {
-    return this.change(auth, id, dto.version, (s, cells) => {
+    return this.change(auth, id, dto.version, async (s, _em, all) => {
       if (dto.title !== undefined) s.title = dto.title;
       if (dto.settings !== undefined) {
         const parsed = parseSheetFile({ format: SHEET_FORMAT, title: s.title, settings: dto.settings, cells: [] });
         if (!parsed.ok) throw new AppException(ErrorCode.ValidationFailed, parsed.problems.map((p) => `${p.path}: ${p.message}`).join('; '), HttpStatus.BAD_REQUEST);
         s.settings = dto.settings;
       }
-      return new Set(dto.settings !== undefined ? cells.map((c) => c.id) : []);
+      return { touched: new Set(dto.settings !== undefined ? (await all()).map((c) => c.id) : []) };
     });
   }
 
   addCell(auth: AuthContext, id: string, dto: AddCellDto): Promise<SaveResult> {
     const { kind, fields } = splitCell(dto.cell);
-    return this.change(auth, id, dto.version, (sheet, cells, em) => {
+    return this.change(auth, id, dto.version, async (sheet, em, all) => {
+      const cells = await all();
       const position = Math.min(dto.position, cells.length);
       for (const c of cells) if (c.position >= position) c.position += 1;
       const cell = new Cell(sheet, position, kind, fields, em.getReference(User, auth.session.user.id));
       em.persist(cell);
-      return new Set([cell.id, ...cells.filter((c) => c.position > position).map((c) => c.id)]);
+      return { touched: new Set([cell.id, ...cells.filter((c) => c.position > position).map((c) => c.id)]) };
     });
   }
 
@@ -273,8 +383,8 @@ export class SheetsService {
   async updateCell(auth: AuthContext, id: string, cellId: string, dto: UpdateCellDto): Promise<SaveResult> {
     const { kind, fields } = splitCell(dto.cell);
     const withdrawn: string[] = [];
-    const result = await this.change(auth, id, dto.version, (_sheet, cells, em) => {
-      const cell = cells.find((c) => c.id === cellId);
+    const result = await this.change(auth, id, dto.version, async (sheet, em) => {
+      const cell = await em.findOne(Cell, { id: cellId, sheet }, { exclude: ['results'] });
       if (!cell) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
       const changed = cell.kind !== kind || JSON.stringify(cell.fields) !== JSON.stringify(fields);
       cell.kind = kind;
@@ -288,7 +398,7 @@ export class SheetsService {
         cell.changedAfterAgreement = true;
         withdrawn.push(cell.id);
       }
-      return new Set([cell.id]);
+      return { touched: new Set([cell.id]) };
     });
     for (const cell of withdrawn) {
       await this.audit.record('agreement-withdrawn', { firmId: auth.session.firm.id, userId: auth.session.user.id, subjectId: id, detail: { cell, reason: 'edited after the checker agreed it' } });
@@ -297,7 +407,8 @@ export class SheetsService {
   }
 
   moveCell(auth: AuthContext, id: string, cellId: string, dto: MoveCellDto): Promise<SaveResult> {
-    return this.change(auth, id, dto.version, (_sheet, cells) => {
+    return this.change(auth, id, dto.version, async (_sheet, _em, all) => {
+      const cells = await all();
       const from = cells.findIndex((c) => c.id === cellId);
       if (from < 0) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
       const [cell] = cells.splice(from, 1);
@@ -307,12 +418,13 @@ export class SheetsService {
         if (c.position !== i) moved.add(c.id);
         c.position = i;
       });
-      return moved;
+      return { touched: moved };
     });
   }
 
   deleteCell(auth: AuthContext, id: string, cellId: string, version: number): Promise<SaveResult> {
-    return this.change(auth, id, version, (_sheet, cells, em) => {
+    return this.change(auth, id, version, async (_sheet, em, all) => {
+      const cells = await all();
       const cell = cells.find((c) => c.id === cellId);
       if (!cell) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
       em.remove(cell);
@@ -322,7 +434,7 @@ export class SheetsService {
         if (c.position !== i) moved.add(c.id);
         c.position = i;
       });
-      return moved;
+      return { touched: moved, removed: [cell.id] };
     });
   }
 }

@@ -15,9 +15,14 @@ import { evaluateTableCell, tableColumnNames } from './table';
 
 interface CacheEntry {
   key: string;
-  /** Outer names read, with a fingerprint of each value. */
+  /**
+   * The names the cell depends on — those it read from above, and those it defines or fails (whose
+   * earlier definition its warnings name) — each with a print of what the scope held for it before.
+   */
   reads: [string, string][];
   defined: [string, unknown, Place][];
+  /** How the defined values were shown where defined (with their `to` unit), for later workings. */
+  shown: [string, unknown, string][];
   failed: [string, Place][];
   result: CellResult;
 }
@@ -44,6 +49,14 @@ const fingerprint = (v: unknown): string => {
   if (u && typeof u.toArray === 'function') return `m:${u.toArray().map(fingerprint).join(';')}`;
   return `x:${JSON.stringify(formatValue(v, { significantDigits: 17, complexForm: 'rectangular' }).si)}`;
 };
+
+/**
+ * What a cell can see of a name: its value, where it was defined, where it failed, and every place the
+ * sheet defines it (for "defined later" and "defined before" messages).
+ */
+function printOf(name: string, values: Map<string, unknown>, origin: Map<string, Place>, failed: Map<string, Place>, definitions: Map<string, Place[]>): string {
+  return JSON.stringify([values.has(name) ? fingerprint(values.get(name)) : '', origin.get(name) ?? null, failed.get(name) ?? null, definitions.get(name) ?? []]);
+}
 
 /** Where every name of the sheet is defined, for "used before it is defined" errors. */
 export function definitionsOf(cells: readonly Cell[]): Map<string, Place[]> {
@@ -85,6 +98,14 @@ function evaluateCell(cell: Cell, index: number, scope: SheetScope, display: Dis
   }
 }
 
+/**
+ * What every cell shows when its sheet could not be evaluated at all: the reason, and no number, so
+ * that no result computed from an older version of the sheet stays on screen as if it were current.
+ */
+export function unevaluatedResults(count: number, reason: string): CellResult[] {
+  return Array.from({ length: count }, () => ({ kind: 'unevaluated' as const, status: 'error' as const, errors: [{ line: 1, column: 1, message: `Not evaluated: ${reason}` }], warnings: [] }));
+}
+
 export function evaluateSheet(sheet: Pick<SheetFile, 'cells' | 'settings'>, previous?: EvaluationCache): SheetEvaluation {
   const display = displayOptionsOf(sheet);
   const scope = new SheetScope(definitionsOf(sheet.cells));
@@ -98,9 +119,10 @@ export function evaluateSheet(sheet: Pick<SheetFile, 'cells' | 'settings'>, prev
     const reusable =
       cached &&
       cached.key === key &&
-      cached.reads.every(([name, print]) => (scope.values.has(name) ? fingerprint(scope.values.get(name)) === print : print === ''));
+      cached.reads.every(([name, print]) => printOf(name, scope.values, scope.origin, scope.failed, scope.definitions) === print);
     if (reusable && cached) {
       for (const [name, value, place] of cached.defined) scope.define(name, value, place);
+      for (const [name, value, text] of cached.shown) scope.rememberDisplay(name, value, text);
       for (const [name, place] of cached.failed) scope.markFailed(name, place);
       entries.push(cached);
       results.push(cached.result);
@@ -108,15 +130,22 @@ export function evaluateSheet(sheet: Pick<SheetFile, 'cells' | 'settings'>, prev
     }
     const before = new Map(scope.values);
     const beforeOrigin = new Map(scope.origin);
+    const beforeFailed = new Map(scope.failed);
     const { result, reads } = scope.tracking(() => evaluateCell(cell, index, scope, display));
     const defined: [string, unknown, Place][] = [];
     for (const [name, place] of scope.origin) {
       if (beforeOrigin.get(name) !== place) defined.push([name, scope.values.get(name), place]);
     }
     const failed: [string, Place][] = [...scope.failed].filter(([, place]) => place.cell === index);
-    // Names looked up but absent count too (print ''): defining one above must re-evaluate this cell.
-    const outerReads: [string, string][] = [...reads].map((name) => [name, before.has(name) ? fingerprint(before.get(name)) : '']);
-    entries.push({ key, reads: outerReads, defined, failed, result });
+    // Names looked up but absent count too: defining one above must re-evaluate this cell.
+    const names = new Set([...reads, ...defined.map(([name]) => name), ...failed.map(([name]) => name)]);
+    const outerReads: [string, string][] = [...names].map((name) => [name, printOf(name, before, beforeOrigin, beforeFailed, scope.definitions)]);
+    const shown: [string, unknown, string][] = [];
+    for (const [name, value] of defined) {
+      const text = scope.rememberedDisplay(name);
+      if (text !== undefined) shown.push([name, value, text]);
+    }
+    entries.push({ key, reads: outerReads, defined, shown, failed, result });
     results.push(result);
     evaluated.push(index);
   });

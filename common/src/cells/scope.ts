@@ -31,6 +31,12 @@ export class SheetScope {
     this.shown.set(name, { value, text });
   }
 
+  /** How a name's current value was shown where it was defined, if it was remembered. */
+  rememberedDisplay(name: string): string | undefined {
+    const known = this.shown.get(name);
+    return known && known.value === this.values.get(name) ? known.text : undefined;
+  }
+
   /** The display text of a name's value, computed once per value. */
   displayOf(name: string, format: (value: unknown) => string): string {
     const value = this.values.get(name);

@@ -90,4 +90,10 @@ export interface PlainResult extends CellResultBase {
   kind: 'note' | 'figure';
 }
 
-export type CellResult = CalcResult | CheckResult | SweepResult | TransientResult | TableResult | PlainResult;
+/** A cell whose sheet could not be evaluated (stopped at its deadline or memory bound): no numbers. */
+export interface UnevaluatedResult extends CellResultBase {
+  kind: 'unevaluated';
+  status: 'error';
+}
+
+export type CellResult = CalcResult | CheckResult | SweepResult | TransientResult | TableResult | PlainResult | UnevaluatedResult;

@@ -1,10 +1,12 @@
 import { createHash, timingSafeEqual } from 'node:crypto';
-import { EntityManager } from '@mikro-orm/core';
+import { EntityManager } from '@mikro-orm/mariadb';
 import { CanActivate, ExecutionContext, HttpStatus, Injectable } from '@nestjs/common';
 import { Reflector } from '@nestjs/core';
 import type { Request } from 'express';
 import { Session } from '../../auth/entities/session.entity';
+import { Firm } from '../../firms/entities/firm.entity';
 import { Membership } from '../../firms/entities/membership.entity';
+import { User } from '../../users/entities/user.entity';
 import { ACCESS_KEY, type AccessRule } from '../decorators/access.decorator';
 import { AppException, ErrorCode } from '../errors/app-exception';
 import type { Role } from '../roles';
@@ -16,6 +18,24 @@ export interface AuthContext {
   session: Session;
   membership: Membership;
   roles: Role[];
+}
+
+interface SessionRow {
+  token_hash: string;
+  user_id: string;
+  firm_id: string;
+  csrf_token: string;
+  created_at: Date;
+  expires_at: Date;
+  u_email: string;
+  u_name: string;
+  u_password_hash: string;
+  u_created_at: Date;
+  f_name: string;
+  f_created_at: Date;
+  m_id: string;
+  m_roles: unknown;
+  m_created_at: Date;
 }
 
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
@@ -63,14 +83,31 @@ export class AuthGuard implements CanActivate {
     return true;
   }
 
-  /** Reads the session cookie; sets req.auth when it names a live session. */
+  /**
+   * Reads the session cookie; sets req.auth when it names a live session of a current member. One
+   * query for the session, its user, firm and membership (this runs for every request), mapped into
+   * the request's entity manager as if each had been loaded.
+   */
   private async attach(req: Request & { auth?: AuthContext }): Promise<AuthContext | undefined> {
     const token = (req.cookies as Record<string, string> | undefined)?.[SESSION_COOKIE];
     if (!token || token.length > 200) return undefined;
-    const session = await this.em.findOne(Session, { tokenHash: hashToken(token) }, { populate: ['user', 'firm'] });
-    if (!session || session.expiresAt.getTime() < Date.now()) return undefined;
-    const membership = await this.em.findOne(Membership, { firm: session.firm, user: session.user });
-    if (!membership) return undefined;
+    const [row] = await this.em.execute<SessionRow[]>(
+      `select s.token_hash, s.user_id, s.firm_id, s.csrf_token, s.created_at, s.expires_at,
+              u.email as u_email, u.name as u_name, u.password_hash as u_password_hash, u.created_at as u_created_at,
+              f.name as f_name, f.created_at as f_created_at, m.id as m_id, m.roles as m_roles, m.created_at as m_created_at
+         from session s
+         join app_user u on u.id = s.user_id
+         join firm f on f.id = s.firm_id
+         join membership m on m.firm_id = s.firm_id and m.user_id = s.user_id
+        where s.token_hash = ?`,
+      [hashToken(token)],
+    );
+    if (!row || new Date(row.expires_at).getTime() < Date.now()) return undefined;
+    this.em.map(User, { id: row.user_id, email: row.u_email, name: row.u_name, password_hash: row.u_password_hash, created_at: row.u_created_at });
+    this.em.map(Firm, { id: row.firm_id, name: row.f_name, created_at: row.f_created_at });
+    const session = this.em.map(Session, { token_hash: row.token_hash, user_id: row.user_id, firm_id: row.firm_id, csrf_token: row.csrf_token, created_at: row.created_at, expires_at: row.expires_at });
+    const roles = (typeof row.m_roles === 'string' ? JSON.parse(row.m_roles) : row.m_roles) as Role[];
+    const membership = this.em.map(Membership, { id: row.m_id, firm_id: row.firm_id, user_id: row.user_id, roles, created_at: row.m_created_at });
     req.auth = { session, membership, roles: membership.roles };
     return req.auth;
   }
