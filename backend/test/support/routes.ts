@@ -1,0 +1,83 @@
+/**
+ * Every route of the API with who may call it: the role matrix (role-matrix.test.ts) checks each
+ * against every role, and the cross-firm test (cross-firm.test.ts) calls each one that names an id
+ * with another firm's ids. A route added without an entry here fails the role matrix's first test.
+ */
+import type { Role } from '../../src/core/roles';
+
+export type Allowed = 'public' | 'signed-in' | Role[];
+export const MEMBERS: Role[] = ['owner', 'engineer', 'checker', 'approver'];
+export const ANY_ID = '00000000-0000-4000-8000-000000000000';
+
+/** "METHOD /path" → who may call it. */
+export const MATRIX: Record<string, Allowed> = {
+  'GET /api/health': 'public',
+  'POST /api/evaluate': MEMBERS,
+  'POST /api/auth/register': 'public',
+  'POST /api/auth/login': 'public',
+  'POST /api/auth/logout': 'signed-in',
+  'GET /api/auth/me': 'signed-in',
+  'PATCH /api/auth/me': 'signed-in',
+  'POST /api/auth/forgot-password': 'public',
+  'POST /api/auth/reset-password': 'public',
+  'POST /api/invitations': ['owner'],
+  'GET /api/invitations': ['owner'],
+  'GET /api/invitations/preview': 'public',
+  'POST /api/invitations/accept': 'public',
+  'GET /api/members': MEMBERS,
+  'PATCH /api/members/:id': ['owner'],
+  'DELETE /api/members/:id': ['owner'],
+  'GET /api/audit': ['owner'],
+  'GET /api/templates': MEMBERS,
+  'POST /api/templates': ['owner', 'engineer'],
+  'DELETE /api/templates/:id': ['owner', 'engineer'],
+  'GET /api/projects': 'signed-in',
+  'POST /api/projects': ['owner', 'engineer'],
+  'GET /api/projects/:id': MEMBERS,
+  'PATCH /api/projects/:id': ['owner', 'engineer'],
+  'DELETE /api/projects/:id': ['owner'],
+  'GET /api/projects/:id/people': MEMBERS,
+  'PUT /api/projects/:id/members': ['owner', 'engineer'],
+  'GET /api/projects/:projectId/sheets': MEMBERS,
+  'POST /api/projects/:projectId/sheets': ['owner', 'engineer'],
+  'GET /api/sheets/:id': MEMBERS,
+  'GET /api/sheets/:id/export': MEMBERS,
+  'PATCH /api/sheets/:id': ['owner', 'engineer'],
+  'DELETE /api/sheets/:id': ['owner', 'engineer'],
+  'POST /api/sheets/:id/cells': ['owner', 'engineer'],
+  'PATCH /api/sheets/:id/cells/:cellId': ['owner', 'engineer'],
+  'POST /api/sheets/:id/cells/:cellId/move': ['owner', 'engineer'],
+  'POST /api/sheets/:id/cells/import-csv': ['owner', 'engineer'],
+  'DELETE /api/sheets/:id/cells/:cellId': ['owner', 'engineer'],
+  'GET /api/sheets/:id/attachments': MEMBERS,
+  'POST /api/sheets/:id/attachments': ['owner', 'engineer'],
+  'GET /api/attachments/:id/download': MEMBERS,
+  'DELETE /api/attachments/:id': ['owner', 'engineer'],
+  'POST /api/sheets/:id/request-check': ['owner', 'engineer'],
+  'POST /api/sheets/:id/return': ['checker'],
+  'POST /api/sheets/:id/pass': ['checker'],
+  'POST /api/sheets/:id/approve': ['approver'],
+  'POST /api/sheets/:id/issue': ['approver'],
+  'POST /api/sheets/:id/new-revision': ['owner', 'engineer'],
+  'GET /api/sheets/:id/queries': MEMBERS,
+  'POST /api/sheets/:id/queries': ['checker'],
+  'POST /api/queries/:id/replies': ['owner', 'engineer', 'checker'],
+  'POST /api/queries/:id/close': ['checker'],
+  'PUT /api/sheets/:id/cells/:cellId/agreement': ['checker'],
+  'DELETE /api/sheets/:id/cells/:cellId/agreement': ['checker'],
+  'GET /api/sheets/:id/revisions': MEMBERS,
+  'GET /api/revisions/:id': MEMBERS,
+  'GET /api/sheets/:id/diff': MEMBERS,
+  'GET /api/sheets/:id/history': MEMBERS,
+  'GET /api/notifications': 'signed-in',
+  'POST /api/notifications/read-all': 'signed-in',
+  'POST /api/notifications/:id/read': 'signed-in',
+  'GET /api/revisions/:id/package/status': [...MEMBERS, 'client'],
+  'POST /api/revisions/:id/package/retry': ['owner', 'approver'],
+  'GET /api/revisions/:id/package': [...MEMBERS, 'client'],
+  'GET /api/portal/revisions': ['client'],
+  'POST /api/verify': 'public',
+  'GET /api/firm/certificate': ['owner'],
+  'POST /api/firm/certificate': ['owner'],
+};
+
