@@ -1,4 +1,4 @@
-import { INestApplication } from '@nestjs/common';
+import { HttpStatus, INestApplication } from '@nestjs/common';
 import { NestFactory } from '@nestjs/core';
 import { NestExpressApplication } from '@nestjs/platform-express';
 import cookieParser from 'cookie-parser';
@@ -7,12 +7,22 @@ import { AppModule } from './app.module';
 import type { NextFunction, Request, Response } from 'express';
 import { createValidationPipe } from './core/validation';
 import { bodyParserError } from './core/filters/body-parser-error';
+import { AppException, ErrorCode } from './core/errors/app-exception';
 
 /** Applies what every instance of the app needs, in main.ts and in the integration tests alike. */
 export function configureApp(app: INestApplication): INestApplication {
   const express = app as NestExpressApplication;
   express.disable('x-powered-by');
   express.set('trust proxy', 'loopback');
+  // A body is JSON, or a multipart form for a file; anything else is refused before it is read.
+  express.use('/api', (req: Request, _res: Response, next: NextFunction) => {
+    const length = Number(req.get('content-length') ?? 0);
+    const hasBody = length > 0 || req.get('transfer-encoding') !== undefined;
+    if (hasBody && !req.is(['application/json', 'application/*+json', 'multipart/form-data'])) {
+      return next(new AppException(ErrorCode.UnsupportedMediaType, `The request body is ${req.get('content-type') ?? 'of no stated type'}; send it as application/json (or multipart/form-data with a file).`, HttpStatus.UNSUPPORTED_MEDIA_TYPE));
+    }
+    next();
+  });
   express.useBodyParser('json', { limit: '2mb' });
   // Body-parser failures become our own exceptions here, before Nest rewraps them with the parser's wording.
   express.use((err: unknown, _req: Request, _res: Response, next: NextFunction) => next(bodyParserError(err) ?? err));

@@ -8,48 +8,31 @@
 import type { INestApplication } from '@nestjs/common';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { as, makeCaller, type Caller } from './support/sessions';
-import { MATRIX } from './support/routes';
+import { PNG } from './support/firm';
+import { fillIds, MATRIX, validBodies, type ResourceIds } from './support/routes';
 import { createTestApp } from './support/test-app';
+import { buildFirm } from './support/firm';
 
-// The smallest well-formed PNG, by its published signature (ISO/IEC 15948, PNG file signature and IHDR).
-const PNG = Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), Buffer.from('0000000d49484452000000010000000108060000001f15c489', 'hex')]);
 const SECRET = 'Kestrel-secret-feeder';
 
 describe('another firm\'s ids', () => {
   let app: INestApplication;
   let aEngineer: Caller;
   let aChecker: Caller;
-  let aApprover: Caller;
   let bAll: Caller;
   let bClient: Caller;
-  const ids: Record<string, string> = {};
+  let ids: ResourceIds;
   let snapshot: () => Promise<unknown>;
 
   beforeAll(async () => {
     app = await createTestApp();
-    aEngineer = await makeCaller(app, ['owner', 'engineer']);
-    aChecker = await makeCaller(app, ['checker'], aEngineer.firm);
-    aApprover = await makeCaller(app, ['approver'], aEngineer.firm);
+    ({ engineer: aEngineer, checker: aChecker, ids } = await buildFirm(app, SECRET));
     bAll = await makeCaller(app, ['owner', 'engineer', 'checker', 'approver']);
     bClient = await makeCaller(app, ['client'], bAll.firm);
-
-    const project = (await as(app, aEngineer, 'post', '/api/projects').send({ jobNumber: 'X-1', title: `${SECRET} project`, clientOrganisation: 'A client', site: 'A site' }).expect(201)).body;
-    const issued = (await as(app, aEngineer, 'post', `/api/projects/${project.id}/sheets`).send({ number: 'C-1', sheet: { format: 'ampwright.sheet/1', title: `${SECRET} sheet`, cells: [{ kind: 'calc', source: `R = 10 ohm # ${SECRET}` }, { kind: 'check', condition: 'R <= 20 ohm' }] } }).expect(201)).body;
-    await as(app, aEngineer, 'post', `/api/sheets/${issued.id}/request-check`).send({ checkerId: aChecker.user.id, approverId: aApprover.user.id }).expect(200);
-    const query = (await as(app, aChecker, 'post', `/api/sheets/${issued.id}/queries`).send({ cellId: issued.cells[0].id, text: `${SECRET} query` }).expect(201)).body;
-    await as(app, aChecker, 'post', `/api/queries/${query.id}/close`).send({}).expect(200);
-    await as(app, aChecker, 'post', `/api/sheets/${issued.id}/pass`).expect(200);
-    await as(app, aApprover, 'post', `/api/sheets/${issued.id}/approve`).expect(200);
-    const revision = (await as(app, aApprover, 'post', `/api/sheets/${issued.id}/issue`).expect(200)).body;
-    // A second sheet, still being prepared, with an open query and an attachment.
-    const sheet = (await as(app, aEngineer, 'post', `/api/projects/${project.id}/sheets`).send({ number: 'C-2', sheet: { format: 'ampwright.sheet/1', title: `${SECRET} draft`, cells: [{ kind: 'calc', source: `x = 1 # ${SECRET}` }, { kind: 'calc', source: 'y = 2' }] } }).expect(201)).body;
-    await as(app, aEngineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: aChecker.user.id }).expect(200);
-    const openQuery = (await as(app, aChecker, 'post', `/api/sheets/${sheet.id}/queries`).send({ cellId: sheet.cells[0].id, text: `${SECRET} open query` }).expect(201)).body;
-    const attachment = (await as(app, aEngineer, 'post', `/api/sheets/${sheet.id}/attachments`).attach('file', PNG, 'feeder.png').expect(201)).body;
-    const template = (await as(app, aEngineer, 'post', '/api/templates').send({ sheetId: sheet.id, title: `${SECRET} template` }).expect(201)).body;
-    const notification = (await as(app, aEngineer, 'get', '/api/notifications').expect(200)).body[0];
-    const member = ((await as(app, aEngineer, 'get', '/api/members').expect(200)).body as { id: string; user: { email: string } }[]).find((m) => m.user.email === aChecker.user.email)!;
-    Object.assign(ids, { project: project.id, sheet: sheet.id, issuedSheet: issued.id, cell: sheet.cells[0].id, query: openQuery.id, revision: revision.id, attachment: attachment.id, template: template.id, notification: notification.id, member: member.id });
+    const project = { id: ids.project };
+    const sheet = { id: ids.sheet };
+    const issued = { id: ids.issuedSheet };
+    const revision = { id: ids.revision };
 
     // What A sees of its own work, to compare after B's attempts.
     snapshot = async () => ({
@@ -70,36 +53,8 @@ describe('another firm\'s ids', () => {
     await app?.close();
   });
 
-  /** A's id for each path parameter, by the resource the path names. */
-  function fill(path: string): string {
-    return path
-      .replace(/^\/api\/projects\/:(id|projectId)/, `/api/projects/${ids.project}`)
-      .replace('/api/sheets/:id', `/api/sheets/${path.includes('new-revision') || path.includes('revisions') || path.includes('diff') ? ids.issuedSheet : ids.sheet}`)
-      .replace(':cellId', ids.cell)
-      .replace('/api/queries/:id', `/api/queries/${ids.query}`)
-      .replace('/api/revisions/:id', `/api/revisions/${ids.revision}`)
-      .replace('/api/attachments/:id', `/api/attachments/${ids.attachment}`)
-      .replace('/api/templates/:id', `/api/templates/${ids.template}`)
-      .replace('/api/notifications/:id', `/api/notifications/${ids.notification}`)
-      .replace('/api/members/:id', `/api/members/${ids.member}`);
-  }
-
-  /** A valid body for each route that takes one, so the answer is about the id, not the body. */
-  const BODIES: Record<string, () => object> = {
-    'PATCH /api/members/:id': () => ({ roles: ['engineer'] }),
-    'PATCH /api/projects/:id': () => ({ title: 'Taken over' }),
-    'PUT /api/projects/:id/members': () => ({ userIds: [bAll.user.id] }),
-    'POST /api/projects/:projectId/sheets': () => ({ number: 'B-1', title: 'Intruder' }),
-    'PATCH /api/sheets/:id': () => ({ version: 1, title: 'Taken over' }),
-    'POST /api/sheets/:id/cells': () => ({ version: 1, position: 0, cell: { kind: 'calc', source: 'x = 666' } }),
-    'PATCH /api/sheets/:id/cells/:cellId': () => ({ version: 1, cell: { kind: 'calc', source: 'x = 666' } }),
-    'POST /api/sheets/:id/cells/:cellId/move': () => ({ version: 1, position: 1 }),
-    'POST /api/sheets/:id/request-check': () => ({ checkerId: bAll.user.id }),
-    'POST /api/sheets/:id/return': () => ({ note: 'Taken over' }),
-    'POST /api/sheets/:id/queries': () => ({ cellId: ids.cell, text: 'Taken over' }),
-    'POST /api/queries/:id/replies': () => ({ text: 'Taken over' }),
-    'POST /api/queries/:id/close': () => ({ note: 'Taken over' }),
-  };
+  /** Valid bodies, so that each answer is about the id and not the body. */
+  const body = (route: string): object | undefined => validBodies(ids, bAll.user.id)[route];
   const QUERIES: Record<string, () => string> = {
     'DELETE /api/sheets/:id/cells/:cellId': () => '?version=1',
     'GET /api/sheets/:id/diff': () => `?from=${ids.revision}&to=draft`,
@@ -113,12 +68,12 @@ describe('another firm\'s ids', () => {
 
   it.each(routes)('%s with firm A\'s ids: 404 to firm B, and nothing of A in the answer', async (route) => {
     const [method, path] = route.split(' ');
-    const url = fill(path) + (QUERIES[route]?.() ?? '');
+    const url = fillIds(path, ids) + (QUERIES[route]?.() ?? '');
     expect(url, 'every parameter is filled').not.toMatch(/:\w+/);
     let req = as(app, bAll, method.toLowerCase() as 'get', url);
     if (route.endsWith('/import-csv')) req = req.field('version', '1').field('position', '0').attach('file', Buffer.from('h, I_h [A]\n1, 10\n'), 'harmonics.csv');
     else if (route.endsWith('/attachments') && method === 'POST') req = req.attach('file', PNG, 'intruder.png');
-    else if (BODIES[route]) req = req.send(BODIES[route]());
+    else if (body(route)) req = req.send(body(route)!);
     const res = await req;
     expect(res.status, `${route}: ${res.status} ${JSON.stringify(res.body).slice(0, 300)}`).toBe(404);
     expect(res.body.code).toBe('NOT_FOUND');
@@ -155,8 +110,8 @@ describe('another firm\'s ids', () => {
     // Run every attempt once more, then compare what A sees with what it saw before them.
     for (const route of routes) {
       const [method, path] = route.split(' ');
-      let req = as(app, bAll, method.toLowerCase() as 'get', fill(path) + (QUERIES[route]?.() ?? ''));
-      if (BODIES[route]) req = req.send(BODIES[route]());
+      let req = as(app, bAll, method.toLowerCase() as 'get', fillIds(path, ids) + (QUERIES[route]?.() ?? ''));
+      if (body(route)) req = req.send(body(route)!);
       await req;
     }
     expect(await snapshot()).toEqual(before);

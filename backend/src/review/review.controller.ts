@@ -1,4 +1,4 @@
-import { Body, Controller, Delete, Get, HttpCode, Param, ParseUUIDPipe, Post, Put, Query } from '@nestjs/common';
+import { Body, Controller, Delete, Get, HttpCode, Param, ParseEnumPipe, ParseUUIDPipe, Post, Put, Query } from '@nestjs/common';
 import type { DiffDto, HistoryEventDto, QueryDto, RevisionSummaryDto, SheetDto } from '@ampwright/common';
 import { Roles } from '../core/decorators/access.decorator';
 import { CurrentAuth } from '../core/decorators/current-auth.decorator';
@@ -65,7 +65,11 @@ export class ReviewController {
   /** The queries of the revision being prepared; `?all=true` for every revision's. */
   @Roles(...MEMBER_ROLES)
   @Get('sheets/:id/queries')
-  listQueries(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Query('all') all?: string): Promise<QueryDto[]> {
+  listQueries(
+    @CurrentAuth() auth: AuthContext,
+    @Param('id', ParseUUIDPipe) id: string,
+    @Query('all', new ParseEnumPipe({ true: 'true', false: 'false' }, { optional: true, errorHttpStatusCode: 400 })) all?: 'true' | 'false',
+  ): Promise<QueryDto[]> {
     return this.queries.list(auth, id, all === 'true');
   }
 

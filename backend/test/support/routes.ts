@@ -81,3 +81,58 @@ export const MATRIX: Record<string, Allowed> = {
   'POST /api/firm/certificate': ['owner'],
 };
 
+
+/** Ids of one firm's resources, by the kind of resource a path names. */
+export interface ResourceIds {
+  project: string;
+  /** A sheet being prepared. */
+  sheet: string;
+  /** A sheet with an issued revision (for the revision, diff and new-revision routes). */
+  issuedSheet: string;
+  cell: string;
+  query: string;
+  revision: string;
+  attachment: string;
+  template: string;
+  notification: string;
+  member: string;
+}
+
+/** A route's path with each parameter replaced by the id of the resource it names. */
+export function fillIds(path: string, ids: ResourceIds): string {
+  const sheet = /new-revision|revisions|diff/.test(path) ? ids.issuedSheet : ids.sheet;
+  return path
+    .replace(/^\/api\/projects\/:(id|projectId)/, `/api/projects/${ids.project}`)
+    .replace('/api/sheets/:id', `/api/sheets/${sheet}`)
+    .replace(':cellId', ids.cell)
+    .replace('/api/queries/:id', `/api/queries/${ids.query}`)
+    .replace('/api/revisions/:id', `/api/revisions/${ids.revision}`)
+    .replace('/api/attachments/:id', `/api/attachments/${ids.attachment}`)
+    .replace('/api/templates/:id', `/api/templates/${ids.template}`)
+    .replace('/api/notifications/:id', `/api/notifications/${ids.notification}`)
+    .replace('/api/members/:id', `/api/members/${ids.member}`);
+}
+
+/** A valid body for each route of a signed-in member that takes one (`userId`: someone of the caller's firm). */
+export function validBodies(ids: ResourceIds, userId: string): Record<string, object> {
+  return {
+    'POST /api/evaluate': { format: 'ampwright.sheet/1', title: 'Probe', cells: [{ kind: 'calc', source: 'x = 1' }] },
+    'PATCH /api/members/:id': { roles: ['checker'] },
+    'POST /api/templates': { sheetId: ids.sheet, title: 'A template' },
+    'POST /api/projects': { jobNumber: 'F-1', title: 'Fuzz', clientOrganisation: 'Client', site: 'Site' },
+    'PATCH /api/projects/:id': { title: 'Renamed' },
+    'PUT /api/projects/:id/members': { userIds: [userId] },
+    'POST /api/projects/:projectId/sheets': { number: 'F-1', title: 'New sheet' },
+    'PATCH /api/sheets/:id': { version: 1, title: 'Renamed' },
+    'POST /api/sheets/:id/cells': { version: 1, position: 0, cell: { kind: 'calc', source: 'x = 1' } },
+    'PATCH /api/sheets/:id/cells/:cellId': { version: 1, cell: { kind: 'calc', source: 'x = 1' } },
+    'POST /api/sheets/:id/cells/:cellId/move': { version: 1, position: 1 },
+    'POST /api/sheets/:id/request-check': { checkerId: userId },
+    'POST /api/sheets/:id/return': { note: 'Please look again' },
+    'POST /api/sheets/:id/queries': { cellId: ids.cell, text: 'Where from?' },
+    'POST /api/queries/:id/replies': { text: 'From the datasheet' },
+    'POST /api/queries/:id/close': { note: 'Agreed' },
+    'POST /api/invitations': { email: 'someone@invited.example', roles: ['engineer'] },
+    'PATCH /api/auth/me': { name: 'Renamed person' },
+  };
+}
