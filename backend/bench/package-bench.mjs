@@ -26,7 +26,7 @@ function snapshotOf(cells) {
 }
 
 const cells = [];
-for (let k = 0; k < 34; k++) {
+for (let k = 0; k < 27; k++) {
   cells.push({ kind: 'note', text: `## Branch ${k + 1}\nSteady-state current of branch ${k + 1}.` });
   cells.push({ kind: 'calc', source: `R_${k} = ${k + 2} ohm\nL_${k} = ${10 + k} mH\nC_${k} = ${100 + k} uF\nw_${k} = 2 pi 50 Hz\nX_${k} = w_${k} L_${k} - 1 / (w_${k} C_${k})\nZ_${k} = sqrt(R_${k}^2 + X_${k}^2)\nI_${k} = 325 V / Z_${k} to A\nphi_${k} = atan(X_${k} / R_${k}) to deg\nZc_${k} = R_${k} + j X_${k}` });
   cells.push({ kind: 'check', condition: `I_${k} <= 400 A`, basis: 'bench' });

@@ -10,7 +10,7 @@ import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
 import { calcFigures, sweepChart, transientChart, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
 import type { RevisionSnapshot } from '../review/revisions.service';
-import { texToSvg } from './tex-svg';
+import { drawTex, texToSvg } from './tex-svg';
 
 export const CAUTION_TEXT =
   'Results are for use by qualified engineers. Check them independently before relying on them; locally adopted electrical codes and licensed practice take precedence, and the engineer of record remains responsible.';
@@ -112,7 +112,7 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     try {
       const t = texToSvg(source, size);
       const k = t.width > maxWidth ? maxWidth / t.width : 1;
-      SVGtoPDF(doc, t.svg.replace(/currentColor/g, TEXT), x, y, { width: t.width * k, height: t.height * k, assumePt: true });
+      if (!drawTex(doc, t, x, y, t.width * k, TEXT)) SVGtoPDF(doc, t.svg.replace(/currentColor/g, TEXT), x, y, { width: t.width * k, height: t.height * k, assumePt: true });
       return { w: t.width * k, h: t.height * k };
     } catch {
       doc.font('mono').fontSize(8).fillColor(TEXT).text(source, x, y, { width: maxWidth });
