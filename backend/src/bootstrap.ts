@@ -1,5 +1,7 @@
 import { HttpStatus, INestApplication } from '@nestjs/common';
+import { ConfigService } from '@nestjs/config';
 import { NestFactory } from '@nestjs/core';
+import type { Environment } from './config/environment';
 import { NestExpressApplication } from '@nestjs/platform-express';
 import cookieParser from 'cookie-parser';
 import helmet from 'helmet';
@@ -13,7 +15,8 @@ import { AppException, ErrorCode } from './core/errors/app-exception';
 export function configureApp(app: INestApplication): INestApplication {
   const express = app as NestExpressApplication;
   express.disable('x-powered-by');
-  express.set('trust proxy', 'loopback');
+  const trust = app.get(ConfigService<Environment, true>).get('TRUST_PROXY', { infer: true });
+  express.set('trust proxy', /^\d+$/.test(trust) ? Number(trust) : trust.split(',').map((s) => s.trim()));
   // A body is JSON, or a multipart form for a file; anything else is refused before it is read.
   express.use('/api', (req: Request, _res: Response, next: NextFunction) => {
     const length = Number(req.get('content-length') ?? 0);

@@ -78,6 +78,18 @@ export class Environment {
   @IsIn(['true', 'false'])
   PACKAGE_WORKER: 'true' | 'false' = 'true';
 
+  /**
+   * Which proxies in front of the app to trust for the client's address (X-Forwarded-For), as Express's
+   * "trust proxy": `loopback`, addresses or CIDR ranges separated by commas, or a number of hops.
+   * Throttling counts by that address, so set it to the load balancers' addresses behind one.
+   */
+  @IsString() @IsNotEmpty()
+  TRUST_PROXY = 'loopback';
+
+  /** Path-style bucket addresses (http://host/bucket/key), as local fakes and MinIO need; `false` for virtual-hosted S3. */
+  @IsIn(['true', 'false'])
+  S3_FORCE_PATH_STYLE: 'true' | 'false' = 'true';
+
   /** The built front end to serve; empty serves the API only. */
   @IsOptional() @IsString()
   STATIC_DIR?: string;

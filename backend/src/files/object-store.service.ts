@@ -15,7 +15,7 @@ export class ObjectStoreService implements OnModuleInit, OnModuleDestroy {
     this.client = new S3Client({
       endpoint: config.get('S3_ENDPOINT', { infer: true }),
       region: config.get('S3_REGION', { infer: true }),
-      forcePathStyle: true,
+      forcePathStyle: config.get('S3_FORCE_PATH_STYLE', { infer: true }) === 'true',
       credentials: { accessKeyId: config.get('S3_ACCESS_KEY', { infer: true }), secretAccessKey: config.get('S3_SECRET_KEY', { infer: true }) },
       requestChecksumCalculation: 'WHEN_REQUIRED',
       responseChecksumValidation: 'WHEN_REQUIRED',
