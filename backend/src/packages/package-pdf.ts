@@ -5,12 +5,14 @@
  * register; a header and a footer on every page. The same snapshot always gives the same bytes:
  * every date in the file is the issue date, and nothing random is written.
  */
+import { readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
 import { calcFigures, sweepChart, transientChart, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
 import type { RevisionSnapshot } from '../review/revisions.service';
 import { drawTex, texToSvg } from './tex-svg';
+import { woffToSfnt } from './woff';
 
 export const CAUTION_TEXT =
   'Results are for use by qualified engineers. Check them independently before relying on them; locally adopted electrical codes and licensed practice take precedence, and the engineer of record remains responsible.';
@@ -42,12 +44,15 @@ const PASS = '#2e6b3a';
 const FAIL = '#a3261b';
 
 const fontDir = (pkg: string) => join(dirname(require.resolve(`${pkg}/package.json`)), 'fonts', 'complete', 'woff');
-const FONTS = {
+const FONT_FILES = {
   sans: join(fontDir('@ibm/plex-sans'), 'IBMPlexSans-Regular.woff'),
   bold: join(fontDir('@ibm/plex-sans'), 'IBMPlexSans-SemiBold.woff'),
   italic: join(fontDir('@ibm/plex-sans'), 'IBMPlexSans-Italic.woff'),
   mono: join(fontDir('@ibm/plex-mono'), 'IBMPlexMono-Regular.woff'),
 };
+/** The fonts unpacked once per process (see woff.ts). */
+let fonts: Record<keyof typeof FONT_FILES, Buffer> | undefined;
+const FONTS = () => (fonts ??= Object.fromEntries(Object.entries(FONT_FILES).map(([k, f]) => [k, woffToSfnt(readFileSync(f))])) as Record<keyof typeof FONT_FILES, Buffer>);
 
 /** The metadata key that carries the revision id (read back by the verification page). */
 export const REVISION_KEY = 'AmpwrightRevision';
@@ -87,10 +92,7 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     doc.on('end', () => resolve(Buffer.concat(chunks)));
     doc.on('error', reject);
   });
-  doc.registerFont('sans', FONTS.sans);
-  doc.registerFont('bold', FONTS.bold);
-  doc.registerFont('italic', FONTS.italic);
-  doc.registerFont('mono', FONTS.mono);
+  for (const [name, font] of Object.entries(FONTS())) doc.registerFont(name, font);
 
   const width = () => doc.page.width - 2 * M;
   const bottom = () => doc.page.height - M - 8;
