@@ -6,11 +6,13 @@ import { ConfigService } from '@nestjs/config';
 import { APP_FILTER, APP_GUARD } from '@nestjs/core';
 import { ServeStaticModule } from '@nestjs/serve-static';
 import { ThrottlerGuard, ThrottlerModule } from '@nestjs/throttler';
+import { MikroORM } from '@mikro-orm/core';
+import { SharedThrottlerStorage } from './core/throttle/shared-throttler-storage';
 import { AuditModule } from './audit/audit.module';
 import { AuthModule } from './auth/auth.module';
 import { ConfigModule } from './config/config.module';
 import { AuthGuard } from './core/guards/auth.guard';
-import { THROTTLERS } from './core/throttle';
+import { THROTTLERS } from './core/throttle/throttlers';
 import { InvitationsModule } from './invitations/invitations.module';
 import { MembersModule } from './members/members.module';
 import { ProjectsModule } from './projects/projects.module';
@@ -51,7 +53,10 @@ function staticFrontEnd(): DynamicModule[] {
           DB_PASSWORD: config.get('DB_PASSWORD', { infer: true }),
         }),
     }),
-    ThrottlerModule.forRoot({ throttlers: THROTTLERS, errorMessage: 'Too many attempts: wait a minute and try again.' }),
+    ThrottlerModule.forRootAsync({
+      inject: [MikroORM],
+      useFactory: (orm: MikroORM) => ({ throttlers: THROTTLERS, storage: new SharedThrottlerStorage(orm), errorMessage: 'Too many attempts: wait a minute and try again.' }),
+    }),
     AuditModule,
     AuthModule,
     InvitationsModule,

@@ -78,6 +78,22 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     expect(res.body).toMatchObject({ code: 'TOO_MANY_REQUESTS', message: 'Too many attempts: wait a minute and try again.' });
   });
 
+  it('counts sign-in attempts across app instances: 3 on one and 2 on another use up the 5 of an account', async () => {
+    const other = await createTestApp();
+    try {
+      const email = uniqueEmail('shared-throttle');
+      const attempt = (server: INestApplication) => request(server.getHttpServer()).post('/api/auth/login').set(CSRF_HEADER, '1').send({ email, password: 'wrong password!!' });
+      for (let k = 0; k < 3; k++) expect((await attempt(app)).status).toBe(401);
+      for (let k = 0; k < 2; k++) expect((await attempt(other)).status).toBe(401);
+      expect((await attempt(app)).status).toBe(429);
+      const blocked = await attempt(other);
+      expect(blocked.status).toBe(429);
+      expect(Number(blocked.headers['retry-after-account'])).toBeGreaterThan(0);
+    } finally {
+      await other.close();
+    }
+  });
+
   it('resets a password by an e-mailed single-use link, answering the same for unknown addresses', async () => {
     const { email, cookie } = await register();
     const unknown = await http().post('/api/auth/forgot-password').set(CSRF_HEADER, '1').send({ email: uniqueEmail('nobody') }).expect(202);

@@ -4,7 +4,7 @@ import type { Request, Response } from 'express';
 import { Public, SignedIn } from '../core/decorators/access.decorator';
 import { CurrentAuth } from '../core/decorators/current-auth.decorator';
 import type { AuthContext } from '../core/guards/auth.guard';
-import { AUTH_THROTTLE } from '../core/throttle';
+import { AUTH_THROTTLE } from '../core/throttle/throttlers';
 import { AuthService } from './auth.service';
 import { ChangeProfileDto, ForgotPasswordDto, LoginDto, RegisterFirmDto, ResetPasswordDto } from './dto/auth.dto';
 import { MeResponseDto } from './dto/me-response.dto';

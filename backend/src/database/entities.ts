@@ -15,6 +15,7 @@ import { Project, ProjectClient, ProjectMember } from '../projects/entities/proj
 import { Cell } from '../sheets/entities/cell.entity';
 import { Sheet } from '../sheets/entities/sheet.entity';
 import { User } from '../users/entities/user.entity';
+import { ThrottleCounter } from '../core/throttle/throttle-counter.entity';
 
 /** Every entity, listed once: the ORM, the migrator and the seed read this list. */
-export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent, Project, ProjectClient, ProjectMember, Sheet, Cell, Attachment, CellQuery, QueryMessage, Revision, Notification, FirmCertificate, PackageJob, Template];
+export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent, Project, ProjectClient, ProjectMember, Sheet, Cell, Attachment, CellQuery, QueryMessage, Revision, Notification, FirmCertificate, PackageJob, Template, ThrottleCounter];

@@ -4,7 +4,7 @@ import type { Request, Response } from 'express';
 import { Public, Roles } from '../core/decorators/access.decorator';
 import { CurrentAuth } from '../core/decorators/current-auth.decorator';
 import type { AuthContext } from '../core/guards/auth.guard';
-import { AUTH_THROTTLE } from '../core/throttle';
+import { AUTH_THROTTLE } from '../core/throttle/throttlers';
 import { AcceptInvitationDto, CreateInvitationDto, InvitationResponseDto } from './dto/invitation.dto';
 import { InvitationsService } from './invitations.service';
 

@@ -1,7 +1,7 @@
 import { Body, Controller, Get, HttpCode, Param, ParseUUIDPipe, Post, Res, UploadedFile, UseInterceptors } from '@nestjs/common';
 import { FileInterceptor } from '@nestjs/platform-express';
 import { Throttle } from '@nestjs/throttler';
-import { VERIFY_THROTTLE } from '../core/throttle';
+import { VERIFY_THROTTLE } from '../core/throttle/throttlers';
 import type { Response } from 'express';
 import { Public, Roles } from '../core/decorators/access.decorator';
 import { CurrentAuth } from '../core/decorators/current-auth.decorator';

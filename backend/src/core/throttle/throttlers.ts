@@ -9,10 +9,13 @@ const perAccount = (req: Record<string, unknown>) => {
   return String(body.email ?? body.token ?? req.ip ?? '').toLowerCase();
 };
 
+/** The limit of a throttler left off (it is not counted at all). */
+export const OFF = 1_000_000_000;
+
 export const THROTTLERS: ThrottlerOptions[] = [
   { name: 'default', ttl: 60_000, limit: Number(process.env.THROTTLE_DEFAULT_PER_ADDRESS ?? 600) },
-  { name: 'address', ttl: 60_000, limit: 1_000_000_000 },
-  { name: 'account', ttl: 60_000, limit: 1_000_000_000, getTracker: perAccount as never },
+  { name: 'address', ttl: 60_000, limit: OFF },
+  { name: 'account', ttl: 60_000, limit: OFF, getTracker: perAccount as never },
 ];
 
 /** 5 a minute per account, and (by default) 5 a minute per client address. */

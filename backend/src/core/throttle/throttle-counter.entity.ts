@@ -1,0 +1,29 @@
+import { Entity, PrimaryKey, Property } from '@mikro-orm/core';
+
+/**
+ * A shared throttle counter (sign-in, reset, invitation and verification attempts), kept in MariaDB so
+ * that every app instance counts the same attempts. Written with SQL by SharedThrottlerStorage.
+ */
+@Entity({ tableName: 'throttle_counter' })
+export class ThrottleCounter {
+  /** The throttler's key for a client address or account (a SHA-256 in hex). */
+  @PrimaryKey({ length: 100 })
+  trackerKey: string;
+
+  @Property({ type: 'integer', unsigned: true })
+  hits: number;
+
+  /** When the counting window ends. */
+  @Property({ type: 'datetime', length: 3 })
+  expiresAt: Date;
+
+  /** Set when the limit was passed: no attempt is allowed until then. */
+  @Property({ type: 'datetime', length: 3, nullable: true })
+  blockedUntil?: Date;
+
+  constructor(trackerKey: string, hits: number, expiresAt: Date) {
+    this.trackerKey = trackerKey;
+    this.hits = hits;
+    this.expiresAt = expiresAt;
+  }
+}
