@@ -1,6 +1,6 @@
 /**
  * One firm with one of every resource, made through the API: a project; a sheet issued as revision A
- * (through check and approval, with a closed query); a sheet being prepared, with the checker's
+ * (through check and approval, with a closed query) and its package; a sheet being prepared, with the checker's
  * query still open, an attachment and a template made from it; notifications and members.
  */
 import type { INestApplication } from '@nestjs/common';
@@ -30,6 +30,13 @@ export async function buildFirm(app: INestApplication, mark: string): Promise<Fi
   await as(app, checker, 'post', `/api/sheets/${issued.id}/pass`).expect(200);
   await as(app, approver, 'post', `/api/sheets/${issued.id}/approve`).expect(200);
   const revision = (await as(app, approver, 'post', `/api/sheets/${issued.id}/issue`).expect(200)).body;
+  // The package is made in the background; wait for it, so that the firm's work no longer changes by itself.
+  for (let k = 0; k < 300; k++) {
+    const { status } = (await as(app, approver, 'get', `/api/revisions/${revision.id}/package/status`).expect(200)).body;
+    if (status === 'done') break;
+    if (status === 'failed' || k === 299) throw new Error(`the package of the test revision was not made (${status})`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
   const sheet = (await as(app, engineer, 'post', `/api/projects/${project.id}/sheets`).send({ number: 'C-2', sheet: { format: 'ampwright.sheet/1', title: `${mark} draft`, cells: [{ kind: 'calc', source: `x = 1 # ${mark}` }, { kind: 'calc', source: 'y = 2' }] } }).expect(201)).body;
   await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checker.user.id }).expect(200);
   const openQuery = (await as(app, checker, 'post', `/api/sheets/${sheet.id}/queries`).send({ cellId: sheet.cells[0].id, text: `${mark} open query` }).expect(201)).body;
