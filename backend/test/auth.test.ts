@@ -3,6 +3,7 @@ import { EntityManager } from '@mikro-orm/core';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEvent } from '../src/audit/entities/audit-event.entity';
+import { Session } from '../src/auth/entities/session.entity';
 import { CSRF_HEADER } from '../src/core/guards/auth.guard';
 import { DEMO_PASSWORD } from '../src/database/seeders/demo.seeder';
 import { as, cookieFrom, makeCaller, uniqueEmail } from './support/sessions';
@@ -92,6 +93,19 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     } finally {
       await other.close();
     }
+  });
+
+  it('clears out expired sessions when someone signs in, keeping live ones', async () => {
+    const em = app.get(EntityManager).fork();
+    const expired = await makeCaller(app, ['engineer']);
+    const live = await makeCaller(app, ['engineer']);
+    await em.nativeUpdate(Session, { user: expired.user.id }, { expiresAt: new Date(Date.now() - 60_000) });
+    await as(app, expired, 'get', '/api/auth/me').expect(401);
+    const { email } = await register();
+    await http().post('/api/auth/login').set(CSRF_HEADER, '1').send({ email, password: PASSWORD }).expect(200);
+    expect(await em.count(Session, { user: expired.user.id })).toBe(0);
+    expect(await em.count(Session, { user: live.user.id })).toBe(1);
+    await as(app, live, 'get', '/api/auth/me').expect(200);
   });
 
   it('resets a password by an e-mailed single-use link, answering the same for unknown addresses', async () => {

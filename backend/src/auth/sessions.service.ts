@@ -25,7 +25,9 @@ export class SessionsService {
     this.secure = config.get('COOKIE_SECURE', { infer: true }) === 'true';
   }
 
+  /** Opens a session, and clears out sessions that have expired (anyone's), so the table does not grow. */
   async open(user: User, firm: Firm, res: Response): Promise<Session> {
+    await this.em.nativeDelete(Session, { expiresAt: { $lt: new Date() } });
     const token = newToken();
     const session = new Session(hashToken(token), user, firm, newToken(), new Date(Date.now() + this.hours * 3600_000));
     await this.em.persist(session).flush();
