@@ -114,6 +114,8 @@ export class EvaluationPool {
     } else if (idleAt < 0 && !wasStarting) {
       return; // already replaced
     }
+    // Its caches go with it: the sheets it held are evaluated afresh wherever there is room.
+    for (const [key, w] of this.lastWorker) if (w === worker) this.lastWorker.delete(key);
     worker.removeAllListeners('exit');
     void worker.terminate();
     if (!this.closed) this.spawn();

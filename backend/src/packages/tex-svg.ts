@@ -181,18 +181,7 @@ export function absolutePath(d: string): string {
   }
 }
 
-/** The pdfkit document methods the drawing uses. */
-interface Canvas {
-  save(): Canvas;
-  restore(): Canvas;
-  translate(x: number, y: number): Canvas;
-  scale(x: number, y?: number): Canvas;
-  path(d: string): Canvas;
-  rect(x: number, y: number, w: number, h: number): Canvas;
-  fill(colour?: string): Canvas;
-}
-
-function applyTransform(doc: Canvas, transform?: string): void {
+function applyTransform(doc: PDFKit.PDFDocument, transform?: string): void {
   if (!transform) return;
   for (const [, name, args] of transform.matchAll(/(translate|scale)\(([^)]*)\)/g)) {
     const [a, b] = args.trim().split(/[\s,]+/).map(Number);
@@ -201,7 +190,7 @@ function applyTransform(doc: Canvas, transform?: string): void {
   }
 }
 
-function drawOps(doc: Canvas, ops: DrawOp[], colour: string): void {
+function drawOps(doc: PDFKit.PDFDocument, ops: DrawOp[], colour: string): void {
   for (const o of ops) {
     if (o.op === 'rect') {
       doc.rect(o.x, o.y, o.w, o.h).fill(colour);
@@ -220,7 +209,7 @@ function drawOps(doc: Canvas, ops: DrawOp[], colour: string): void {
  * times faster than an SVG renderer, which measures every curve. Returns false when the drawing holds
  * anything else, for the caller to draw its SVG instead.
  */
-export function drawTex(doc: Canvas, t: TexSvg, x: number, y: number, w: number, colour: string): boolean {
+export function drawTex(doc: PDFKit.PDFDocument, t: TexSvg, x: number, y: number, w: number, colour: string): boolean {
   if (!t.ops) return false;
   const [minX, minY, vbW] = t.ops.viewBox;
   const s = w / vbW;

@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import { UniqueConstraintViolationException } from '@mikro-orm/core';
 import { EntityManager } from '@mikro-orm/mariadb';
 import { HttpStatus, Injectable } from '@nestjs/common';
-import { cellSchema, csvToTableCell, parseSheetFile, SHEET_FORMAT, unevaluatedResults, type CellDto, type CellResult, type SaveResultDto, type SheetDto, type SheetFile } from '@ampwright/common';
+import { cellSchema, csvToTableCell, parseSheetFile, revisionCode, SHEET_FORMAT, unevaluatedResults, type CellDto, type CellResult, type SaveResultDto, type SheetDto, type SheetFile } from '@ampwright/common';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService } from '../evaluation/evaluation.service';
@@ -16,7 +16,6 @@ import { isPlainText } from '../files/uploads';
 import { User } from '../users/entities/user.entity';
 import { AuditService } from '../audit/audit.service';
 import { CellQuery } from '../review/entities/cell-query.entity';
-import { revisionCode } from '@ampwright/common';
 
 export enum SheetErrorCode {
   NumberTaken = 'SHEET_NUMBER_TAKEN',
@@ -32,7 +31,6 @@ const EDITABLE: SheetState[] = ['being-prepared', 'with-checker'];
 export type CellView = CellDto;
 export type SheetView = SheetDto;
 export type SaveResult = SaveResultDto;
-
 
 /** A cell row as read for a sheet's view, without loading entities (reads are the hot path). */
 interface CellRow {
@@ -95,7 +93,6 @@ type CellContent = Pick<Cell, 'id' | 'kind' | 'fields'>;
  * (without their results) for changes that need them; a cell edit, the common case, loads just its own.
  */
 type Change = (sheet: Sheet, em: EntityManager, cells: () => Promise<Cell[]>) => Promise<Applied> | Applied;
-
 
 function splitCell(cell: unknown): { kind: string; fields: Record<string, unknown> } {
   const parsed = cellSchema.safeParse(cell);
@@ -286,7 +283,6 @@ export class SheetsService {
       contents = rows.map((r) => ({ id: r.id, kind: r.kind, fields: parsedJson(r.fields) as Record<string, unknown> }));
     }).catch(async (err) => {
       if (err instanceof AppException && err.code === SheetErrorCode.StaleVersion) {
-        this.em.clear();
         throw new AppException(SheetErrorCode.StaleVersion, err.message, HttpStatus.CONFLICT, undefined, await this.view(auth, id));
       }
       throw err;

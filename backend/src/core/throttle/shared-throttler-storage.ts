@@ -1,7 +1,6 @@
 import type { MikroORM } from '@mikro-orm/core';
 import type { EntityManager } from '@mikro-orm/mariadb';
 import { ThrottlerStorageService, type ThrottlerStorage } from '@nestjs/throttler';
-import type { ThrottlerStorageRecord } from '@nestjs/throttler/dist/throttler-storage-record.interface';
 import { OFF } from './throttlers';
 
 /**
@@ -16,7 +15,7 @@ export class SharedThrottlerStorage implements ThrottlerStorage {
 
   constructor(private readonly orm: MikroORM) {}
 
-  async increment(key: string, ttl: number, limit: number, blockDuration: number, throttlerName: string): Promise<ThrottlerStorageRecord> {
+  async increment(key: string, ttl: number, limit: number, blockDuration: number, throttlerName: string): ReturnType<ThrottlerStorage['increment']> {
     if (throttlerName === 'default' || limit >= OFF) return this.local.increment(key, ttl, limit, blockDuration, throttlerName);
     const em = this.orm.em.fork() as EntityManager;
     const id = `${throttlerName}:${key}`;
