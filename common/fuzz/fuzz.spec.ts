@@ -8,7 +8,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { evaluateSheet } from '../src/cells/evaluate-sheet';
 import type { CellResult } from '../src/cells/types';
-import { hostileSheet } from './hostile-expressions';
+import { doublingSheet, hostileSheet } from './hostile-expressions';
 
 const RUNS = Number(process.env.FUZZ_RUNS ?? 10_000);
 const SEED = process.env.FUZZ_SEED === 'random' ? Date.now() % 2 ** 31 : Number(process.env.FUZZ_SEED ?? 20261202);
@@ -51,4 +51,16 @@ describe('fuzzing the language', () => {
     );
     if (process.env.FUZZ_REPORT) console.log(`fuzz: ${RUNS} sheets, seed ${SEED}, slowest ${slowest.toFixed(0)} ms`);
   }, 600_000);
+
+  it('stops a value doubled line after line at the size limit, with a sentence (fixed seed)', () => {
+    fc.assert(
+      fc.property(doublingSheet, (sheet) => {
+        const result = evaluateSheet(sheet);
+        expect(problems(result.cells)).toEqual([]);
+        const lines = sheet.cells[0].source.split('\n').length;
+        if (lines > 30) expect(result.cells[0].errors.some((e) => /larger than the limit|longer than the limit/.test(e.message))).toBe(true);
+      }),
+      { numRuns: 40, seed: SEED },
+    );
+  });
 });

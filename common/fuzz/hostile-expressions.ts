@@ -36,6 +36,27 @@ const expr: fc.Arbitrary<string> = fc.letrec<{ e: string }>((tie) => ({
   ),
 })).e;
 
+/** Calls that would build something huge if their size were not checked before allocating. */
+const ALLOCATION_BOMBS = fc.oneof(
+  fc.integer({ min: 1e4, max: 2e9 }).map((n) => `resize([1], [${n}])`),
+  fc.integer({ min: 1e4, max: 2e9 }).map((n) => `resize(sparse([1]), [1, ${n}])`),
+  fc.integer({ min: 300, max: 1e5 }).map((n) => `kron(ones(${n}), ones(${n}))`),
+  fc.integer({ min: 300, max: 1e5 }).map((n) => `diag(ones(${n}))`),
+  fc.integer({ min: 300, max: 1e5 }).map((n) => `ones(${n}, 1) .* ones(1, ${n})`),
+  fc.integer({ min: 300, max: 1e5 }).map((n) => `ones(${n}, 1) * ones(1, ${n})`),
+  fc.integer({ min: 300, max: 1e5 }).map((n) => `ones(${n}, 1) + ones(1, ${n})`),
+  fc.integer({ min: 1e5, max: 2e9 }).map((n) => `range("1:${n}")`),
+  fc.integer({ min: 1e5, max: 2e9 }).map((n) => `size(1:${n})`),
+  fc.integer({ min: 20, max: 60 }).map((n) => `setPowerset(1:${n})`),
+  fc.constantFrom('concat(ones(60000), ones(60000))', 'matrix("sparse")', 'random(1e6)', 'bignumber(2)^1e9', 'map(ones(3), sqrt)'),
+);
+
+/** Method and property calls on values, which would mutate them or reach their prototype. */
+const METHOD_CALLS = fc.oneof(
+  fc.constantFrom(...NAMES).chain((n) => fc.constantFrom(`${n}.resize([1])`, `${n}.toString()`, `${n}.value`, `${n}.clone()`, `${n}.set([1], 5)`, `${n}.units`, `size(${n}.resize([1]))`)),
+  fc.constantFrom('[1, 2, 3].resize([1])', '(2 V).to("mV")', 'sqrt.signatures', 'ones(3).map(sqrt)', '{a: 1}.a'),
+);
+
 /** Shapes that target limits directly. */
 const extreme = fc.oneof(
   fc.integer({ min: 100, max: 5000 }).map((n) => `${'('.repeat(n)}1${')'.repeat(n)}`),
@@ -46,7 +67,14 @@ const extreme = fc.oneof(
   fc.integer({ min: 1, max: 2000 }).map((n) => `"${'a'.repeat(n * 50)}"`),
   fc.string({ unit: 'binary', maxLength: 200 }),
   fc.string({ unit: 'grapheme', maxLength: 200 }),
+  ALLOCATION_BOMBS,
+  METHOD_CALLS,
 );
+
+/** A sheet that doubles a value line after line (a string or a matrix): each line must stop at the limit. */
+export const doublingSheet = fc.tuple(fc.constantFrom('"abcdefgh"', '[1, 2, 3, 4]', 'ones(2, 2)'), fc.integer({ min: 10, max: 40 })).map(([start, n]) => ({
+  cells: [{ kind: 'calc' as const, source: [`a_0 = ${start}`, ...Array.from({ length: n }, (_, k) => `a_${k + 1} = concat(a_${k}, a_${k})`)].join('\n') }],
+}));
 
 /** A calc line (`name = expression`, sometimes broken on purpose) and a check condition. */
 export const hostileSource = fc.tuple(fc.constantFrom(...NAMES, 'y', 'z', '_', '1x', 'to', 'pi', 'sqrt', ''), fc.oneof({ weight: 4, arbitrary: expr }, { weight: 1, arbitrary: extreme }), fc.option(fc.constantFrom('# note', ' to mA', ' to', '=', ' # ∠ ok'), { nil: '' })).map(([name, e, tail]) => `${name} = ${e}${tail}`);

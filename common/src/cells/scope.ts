@@ -17,6 +17,24 @@ export function assignedName(line: string): string | undefined {
   return ASSIGNMENT.exec(line)?.[1];
 }
 
+/**
+ * Freezes a value and everything it holds (a matrix's data and size, a unit's parts, a complex
+ * number), so a value handed from one cell to the next cannot be mutated by the cells below:
+ * an attempt fails instead of silently changing an earlier result.
+ */
+export function freezeValue<T>(value: T): T {
+  const seen = new Set<object>();
+  const visit = (v: unknown): void => {
+    if (v === null || typeof v !== 'object' || Object.isFrozen(v) || seen.has(v)) return;
+    seen.add(v);
+    if (ArrayBuffer.isView(v)) return; // typed arrays cannot be frozen; the engine's own series only
+    for (const key of Object.keys(v)) visit((v as Record<string, unknown>)[key]);
+    Object.freeze(v);
+  };
+  visit(value);
+  return value;
+}
+
 export class SheetScope {
   readonly values = new Map<string, unknown>();
   readonly origin = new Map<string, Place>();
@@ -59,8 +77,9 @@ export class SheetScope {
     return this.values.get(name);
   }
 
+  /** Binds a name; the value is frozen, so nothing a later cell does can change what this one showed. */
   define(name: string, value: unknown, place: Place): void {
-    this.values.set(name, value);
+    this.values.set(name, freezeValue(value));
     this.origin.set(name, place);
     this.failed.delete(name);
   }

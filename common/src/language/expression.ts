@@ -7,7 +7,15 @@ import type { MathNode } from 'mathjs';
 import { describePlace, type Place, type SheetScope } from '../cells/scope';
 import { EngineError, explain, type Diagnostic } from './errors';
 import { isBuiltin, math, parse, Unit } from './instance';
+import { ALLOWED_CONSTANTS, ALLOWED_FUNCTIONS, ALLOWED_NODES, ALLOWED_OPERATORS } from './allowed';
 import { REFUSED_NAMES } from './math';
+
+const SYNTAX_WORDS: Record<string, string> = { ObjectNode: 'an object { … }', BlockNode: 'several statements on one line', FunctionAssignmentNode: 'defining a function' };
+const methodName = (accessor: AnyNode): string | undefined => {
+  const index = accessor.index as AnyNode | undefined;
+  const dim = (index?.dimensions as AnyNode[] | undefined)?.[0];
+  return dim?.type === 'ConstantNode' ? String(dim.value) : undefined;
+};
 import { locateNodes } from './positions';
 
 type AnyNode = MathNode & Record<string, unknown>;
@@ -87,12 +95,35 @@ export function checkNames(node: MathNode, source: string, scope: SheetScope, pl
   const warnings: Diagnostic[] = [];
   let columns: Map<MathNode, number> | undefined;
   const columnOf = (n: MathNode) => (columns ??= locateNodes(node, normalizeSource(source), offset)).get(n) ?? offset + 1;
-  node.traverse((n) => {
-    const name = n.type === 'SymbolNode' ? String((n as AnyNode).name) : n.type === 'AccessorNode' || n.type === 'IndexNode' ? '' : '';
+  node.traverse((n, path, parent) => {
+    const name = n.type === 'SymbolNode' ? String((n as AnyNode).name) : '';
     if (REFUSED_NAMES.has(name)) throw new EngineError(`${name} is not available in a sheet`, place.line, columnOf(n));
     if (n.type === 'FunctionAssignmentNode') throw new EngineError('defining functions is not part of the language', place.line, columnOf(n));
     if (n.type === 'AssignmentNode' && n !== node) throw new EngineError('an assignment inside an expression is not allowed: write one definition a line', place.line, columnOf(n));
+    if (!ALLOWED_NODES.has(n.type)) throw new EngineError(`${SYNTAX_WORDS[n.type] ?? 'this kind of expression'} is not part of the sheet language`, place.line, columnOf(n));
+    const a = n as AnyNode;
+    if (n.type === 'FunctionNode' && (a.fn as AnyNode).type !== 'SymbolNode') {
+      const method = (a.fn as AnyNode).type === 'AccessorNode' ? methodName(a.fn as AnyNode) : undefined;
+      throw new EngineError(
+        method ? `calling a method on a value (.${method}(…)) is not part of the sheet language: use the function form, for example ${method}(x, …), which leaves x unchanged` : 'only a function named directly can be called, for example sqrt(x)',
+        place.line,
+        columnOf(n),
+      );
+    }
+    if ((n.type === 'AccessorNode' || n.type === 'IndexNode') && (n.type === 'IndexNode' ? a.dotNotation : (a.index as AnyNode).dotNotation)) {
+      if (!(parent?.type === 'FunctionNode' && path === 'fn')) throw new EngineError('reading a property of a value (x.name) is not part of the sheet language: index a matrix with x[k]', place.line, columnOf(n));
+    }
+    if (n.type === 'OperatorNode' && !ALLOWED_OPERATORS.has(String(a.fn))) throw new EngineError(`the operator ${String(a.op)} is not part of the sheet language`, place.line, columnOf(n));
   });
+  for (const fn of functionsOf(node)) {
+    const f = fn.fn as AnyNode;
+    if (f.type !== 'SymbolNode') continue;
+    const name = String(f.name);
+    if (scope.has(name) && typeof scope.values.get(name) === 'function') continue;
+    if (ALLOWED_FUNCTIONS.has(name) && typeof (math as unknown as Record<string, unknown>)[name] === 'function') continue;
+    if (isBuiltin(name)) throw new EngineError(`the function ${name} is not part of the sheet language (LANGUAGE.md lists the functions a sheet may call)`, place.line, columnOf(fn));
+    throw new EngineError(`unknown function ${name}`, place.line, columnOf(fn));
+  }
   for (const sym of symbolsOf(node)) {
     const name = String(sym.name);
     if (scope.has(name) || local.has(name)) continue;
@@ -107,16 +138,10 @@ export function checkNames(node: MathNode, source: string, scope: SheetScope, pl
       warnings.push({ line: place.line, column: columnOf(sym), message: `${name} here means the unit ${name}; the variable ${name} is only defined later, at ${describePlace(later)}` });
       continue;
     }
-    if (isUnit || isBuiltin(name)) continue;
+    if (isUnit || ALLOWED_CONSTANTS.has(name)) continue;
+    if (ALLOWED_FUNCTIONS.has(name)) throw new EngineError(`${name} is a function: call it with its arguments, for example ${name}(x)`, place.line, columnOf(sym));
+    if (isBuiltin(name)) throw new EngineError(`${name} is not part of the sheet language`, place.line, columnOf(sym));
     throw new EngineError(`unknown name ${name}: it is not defined above, and it is not a unit, constant or function`, place.line, columnOf(sym));
-  }
-  for (const fn of functionsOf(node)) {
-    const f = fn.fn as AnyNode;
-    if (f.type !== 'SymbolNode') continue;
-    const name = String(f.name);
-    if (isBuiltin(name) && typeof (math as unknown as Record<string, unknown>)[name] === 'function') continue;
-    if (scope.has(name) && typeof scope.values.get(name) === 'function') continue;
-    throw new EngineError(`unknown function ${name}`, place.line, columnOf(fn));
   }
   return warnings;
 }

@@ -6,7 +6,7 @@
 import type { Unit as MathUnit } from 'mathjs';
 import { circuitFunctions } from '../circuits/functions';
 import { dropRidingAngle } from '../units/quantities';
-import { disableUnsafeFunctions, math, withValue } from './math';
+import { checkCombined, disableUnsafeFunctions, math, withValue } from './math';
 
 const typed = math.typed;
 const ANGLE = 7;
@@ -27,7 +27,10 @@ const withRidingAngleDropped = (name: 'add' | 'subtract' | 'smaller' | 'larger' 
     },
     'number | Complex, Unit': (a: unknown, b: MathUnit) => original(plainAsAngle(a, b), b),
     'Unit, number | Complex': (a: MathUnit, b: unknown) => original(a, plainAsAngle(b, a)),
-    'any, any': (a: unknown, b: unknown) => original(a, b),
+    'any, any': (a: unknown, b: unknown) => {
+      if (typeof a === 'object' && typeof b === 'object') checkCombined([a, b]);
+      return original(a, b);
+    },
   });
 };
 

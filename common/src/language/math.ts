@@ -62,6 +62,36 @@ const checkSize = (dims: number[]) => {
   }
 };
 
+/** The longest string an expression may build (concat of strings). */
+export const MAX_STRING_LENGTH = 100_000;
+
+/** The dimensions of a matrix or nested array; undefined for anything else. */
+function dimsOf(x: unknown): number[] | undefined {
+  if (math.isMatrix(x)) return (x as { size(): number[] }).size();
+  if (!Array.isArray(x)) return undefined;
+  const dims: number[] = [];
+  let level: unknown = x;
+  while (Array.isArray(level)) {
+    dims.push(level.length);
+    level = level[0];
+  }
+  return dims;
+}
+const countOf = (x: unknown) => dimsOf(x)?.reduce((a, b) => a * b, 1) ?? 1;
+
+/**
+ * The largest result an element-wise operation with broadcasting, or a matrix product, can give for
+ * these operands: per axis, the largest size (an n×1 by 1×m pair makes n×m). Checked before mathjs
+ * allocates anything.
+ */
+export function checkCombined(args: unknown[]): void {
+  const all = args.map(dimsOf).filter((d): d is number[] => d !== undefined);
+  if (all.length < 2) return;
+  const rank = Math.max(...all.map((d) => d.length));
+  const combined = Array.from({ length: rank }, (_, k) => Math.max(...all.map((d) => d[d.length - rank + k] ?? 1)));
+  checkSize(combined);
+}
+
 const typed = math.typed;
 const origZeros = math.zeros;
 const origOnes = math.ones;
@@ -71,6 +101,22 @@ const origRe = math.re as (x: unknown) => unknown;
 const origIm = math.im as (x: unknown) => unknown;
 const origConj = math.conj as (x: unknown) => unknown;
 const origArg = math.arg as (x: unknown) => unknown;
+
+const origResize = math.resize as (...a: unknown[]) => unknown;
+const origDiag = math.diag as (...a: unknown[]) => unknown;
+const origKron = math.kron as (...a: unknown[]) => unknown;
+const origConcat = math.concat as (...a: unknown[]) => unknown;
+const origMatrix = math.matrix as (...a: unknown[]) => unknown;
+
+/** `range("1:10")`, `range("1:2:10")`: the numbers of mathjs's string form, as start, end, step. */
+function rangeStringNumbers(text: string): number[] {
+  const parts = text.split(':').map((p) => Number(p.trim()));
+  if (parts.length === 3) return [parts[0], parts[2], parts[1]];
+  return parts;
+}
+
+/** Element-wise and matrix operations whose result can be larger than either operand (broadcasting, outer products). */
+const COMBINING = ['multiply', 'divide', 'dotMultiply', 'dotDivide', 'dotPow', 'pow', 'mod', 'and', 'or', 'xor', 'atan2', 'hypot', 'nthRoot', 'gcd', 'lcm'] as const;
 
 const sizeArgs = (args: unknown[]) => args.flatMap((a) => (Array.isArray(a) ? a : math.isMatrix(a) ? (a.toArray() as unknown[]) : [a])).filter((a) => typeof a === 'number') as number[];
 
@@ -96,12 +142,44 @@ math.import(
       return (origIdentity as (...a: unknown[]) => unknown)(...args);
     },
     range: (...args: unknown[]) => {
-      const nums = sizeArgs(args);
+      const nums = typeof args[0] === 'string' ? rangeStringNumbers(args[0]) : sizeArgs(args);
+      if (nums.some((x) => !Number.isFinite(x))) checkSize([Infinity]);
       if (nums.length >= 2) {
         const step = nums[2] ?? 1;
         checkSize([Math.abs((nums[1] - nums[0]) / (step || 1))]);
       }
       return (origRange as (...a: unknown[]) => unknown)(...args);
+    },
+    resize: (x: unknown, size: unknown, ...rest: unknown[]) => {
+      checkSize(sizeArgs([size]));
+      return origResize(x, size, ...rest);
+    },
+    diag: (x: unknown, ...rest: unknown[]) => {
+      const dims = dimsOf(x);
+      if (dims && dims.length === 1) {
+        const k = Math.abs(Number(sizeArgs(rest)[0] ?? 0)) || 0;
+        checkSize([dims[0] + k, dims[0] + k]);
+      }
+      return origDiag(x, ...rest);
+    },
+    kron: (x: unknown, y: unknown) => {
+      checkSize([countOf(x), countOf(y)]);
+      return origKron(x, y);
+    },
+    concat: (...args: unknown[]) => {
+      const strings = args.filter((a): a is string => typeof a === 'string');
+      if (strings.length === args.length || strings.length === args.length - 1) {
+        const length = strings.reduce((n, a) => n + a.length, 0);
+        if (length > MAX_STRING_LENGTH) throw new Error(`a string of ${length.toLocaleString('en')} characters is longer than the limit of ${MAX_STRING_LENGTH.toLocaleString('en')}`);
+      }
+      checkSize([args.reduce((n: number, a) => n + (dimsOf(a) ? countOf(a) : 0), 0)]);
+      return origConcat(...args);
+    },
+    matrix: (...args: unknown[]) => {
+      if (typeof args[0] === 'string' || typeof args[1] === 'string') {
+        if (args.some((a) => typeof a === 'string' && a !== 'dense')) throw new Error('only dense matrices are part of the sheet language');
+      }
+      return origMatrix(...args);
     },
     re: typed('re', { Unit: (u: MathUnit) => unitValueAs(u, (v) => (isComplex(v) ? v.re : v)), any: (x: unknown) => origRe(x) }),
     im: typed('im', { Unit: (u: MathUnit) => unitValueAs(u, (v) => (isComplex(v) ? v.im : 0)), any: (x: unknown) => origIm(x) }),
@@ -114,6 +192,29 @@ math.import(
       any: (x: unknown) => radians(origArg(x) as number),
     }),
   },
+  { override: true },
+);
+
+// Checked before the operation, whatever the operands' types; everything else passes straight through.
+math.import(
+  Object.fromEntries(
+    COMBINING.map((name) => {
+      const original = math[name] as (...a: unknown[]) => unknown;
+      return [
+        name,
+        typed(name, {
+          'any, any': (a: unknown, b: unknown) => {
+            if (typeof a === 'object' && typeof b === 'object') checkCombined([a, b]);
+            return original(a, b);
+          },
+          'any, any, ...any': (a: unknown, b: unknown, rest: unknown[]) => {
+            checkCombined([a, b, ...rest]);
+            return original(a, b, ...rest);
+          },
+        }),
+      ];
+    }),
+  ),
   { override: true },
 );
 
