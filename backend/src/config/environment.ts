@@ -90,6 +90,26 @@ export class Environment {
   @IsIn(['true', 'false'])
   S3_FORCE_PATH_STYLE: 'true' | 'false' = 'true';
 
+  /** Warm evaluation processes (sheets, CSV uploads and certificate files are worked through there). */
+  @Type(() => Number) @IsInt() @Min(2) @Max(64)
+  EVALUATION_PROCESSES = 3;
+
+  /** The longest one evaluation may run, in ms. */
+  @Type(() => Number) @IsInt() @Min(100) @Max(60_000)
+  EVALUATION_TIMEOUT_MS = 2000;
+
+  /** The longest an evaluation may wait for a free process, in ms (the deadline counts the wait). */
+  @Type(() => Number) @IsInt() @Min(100) @Max(60_000)
+  EVALUATION_WAIT_MS = 3000;
+
+  /** Each evaluation process's heap cap in MB; its resident memory may reach twice this. */
+  @Type(() => Number) @IsInt() @Min(64) @Max(8192)
+  EVALUATION_MEMORY_MB = 256;
+
+  /** Evaluations one firm may have running or waiting; more are answered 429. */
+  @Type(() => Number) @IsInt() @Min(1) @Max(1000)
+  EVALUATION_QUEUE_PER_FIRM = 12;
+
   /** The built front end to serve; empty serves the API only. */
   @IsOptional() @IsString()
   STATIC_DIR?: string;

@@ -1,62 +1,151 @@
-import { existsSync } from 'node:fs';
+import { fork, type ChildProcess } from 'node:child_process';
+import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { Worker } from 'node:worker_threads';
-import type { CellResult, SheetFile } from '@ampwright/common';
+import type { SandboxReply, TaskKind, TaskOf, TaskResults } from './sandbox-protocol';
 
 export interface PoolLimits {
-  workers: number;
+  /** Warm evaluation processes. */
+  processes: number;
+  /** The longest a task may run once a process has it. */
   timeoutMs: number;
+  /** The longest a task may wait for a process; a caller waits at most waitMs + timeoutMs in all. */
+  waitMs: number;
+  /** Each process's V8 heap cap; its resident memory may reach twice this before it is stopped. */
   memoryMb: number;
+  /** Tasks of one tenant (a firm) running at once: fewer than the processes, so one firm never holds them all. */
+  perTenantRunning: number;
+  /** Tasks of one tenant running, queued or reserved; beyond it the tenant is told the evaluator is busy. */
+  perTenantQueued: number;
 }
 
-export type PoolOutcome =
-  | { ok: true; cells: CellResult[]; engineVersion: string }
-  | { ok: false; reason: 'timeout' | 'memory' | 'crash'; message: string };
+export type PoolFailure = 'timeout' | 'memory' | 'crash' | 'busy';
+export type PoolOutcome<T> = { ok: true; value: T } | { ok: false; reason: PoolFailure; message: string };
 
-/** How long a sheet's evaluation may wait for the worker holding its cache (a fresh one costs more). */
-const AFFINITY_WAIT_MS = 50;
+/** A place in a tenant's queue held before the work that needs it (a save reserves before it writes). */
+export interface Reservation {
+  readonly tenant: string;
+  /** Gives the place back unused; harmless after it was used. */
+  release(): void;
+}
 
 interface Job {
   id: number;
-  sheet: SheetFile;
-  /** The sheet's id, when the evaluation may use and keep a worker's incremental cache. */
+  tenant: string;
+  task: TaskOf<TaskKind>;
+  /** A stored sheet's id: the task prefers the process that holds that sheet's cache. */
   key?: string;
   queuedAt: number;
-  resolve: (outcome: PoolOutcome) => void;
+  expiry: NodeJS.Timeout;
+  resolve: (outcome: PoolOutcome<unknown>) => void;
 }
 
-/** The compiled worker: beside this file in dist/, or in dist/ when running from source (tests). */
-function workerFile(): string {
-  const beside = join(__dirname, 'evaluation.worker.js');
+interface Child {
+  proc: ChildProcess;
+  ready: boolean;
+  job?: Job;
+  timer?: NodeJS.Timeout;
+  /** Why the pool stopped it, when it did. */
+  stoppedFor?: { reason: PoolFailure; message: string };
+  /** The tail of its standard error, to tell running out of memory from other deaths. */
+  stderr: string;
+}
+
+/** How long a sheet's evaluation may wait for the process holding its cache (a fresh one costs more). */
+const AFFINITY_WAIT_MS = 50;
+const MEMORY_WORDS = /heap out of memory|Reached heap limit|Allocation failed|Invalid (array|string|typed array) length|Array buffer allocation failed/i;
+const PAGE_BYTES = 4096;
+
+/** The compiled child: beside this file in dist/, or in dist/ when running from source (tests). */
+function childFile(): string {
+  const beside = join(__dirname, 'evaluation.child.js');
   if (existsSync(beside)) return beside;
-  return join(__dirname, '..', '..', 'dist', 'evaluation', 'evaluation.worker.js');
+  return join(__dirname, '..', '..', 'dist', 'evaluation', 'evaluation.child.js');
+}
+
+/** Resident memory of a process in bytes (Linux's /proc), or undefined where it cannot be read. */
+function residentBytes(pid: number | undefined): number | undefined {
+  if (!pid) return undefined;
+  try {
+    return Number(readFileSync(`/proc/${pid}/statm`, 'utf8').split(' ')[1]) * PAGE_BYTES;
+  } catch {
+    return undefined;
+  }
 }
 
 /**
- * A few worker threads that evaluate sheets. A job past its deadline, or one that runs out of its
- * memory bound, has its worker terminated and replaced; the server itself is never blocked.
+ * Warm child processes that do the work a user's input drives: evaluating sheets, parsing uploads.
+ * Each has its own heap cap; a task past its deadline, or a process that runs out of memory or dies,
+ * has that process killed and replaced, and the task answered with the reason — the server itself never
+ * runs the work, so no sheet can abort it. Scheduling is fair between tenants (firms): each may run only
+ * `perTenantRunning` tasks at once and hold `perTenantQueued`, and a free process goes to the tenant with
+ * the fewest running, so one firm saturating evaluation leaves a process for the others. A task that
+ * waits longer than `waitMs` is answered as busy rather than queued without limit.
  */
 export class EvaluationPool {
-  private readonly idle: Worker[] = [];
+  private readonly children = new Set<Child>();
   private readonly queue: Job[] = [];
-  private readonly busy = new Map<Worker, { job: Job; timer: NodeJS.Timeout }>();
-  /** Workers still loading the engine: a deadline does not count their start-up. */
-  private readonly starting = new Set<Worker>();
-  /** The worker that last evaluated each sheet (it holds that sheet's cache); bounded, oldest dropped. */
-  private readonly lastWorker = new Map<string, Worker>();
+  private readonly running = new Map<string, number>();
+  /** Running + queued + reserved, by tenant. */
+  private readonly held = new Map<string, number>();
+  /** The process that last evaluated each sheet (it holds that sheet's cache); bounded, oldest dropped. */
+  private readonly lastChild = new Map<string, Child>();
   private retry: NodeJS.Timeout | undefined;
+  private watch: NodeJS.Timeout | undefined;
   private nextId = 1;
   private closed = false;
 
   constructor(private readonly limits: PoolLimits) {
-    for (let k = 0; k < limits.workers; k++) this.spawn();
+    for (let k = 0; k < limits.processes; k++) this.spawn();
+    this.watch = setInterval(() => this.watchMemory(), 100);
+    this.watch.unref();
   }
 
-  /** Evaluates a sheet; with `key` (the sheet's id) a worker that evaluated it before is preferred. */
-  evaluate(sheet: SheetFile, key?: string): Promise<PoolOutcome> {
+  /** Process ids, for tests and diagnostics. */
+  pids(): number[] {
+    return [...this.children].map((c) => c.proc.pid).filter((p): p is number => p !== undefined);
+  }
+
+  /** Holds a place for a tenant's task, or undefined when the tenant already holds all it may. */
+  reserve(tenant: string): Reservation | undefined {
+    if ((this.held.get(tenant) ?? 0) >= this.limits.perTenantQueued) return undefined;
+    this.hold(tenant, +1);
+    let released = false;
+    const reservation = {
+      tenant,
+      release: () => {
+        if (released) return;
+        released = true;
+        this.hold(tenant, -1);
+      },
+    };
+    return reservation;
+  }
+
+  /**
+   * Runs a task for a tenant. With a reservation the task takes the place it holds (and releases it
+   * when done); without one it is refused as busy when the tenant holds all it may.
+   */
+  run<K extends TaskKind>(task: TaskOf<K>, options: { tenant: string; key?: string; reservation?: Reservation }): Promise<PoolOutcome<TaskResults[K]>> {
+    const { tenant, key } = options;
     if (this.closed) return Promise.resolve({ ok: false, reason: 'crash', message: 'the evaluation service is shutting down' });
+    const reservation = options.reservation ?? this.reserve(tenant);
+    if (!reservation) return Promise.resolve({ ok: false, reason: 'busy', message: `this firm already has ${this.limits.perTenantQueued} evaluations running or waiting` });
     return new Promise((resolve) => {
-      this.queue.push({ id: this.nextId++, sheet, key, queuedAt: Date.now(), resolve });
+      const id = this.nextId++;
+      const job: Job = {
+        id,
+        tenant,
+        task,
+        key,
+        queuedAt: Date.now(),
+        expiry: setTimeout(() => this.expire(id), this.limits.waitMs),
+        resolve: (outcome) => {
+          clearTimeout(job.expiry);
+          reservation.release();
+          resolve(outcome as PoolOutcome<TaskResults[K]>);
+        },
+      };
+      this.queue.push(job);
       this.dispatch();
     });
   }
@@ -64,93 +153,157 @@ export class EvaluationPool {
   async close(): Promise<void> {
     this.closed = true;
     clearTimeout(this.retry);
-    const all = [...this.idle, ...this.busy.keys(), ...this.starting];
-    this.starting.clear();
-    this.idle.length = 0;
-    for (const [, { job, timer }] of this.busy) {
-      clearTimeout(timer);
-      job.resolve({ ok: false, reason: 'crash', message: 'the evaluation service is shutting down' });
+    clearInterval(this.watch);
+    for (const job of this.queue.splice(0)) job.resolve({ ok: false, reason: 'crash', message: 'the evaluation service is shutting down' });
+    const exits: Promise<void>[] = [];
+    for (const child of this.children) {
+      clearTimeout(child.timer);
+      child.job?.resolve({ ok: false, reason: 'crash', message: 'the evaluation service is shutting down' });
+      child.job = undefined;
+      if (child.proc.exitCode === null && child.proc.signalCode === null) {
+        exits.push(new Promise((r) => child.proc.once('exit', () => r())));
+        child.proc.kill('SIGKILL');
+      }
     }
-    this.busy.clear();
-    await Promise.all(all.map((w) => w.terminate()));
+    this.children.clear();
+    await Promise.all(exits);
   }
 
-  private spawn(): Worker {
-    const worker = new Worker(workerFile(), {
-      resourceLimits: { maxOldGenerationSizeMb: this.limits.memoryMb, maxYoungGenerationSizeMb: Math.max(16, this.limits.memoryMb / 8) },
+  private hold(tenant: string, delta: number): void {
+    const n = (this.held.get(tenant) ?? 0) + delta;
+    if (n > 0) this.held.set(tenant, n);
+    else this.held.delete(tenant);
+  }
+
+  private spawn(): void {
+    const proc = fork(childFile(), [], {
+      execArgv: [`--max-old-space-size=${this.limits.memoryMb}`, '--max-semi-space-size=16'],
+      serialization: 'advanced',
+      stdio: ['ignore', 'ignore', 'pipe', 'ipc'],
+      // No secret of the server reaches the process that runs users' input.
+      env: { NODE_ENV: process.env.NODE_ENV ?? 'production' },
     });
-    this.starting.add(worker);
-    worker.on('message', (msg: { ready?: boolean; id: number; ok: boolean; cells?: CellResult[]; engineVersion?: string; message?: string }) => {
-      if (msg.ready) {
-        this.starting.delete(worker);
-        if (this.closed) return;
-        this.idle.push(worker);
+    const child: Child = { proc, ready: false, stderr: '' };
+    this.children.add(child);
+    proc.stderr?.on('data', (chunk: Buffer) => {
+      child.stderr = (child.stderr + chunk.toString('utf8')).slice(-4096);
+    });
+    proc.on('message', (msg: SandboxReply) => {
+      if ('ready' in msg) {
+        child.ready = true;
         this.dispatch();
         return;
       }
-      const running = this.busy.get(worker);
-      if (!running || running.job.id !== msg.id) return;
-      clearTimeout(running.timer);
-      this.busy.delete(worker);
-      running.job.resolve(msg.ok ? { ok: true, cells: msg.cells!, engineVersion: msg.engineVersion! } : { ok: false, reason: 'crash', message: msg.message ?? 'the evaluation failed' });
-      this.idle.push(worker);
+      const job = child.job;
+      if (!job || job.id !== msg.id) return;
+      clearTimeout(child.timer);
+      child.job = undefined;
+      this.ran(job.tenant, -1);
+      job.resolve(msg.ok ? { ok: true, value: msg.value } : { ok: false, reason: 'crash', message: msg.message });
       this.dispatch();
     });
-    worker.on('error', (err: Error & { code?: string }) => this.fail(worker, err.code === 'ERR_WORKER_OUT_OF_MEMORY' ? 'memory' : 'crash', err.message));
-    worker.on('exit', () => this.fail(worker, 'crash', 'the evaluation stopped unexpectedly'));
-    worker.unref();
-    return worker;
+    proc.on('error', () => this.stop(child, { reason: 'crash', message: 'the evaluation process could not be reached' }));
+    proc.on('exit', (code, signal) => this.exited(child, code, signal));
+    proc.unref();
+    proc.channel?.unref();
   }
 
-  private fail(worker: Worker, reason: 'timeout' | 'memory' | 'crash', message: string): void {
-    const running = this.busy.get(worker);
-    const idleAt = this.idle.indexOf(worker);
-    const wasStarting = this.starting.delete(worker);
-    if (idleAt >= 0) this.idle.splice(idleAt, 1);
-    if (running) {
-      clearTimeout(running.timer);
-      this.busy.delete(worker);
-      running.job.resolve({ ok: false, reason, message });
-    } else if (idleAt < 0 && !wasStarting) {
-      return; // already replaced
+  /** Kills a process for a reason; its task is answered with that reason when it has exited. */
+  private stop(child: Child, why: { reason: PoolFailure; message: string }): void {
+    child.stoppedFor ??= why;
+    child.proc.kill('SIGKILL');
+  }
+
+  private exited(child: Child, code: number | null, signal: NodeJS.Signals | null): void {
+    if (!this.children.delete(child)) return;
+    clearTimeout(child.timer);
+    for (const [key, c] of this.lastChild) if (c === child) this.lastChild.delete(key);
+    const job = child.job;
+    child.job = undefined;
+    if (job) {
+      this.ran(job.tenant, -1);
+      const why =
+        child.stoppedFor ??
+        (MEMORY_WORDS.test(child.stderr)
+          ? { reason: 'memory' as const, message: 'it needed more memory than a sheet may use' }
+          : { reason: 'crash' as const, message: `the evaluation process stopped unexpectedly (${signal ?? `exit code ${code}`})` });
+      job.resolve({ ok: false, ...why });
     }
-    // Its caches go with it: the sheets it held are evaluated afresh wherever there is room.
-    for (const [key, w] of this.lastWorker) if (w === worker) this.lastWorker.delete(key);
-    worker.removeAllListeners('exit');
-    void worker.terminate();
     if (!this.closed) this.spawn();
+    this.dispatch();
+  }
+
+  private ran(tenant: string, delta: number): void {
+    const n = (this.running.get(tenant) ?? 0) + delta;
+    if (n > 0) this.running.set(tenant, n);
+    else this.running.delete(tenant);
+  }
+
+  private expire(id: number): void {
+    const at = this.queue.findIndex((j) => j.id === id);
+    if (at < 0) return;
+    const [job] = this.queue.splice(at, 1);
+    job.resolve({ ok: false, reason: 'busy', message: `it waited ${this.limits.waitMs / 1000} s for a free evaluator` });
+  }
+
+  private watchMemory(): void {
+    const limit = 2 * this.limits.memoryMb * 1024 * 1024;
+    for (const child of this.children) {
+      if (!child.job) continue;
+      const rss = residentBytes(child.proc.pid);
+      if (rss !== undefined && rss > limit) this.stop(child, { reason: 'memory', message: 'it needed more memory than a sheet may use' });
+    }
+  }
+
+  /** The next job to start: from the tenant with the fewest running, oldest first, waiting briefly for a cache's process. */
+  private pick(idle: Child[]): { job: Job; child: Child } | { wait: true } | undefined {
+    let best: Job | undefined;
+    let waiting = false;
+    for (const job of this.queue) {
+      const running = this.running.get(job.tenant) ?? 0;
+      if (running >= this.limits.perTenantRunning) continue;
+      if (best && running >= (this.running.get(best.tenant) ?? 0)) continue;
+      const home = job.key ? this.lastChild.get(job.key) : undefined;
+      if (home && home.job && this.children.has(home) && Date.now() - job.queuedAt < AFFINITY_WAIT_MS) {
+        waiting = true;
+        continue;
+      }
+      best = job;
+    }
+    if (!best) return waiting ? { wait: true } : undefined;
+    const home = best.key ? this.lastChild.get(best.key) : undefined;
+    const child = home && idle.includes(home) ? home : idle[idle.length - 1];
+    return { job: best, child };
   }
 
   private dispatch(): void {
-    let k = 0;
-    let waiting = false;
-    while (this.idle.length && k < this.queue.length) {
-      const job = this.queue[k];
-      const home = job.key ? this.lastWorker.get(job.key) : undefined;
-      // A sheet waits a moment for the worker that holds its cache rather than be evaluated afresh elsewhere.
-      if (home && this.busy.has(home) && Date.now() - job.queuedAt < AFFINITY_WAIT_MS) {
-        waiting = true;
-        k++;
-        continue;
+    for (;;) {
+      const idle = [...this.children].filter((c) => c.ready && !c.job && !c.stoppedFor);
+      if (!idle.length || !this.queue.length) return;
+      const next = this.pick(idle);
+      if (!next) return;
+      if ('wait' in next) {
+        this.retry ??= setTimeout(() => {
+          this.retry = undefined;
+          this.dispatch();
+        }, AFFINITY_WAIT_MS);
+        this.retry.unref?.();
+        return;
       }
-      this.queue.splice(k, 1);
-      const at = home ? this.idle.indexOf(home) : -1;
-      const [worker] = this.idle.splice(at >= 0 ? at : this.idle.length - 1, 1);
+      const { job, child } = next;
+      this.queue.splice(this.queue.indexOf(job), 1);
+      clearTimeout(job.expiry);
       if (job.key) {
-        this.lastWorker.delete(job.key);
-        this.lastWorker.set(job.key, worker);
-        if (this.lastWorker.size > 1000) this.lastWorker.delete(this.lastWorker.keys().next().value as string);
+        this.lastChild.delete(job.key);
+        this.lastChild.set(job.key, child);
+        if (this.lastChild.size > 1000) this.lastChild.delete(this.lastChild.keys().next().value as string);
       }
-      const timer = setTimeout(() => this.fail(worker, 'timeout', `the evaluation took longer than ${this.limits.timeoutMs / 1000} s`), this.limits.timeoutMs);
-      this.busy.set(worker, { job, timer });
-      worker.postMessage({ id: job.id, sheet: job.sheet, key: job.key });
-    }
-    if (waiting && !this.retry) {
-      this.retry = setTimeout(() => {
-        this.retry = undefined;
-        this.dispatch();
-      }, AFFINITY_WAIT_MS);
-      this.retry.unref();
+      child.job = job;
+      this.ran(job.tenant, +1);
+      child.timer = setTimeout(() => this.stop(child, { reason: 'timeout', message: `it took longer than ${this.limits.timeoutMs / 1000} s` }), this.limits.timeoutMs);
+      child.proc.send({ id: job.id, task: job.task }, (err) => {
+        if (err) this.stop(child, { reason: 'crash', message: 'the evaluation process could not be reached' });
+      });
     }
   }
 }

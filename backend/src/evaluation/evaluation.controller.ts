@@ -1,6 +1,8 @@
 import { Body, Controller, HttpCode, Post } from '@nestjs/common';
 import type { SheetFile } from '@ampwright/common';
 import { Roles } from '../core/decorators/access.decorator';
+import { CurrentAuth } from '../core/decorators/current-auth.decorator';
+import type { AuthContext } from '../core/guards/auth.guard';
 import { MEMBER_ROLES } from '../core/roles';
 import { EvaluationService } from './evaluation.service';
 import { SheetFilePipe } from './sheet-file.pipe';
@@ -14,7 +16,7 @@ export class EvaluationController {
   @Roles(...MEMBER_ROLES)
   @Post()
   @HttpCode(200)
-  evaluate(@Body(SheetFilePipe) sheet: SheetFile): Promise<EvaluationResponseDto> {
-    return this.evaluation.evaluate(sheet);
+  evaluate(@CurrentAuth() auth: AuthContext, @Body(SheetFilePipe) sheet: SheetFile): Promise<EvaluationResponseDto> {
+    return this.evaluation.evaluateOrThrow(sheet, { firm: auth.session.firm.id });
   }
 }

@@ -1,31 +1,107 @@
 import { HttpStatus, Injectable, OnModuleDestroy } from '@nestjs/common';
-import type { SheetFile } from '@ampwright/common';
+import { ConfigService } from '@nestjs/config';
+import type { CellResult, CsvTableResult, SheetFile } from '@ampwright/common';
+import type { Environment } from '../config/environment';
 import { AppException } from '../core/errors/app-exception';
-import { EvaluationPool } from './evaluation-pool';
-import type { EvaluationResponseDto } from './dto/evaluation-response.dto';
+import type { CertificateFacts } from '../packages/signing';
+import { EvaluationPool, type PoolFailure, type PoolOutcome, type Reservation } from './evaluation-pool';
+
+export type { Reservation } from './evaluation-pool';
 
 export enum EvaluationErrorCode {
   Timeout = 'EVALUATION_TIMEOUT',
   TooLarge = 'EVALUATION_TOO_LARGE',
   Failed = 'EVALUATION_FAILED',
+  Busy = 'EVALUATION_BUSY',
 }
 
-/** Evaluates sheets in worker threads with a deadline and a memory bound per evaluation. */
+/** What evaluating a sheet gave: every cell's results, or why the sheet as a whole could not be evaluated. */
+export type EvaluationOutcome =
+  | { ok: true; cells: CellResult[]; engineVersion: string; evaluated: number[] }
+  | { ok: false; reason: PoolFailure; message: string };
+
+const CODES: Record<PoolFailure, EvaluationErrorCode> = {
+  timeout: EvaluationErrorCode.Timeout,
+  memory: EvaluationErrorCode.TooLarge,
+  crash: EvaluationErrorCode.Failed,
+  busy: EvaluationErrorCode.Busy,
+};
+
+/**
+ * Runs what users' input drives — sheets, CSV uploads, certificate files — in warm child processes with
+ * a deadline and a memory cap each, scheduled fairly between firms (evaluation-pool.ts). A sheet that
+ * cannot be evaluated gets a sentence that says why; the server keeps serving.
+ */
 @Injectable()
 export class EvaluationService implements OnModuleDestroy {
-  private readonly pool = new EvaluationPool({ workers: 2, timeoutMs: Number(process.env.EVALUATION_TIMEOUT_MS ?? 2000), memoryMb: 256 });
+  private readonly pool: EvaluationPool;
+  private readonly limits: { timeoutMs: number; waitMs: number; memoryMb: number };
 
-  /** `key` (a stored sheet's id) lets the worker reuse what it computed for that sheet before. */
-  async evaluate(sheet: SheetFile, key?: string): Promise<EvaluationResponseDto> {
-    const outcome = await this.pool.evaluate(sheet, key);
-    if (outcome.ok) return { engineVersion: outcome.engineVersion, cells: outcome.cells };
-    const [code, message] =
-      outcome.reason === 'timeout'
-        ? [EvaluationErrorCode.Timeout, `The sheet was stopped because ${outcome.message}. Look for a very large sweep, matrix or a runaway expression.`]
-        : outcome.reason === 'memory'
-          ? [EvaluationErrorCode.TooLarge, 'The sheet was stopped because it needed more memory than an evaluation may use. Look for a very large matrix or sweep.']
-          : [EvaluationErrorCode.Failed, `The sheet could not be evaluated: ${outcome.message}.`];
-    throw new AppException(code, message, HttpStatus.UNPROCESSABLE_ENTITY);
+  constructor(config: ConfigService<Environment, true>) {
+    const processes = config.get('EVALUATION_PROCESSES', { infer: true });
+    this.limits = { timeoutMs: config.get('EVALUATION_TIMEOUT_MS', { infer: true }), waitMs: config.get('EVALUATION_WAIT_MS', { infer: true }), memoryMb: config.get('EVALUATION_MEMORY_MB', { infer: true }) };
+    this.pool = new EvaluationPool({ processes, ...this.limits, perTenantRunning: Math.max(1, processes - 1), perTenantQueued: config.get('EVALUATION_QUEUE_PER_FIRM', { infer: true }) });
+  }
+
+  /** The sentence a person reads when a sheet could not be evaluated. */
+  sentence(reason: PoolFailure, detail: string, what: 'sheet' | 'upload' = 'sheet'): string {
+    const hint = what === 'sheet' ? ' Look for a very large matrix, sweep or table, or a runaway expression.' : '';
+    switch (reason) {
+      case 'memory':
+        return `This ${what} needs more memory than a ${what} may use (${this.limits.memoryMb} MB), so it was stopped.${hint}`;
+      case 'timeout':
+        return `This ${what} takes longer than a ${what} may take (${this.limits.timeoutMs / 1000} s), so it was stopped.${hint}`;
+      case 'busy':
+        return `The evaluator is busy with this firm's other work (${detail}). Try again in a moment.`;
+      case 'crash':
+        return `This ${what} could not be worked through: ${detail}.`;
+    }
+  }
+
+  /** Holds a place in the firm's evaluation queue before a save is written; 429 when the firm's queue is full. */
+  reserve(firmId: string): Reservation {
+    const reservation = this.pool.reserve(firmId);
+    if (!reservation) throw this.failure('busy', 'its queue is full', false);
+    return reservation;
+  }
+
+  /** Evaluates a sheet for a firm; `key` (a stored sheet's id) lets a process reuse what it kept of that sheet. */
+  async evaluate(sheet: SheetFile, options: { firm: string; key?: string; reservation?: Reservation }): Promise<EvaluationOutcome> {
+    const outcome = await this.pool.run({ kind: 'evaluate', sheet, key: options.key }, { tenant: options.firm, key: options.key, reservation: options.reservation });
+    if (outcome.ok) return { ok: true, ...outcome.value };
+    return { ok: false, reason: outcome.reason, message: this.sentence(outcome.reason, outcome.message) };
+  }
+
+  /** As evaluate, for callers that answer HTTP: a sheet that cannot be evaluated is 422 (429 when busy). */
+  async evaluateOrThrow(sheet: SheetFile, options: { firm: string }): Promise<{ engineVersion: string; cells: CellResult[] }> {
+    const outcome = await this.evaluate(sheet, options);
+    if (!outcome.ok) throw this.failure(outcome.reason, outcome.message, true);
+    return { engineVersion: outcome.engineVersion, cells: outcome.cells };
+  }
+
+  /** Parses an uploaded CSV off the main thread (common/src/sheet/csv-table.ts). */
+  async parseCsv(firm: string, bytes: Buffer): Promise<CsvTableResult | { ok: false; binary: true }> {
+    return this.unwrap(await this.pool.run({ kind: 'csv', bytes: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength) }, { tenant: firm }));
+  }
+
+  /** Opens a PKCS#12 file off the main thread; a problem with the file is a sentence, not an exception. */
+  async readCertificate(firm: string, p12: Buffer, password: string): Promise<{ ok: true; facts: CertificateFacts } | { ok: false; problem: string }> {
+    return this.unwrap(await this.pool.run({ kind: 'certificate', p12: new Uint8Array(p12), password }, { tenant: firm }));
+  }
+
+  /** Ids of the evaluation processes (the hostile-request tests check they are not the server). */
+  processIds(): number[] {
+    return this.pool.pids();
+  }
+
+  private unwrap<T>(outcome: PoolOutcome<T>): T {
+    if (!outcome.ok) throw this.failure(outcome.reason, outcome.message);
+    return outcome.value;
+  }
+
+  private failure(reason: PoolFailure, detail: string, worded = false): AppException {
+    const message = worded ? detail : this.sentence(reason, detail, 'upload');
+    return new AppException(CODES[reason], message, reason === 'busy' ? HttpStatus.TOO_MANY_REQUESTS : HttpStatus.UNPROCESSABLE_ENTITY);
   }
 
   async onModuleDestroy(): Promise<void> {

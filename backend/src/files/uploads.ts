@@ -1,11 +1,32 @@
 import { fileTypeFromBuffer } from 'file-type';
+import { isPlainText } from './plain-text';
+
+export { isPlainText } from './plain-text';
 
 /** The largest upload the API takes (attachments and CSV files). */
 export const UPLOAD_LIMIT_BYTES = 25 * 1024 * 1024;
 export const UPLOAD_LIMIT_TEXT = '25 MB';
 
-/** Multer options for one file in the field "file". */
-export const UPLOAD_OPTIONS = { limits: { fileSize: UPLOAD_LIMIT_BYTES, files: 1 } };
+/**
+ * Multer options for one file in the field "file" beside a few short text fields (a version, a
+ * position, a password): every part of a multipart body is bounded, so no body can make the server
+ * hold more than one file and a few hundred bytes.
+ */
+export const UPLOAD_OPTIONS = { limits: { fileSize: UPLOAD_LIMIT_BYTES, files: 1, fields: 4, fieldSize: 1024, fieldNameSize: 64, parts: 5, headerPairs: 20 } };
+
+/** For public uploads (verification): exactly one file, nothing else. */
+export const SINGLE_FILE_OPTIONS = { limits: { fileSize: UPLOAD_LIMIT_BYTES, files: 1, fields: 0, fieldSize: 0, fieldNameSize: 64, parts: 1, headerPairs: 20 } };
+
+/** Multer's words for a body outside the limits, as sentences. */
+export const MULTIPART_LIMIT_WORDS: Record<string, string> = {
+  'File too large': `The file is larger than the ${UPLOAD_LIMIT_TEXT} limit; nothing was stored.`,
+  'Too many parts': 'The form has more parts than this upload takes: send the file in the field "file" and only the fields the upload names.',
+  'Too many files': 'Send one file, in the field "file".',
+  'Too many fields': 'The form has more fields than this upload takes: send the file in the field "file" and only the fields the upload names.',
+  'Field name too long': 'A field name in the form is too long.',
+  'Field value too long': 'A field in the form is longer than this upload takes (at most 1 kB a field).',
+  'Unexpected field': 'Send the file in the field "file".',
+};
 
 /** What an upload may be, by what its content is: the media type, and the file-name endings that agree with it. */
 const ALLOWED: Record<string, { mediaType: string; extensions: string[] }> = {
@@ -25,17 +46,6 @@ const TEXT: Record<string, string> = { csv: 'text/csv', txt: 'text/plain', json:
 export type SniffResult = { ok: true; mediaType: string } | { ok: false; reason: string };
 
 const extensionOf = (name: string) => /\.([A-Za-z0-9]+)$/.exec(name)?.[1].toLowerCase() ?? '';
-
-/** A text file is valid UTF-8 with no NUL and no other control characters but tab, CR and LF. */
-export function isPlainText(buffer: Buffer): boolean {
-  let text: string;
-  try {
-    text = new TextDecoder('utf-8', { fatal: true }).decode(buffer);
-  } catch {
-    return false;
-  }
-  return !/[\u0000-\u0008\u000B\u000C\u000E-\u001F]/.test(text);
-}
 
 /**
  * The type of an upload judged by its content: the file name's ending must agree with what the bytes

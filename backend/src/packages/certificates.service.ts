@@ -7,7 +7,8 @@ import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { Firm } from '../firms/entities/firm.entity';
 import { FirmCertificate } from './entities/firm-certificate.entity';
-import { CertificateProblem, makeSelfSignedP12, openSecret, readP12, sealSecret } from './signing';
+import { EvaluationService } from '../evaluation/evaluation.service';
+import { makeSelfSignedP12, openSecret, readP12, sealSecret } from './signing';
 import { randomBytes } from 'node:crypto';
 
 export type CertificateView = CertificateDto;
@@ -20,6 +21,7 @@ export class CertificatesService {
 
   constructor(
     private readonly em: EntityManager,
+    private readonly evaluation: EvaluationService,
     config: ConfigService<Environment, true>,
   ) {
     this.secret = config.get('CERTIFICATE_SECRET', { infer: true });
@@ -34,14 +36,12 @@ export class CertificatesService {
   async upload(auth: AuthContext, file: { buffer: Buffer } | undefined, password: string | undefined): Promise<CertificateView> {
     if (!file) throw new AppException(ErrorCode.ValidationFailed, 'Attach the .p12 or .pfx file in the field "file".', HttpStatus.BAD_REQUEST, [{ field: 'file', message: 'no file was sent' }]);
     if (typeof password !== 'string') throw new AppException(ErrorCode.ValidationFailed, 'Give the certificate\'s password in the field "password".', HttpStatus.BAD_REQUEST, [{ field: 'password', message: 'required' }]);
-    let facts;
-    try {
-      facts = readP12(file.buffer, password);
-    } catch (err) {
-      if (err instanceof CertificateProblem) throw new AppException('CERTIFICATE_REFUSED', `The certificate was refused: ${err.message}`, HttpStatus.BAD_REQUEST, [{ field: err.message.includes('password') ? 'password' : 'file', message: err.message }]);
-      throw err;
+    // Opened in an evaluation process with a deadline: a hostile file's key iterations never run here.
+    const opened = await this.evaluation.readCertificate(auth.session.firm.id, file.buffer, password);
+    if (!opened.ok) {
+      throw new AppException('CERTIFICATE_REFUSED', `The certificate was refused: ${opened.problem}`, HttpStatus.BAD_REQUEST, [{ field: opened.problem.includes('password') ? 'password' : 'file', message: opened.problem }]);
     }
-    return view(await this.store(auth.session.firm, file.buffer, password, facts, false));
+    return view(await this.store(auth.session.firm, file.buffer, password, opened.facts, false));
   }
 
   private async store(firm: Firm, p12: Buffer, password: string, facts: ReturnType<typeof readP12>, selfSigned: boolean): Promise<FirmCertificate> {

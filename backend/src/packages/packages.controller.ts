@@ -7,7 +7,7 @@ import { Public, Roles } from '../core/decorators/access.decorator';
 import { CurrentAuth } from '../core/decorators/current-auth.decorator';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { MEMBER_ROLES } from '../core/roles';
-import { UPLOAD_OPTIONS } from '../files/uploads';
+import { SINGLE_FILE_OPTIONS, UPLOAD_OPTIONS } from '../files/uploads';
 import { CertificatesService, type CertificateView } from './certificates.service';
 import { PackagesService, type PackageStatus, type PortalRevision, type Verdict } from './packages.service';
 
@@ -56,7 +56,7 @@ export class PackagesController {
   @Throttle(VERIFY_THROTTLE)
   @Post('verify')
   @HttpCode(200)
-  @UseInterceptors(FileInterceptor('file', UPLOAD_OPTIONS))
+  @UseInterceptors(FileInterceptor('file', SINGLE_FILE_OPTIONS))
   verify(@UploadedFile() file: Express.Multer.File | undefined): Promise<Verdict> {
     return this.packages.verify(file);
   }

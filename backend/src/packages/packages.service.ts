@@ -22,7 +22,6 @@ import { CertificatesService } from './certificates.service';
 import { PackageJob } from './entities/package-job.entity';
 import { buildPackageInWorker } from './build-in-worker';
 import { REVISION_KEY } from './package-pdf';
-import { signPdf } from './signing';
 
 export type PackageStatus = PackageStatusDto;
 export type PortalRevision = PortalRevisionDto;
@@ -125,9 +124,9 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
         return { ...a, body };
       }),
     );
-    const unsigned = await buildPackageInWorker({ revisionId: revision.id, snapshot, history, attachments, onProgress });
     const cert = await this.certificates.forSigning(revision.sheet.project.firm);
-    return signPdf(unsigned, cert.p12, cert.password, { firm: snapshot.firm, reason: `Issue of ${snapshot.sheetNumber} revision ${snapshot.revision.code}` });
+    const who = { firm: snapshot.firm, reason: `Issue of ${snapshot.sheetNumber} revision ${snapshot.revision.code}` };
+    return buildPackageInWorker({ revisionId: revision.id, snapshot, history, attachments, onProgress }, { p12: new Uint8Array(cert.p12), password: cert.password, who });
   }
 
   private async findRevision(auth: AuthContext, id: string): Promise<Revision> {

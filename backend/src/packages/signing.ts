@@ -20,8 +20,63 @@ export class CertificateProblem extends Error {}
 
 const name = (attrs: forge.pki.CertificateField[]) => attrs.map((a) => `${a.shortName ?? a.name}=${String(a.value)}`).join(', ');
 
+/**
+ * The most key-derivation or MAC iterations a PKCS#12 file may ask for. Files made by OpenSSL 3 use
+ * 2 048, Windows 2 000, Java's keytool 10 000 (from memory); 100 000 leaves room for stricter settings
+ * while keeping one decryption under about a second in node-forge. A file asking for more is refused
+ * before anything is decrypted: node-forge runs the iterations before it checks the password.
+ */
+export const MAX_P12_ITERATIONS = 100_000;
+const MAX_NODES = 20_000;
+const MAX_DEPTH = 16;
+
+/**
+ * Walks a PKCS#12 file's DER, including the DER held inside OCTET STRINGs (the authenticated safe, its
+ * safe contents and bags), and checks every iteration count: in PKCS#12's MacData, in PKCS#5 PBE and
+ * PBKDF2 parameters alike, the count is an INTEGER that follows the salt's OCTET STRING (RFC 7292
+ * appendix A and RFC 8018 appendix A.2).
+ */
+export function assertSaneIterations(der: Buffer): void {
+  let nodes = 0;
+  const walk = (node: forge.asn1.Asn1, depth: number): void => {
+    if (++nodes > MAX_NODES || depth > MAX_DEPTH) throw new CertificateProblem('This certificate file is nested more deeply than a PKCS#12 file is.');
+    if (Array.isArray(node.value)) {
+      const parts = node.value;
+      parts.forEach((part, k) => {
+        const before = parts[k - 1];
+        if (part.tagClass === forge.asn1.Class.UNIVERSAL && part.type === forge.asn1.Type.INTEGER && before?.tagClass === forge.asn1.Class.UNIVERSAL && before.type === forge.asn1.Type.OCTETSTRING && typeof part.value === 'string') {
+          const bytes = part.value;
+          const count = bytes.length > 6 ? Infinity : [...bytes].reduce((n, ch) => n * 256 + ch.charCodeAt(0), 0);
+          if (count > MAX_P12_ITERATIONS) {
+            throw new CertificateProblem(`This certificate file asks for ${Number.isFinite(count) ? count.toLocaleString('en') : 'an enormous number of'} key iterations; Ampwright takes at most ${MAX_P12_ITERATIONS.toLocaleString('en')}. Export it again with the usual settings.`);
+          }
+        }
+        walk(part, depth + 1);
+      });
+      return;
+    }
+    if (node.type === forge.asn1.Type.OCTETSTRING && typeof node.value === 'string' && node.value.charCodeAt(0) === 0x30) {
+      let inner: forge.asn1.Asn1 | undefined;
+      try {
+        inner = forge.asn1.fromDer(node.value, { strict: true, parseAllBytes: true, decodeBitStrings: false } as never);
+      } catch {
+        return; // not DER: encrypted or plain bytes
+      }
+      walk(inner, depth + 1);
+    }
+  };
+  let root: forge.asn1.Asn1;
+  try {
+    root = forge.asn1.fromDer(forge.util.createBuffer(der.toString('binary')), { strict: true, decodeBitStrings: false } as never);
+  } catch {
+    throw new CertificateProblem('This is not a PKCS#12 (.p12 or .pfx) certificate file.');
+  }
+  walk(root, 0);
+}
+
 /** Opens a PKCS#12 file with its password and checks it holds a key and a certificate valid now. */
 export function readP12(p12: Buffer, password: string, now = new Date()): CertificateFacts {
+  assertSaneIterations(p12);
   let parsed: forge.pkcs12.Pkcs12Pfx;
   try {
     parsed = forge.pkcs12.pkcs12FromAsn1(forge.asn1.fromDer(forge.util.createBuffer(p12.toString('binary'))), password);
@@ -60,6 +115,7 @@ export function makeSelfSignedP12(firm: string, password: string, years = 3, not
 
 /** Signs a finished PDF: adds the signature field, then fills it with the detached PKCS#7 signature. */
 export async function signPdf(pdf: Buffer, p12: Buffer, password: string, who: { firm: string; reason: string }, signingTime = new Date()): Promise<Buffer> {
+  assertSaneIterations(p12);
   const withPlaceholder = plainAddPlaceholder({ pdfBuffer: pdf, reason: who.reason, contactInfo: who.firm, name: who.firm, location: 'Ampwright', signingTime, signatureLength: 16384 });
   return signpdf.sign(withPlaceholder, new P12Signer(p12, { passphrase: password }), signingTime);
 }

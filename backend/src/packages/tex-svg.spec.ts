@@ -55,3 +55,13 @@ describe('drawTex', () => {
     }
   });
 });
+
+describe('texToSvg with LaTeX an author wrote', () => {
+  it('makes no link from \\href and runs no package that loads code or defines macros', () => {
+    const linked = texToSvg('\\href{https://evil.example/login}{see datasheet}', 10);
+    expect(linked.svg).not.toMatch(/<a[\s>]|evil\.example/);
+    for (const tex of ['\\require{html}\\href{https://evil.example}{x}', '\\class{x}{y}', '\\style{color:red}{y}', '\\newcommand{\\a}{\\a\\a}\\a', '\\toggle{a}{b}\\endtoggle']) {
+      expect(texToSvg(tex, 10).svg).not.toMatch(/<a[\s>]|evil\.example|class="x"|color:red/);
+    }
+  });
+});

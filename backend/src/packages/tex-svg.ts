@@ -5,13 +5,27 @@
 import { liteAdaptor } from 'mathjax-full/js/adaptors/liteAdaptor.js';
 import { RegisterHTMLHandler } from 'mathjax-full/js/handlers/html.js';
 import { TeX } from 'mathjax-full/js/input/tex.js';
-import { AllPackages } from 'mathjax-full/js/input/tex/AllPackages.js';
+import 'mathjax-full/js/input/tex/base/BaseConfiguration.js';
+import 'mathjax-full/js/input/tex/ams/AmsConfiguration.js';
+import 'mathjax-full/js/input/tex/boldsymbol/BoldsymbolConfiguration.js';
+import 'mathjax-full/js/input/tex/cancel/CancelConfiguration.js';
+import 'mathjax-full/js/input/tex/color/ColorConfiguration.js';
+import 'mathjax-full/js/input/tex/gensymb/GensymbConfiguration.js';
+import 'mathjax-full/js/input/tex/noundefined/NoUndefinedConfiguration.js';
+import 'mathjax-full/js/input/tex/textmacros/TextMacrosConfiguration.js';
+import 'mathjax-full/js/input/tex/upgreek/UpgreekConfiguration.js';
 import { mathjax } from 'mathjax-full/js/mathjax.js';
 import { SVG } from 'mathjax-full/js/output/svg.js';
 
 const adaptor = liteAdaptor();
 RegisterHTMLHandler(adaptor);
-const doc = mathjax.document('', { InputJax: new TeX({ packages: AllPackages.filter((p: string) => p !== 'bussproofs') }), OutputJax: new SVG({ fontCache: 'none' }) });
+/**
+ * Only packages that typeset: none that makes links or HTML (html: \href, \class, \style), loads code
+ * (require, autoload), defines macros (newcommand, configmacros) or acts on the reader (action). An
+ * unknown command is shown in red (noundefined), never fetched.
+ */
+export const TEX_PACKAGES = ['base', 'ams', 'boldsymbol', 'cancel', 'color', 'gensymb', 'noundefined', 'textmacros', 'upgreek'];
+const doc = mathjax.document('', { InputJax: new TeX({ packages: TEX_PACKAGES, maxMacros: 1000, maxBuffer: 64 * 1024 }), OutputJax: new SVG({ fontCache: 'none' }) });
 
 /** The x-height of MathJax's TeX fonts, as a fraction of the font size. */
 const EX_PER_EM = 0.431;

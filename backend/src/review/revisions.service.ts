@@ -51,7 +51,7 @@ export class RevisionsService {
     const cells = await em.find(Cell, { sheet }, { orderBy: { position: 'asc' } });
     const file = this.sheets.toFile(sheet, cells);
     // Evaluated afresh, so the snapshot's results are exactly what this engine gives for this sheet.
-    const outcome = await this.evaluation.evaluate(file);
+    const outcome = await this.evaluation.evaluateOrThrow(file, { firm: sheet.project.firm.id });
     const queries = await em.find(CellQuery, { sheet, revisionNumber: sheet.revisionNumber }, { orderBy: { createdAt: 'asc' }, populate: ['messages', 'messages.author', 'raisedBy', 'closedBy', 'cell'] });
     const attachments = await em.find(Attachment, { sheet }, { orderBy: { createdAt: 'asc' } });
     const issuedAt = new Date();

@@ -2,17 +2,16 @@ import { createHash } from 'node:crypto';
 import { UniqueConstraintViolationException } from '@mikro-orm/core';
 import { EntityManager } from '@mikro-orm/mariadb';
 import { HttpStatus, Injectable } from '@nestjs/common';
-import { cellSchema, csvToTableCell, parseSheetFile, revisionCode, SHEET_FORMAT, unevaluatedResults, type CellDto, type CellResult, type SaveResultDto, type SheetDto, type SheetFile } from '@ampwright/common';
+import { cellSchema, parseSheetFile, revisionCode, SHEET_FORMAT, unevaluatedResults, type CellDto, type CellResult, type SaveResultDto, type SheetDto, type SheetFile } from '@ampwright/common';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
-import { EvaluationService } from '../evaluation/evaluation.service';
+import { EvaluationService, type Reservation } from '../evaluation/evaluation.service';
 import { ProjectsService } from '../projects/projects.service';
 import { TemplatesService } from '../templates/templates.service';
 import type { AddCellDto, CreateSheetDto, ImportCsvDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
 import { Cell } from './entities/cell.entity';
 import { Sheet, type SheetState } from './entities/sheet.entity';
 import { sheetFromFile } from './sheet-file';
-import { isPlainText } from '../files/uploads';
 import { User } from '../users/entities/user.entity';
 import { AuditService } from '../audit/audit.service';
 import { CellQuery } from '../review/entities/cell-query.entity';
@@ -241,16 +240,21 @@ export class SheetsService {
     const title = dto.title ?? file?.title;
     if (!title) throw new AppException(ErrorCode.ValidationFailed, 'title is needed for a blank sheet', HttpStatus.BAD_REQUEST, [{ field: 'title', message: 'title is needed for a blank sheet' }]);
     const { sheet, cells } = sheetFromFile(project, dto.number, title, file, auth.session.user);
-    this.em.persist(cells);
+    const reservation = this.evaluation.reserve(auth.session.firm.id);
     try {
-      await this.em.persist(sheet).flush();
-    } catch (err) {
-      if (err instanceof UniqueConstraintViolationException) {
-        throw new AppException(SheetErrorCode.NumberTaken, `Sheet number ${dto.number} is used in this project already.`, HttpStatus.CONFLICT, [{ field: 'number', message: 'this sheet number is taken' }]);
+      this.em.persist(cells);
+      try {
+        await this.em.persist(sheet).flush();
+      } catch (err) {
+        if (err instanceof UniqueConstraintViolationException) {
+          throw new AppException(SheetErrorCode.NumberTaken, `Sheet number ${dto.number} is used in this project already.`, HttpStatus.CONFLICT, [{ field: 'number', message: 'this sheet number is taken' }]);
+        }
+        throw err;
       }
-      throw err;
+      await this.evaluateAndStore(sheet, cells, sheet.version, { firm: auth.session.firm.id, reservation });
+    } finally {
+      reservation.release();
     }
-    await this.evaluateAndStore(sheet, cells, sheet.version);
     return this.view(auth, sheet.id);
   }
 
@@ -267,6 +271,17 @@ export class SheetsService {
    */
   private async change(auth: AuthContext, id: string, version: number, apply: Change): Promise<SaveResult> {
     const sheet = await this.findEditable(auth, id);
+    // A place in the firm's evaluation queue is held before anything is written: a firm whose queue is
+    // full is told so (429) and its change is not saved, rather than saved and left unevaluated.
+    const reservation = this.evaluation.reserve(auth.session.firm.id);
+    try {
+      return await this.changeHolding(sheet, auth, id, version, apply, reservation);
+    } finally {
+      reservation.release();
+    }
+  }
+
+  private async changeHolding(sheet: Sheet, auth: AuthContext, id: string, version: number, apply: Change, reservation: Reservation): Promise<SaveResult> {
     let applied: Applied = { touched: new Set() };
     let contents: CellContent[] = [];
     let current = sheet;
@@ -287,7 +302,7 @@ export class SheetsService {
       }
       throw err;
     });
-    const { results, changed } = await this.evaluateAndStore(current, contents, version + 1);
+    const { results, changed } = await this.evaluateAndStore(current, contents, version + 1, { firm: auth.session.firm.id, reservation });
     const shown = new Set(contents.filter((c) => applied.touched.has(c.id) || changed.has(c.id)).map((c) => c.id));
     const views = await this.cellViews(sheet.id, [...shown]);
     return { version: version + 1, changed: views.map((v) => ({ ...v, results: results.get(v.id) ?? v.results })), removed: applied.removed ?? [] };
@@ -301,17 +316,10 @@ export class SheetsService {
    * reason instead of a number: no result of an older state stays on screen. The change itself is saved.
    * Returns the results by cell id and the ids whose stored results changed.
    */
-  private async evaluateAndStore(sheet: Sheet, cells: readonly CellContent[], version: number): Promise<{ results: Map<string, CellResult>; changed: Set<string> }> {
-    let results: CellResult[];
-    let engineVersion: string | null = null;
-    try {
-      const outcome = await this.evaluation.evaluate(this.toFile(sheet, cells), sheet.id);
-      results = outcome.cells;
-      engineVersion = outcome.engineVersion;
-    } catch (err) {
-      if (!(err instanceof AppException && err.status === HttpStatus.UNPROCESSABLE_ENTITY)) throw err;
-      results = unevaluatedResults(cells.length, err.message);
-    }
+  private async evaluateAndStore(sheet: Sheet, cells: readonly CellContent[], version: number, options: { firm: string; reservation: Reservation }): Promise<{ results: Map<string, CellResult>; changed: Set<string> }> {
+    const outcome = await this.evaluation.evaluate(this.toFile(sheet, cells), { ...options, key: sheet.id });
+    const results = outcome.ok ? outcome.cells : unevaluatedResults(cells.length, outcome.message);
+    const engineVersion = outcome.ok ? outcome.engineVersion : null;
     const byId = new Map(cells.map((c, i) => [c.id, results[i]]));
     const changed = new Set<string>();
     await this.em.transactional(async (em) => {
@@ -363,12 +371,14 @@ export class SheetsService {
   }
 
   /** A CSV upload as a new table cell; any bad row is reported by its line and nothing is stored. */
-  importCsv(auth: AuthContext, id: string, file: { buffer: Buffer; originalname: string } | undefined, dto: ImportCsvDto): Promise<SaveResult> {
+  async importCsv(auth: AuthContext, id: string, file: { buffer: Buffer; originalname: string } | undefined, dto: ImportCsvDto): Promise<SaveResult> {
     if (!file) throw new AppException(ErrorCode.ValidationFailed, 'Attach the CSV file in the field "file".', HttpStatus.BAD_REQUEST, [{ field: 'file', message: 'no file was sent' }]);
-    if (!isPlainText(file.buffer)) {
+    // Nothing is parsed for a sheet the caller may not change; the parsing itself runs in an evaluation process.
+    await this.findEditable(auth, id);
+    const parsed = await this.evaluation.parseCsv(auth.session.firm.id, file.buffer);
+    if ('binary' in parsed) {
       throw new AppException(ErrorCode.UnsupportedMediaType, `${file.originalname} is not a CSV text file (its content is binary), whatever its name says.`, HttpStatus.UNSUPPORTED_MEDIA_TYPE, [{ field: 'file', message: 'not a text file' }]);
     }
-    const parsed = csvToTableCell(file.buffer.toString('utf8'));
     if (!parsed.ok) {
       const details = parsed.problems.map((p) => ({ field: 'file', message: `line ${p.line}: ${p.message}` }));
       throw new AppException('CSV_INVALID', `The CSV could not be read, so nothing was stored: ${details.map((d) => d.message).join('; ')}`, HttpStatus.BAD_REQUEST, details);

@@ -54,8 +54,36 @@ export function displayTex(display: string): string {
   return tex;
 }
 
+/** Characters a display or a string may hold that mean something to LaTeX, as math-mode symbols. */
+const MATH_ESCAPES: Record<string, string> = { '\\': '\\backslash ', '{': '\\{', '}': '\\}', $: '\\$', '&': '\\&', '%': '\\%', '#': '\\#', _: '\\_', '~': '\\sim ', '^': '\\hat{}' };
+// A lone ^ or ~ cannot start a command once backslashes and braces are escaped, and units use ^.
+const escapeMath = (text: string) => text.replace(/[\\{}$&%#_]/g, (c) => MATH_ESCAPES[c]).replace(/[\u0000-\u001F\u007F]/g, '');
+
+/**
+ * A string of the sheet as LaTeX text: letters, digits and punctuation as they are, and everything that
+ * means something to LaTeX escaped, so a string can never become a command (a link, a rule, a macro).
+ * The escapes are ones KaTeX and MathJax both read the same way.
+ */
+export function textTex(text: string): string {
+  const parts: string[] = [];
+  let run = '';
+  const flush = () => {
+    if (run) parts.push(`\\text{${run}}`);
+    run = '';
+  };
+  for (const ch of text.replace(/[\u0000-\u001F\u007F]/g, '')) {
+    if (/[_$%&#{}]/.test(ch)) run += `\\${ch}`;
+    else if (ch === '\\' || ch === '~' || ch === '^') {
+      flush();
+      parts.push(MATH_ESCAPES[ch]);
+    } else run += ch;
+  }
+  flush();
+  return parts.join('') || '\\text{}';
+}
+
 function displayTexUncached(display: string): string {
-  return display
+  return escapeMath(display)
     .replace(/−/g, '-')
     .replace(/∠ ?(-?[\d.]+)°/g, '\\angle $1^{\\circ}')
     .replace(/([\d.])°/g, '$1^{\\circ}')
@@ -109,7 +137,7 @@ export function expressionTex(node: MathNode, context: TexContext): string {
     const n = m as AnyNode;
     switch (n.type) {
       case 'ConstantNode':
-        return numberTex(n.value);
+        return typeof n.value === 'string' ? `\\text{“}${textTex(n.value)}\\text{”}` : numberTex(n.value);
       case 'SymbolNode': {
         const name = String(n.name);
         if (context.isVariable(name)) return context.valueTexOf?.(name) ?? variableTex(name);

@@ -2,7 +2,7 @@ import { ArgumentsHost, Catch, ExceptionFilter, HttpException, HttpStatus, Logge
 import type { Response } from 'express';
 import { AppException, ErrorBody, ErrorCode } from '../errors/app-exception';
 import { bodyParserError } from './body-parser-error';
-import { UPLOAD_LIMIT_TEXT } from '../../files/uploads';
+import { MULTIPART_LIMIT_WORDS } from '../../files/uploads';
 
 const CODE_BY_STATUS: Record<number, ErrorCode> = {
   400: ErrorCode.BadRequest,
@@ -42,8 +42,8 @@ export class AllExceptionsFilter implements ExceptionFilter {
       const status = exception.getStatus();
       const res = exception.getResponse();
       let message = typeof res === 'string' ? res : ((res as { message?: unknown }).message ?? exception.message);
-      // Multer's words for an upload over the limit.
-      if (status === 413 && message === 'File too large') message = `The file is larger than the ${UPLOAD_LIMIT_TEXT} limit; nothing was stored.`;
+      // Multer's words for an upload outside its limits.
+      if (typeof message === 'string' && MULTIPART_LIMIT_WORDS[message]) message = MULTIPART_LIMIT_WORDS[message];
       return {
         statusCode: status,
         code: CODE_BY_STATUS[status] ?? (status >= 500 ? ErrorCode.Internal : ErrorCode.BadRequest),

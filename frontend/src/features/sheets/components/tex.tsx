@@ -1,9 +1,15 @@
 import katex from 'katex';
 import { useMemo } from 'react';
 
+/**
+ * KaTeX's options for LaTeX that may come from a user (notes): no links or HTML (trust off), no rule or
+ * space larger than 20 em, and a bound on macro expansion, so no formula can cover the screen or loop.
+ */
+export const KATEX_OPTIONS = { throwOnError: false, strict: 'ignore', output: 'htmlAndMathml', trust: false, maxSize: 20, maxExpand: 200 } as const;
+
 /** LaTeX typeset with KaTeX (the same LaTeX the server gives for the PDF). Bad LaTeX shows as source, in red. */
 export function Tex({ children, display = false }: { children: string; display?: boolean }) {
-  const html = useMemo(() => katex.renderToString(children, { throwOnError: false, displayMode: display, strict: 'ignore', output: 'htmlAndMathml' }), [children, display]);
+  const html = useMemo(() => katex.renderToString(children, { ...KATEX_OPTIONS, displayMode: display }), [children, display]);
   return <span className="aw-tex" dangerouslySetInnerHTML={{ __html: html }} />;
 }
 

@@ -1,0 +1,60 @@
+/**
+ * An evaluation process (forked by EvaluationPool with a heap cap of its own). It evaluates sheets,
+ * keeping the incremental-evaluation cache of the sheets it evaluated last (by sheet id), so a save
+ * re-evaluates only the cells it can affect; it also parses CSV uploads and opens PKCS#12 files. The
+ * cache only saves work — a result is reused only when the cell and everything it reads are unchanged —
+ * so a cold or lost cache gives the same results, just later (common/src/cells/incremental.spec.ts).
+ * The process holds no secret of the server (its environment is emptied) and exits with its parent.
+ */
+import { csvToTableCell, ENGINE_VERSION, evaluateSheet, type EvaluationCache } from '@ampwright/common';
+import { isPlainText } from '../files/plain-text';
+import type { SandboxReply, SandboxRequest, SandboxTask, TaskResults } from './sandbox-protocol';
+
+const KEPT = 64;
+const caches = new Map<string, EvaluationCache>();
+
+function evaluate(task: Extract<SandboxTask, { kind: 'evaluate' }>): TaskResults['evaluate'] {
+  const previous = task.key ? caches.get(task.key) : undefined;
+  if (task.key) caches.delete(task.key); // kept again only if this evaluation finishes
+  const evaluation = evaluateSheet(task.sheet, previous);
+  if (task.key) {
+    caches.set(task.key, evaluation.cache);
+    if (caches.size > KEPT) caches.delete(caches.keys().next().value as string);
+  }
+  return { cells: evaluation.cells, engineVersion: ENGINE_VERSION, evaluated: evaluation.evaluated };
+}
+
+async function certificate(task: Extract<SandboxTask, { kind: 'certificate' }>): Promise<TaskResults['certificate']> {
+  const { readP12, CertificateProblem } = await import('../packages/signing');
+  try {
+    return { ok: true, facts: readP12(Buffer.from(task.p12), task.password) };
+  } catch (err) {
+    if (err instanceof CertificateProblem) return { ok: false, problem: err.message };
+    throw err;
+  }
+}
+
+async function run(task: SandboxTask): Promise<TaskResults[SandboxTask['kind']]> {
+  switch (task.kind) {
+    case 'evaluate':
+      return evaluate(task);
+    case 'csv':
+      return isPlainText(task.bytes) ? csvToTableCell(Buffer.from(task.bytes).toString('utf8')) : { ok: false, binary: true };
+    case 'certificate':
+      return certificate(task);
+  }
+}
+
+const reply = (message: SandboxReply) => process.send?.(message);
+
+process.on('message', (message: SandboxRequest) => {
+  run(message.task).then(
+    (value) => reply({ id: message.id, ok: true, value }),
+    (err: Error) => reply({ id: message.id, ok: false, message: err.message }),
+  );
+});
+// The server went away (or was killed): nothing is left running.
+process.on('disconnect', () => process.exit(0));
+
+// Loaded (the engine is imported above): the pool starts a task's deadline only from here on.
+reply({ ready: true });

@@ -1,0 +1,31 @@
+/**
+ * The messages between the server and its evaluation processes. Everything a user can send that takes
+ * unbounded time or memory to work through — a sheet, a CSV upload, a PKCS#12 file — is handled there,
+ * where running out of memory or time ends one process and never the server.
+ */
+import type { CellResult, CsvTableResult, SheetFile } from '@ampwright/common';
+import type { CertificateFacts } from '../packages/signing';
+
+export interface TaskResults {
+  /** Evaluates a sheet; `key` (a stored sheet's id) lets the process reuse what it kept of that sheet. */
+  evaluate: { cells: CellResult[]; engineVersion: string; evaluated: number[] };
+  /** Parses an uploaded CSV as a table cell; `binary` when the bytes are not UTF-8 text. */
+  csv: CsvTableResult | { ok: false; binary: true };
+  /** Opens an uploaded PKCS#12 file and describes its certificate. */
+  certificate: { ok: true; facts: CertificateFacts } | { ok: false; problem: string };
+}
+
+export type SandboxTask =
+  | { kind: 'evaluate'; sheet: SheetFile; key?: string }
+  | { kind: 'csv'; bytes: Uint8Array }
+  | { kind: 'certificate'; p12: Uint8Array; password: string };
+
+export type TaskKind = SandboxTask['kind'];
+export type TaskOf<K extends TaskKind> = Extract<SandboxTask, { kind: K }>;
+
+export interface SandboxRequest {
+  id: number;
+  task: SandboxTask;
+}
+
+export type SandboxReply = { ready: true } | { id: number; ok: true; value: TaskResults[TaskKind] } | { id: number; ok: false; message: string };
