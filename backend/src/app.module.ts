@@ -27,6 +27,7 @@ import { AllExceptionsFilter } from './core/filters/all-exceptions.filter';
 import { RequestLoggerMiddleware } from './core/middleware/request-logger.middleware';
 import { ormConfig } from './database/mikro-orm.config';
 import { EvaluationModule } from './evaluation/evaluation.module';
+import { DemoAccountsCheck } from './database/demo-accounts.check';
 import { FilesModule } from './files/files.module';
 import { HealthModule } from './health/health.module';
 import { MailModule } from './mail/mail.module';
@@ -79,6 +80,7 @@ function staticFrontEnd(): DynamicModule[] {
     { provide: APP_GUARD, useClass: AuthGuard },
     { provide: APP_GUARD, useClass: ThrottlerGuard },
     { provide: APP_FILTER, useClass: AllExceptionsFilter },
+    DemoAccountsCheck,
   ],
 })
 export class AppModule implements NestModule {

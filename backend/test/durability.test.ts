@@ -3,36 +3,20 @@
  * has every save it acknowledged in MariaDB. The app runs as a separate process (dist/main.js) on a
  * port of its own, against the test database.
  */
-import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
+import { execFileSync, type ChildProcess } from 'node:child_process';
 import { join } from 'node:path';
 import type { INestApplication } from '@nestjs/common';
 import { EntityManager } from '@mikro-orm/core';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { ready as readyAt, startApp as startAppProcess } from './support/app-process';
 import { makeCaller, type Caller } from './support/sessions';
 import { createTestApp } from './support/test-app';
 
 const PORT = 3390;
 const BASE = `http://127.0.0.1:${PORT}`;
 
-function startApp(port = PORT, worker = false): ChildProcess {
-  return spawn(process.execPath, [join(__dirname, '..', 'dist', 'main.js')], {
-    env: { ...process.env, APP_PORT: String(port), STATIC_DIR: '', LOG_REQUESTS: 'false', PACKAGE_WORKER: worker ? 'true' : 'false' },
-    stdio: 'ignore',
-  });
-}
-
-async function ready(base = BASE): Promise<void> {
-  const until = Date.now() + 60_000;
-  while (Date.now() < until) {
-    try {
-      if ((await fetch(`${base}/api/health`)).ok) return;
-    } catch {
-      /* not up yet */
-    }
-    await new Promise((r) => setTimeout(r, 200));
-  }
-  throw new Error('the app did not start');
-}
+const startApp = (port = PORT, worker = false) => startAppProcess(port, { worker });
+const ready = (base = BASE) => readyAt(base);
 
 describe('durability', () => {
   let app: INestApplication;

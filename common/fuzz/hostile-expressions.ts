@@ -37,7 +37,7 @@ const expr: fc.Arbitrary<string> = fc.letrec<{ e: string }>((tie) => ({
 })).e;
 
 /** Calls that would build something huge if their size were not checked before allocating. */
-const ALLOCATION_BOMBS = fc.oneof(
+export const ALLOCATION_BOMBS = fc.oneof(
   fc.integer({ min: 1e4, max: 2e9 }).map((n) => `resize([1], [${n}])`),
   fc.integer({ min: 1e4, max: 2e9 }).map((n) => `resize(sparse([1]), [1, ${n}])`),
   fc.integer({ min: 300, max: 1e5 }).map((n) => `kron(ones(${n}), ones(${n}))`),
@@ -52,7 +52,7 @@ const ALLOCATION_BOMBS = fc.oneof(
 );
 
 /** Method and property calls on values, which would mutate them or reach their prototype. */
-const METHOD_CALLS = fc.oneof(
+export const METHOD_CALLS = fc.oneof(
   fc.constantFrom(...NAMES).chain((n) => fc.constantFrom(`${n}.resize([1])`, `${n}.toString()`, `${n}.value`, `${n}.clone()`, `${n}.set([1], 5)`, `${n}.units`, `size(${n}.resize([1]))`)),
   fc.constantFrom('[1, 2, 3].resize([1])', '(2 V).to("mV")', 'sqrt.signatures', 'ones(3).map(sqrt)', '{a: 1}.a'),
 );

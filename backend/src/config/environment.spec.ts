@@ -22,3 +22,22 @@ describe('validateEnvironment', () => {
     expect(attempt).toThrow(/APP_PORT must be an integer/);
   });
 });
+
+describe('validateEnvironment in production', () => {
+  const local = { NODE_ENV: 'production', DB_PASSWORD: 'ampwright-local-only', S3_ACCESS_KEY: 'S3RVER', S3_SECRET_KEY: 'S3RVER', APP_HOST: '0.0.0.0', APP_URL: 'https://calc.example.com' };
+
+  it('refuses the local demo secrets and insecure cookies, naming what to set', () => {
+    const attempt = () => validateEnvironment(local);
+    expect(attempt).toThrow(/^Ampwright will not start in production with local-only settings/);
+    expect(attempt).toThrow(/CERTIFICATE_SECRET is the built-in local value/);
+    expect(attempt).toThrow(/DB_PASSWORD is the local demo password/);
+    expect(attempt).toThrow(/S3_ACCESS_KEY and S3_SECRET_KEY are the local fake's/);
+    expect(attempt).toThrow(/COOKIE_SECURE is false while the app is reached at 0\.0\.0\.0: serve it over HTTPS and set COOKIE_SECURE=true/);
+  });
+
+  it('starts with production values, and the local demo on loopback stays as it is', () => {
+    const env = validateEnvironment({ ...local, CERTIFICATE_SECRET: 'x'.repeat(48), DB_PASSWORD: 'a real one', S3_ACCESS_KEY: 'AKIA', S3_SECRET_KEY: 'secret', COOKIE_SECURE: 'true' });
+    expect(env.NODE_ENV).toBe('production');
+    expect(validateEnvironment({ DB_PASSWORD: 'ampwright-local-only', S3_ACCESS_KEY: 'S3RVER', S3_SECRET_KEY: 'S3RVER' }).NODE_ENV).toBe('development');
+  });
+});

@@ -6,6 +6,18 @@ import 'reflect-metadata';
 import { plainToInstance, Type } from 'class-transformer';
 import { IsIn, IsInt, IsNotEmpty, IsOptional, IsString, IsUrl, Max, Min, MinLength, validateSync } from 'class-validator';
 
+/** Values that make a local demo work and must never reach production. */
+export const LOCAL_ONLY = {
+  CERTIFICATE_SECRET: 'ampwright-local-only-certificate-secret',
+  /** The password `npm start` gives the local database user (scripts/lib/env.mjs). */
+  DB_PASSWORD: 'ampwright-local-only',
+  /** The S3 fake's fixed credentials. */
+  S3_KEY: 'S3RVER',
+} as const;
+
+const LOOPBACK = /^(127\.\d+\.\d+\.\d+|::1|\[::1\]|localhost)$/i;
+export const isLoopback = (host: string) => LOOPBACK.test(host.trim());
+
 export class Environment {
   @IsIn(['development', 'production', 'test'])
   NODE_ENV: 'development' | 'production' | 'test' = 'development';
@@ -72,7 +84,7 @@ export class Environment {
 
   /** Seals the firms' certificate passwords at rest (AES-256-GCM). Set a long random value in production. */
   @IsString() @IsNotEmpty() @MinLength(16, { message: 'CERTIFICATE_SECRET must be at least 16 characters' })
-  CERTIFICATE_SECRET = 'ampwright-local-only-certificate-secret';
+  CERTIFICATE_SECRET: string = LOCAL_ONLY.CERTIFICATE_SECRET;
 
   /** Whether this instance makes packages (a worker polling the job table); several may. */
   @IsIn(['true', 'false'])
@@ -115,12 +127,39 @@ export class Environment {
   STATIC_DIR?: string;
 }
 
+/**
+ * What a production instance must not run with: the built-in secrets of the local demo, and session
+ * cookies sent over plain HTTP to an address other than this machine. Each line says what to set.
+ */
+export function insecureProductionSettings(env: Environment): string[] {
+  const problems: string[] = [];
+  if (env.CERTIFICATE_SECRET === LOCAL_ONLY.CERTIFICATE_SECRET || env.CERTIFICATE_SECRET.length < 32) {
+    problems.push('CERTIFICATE_SECRET is the built-in local value or shorter than 32 characters: set a long random value (for example `openssl rand -base64 48`), the same on every instance');
+  }
+  if (env.DB_PASSWORD === LOCAL_ONLY.DB_PASSWORD) problems.push('DB_PASSWORD is the local demo password: set the password of the production database user');
+  if (env.S3_ACCESS_KEY === LOCAL_ONLY.S3_KEY || env.S3_SECRET_KEY === LOCAL_ONLY.S3_KEY) problems.push('S3_ACCESS_KEY and S3_SECRET_KEY are the local fake\'s: set the object store\'s credentials');
+  let appUrlHost = '';
+  try {
+    appUrlHost = new URL(env.APP_URL).hostname;
+  } catch {
+    /* reported by the validation above */
+  }
+  if (env.COOKIE_SECURE !== 'true' && (!isLoopback(env.APP_HOST) || !isLoopback(appUrlHost))) {
+    problems.push(`COOKIE_SECURE is false while the app is reached at ${isLoopback(env.APP_HOST) ? env.APP_URL : env.APP_HOST}: serve it over HTTPS and set COOKIE_SECURE=true`);
+  }
+  return problems;
+}
+
 export function validateEnvironment(raw: Record<string, unknown>): Environment {
   const env = plainToInstance(Environment, raw, { enableImplicitConversion: false, exposeDefaultValues: true });
   const errors = validateSync(env, { skipMissingProperties: false, whitelist: false });
   if (errors.length > 0) {
     const lines = errors.flatMap((e) => Object.values(e.constraints ?? {}).map((m) => `  - ${m}`));
     throw new Error(`The configuration is not valid:\n${lines.join('\n')}`);
+  }
+  if (env.NODE_ENV === 'production') {
+    const problems = insecureProductionSettings(env);
+    if (problems.length) throw new Error(`Ampwright will not start in production with local-only settings. Set:\n${problems.map((p) => `  - ${p}`).join('\n')}`);
   }
   return env;
 }

@@ -28,7 +28,7 @@ const name = (attrs: forge.pki.CertificateField[]) => attrs.map((a) => `${a.shor
  */
 export const MAX_P12_ITERATIONS = 100_000;
 const MAX_NODES = 20_000;
-const MAX_DEPTH = 16;
+const MAX_DEPTH = 64;
 
 /**
  * Walks a PKCS#12 file's DER, including the DER held inside OCTET STRINGs (the authenticated safe, its

@@ -28,7 +28,11 @@ export function freezeValue<T>(value: T): T {
     if (v === null || typeof v !== 'object' || Object.isFrozen(v) || seen.has(v)) return;
     seen.add(v);
     if (ArrayBuffer.isView(v)) return; // typed arrays cannot be frozen; the engine's own series only
-    for (const key of Object.keys(v)) visit((v as Record<string, unknown>)[key]);
+    if (Array.isArray(v)) {
+      for (let k = 0; k < v.length; k++) if (typeof v[k] === 'object') visit(v[k]);
+    } else {
+      for (const key in v) if (Object.prototype.hasOwnProperty.call(v, key)) visit((v as Record<string, unknown>)[key]);
+    }
     Object.freeze(v);
   };
   visit(value);

@@ -43,7 +43,9 @@ export class AllExceptionsFilter implements ExceptionFilter {
       const res = exception.getResponse();
       let message = typeof res === 'string' ? res : ((res as { message?: unknown }).message ?? exception.message);
       // Multer's words for an upload outside its limits.
-      if (typeof message === 'string' && MULTIPART_LIMIT_WORDS[message]) message = MULTIPART_LIMIT_WORDS[message];
+      // (Multer appends " - field" to some.)
+      const multer = typeof message === 'string' ? MULTIPART_LIMIT_WORDS[message.replace(/ - [^ ]*$/, '')] : undefined;
+      if (multer) message = multer;
       return {
         statusCode: status,
         code: CODE_BY_STATUS[status] ?? (status >= 500 ? ErrorCode.Internal : ErrorCode.BadRequest),
