@@ -6,7 +6,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 
 const root = join(__dirname, '..');
-const calc = (file: string) => spawnSync('npm', ['run', '-s', 'calc', '--', file], { cwd: root, encoding: 'utf8' });
+const calc = (file: string, env: Record<string, string> = {}) => spawnSync('npm', ['run', '-s', 'calc', '--', file], { cwd: root, encoding: 'utf8', env: { ...process.env, ...env } });
 const dir = mkdtempSync(join(tmpdir(), 'ampwright-calc-'));
 const write = (name: string, content: unknown) => {
   const file = join(dir, name);
@@ -37,6 +37,19 @@ describe('npm run calc', () => {
     expect(out.status).toBe(1);
     expect(JSON.parse(out.stdout).cells[0].errors).toEqual([{ line: 2, column: 7, message: 'cannot add a voltage and a current: the two sides have different dimensions' }]);
   });
+
+  it('stops a sheet at its deadline or memory cap, says why in every cell, and exits 1 (common practice: a bounded batch job)', () => {
+    const runaway = 'M = ones(316, 316)\nP = M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M';
+    const slow = calc(write('slow.json', sheet([{ kind: 'calc', source: runaway }, { kind: 'note', text: 'after' }])), { CALC_TIMEOUT_MS: '1500' });
+    expect(slow.status).toBe(1);
+    const cells = JSON.parse(slow.stdout).cells;
+    expect(cells.map((c: { kind: string }) => c.kind)).toEqual(['calc', 'note']);
+    for (const c of cells) expect(c.errors[0].message).toMatch(/^Not evaluated: this sheet takes longer than CALC_TIMEOUT_MS allows \(1\.5 s\)/);
+    const hog = Array.from({ length: 600 }, (_, k) => `a_${k} = ones(100000)`).join('\n');
+    const big = calc(write('big.json', sheet([{ kind: 'calc', source: hog }])), { CALC_MEMORY_MB: '128' });
+    expect(big.status).toBe(1);
+    expect(JSON.parse(big.stdout).cells[0].errors[0].message).toMatch(/^Not evaluated: this sheet needs more memory than CALC_MEMORY_MB allows \(128 MB\)/);
+  }, 30_000);
 
   it('exits 2 for a file that cannot be read or is not a sheet', () => {
     expect(calc(join(dir, 'missing.json')).status).toBe(2);
