@@ -26,6 +26,8 @@ const RATE = Number(process.env.LOAD_RATE ?? 1);
 const READERS = 35;
 const statuses = new Map();
 const WRITERS = 15;
+const NOISY_SECONDS = Number(process.env.LOAD_NOISY_SECONDS ?? 20);
+const NOISY_CONNECTIONS = 12;
 
 async function json(path, { method = 'GET', body, session } = {}) {
   const res = await fetch(`${BASE}/api${path}`, {
@@ -50,6 +52,26 @@ function sheetOf100(k) {
     cells.push({ kind: 'check', condition: `I_${c} <= 300 A`, basis: 'load test' });
   }
   return { format: 'ampwright.sheet/1', title: `Load sheet ${k}`, cells };
+}
+
+/** A writer's save of its own sheet, based on the version it last saw: a 409 would be a real conflict. */
+function saveRequest(w) {
+  return {
+    method: 'PATCH',
+    setupRequest: (req) => {
+      w.n += 1;
+      return {
+        ...req,
+        path: `/api/sheets/${w.sheetId}/cells/${w.cellId}`,
+        headers: { cookie: w.session.cookie, 'x-ampwright-csrf': w.session.csrf, 'content-type': 'application/json' },
+        body: JSON.stringify({ version: w.version, cell: { kind: 'calc', source: `R_0 = ${1 + (w.n % 50)} ohm\nX_0 = 1 ohm\nZ_0 = sqrt(R_0^2 + X_0^2)\nI_0 = 230 V / Z_0 to A` } }),
+      };
+    },
+    onResponse: (status, body) => {
+      if (status === 200) w.version = JSON.parse(body).version;
+      else statuses.set(status, (statuses.get(status) ?? 0) + 1);
+    },
+  };
 }
 
 /** One figure for a group of users: their latency histograms merged. */
@@ -126,26 +148,45 @@ main(async () => {
     // would be a real conflict.
     const savers = writers.map(async (w, k) => {
       await pause(k, WRITERS);
-      return user([
-        {
-          method: 'PATCH',
-          setupRequest: (req) => {
-            w.n += 1;
-            return {
-              ...req,
-              path: `/api/sheets/${w.sheetId}/cells/${w.cellId}`,
-              headers: { cookie: w.session.cookie, 'x-ampwright-csrf': w.session.csrf, 'content-type': 'application/json' },
-              body: JSON.stringify({ version: w.version, cell: { kind: 'calc', source: `R_0 = ${1 + (w.n % 50)} ohm\nX_0 = 1 ohm\nZ_0 = sqrt(R_0^2 + X_0^2)\nI_0 = 230 V / Z_0 to A` } }),
-            };
-          },
-          onResponse: (status, body) => {
-            if (status === 200) w.version = JSON.parse(body).version;
-            else statuses.set(status, (statuses.get(status) ?? 0) + 1);
-          },
-        },
-      ]);
+      return user([saveRequest(w)]);
     });
     return [summarise(await Promise.all(readers), seconds), summarise(await Promise.all(savers), seconds)];
+  }
+
+  /**
+   * Noisy neighbour: another firm sends evaluations that run to the deadline, as fast as it can on
+   * NOISY_CONNECTIONS connections, while this firm's writers save at the paced rate. Fair scheduling
+   * must keep this firm's save p95 under 500 ms; the noisy firm is told it is busy (429).
+   */
+  async function noisyPhase(seconds) {
+    for (const w of writers) w.version = (await json(`/sheets/${w.sheetId}`, { session: w.session })).data.version;
+    const registered = await json('/auth/register', { method: 'POST', body: { firmName: 'Noisy Neighbour Ltd', name: 'Noisy', email: `noisy-${Date.now()}@load.example`, password: 'noisy-neighbour-password' } });
+    const noisy = { cookie: registered.res.headers.get('set-cookie').split(';')[0], csrf: registered.data.csrfToken };
+    const runaway = { format: 'ampwright.sheet/1', title: 'Runaway', cells: [{ kind: 'calc', source: `M = ones(316, 316)\nP = ${Array.from({ length: 20 }, () => 'M').join(' * ')}` }] };
+    const noisyStatuses = new Map();
+    const flood = autocannon({
+      url: BASE,
+      connections: NOISY_CONNECTIONS,
+      duration: seconds,
+      skipAggregateResult: true,
+      requests: [
+        {
+          method: 'POST',
+          path: '/api/evaluate',
+          headers: { cookie: noisy.cookie, 'x-ampwright-csrf': noisy.csrf, 'content-type': 'application/json' },
+          body: JSON.stringify(runaway),
+          onResponse: (status) => noisyStatuses.set(status, (noisyStatuses.get(status) ?? 0) + 1),
+        },
+      ],
+    });
+    const pause = (k) => new Promise((r) => setTimeout(r, (k * 1000) / WRITERS));
+    const savers = writers.map(async (w, k) => {
+      await pause(k);
+      return autocannon({ url: BASE, connections: 1, duration: seconds, connectionRate: 1, skipAggregateResult: true, requests: [saveRequest(w)] });
+    });
+    const saves = summarise(await Promise.all(savers), seconds);
+    await flood;
+    return { saves, noisyStatuses };
   }
 
   const saturatedSeconds = Number(process.env.LOAD_SATURATED_SECONDS ?? 15);
@@ -158,6 +199,12 @@ main(async () => {
     log(`saturated: the same users with no pause, for ${saturatedSeconds} s`);
     saturated = await phase(saturatedSeconds, 0);
   }
+  let noisy;
+  if (NOISY_SECONDS > 0) {
+    log(`noisy neighbour: another firm floods evaluation on ${NOISY_CONNECTIONS} connections while the ${WRITERS} writers save, for ${NOISY_SECONDS} s`);
+    statuses.clear();
+    noisy = await noisyPhase(NOISY_SECONDS);
+  }
   const day = new Date().toISOString().slice(0, 10);
   process.stdout.write(`\nLoad, paced: ${READERS + WRITERS} users, each ${RATE} request(s) a second, for ${SECONDS} s on ${BASE} (${day}, ${cpus().length} cores)\n`);
   report('reads', r, 100);
@@ -167,6 +214,12 @@ main(async () => {
     process.stdout.write(`\nLoad, saturated (for information): the same users with no pause, for ${saturatedSeconds} s\n`);
     report('reads', saturated[0]);
     report('saves', saturated[1]);
+    if (statuses.size) process.stdout.write(`saves answered other than 200: ${[...statuses].map(([k, v]) => `${v} × ${k}`).join(', ')}\n`);
+  }
+  if (noisy) {
+    process.stdout.write(`\nLoad, noisy neighbour: another firm sends runaway evaluations on ${NOISY_CONNECTIONS} connections with no pause, for ${NOISY_SECONDS} s\n`);
+    report('saves', noisy.saves, 500);
+    process.stdout.write(`noisy firm's evaluations answered: ${[...noisy.noisyStatuses].sort().map(([k, v]) => `${v} × ${k}`).join(', ')}\n`);
     if (statuses.size) process.stdout.write(`saves answered other than 200: ${[...statuses].map(([k, v]) => `${v} × ${k}`).join(', ')}\n`);
   }
   return 0;

@@ -120,7 +120,7 @@ export class Environment {
 
   /** Evaluations one firm may have running or waiting; more are answered 429. */
   @Type(() => Number) @IsInt() @Min(1) @Max(1000)
-  EVALUATION_QUEUE_PER_FIRM = 12;
+  EVALUATION_QUEUE_PER_FIRM = 32;
 
   /** The built front end to serve; empty serves the API only. */
   @IsOptional() @IsString()
