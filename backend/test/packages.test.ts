@@ -8,6 +8,7 @@ import { EntityManager } from '@mikro-orm/core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ProjectClient } from '../src/projects/entities/project.entity';
 import { makeSelfSignedP12 } from '../src/packages/signing';
+import { evaluateSheet } from '@ampwright/common';
 import { buildPackageInWorker } from '../src/packages/build-in-worker';
 import { as, binary, makeCaller, type Caller } from './support/sessions';
 import { createTestApp } from './support/test-app';
@@ -86,6 +87,15 @@ describe('signed packages, the client portal and verification', () => {
     const [a, b] = await Promise.all([buildPackageInWorker(input), buildPackageInWorker(input)]);
     expect(a.length).toBeGreaterThan(10_000);
     expect(Buffer.compare(a, b)).toBe(0);
+  }, 60_000);
+
+  it('carries no link an author wrote through LaTeX in a string', async () => {
+    const revision = (await as(app, engineer, 'get', `/api/revisions/${revisionId}`)).body;
+    const hostile = { format: 'ampwright.sheet/1', title: 'Links', cells: [{ kind: 'calc', source: 'x = "\\href{https://evil.example/login}{see datasheet}"\ny = "\\rule{5000em}{5000em}"' }] };
+    const snapshot = { ...revision.snapshot, sheet: hostile, cellIds: ['c-1'], results: evaluateSheet(hostile).cells, queries: [], attachments: [] };
+    const made = await buildPackageInWorker({ revisionId, snapshot, history: [revision], attachments: [] });
+    const raw = made.toString('latin1');
+    expect(raw).not.toMatch(/\/URI|\/Subtype\s*\/Link|evil\.example/);
   }, 60_000);
 
   it('is signed: pdfsig (poppler) calls the signature valid and the document unmodified', () => {

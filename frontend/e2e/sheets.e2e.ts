@@ -7,7 +7,8 @@ describe('projects and sheets in a real browser', () => {
 
   it('creates a project and a sheet from the series RLC template, and shows its typeset results', async () => {
     const { page } = s;
-    await signIn(page, 'engineer@northfold.example', '/projects');
+    // A second engineer: the first signs in more than five times a minute across the other files (the per-account limit).
+    await signIn(page, 'engineer2@northfold.example', '/projects');
     await page.waitForURL(/\/projects$/);
     await page.getByRole('table', { name: 'Projects' }).getByText('NE-2417').waitFor();
     await newSheetFromTemplate(page, 'Series RLC branch: steady-state current at the supply frequency', 'C-900');

@@ -100,11 +100,6 @@ export class EvaluationPool {
     this.watch.unref();
   }
 
-  /** Process ids, for tests and diagnostics. */
-  pids(): number[] {
-    return [...this.children].map((c) => c.proc.pid).filter((p): p is number => p !== undefined);
-  }
-
   /** Holds a place for a tenant's task, or undefined when the tenant already holds all it may. */
   reserve(tenant: string): Reservation | undefined {
     if ((this.held.get(tenant) ?? 0) >= this.limits.perTenantQueued) return undefined;

@@ -89,11 +89,6 @@ export class EvaluationService implements OnModuleDestroy {
     return this.unwrap(await this.pool.run({ kind: 'certificate', p12: new Uint8Array(p12), password }, { tenant: firm }));
   }
 
-  /** Ids of the evaluation processes (the hostile-request tests check they are not the server). */
-  processIds(): number[] {
-    return this.pool.pids();
-  }
-
   private unwrap<T>(outcome: PoolOutcome<T>): T {
     if (!outcome.ok) throw this.failure(outcome.reason, outcome.message);
     return outcome.value;

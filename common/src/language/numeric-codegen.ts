@@ -103,7 +103,11 @@ export function compileSweepKernel(node: MathNode, variable: string, scope: Map<
         }
       }
       case 'FunctionNode': {
-        const name = String((n.fn as AnyNode).name);
+        // Only a plain function name is ever looked up (never a method or an accessor), and only in the
+        // fixed table below: nothing of the sheet's text is written into the generated code.
+        const fn = n.fn as AnyNode;
+        if (fn.type !== 'SymbolNode' || !/^[A-Za-z_][A-Za-z0-9_]*$/.test(String(fn.name))) throw new Unsupported();
+        const name = String(fn.name);
         const args = (n.args as MathNode[]).map(gen);
         if (args.length !== 1) throw new Unsupported();
         const [a] = args;

@@ -1,0 +1,53 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { SheetFile } from '@ampwright/common';
+import { EvaluationPool } from './evaluation-pool';
+
+const sheet = (source: string, more: SheetFile['cells'] = []): SheetFile => ({ format: 'ampwright.sheet/1', title: 'Pool', cells: [{ kind: 'calc', source }, ...more] });
+const RUNAWAY = sheet('M = ones(316, 316)\nP = M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M');
+const HOG = sheet(Array.from({ length: 600 }, (_, k) => `a_${k} = ones(100000)`).join('\n'));
+
+describe('EvaluationPool (child processes from dist/)', () => {
+  let pool: EvaluationPool;
+  beforeAll(() => {
+    pool = new EvaluationPool({ processes: 3, timeoutMs: 1500, waitMs: 1000, memoryMb: 128, perTenantRunning: 2, perTenantQueued: 4 });
+  });
+  afterAll(() => pool.close());
+
+  it('evaluates a sheet and keeps its cache in the process that evaluated it', async () => {
+    const first = await pool.run({ kind: 'evaluate', sheet: sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 2 ohm' }]), key: 's1' }, { tenant: 'a', key: 's1' });
+    expect(first.ok && first.value.evaluated).toEqual([0, 1]);
+    const second = await pool.run({ kind: 'evaluate', sheet: sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 4 ohm' }]), key: 's1' }, { tenant: 'a', key: 's1' });
+    expect(second.ok && second.value.evaluated).toEqual([1]);
+    expect(second.ok && (second.value.cells[1] as { values: Record<string, { si: number }> }).values.y.si).toBe(0.5);
+  });
+
+  it('stops a task at its deadline or memory cap in its own process, replaces the process, and carries on', async () => {
+    expect(await pool.run({ kind: 'evaluate', sheet: RUNAWAY }, { tenant: 'a' })).toMatchObject({ ok: false, reason: 'timeout' });
+    expect(await pool.run({ kind: 'evaluate', sheet: HOG }, { tenant: 'a' })).toMatchObject({ ok: false, reason: 'memory' });
+    const after = await pool.run({ kind: 'evaluate', sheet: sheet('x = 1 + 1') }, { tenant: 'a' });
+    expect(after.ok && after.value.cells[0].status).toBe('ok');
+  }, 20_000);
+
+  it('keeps a process free for another tenant while one floods, and tells the flooder it is busy', async () => {
+    const flood = Array.from({ length: 6 }, () => pool.run({ kind: 'evaluate', sheet: RUNAWAY }, { tenant: 'noisy' }));
+    await new Promise((r) => setTimeout(r, 100));
+    const started = Date.now();
+    const quiet = await pool.run({ kind: 'evaluate', sheet: sheet('x = 3 A') }, { tenant: 'quiet' });
+    expect(quiet.ok).toBe(true);
+    expect(Date.now() - started).toBeLessThan(1000);
+    const outcomes = await Promise.all(flood);
+    // Two run to their deadline, two wait past theirs, and two found the tenant's four places taken.
+    expect(outcomes.map((o) => (o.ok ? 'ok' : o.reason)).sort()).toEqual(['busy', 'busy', 'busy', 'busy', 'timeout', 'timeout']);
+  }, 20_000);
+
+  it('holds places by reservation, gives them back, and refuses a tenant whose places are all held', async () => {
+    const held = Array.from({ length: 4 }, () => pool.reserve('r'));
+    expect(held.every(Boolean)).toBe(true);
+    expect(pool.reserve('r')).toBeUndefined();
+    expect(await pool.run({ kind: 'evaluate', sheet: sheet('x = 1') }, { tenant: 'r' })).toMatchObject({ ok: false, reason: 'busy' });
+    const used = await pool.run({ kind: 'evaluate', sheet: sheet('x = 1') }, { tenant: 'r', reservation: held[0] });
+    expect(used.ok).toBe(true);
+    for (const r of held) r?.release();
+    expect(pool.reserve('r')).toBeDefined();
+  });
+});
