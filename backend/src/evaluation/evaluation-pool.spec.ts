@@ -8,9 +8,10 @@ const HOG = sheet(Array.from({ length: 600 }, (_, k) => `a_${k} = ones(100000)`)
 
 describe('EvaluationPool (child processes from dist/)', () => {
   let pool: EvaluationPool;
-  beforeAll(() => {
+  beforeAll(async () => {
     pool = new EvaluationPool({ processes: 3, timeoutMs: 1500, waitMs: 1000, memoryMb: 128, perTenantRunning: 2, perTenantQueued: 4 });
-  });
+    await pool.ready();
+  }, 30_000);
   afterAll(() => pool.close());
 
   it('evaluates a sheet and keeps its cache in the process that evaluated it', async () => {
@@ -29,6 +30,7 @@ describe('EvaluationPool (child processes from dist/)', () => {
   }, 20_000);
 
   it('keeps a process free for another tenant while one floods, and tells the flooder it is busy', async () => {
+    await pool.ready();
     const flood = Array.from({ length: 6 }, () => pool.run({ kind: 'evaluate', sheet: RUNAWAY }, { tenant: 'noisy' }));
     await new Promise((r) => setTimeout(r, 100));
     const started = Date.now();

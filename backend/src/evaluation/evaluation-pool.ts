@@ -100,6 +100,11 @@ export class EvaluationPool {
     this.watch.unref();
   }
 
+  /** Resolves once every process has loaded the engine (a task's deadline starts only then anyway). */
+  async ready(): Promise<void> {
+    while (!this.closed && [...this.children].some((c) => !c.ready)) await new Promise((r) => setTimeout(r, 20));
+  }
+
   /** Holds a place for a tenant's task, or undefined when the tenant already holds all it may. */
   reserve(tenant: string): Reservation | undefined {
     if ((this.held.get(tenant) ?? 0) >= this.limits.perTenantQueued) return undefined;
