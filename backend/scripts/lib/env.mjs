@@ -33,7 +33,9 @@ export function appEnvironment(overrides = {}) {
   const s = { ...settings, ...overrides };
   return {
     ...process.env,
-    NODE_ENV: process.env.NODE_ENV ?? 'production',
+    // The local demo is not production: production refuses the local-only secrets and the demo accounts
+    // this command sets up (backend/src/config/environment.ts).
+    NODE_ENV: process.env.NODE_ENV ?? 'development',
     APP_HOST: s.appHost,
     APP_PORT: String(s.appPort),
     DB_HOST: s.dbHost,
