@@ -15,3 +15,4 @@ export type { QueryDto, QueryMessageDto, QueryStatus, RevisionSummaryDto, DiffDt
 export { diffCells, type CellDiff, type SnapshotCell } from './review/diff';
 export { revisionCode, canonicalJson } from './review/revision-code';
 export type { PackageStatusDto, PortalRevisionDto, VerdictDto, CertificateDto } from './api/packages';
+export { runWithDeadline } from './language/deadline';

@@ -22,7 +22,7 @@ describe('EvaluationPool (child processes from dist/)', () => {
     expect(second.ok && (second.value.cells[1] as { values: Record<string, { si: number }> }).values.y.si).toBe(0.5);
   });
 
-  it('stops a task at its deadline or memory cap in its own process, replaces the process, and carries on', async () => {
+  it('stops a task at its deadline (the process lives on) or past its memory cap (the process is replaced), and carries on', async () => {
     expect(await pool.run({ kind: 'evaluate', sheet: RUNAWAY }, { tenant: 'a' })).toMatchObject({ ok: false, reason: 'timeout' });
     expect(await pool.run({ kind: 'evaluate', sheet: HOG }, { tenant: 'a' })).toMatchObject({ ok: false, reason: 'memory' });
     const after = await pool.run({ kind: 'evaluate', sheet: sheet('x = 1 + 1') }, { tenant: 'a' });

@@ -52,6 +52,13 @@ interface Child {
 
 /** How long a sheet's evaluation may wait for the process holding its cache (a fresh one costs more). */
 const AFFINITY_WAIT_MS = 50;
+/**
+ * An evaluation stops itself at its deadline and the process lives on (common/src/language/deadline.ts);
+ * one that does not (a single long operation) has its process killed this much later.
+ */
+const HARD_GRACE_MS = 1000;
+/** A tenant whose task ran to its deadline or out of memory runs one task at a time for this long. */
+const PENALTY_MS = 30_000;
 const MEMORY_WORDS = /heap out of memory|Reached heap limit|Allocation failed|Invalid (array|string|typed array) length|Array buffer allocation failed/i;
 const PAGE_BYTES = 4096;
 
@@ -89,6 +96,8 @@ export class EvaluationPool {
   private readonly held = new Map<string, number>();
   /** The process that last evaluated each sheet (it holds that sheet's cache); bounded, oldest dropped. */
   private readonly lastChild = new Map<string, Child>();
+  /** Tenants whose tasks recently had to be stopped, with until when they run one task at a time. */
+  private readonly penalised = new Map<string, number>();
   private retry: NodeJS.Timeout | undefined;
   private watch: NodeJS.Timeout | undefined;
   private nextId = 1;
@@ -199,7 +208,11 @@ export class EvaluationPool {
       clearTimeout(child.timer);
       child.job = undefined;
       this.ran(job.tenant, -1);
-      job.resolve(msg.ok ? { ok: true, value: msg.value } : { ok: false, reason: 'crash', message: msg.message });
+      if (msg.ok) job.resolve({ ok: true, value: msg.value });
+      else if (msg.timeout) {
+        this.penalised.set(job.tenant, Date.now() + PENALTY_MS);
+        job.resolve({ ok: false, reason: 'timeout', message: this.tookTooLong() });
+      } else job.resolve({ ok: false, reason: 'crash', message: msg.message });
       this.dispatch();
     });
     proc.on('error', () => this.stop(child, { reason: 'crash', message: 'the evaluation process could not be reached' }));
@@ -222,6 +235,7 @@ export class EvaluationPool {
     child.job = undefined;
     if (job) {
       this.ran(job.tenant, -1);
+      if (child.stoppedFor?.reason === 'timeout' || child.stoppedFor?.reason === 'memory' || MEMORY_WORDS.test(child.stderr)) this.penalised.set(job.tenant, Date.now() + PENALTY_MS);
       const why =
         child.stoppedFor ??
         (MEMORY_WORDS.test(child.stderr)
@@ -231,6 +245,10 @@ export class EvaluationPool {
     }
     if (!this.closed) this.spawn();
     this.dispatch();
+  }
+
+  private tookTooLong(): string {
+    return `it took longer than ${this.limits.timeoutMs / 1000} s`;
   }
 
   private ran(tenant: string, delta: number): void {
@@ -255,13 +273,22 @@ export class EvaluationPool {
     }
   }
 
+  /** How many tasks a tenant may run at once: one while it is penalised for tasks that had to be stopped. */
+  private runningCap(tenant: string): number {
+    const until = this.penalised.get(tenant);
+    if (until === undefined) return this.limits.perTenantRunning;
+    if (until > Date.now()) return 1;
+    this.penalised.delete(tenant);
+    return this.limits.perTenantRunning;
+  }
+
   /** The next job to start: from the tenant with the fewest running, oldest first, waiting briefly for a cache's process. */
   private pick(idle: Child[]): { job: Job; child: Child } | { wait: true } | undefined {
     let best: Job | undefined;
     let waiting = false;
     for (const job of this.queue) {
       const running = this.running.get(job.tenant) ?? 0;
-      if (running >= this.limits.perTenantRunning) continue;
+      if (running >= this.runningCap(job.tenant)) continue;
       if (best && running >= (this.running.get(best.tenant) ?? 0)) continue;
       const home = job.key ? this.lastChild.get(job.key) : undefined;
       if (home && home.job && this.children.has(home) && Date.now() - job.queuedAt < AFFINITY_WAIT_MS) {
@@ -272,7 +299,11 @@ export class EvaluationPool {
     }
     if (!best) return waiting ? { wait: true } : undefined;
     const home = best.key ? this.lastChild.get(best.key) : undefined;
-    const child = home && idle.includes(home) ? home : idle[idle.length - 1];
+    if (home && idle.includes(home)) return { job: best, child: home };
+    // Elsewhere: the idle process holding the fewest sheets' caches, so other sheets keep theirs.
+    const holding = new Map<Child, number>();
+    for (const c of this.lastChild.values()) holding.set(c, (holding.get(c) ?? 0) + 1);
+    const child = idle.reduce((a, b) => ((holding.get(b) ?? 0) < (holding.get(a) ?? 0) ? b : a));
     return { job: best, child };
   }
 
@@ -300,8 +331,8 @@ export class EvaluationPool {
       }
       child.job = job;
       this.ran(job.tenant, +1);
-      child.timer = setTimeout(() => this.stop(child, { reason: 'timeout', message: `it took longer than ${this.limits.timeoutMs / 1000} s` }), this.limits.timeoutMs);
-      child.proc.send({ id: job.id, task: job.task }, (err) => {
+      child.timer = setTimeout(() => this.stop(child, { reason: 'timeout', message: this.tookTooLong() }), this.limits.timeoutMs + HARD_GRACE_MS);
+      child.proc.send({ id: job.id, task: job.task, timeoutMs: this.limits.timeoutMs }, (err) => {
         if (err) this.stop(child, { reason: 'crash', message: 'the evaluation process could not be reached' });
       });
     }

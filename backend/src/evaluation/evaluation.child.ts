@@ -6,17 +6,21 @@
  * so a cold or lost cache gives the same results, just later (common/src/cells/incremental.spec.ts).
  * The process holds no secret of the server (its environment is emptied) and exits with its parent.
  */
-import { csvToTableCell, ENGINE_VERSION, evaluateSheet, type EvaluationCache } from '@ampwright/common';
+import { csvToTableCell, ENGINE_VERSION, evaluateSheet, runWithDeadline, type EvaluationCache } from '@ampwright/common';
 import { isPlainText } from '../files/plain-text';
 import type { SandboxReply, SandboxRequest, SandboxTask, TaskResults } from './sandbox-protocol';
 
 const KEPT = 64;
 const caches = new Map<string, EvaluationCache>();
 
-function evaluate(task: Extract<SandboxTask, { kind: 'evaluate' }>): TaskResults['evaluate'] {
+class Stopped extends Error {}
+
+function evaluate(task: Extract<SandboxTask, { kind: 'evaluate' }>, timeoutMs: number): TaskResults['evaluate'] {
   const previous = task.key ? caches.get(task.key) : undefined;
   if (task.key) caches.delete(task.key); // kept again only if this evaluation finishes
-  const evaluation = evaluateSheet(task.sheet, previous);
+  const outcome = runWithDeadline(Date.now() + timeoutMs, () => evaluateSheet(task.sheet, previous));
+  if (outcome.passed) throw new Stopped();
+  const evaluation = outcome.value;
   if (task.key) {
     caches.set(task.key, evaluation.cache);
     if (caches.size > KEPT) caches.delete(caches.keys().next().value as string);
@@ -34,10 +38,10 @@ async function certificate(task: Extract<SandboxTask, { kind: 'certificate' }>):
   }
 }
 
-async function run(task: SandboxTask): Promise<TaskResults[SandboxTask['kind']]> {
+async function run(task: SandboxTask, timeoutMs: number): Promise<TaskResults[SandboxTask['kind']]> {
   switch (task.kind) {
     case 'evaluate':
-      return evaluate(task);
+      return evaluate(task, timeoutMs);
     case 'csv':
       return isPlainText(task.bytes) ? csvToTableCell(Buffer.from(task.bytes).toString('utf8')) : { ok: false, binary: true };
     case 'certificate':
@@ -48,9 +52,9 @@ async function run(task: SandboxTask): Promise<TaskResults[SandboxTask['kind']]>
 const reply = (message: SandboxReply) => process.send?.(message);
 
 process.on('message', (message: SandboxRequest) => {
-  run(message.task).then(
+  run(message.task, message.timeoutMs).then(
     (value) => reply({ id: message.id, ok: true, value }),
-    (err: Error) => reply({ id: message.id, ok: false, message: err.message }),
+    (err: Error) => reply(err instanceof Stopped ? { id: message.id, ok: false, message: 'stopped at its deadline', timeout: true } : { id: message.id, ok: false, message: err.message }),
   );
 });
 // The server went away (or was killed): nothing is left running.

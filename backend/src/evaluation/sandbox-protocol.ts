@@ -26,6 +26,12 @@ export type TaskOf<K extends TaskKind> = Extract<SandboxTask, { kind: K }>;
 export interface SandboxRequest {
   id: number;
   task: SandboxTask;
+  /** The soft deadline of an evaluation, in ms from now: past it the sheet stops by itself and the process lives on. */
+  timeoutMs: number;
 }
 
-export type SandboxReply = { ready: true } | { id: number; ok: true; value: TaskResults[TaskKind] } | { id: number; ok: false; message: string };
+export type SandboxReply =
+  | { ready: true }
+  | { id: number; ok: true; value: TaskResults[TaskKind] }
+  /** `timeout`: the evaluation stopped itself at its soft deadline. */
+  | { id: number; ok: false; message: string; timeout?: true };

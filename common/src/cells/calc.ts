@@ -4,6 +4,7 @@
  */
 import type { MathNode } from 'mathjs';
 import type { CalcCell } from '../sheet/sheet-format';
+import { checkDeadline } from '../language/deadline';
 import { EngineError, type Diagnostic } from '../language/errors';
 import { checkNames, evaluateNode, normalizeSource, parseExpression, valueNames } from '../language/expression';
 import { displayTex, expressionTex, variableTex } from '../tex/tex';
@@ -86,6 +87,7 @@ export function evaluateCalcCell(cell: CalcCell, cellIndex: number, scope: Sheet
     const place = { cell: cellIndex, line: lineNo };
     let statement: ParsedStatement | undefined;
     try {
+      checkDeadline(true);
       statement = parseStatement(text, lineNo, valueNames(scope));
       if (!statement) return;
       const { name, expression, target, description, code } = statement;

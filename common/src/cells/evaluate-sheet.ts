@@ -3,6 +3,7 @@
  * its content changed or a value it read from above changed; otherwise its previous result and
  * definitions are reused. The cache is plain data, so a caller can keep it between edits.
  */
+import { checkDeadline } from '../language/deadline';
 import type { Cell, SheetFile } from '../sheet/sheet-format';
 import { DEFAULT_DISPLAY, formatValue, type DisplayOptions } from '../units/display';
 import { evaluateCalcCell } from './calc';
@@ -82,6 +83,7 @@ export function displayOptionsOf(sheet: Pick<SheetFile, 'settings'>): DisplayOpt
 }
 
 function evaluateCell(cell: Cell, index: number, scope: SheetScope, display: DisplayOptions): CellResult {
+  checkDeadline(true);
   switch (cell.kind) {
     case 'calc':
       return evaluateCalcCell(cell, index, scope, display);

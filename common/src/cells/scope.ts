@@ -31,7 +31,9 @@ export function freezeValue<T>(value: T): T {
     if (Array.isArray(v)) {
       for (let k = 0; k < v.length; k++) if (typeof v[k] === 'object') visit(v[k]);
     } else {
-      for (const key in v) if (Object.prototype.hasOwnProperty.call(v, key)) visit((v as Record<string, unknown>)[key]);
+      // Own properties only (a Unit's prototype has dozens of enumerable methods).
+      const record = v as Record<string, unknown>;
+      for (const key of Object.keys(record)) if (typeof record[key] === 'object') visit(record[key]);
     }
     Object.freeze(v);
   };

@@ -6,6 +6,7 @@
 import type { Unit as MathUnit } from 'mathjs';
 import { circuitFunctions } from '../circuits/functions';
 import { dropRidingAngle } from '../units/quantities';
+import { checkDeadline } from './deadline';
 import { checkCombined, disableUnsafeFunctions, math, withValue } from './math';
 
 const typed = math.typed;
@@ -29,6 +30,7 @@ const withRidingAngleDropped = (name: 'add' | 'subtract' | 'smaller' | 'larger' 
     'Unit, number | Complex': (a: MathUnit, b: unknown) => original(a, plainAsAngle(b, a)),
     'any, any': (a: unknown, b: unknown) => {
       if (typeof a === 'object' && typeof b === 'object') checkCombined([a, b]);
+      else checkDeadline();
       return original(a, b);
     },
   });

@@ -4,6 +4,7 @@
  * and everything that could reach outside a sheet (import, createUnit, evaluate, parse, ...) is
  * disabled inside expressions, as mathjs's security notes advise. Host code keeps its own references.
  */
+import { checkDeadline } from './deadline';
 import { all, create, type MathJsInstance, type MathNode, type Unit as MathUnit } from 'mathjs';
 
 export const math: MathJsInstance = create(all, { number: 'number', precision: 64 });
@@ -85,6 +86,7 @@ const countOf = (x: unknown) => dimsOf(x)?.reduce((a, b) => a * b, 1) ?? 1;
  * allocates anything.
  */
 export function checkCombined(args: unknown[]): void {
+  checkDeadline(true); // matrix operations are costly: the clock is read at each one
   const all = args.map(dimsOf).filter((d): d is number[] => d !== undefined);
   if (all.length < 2) return;
   const rank = Math.max(...all.map((d) => d.length));
@@ -205,6 +207,7 @@ math.import(
         typed(name, {
           'any, any': (a: unknown, b: unknown) => {
             if (typeof a === 'object' && typeof b === 'object') checkCombined([a, b]);
+            else checkDeadline();
             return original(a, b);
           },
           'any, any, ...any': (a: unknown, b: unknown, rest: unknown[]) => {
