@@ -8,7 +8,7 @@ export { CIRCUIT_FUNCTION_NAMES } from './circuits/functions';
 export { analyticSolution, numericSolution, dampingOf } from './circuits/transient';
 export { toContractJson, type ContractOutput } from './cells/contract';
 export { csvToTableCell, type CsvTableResult } from './sheet/csv-table';
-export type { AttachmentDto, ProjectPeopleDto, CellDto, ProjectDto, SaveResultDto, SheetDto, SheetState, SheetSummaryDto, TemplateSummaryDto } from './api/projects';
+export type { AttachmentDto, CoPreparersBody, ProjectPeopleDto, CellDto, ProjectDto, SaveResultDto, SheetDto, SheetState, SheetSummaryDto, TemplateSummaryDto } from './api/projects';
 export { MIN_PASSWORD_LENGTH } from './api/accounts';
 export { sweepChart, transientChart, calcFigures, type CalcFigure } from './plot/index';
 export type { QueryDto, QueryMessageDto, QueryStatus, RevisionSummaryDto, DiffDto, HistoryEventDto, NotificationDto } from './api/review';

@@ -42,3 +42,21 @@ export function requirePreparer(auth: AuthContext, sheet: Sheet, action: string)
 export function requireNotPreparer(auth: AuthContext, sheet: Sheet, action: string): void {
   if (isUser(auth, sheet.preparer)) throw new AppException(ReviewErrorCode.NotIndependent, `You prepared this sheet, so you cannot ${action}: checking and approval are done by someone else.`, HttpStatus.FORBIDDEN);
 }
+
+/**
+ * Independent checking (common practice): the checker is none of the revision's authors (its preparer,
+ * co-preparers and anyone whose save was stored); the approver is none of them and not the checker.
+ */
+export function requireIndependent(role: 'checker' | 'approver', person: { id: string; name: string }, authors: ReadonlySet<string>, checkerId?: string): void {
+  if (authors.has(person.id)) {
+    throw new AppException(
+      ReviewErrorCode.NotIndependent,
+      `${person.name} prepared or edited this revision, so cannot ${role === 'checker' ? 'check' : 'approve'} it: choose someone who had no hand in it.`,
+      HttpStatus.BAD_REQUEST,
+      [{ field: `${role}Id`, message: `${person.name} prepared or edited this revision` }],
+    );
+  }
+  if (role === 'approver' && person.id === checkerId) {
+    throw new AppException(ReviewErrorCode.NotIndependent, `${person.name} is this sheet's checker, so cannot also approve it: the approver is a third person.`, HttpStatus.BAD_REQUEST, [{ field: 'approverId', message: 'the checker cannot approve the sheet they checked' }]);
+  }
+}

@@ -3,7 +3,8 @@
  * the checker to the preparer. Each move locks the sheet's row (SELECT … FOR UPDATE) and checks the
  * state inside that lock, so of two people acting at once one wins and the other is told why.
  */
-import { EntityManager, LockMode } from '@mikro-orm/core';
+import { LockMode } from '@mikro-orm/core';
+import { EntityManager } from '@mikro-orm/mariadb';
 import { HttpStatus, Injectable } from '@nestjs/common';
 import { AuditService } from '../audit/audit.service';
 import type { AuditType } from '../audit/entities/audit-event.entity';
@@ -21,7 +22,8 @@ import type { NoteDto, RequestCheckDto } from './dto/review.dto';
 import { CellQuery } from './entities/cell-query.entity';
 import { Revision } from './entities/revision.entity';
 import { PackageJob } from '../packages/entities/package-job.entity';
-import { isUser, requireChecker, requireNotPreparer, requirePreparer, requireState, ReviewErrorCode } from './review-access';
+import { notIndependent } from '../sheets/sheet-authors';
+import { isUser, requireChecker, requireIndependent, requireNotPreparer, requirePreparer, requireState, ReviewErrorCode } from './review-access';
 import { RevisionsService } from './revisions.service';
 
 @Injectable()
@@ -69,13 +71,18 @@ export class WorkflowService {
   }
 
   async requestCheck(auth: AuthContext, id: string, dto: RequestCheckDto) {
-    const { sheet } = await this.locked(auth, id, async (s) => {
+    const { sheet } = await this.locked(auth, id, async (s, em) => {
       requireState(s, ['being-prepared'], 'ask for a check');
       requirePreparer(auth, s, 'ask for a check');
-      if (dto.checkerId === s.preparer.id) throw new AppException(ReviewErrorCode.NotIndependent, 'The checker cannot be the sheet\'s preparer: choose someone else to check it.', HttpStatus.BAD_REQUEST, [{ field: 'checkerId', message: 'the preparer cannot check their own sheet' }]);
-      if (dto.approverId === s.preparer.id) throw new AppException(ReviewErrorCode.NotIndependent, 'The approver cannot be the sheet\'s preparer.', HttpStatus.BAD_REQUEST, [{ field: 'approverId', message: 'the preparer cannot approve their own sheet' }]);
-      s.checker = await this.member(auth, dto.checkerId, 'checker', 'checker');
-      if (dto.approverId) s.approver = await this.member(auth, dto.approverId, 'approver', 'approver');
+      const authors = await notIndependent(em, s);
+      const checker = await this.member(auth, dto.checkerId, 'checker', 'checker');
+      requireIndependent('checker', checker, authors);
+      s.checker = checker;
+      if (dto.approverId) {
+        const approver = await this.member(auth, dto.approverId, 'approver', 'approver');
+        requireIndependent('approver', approver, authors, checker.id);
+        s.approver = approver;
+      } else if (s.approver) requireIndependent('approver', s.approver, authors, checker.id);
       s.state = 'with-checker';
       s.checkRequestedAt = new Date();
       s.checkedAt = undefined;
@@ -100,6 +107,7 @@ export class WorkflowService {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
       requireState(s, ['with-checker'], 'pass the check');
       requireChecker(auth, s, 'pass the check');
+      requireIndependent('checker', s.checker!, await notIndependent(em, s));
       const open = await em.count(CellQuery, { sheet: s, revisionNumber: s.revisionNumber, status: { $ne: 'closed' } });
       if (open) throw new AppException(ReviewErrorCode.OpenQueries, `The check cannot pass while ${open} ${open === 1 ? 'query is' : 'queries are'} not closed.`, HttpStatus.CONFLICT);
       s.state = 'checked';
@@ -111,10 +119,11 @@ export class WorkflowService {
   }
 
   async approve(auth: AuthContext, id: string) {
-    const { sheet } = await this.locked(auth, id, async (s) => {
+    const { sheet } = await this.locked(auth, id, async (s, em) => {
       requireState(s, ['checked'], 'approve the sheet');
       requireNotPreparer(auth, s, 'approve it');
       if (s.approver && !isUser(auth, s.approver)) throw new AppException(ReviewErrorCode.NotYours, `The sheet is to be approved by ${s.approver.name}.`, HttpStatus.FORBIDDEN);
+      requireIndependent('approver', { id: auth.session.user.id, name: auth.session.user.name }, await notIndependent(em, s), s.checker?.id);
       s.approver = this.em.getReference(User, auth.session.user.id);
       s.state = 'approved';
       s.approvedAt = new Date();
@@ -130,6 +139,7 @@ export class WorkflowService {
       requireState(s, ['approved'], 'issue a revision');
       requireNotPreparer(auth, s, 'issue it');
       if (!isUser(auth, s.approver)) throw new AppException(ReviewErrorCode.NotYours, `Only the approver${s.approver ? ` (${s.approver.name})` : ''} can issue the sheet.`, HttpStatus.FORBIDDEN);
+      requireIndependent('approver', s.approver!, await notIndependent(em, s), s.checker?.id);
       const revision = await this.revisions.freeze(em, s);
       // The signed package is made by a worker, off this request (see PackagesService).
       em.persist(new PackageJob(revision));

@@ -1,4 +1,4 @@
-import { Body, Controller, Delete, Get, HttpCode, Param, ParseIntPipe, ParseUUIDPipe, Patch, Post, Query, UploadedFile, UseInterceptors } from '@nestjs/common';
+import { Body, Controller, Delete, Get, HttpCode, Param, ParseIntPipe, ParseUUIDPipe, Patch, Post, Put, Query, UploadedFile, UseInterceptors } from '@nestjs/common';
 import { FileInterceptor } from '@nestjs/platform-express';
 import type { SheetFile } from '@ampwright/common';
 import { Roles } from '../core/decorators/access.decorator';
@@ -6,7 +6,7 @@ import { CurrentAuth } from '../core/decorators/current-auth.decorator';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { MEMBER_ROLES, SHEET_EDITORS } from '../core/roles';
 import { UPLOAD_OPTIONS } from '../files/uploads';
-import { AddCellDto, CreateSheetDto, ImportCsvDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
+import { AddCellDto, CoPreparersDto, CreateSheetDto, ImportCsvDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
 import { SheetsService, type SaveResult, type SheetView } from './sheets.service';
 
 @Controller()
@@ -43,6 +43,13 @@ export class SheetsController {
   @Patch('sheets/:id')
   update(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Body() dto: UpdateSheetDto): Promise<SaveResult> {
     return this.sheets.update(auth, id, dto);
+  }
+
+  /** The preparer names the revision's co-preparers (who may edit it, and then neither check nor approve it). */
+  @Roles(...SHEET_EDITORS)
+  @Put('sheets/:id/co-preparers')
+  setCoPreparers(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Body() dto: CoPreparersDto): Promise<SheetView> {
+    return this.sheets.setCoPreparers(auth, id, dto);
   }
 
   @Roles(...SHEET_EDITORS)

@@ -6,9 +6,11 @@ import { cellSchema, parseSheetFile, revisionCode, SHEET_FORMAT, unevaluatedResu
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService, type Reservation } from '../evaluation/evaluation.service';
+import { Membership } from '../firms/entities/membership.entity';
+import { authorsOf, nameCoPreparers, recordEdit } from './sheet-authors';
 import { ProjectsService } from '../projects/projects.service';
 import { TemplatesService } from '../templates/templates.service';
-import type { AddCellDto, CreateSheetDto, ImportCsvDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
+import type { AddCellDto, CoPreparersDto, CreateSheetDto, ImportCsvDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
 import { Cell } from './entities/cell.entity';
 import { Sheet, type SheetState } from './entities/sheet.entity';
 import { sheetFromFile } from './sheet-file';
@@ -22,6 +24,7 @@ export enum SheetErrorCode {
   ReadOnly = 'SHEET_READ_ONLY',
   BadCell = 'INVALID_CELL',
   NotIndependent = 'NOT_INDEPENDENT',
+  NotPreparer = 'NOT_PREPARER',
   HasRevisions = 'SHEET_HAS_REVISIONS',
 }
 
@@ -76,6 +79,17 @@ interface SheetRow {
   approver_id: string | null;
   approver_name: string | null;
   open_queries: number | bigint | string;
+  /** JSON array of {id, name, named} from sheet_author, or null. */
+  authors: unknown;
+}
+
+/** The co-preparers, and everyone who may not check or approve the revision (preparer, co-preparers, editors). */
+function authorFields(preparerId: string, raw: unknown): Pick<SheetView, 'coPreparers' | 'authorIds'> {
+  const authors = ((raw === null || raw === undefined ? [] : parsedJson(raw)) ?? []) as { id: string; name: string; named: number | boolean }[];
+  return {
+    coPreparers: authors.filter((a) => a.named).map((a) => ({ id: a.id, name: a.name })).sort((a, b) => a.name.localeCompare(b.name)),
+    authorIds: [preparerId, ...authors.map((a) => a.id)],
+  };
 }
 
 /** What a change did: the ids of the cells it touched, and of those it removed. */
@@ -125,14 +139,40 @@ export class SheetsService {
     return this.find(auth, id);
   }
 
-  /** A sheet the caller may change: of their firm, and still being prepared or with the checker. */
+  /**
+   * A sheet the caller may change: of their firm, still being prepared or with the checker, and the
+   * caller one of its preparers (the preparer, or a co-preparer the preparer named for this revision).
+   */
   async findEditable(auth: AuthContext, id: string): Promise<Sheet> {
     const sheet = await this.find(auth, id);
     this.assertEditable(sheet);
-    if ((sheet.checker?.id === auth.session.user.id || sheet.approver?.id === auth.session.user.id) && sheet.preparer.id !== auth.session.user.id) {
+    const uid = auth.session.user.id;
+    if (sheet.preparer.id === uid) return sheet;
+    if (sheet.checker?.id === uid || sheet.approver?.id === uid) {
       throw new AppException(SheetErrorCode.NotIndependent, 'You are this sheet\'s checker or approver, so you do not edit it: raise a query for the preparer instead.', HttpStatus.FORBIDDEN);
     }
+    const named = (await authorsOf(this.em, sheet.id, sheet.revisionNumber)).some((a) => a.userId === uid && a.named);
+    if (!named) {
+      throw new AppException(SheetErrorCode.NotPreparer, `Only this sheet's preparers change it: ${sheet.preparer.name}, and the co-preparers ${sheet.preparer.name} names. Ask to be named co-preparer (then you cannot check or approve this revision).`, HttpStatus.FORBIDDEN);
+    }
     return sheet;
+  }
+
+  /** The preparer names the co-preparers of the revision being prepared: members of the firm with the engineer role. */
+  async setCoPreparers(auth: AuthContext, id: string, dto: CoPreparersDto): Promise<SheetView> {
+    const sheet = await this.find(auth, id);
+    this.assertEditable(sheet);
+    if (sheet.preparer.id !== auth.session.user.id) throw new AppException(SheetErrorCode.NotPreparer, `Only the sheet's preparer (${sheet.preparer.name}) names its co-preparers.`, HttpStatus.FORBIDDEN);
+    const ids = [...new Set(dto.userIds)].filter((u) => u !== sheet.preparer.id);
+    const members = ids.length ? await this.em.find(Membership, { firm: auth.session.firm, user: { $in: ids } }) : [];
+    for (const uid of ids) {
+      const m = members.find((x) => x.user.id === uid);
+      if (!m || !m.roles.includes('engineer')) throw new AppException(ErrorCode.ValidationFailed, 'A co-preparer must be a member of the firm with the engineer role.', HttpStatus.BAD_REQUEST, [{ field: 'userIds', message: `${uid} is not an engineer of the firm` }]);
+      if (uid === sheet.checker?.id || uid === sheet.approver?.id) throw new AppException(SheetErrorCode.NotIndependent, 'The sheet\'s checker or approver cannot be a co-preparer of it.', HttpStatus.BAD_REQUEST, [{ field: 'userIds', message: 'the checker or approver cannot prepare the sheet' }]);
+    }
+    await this.em.transactional((em) => nameCoPreparers(em, sheet.id, sheet.revisionNumber, ids));
+    await this.audit.record('co-preparers-named', { firmId: auth.session.firm.id, userId: auth.session.user.id, subjectId: id, detail: { sheet: sheet.number, coPreparers: ids } });
+    return this.view(auth, id);
   }
 
   private assertEditable(sheet: Sheet): void {
@@ -165,7 +205,9 @@ export class SheetsService {
     const [s] = await this.em.execute<SheetRow[]>(
       `select s.id, s.project_id, s.number, s.title, s.settings, s.state, s.version, s.engine_version, s.revision_number,
               s.preparer_id, pu.name as preparer_name, s.checker_id, cu.name as checker_name, s.approver_id, au.name as approver_name,
-              (select count(*) from cell_query q where q.sheet_id = s.id and q.revision_number = s.revision_number and q.status <> 'closed') as open_queries
+              (select count(*) from cell_query q where q.sheet_id = s.id and q.revision_number = s.revision_number and q.status <> 'closed') as open_queries,
+              (select json_arrayagg(json_object('id', a.user_id, 'name', au2.name, 'named', a.named)) from sheet_author a join app_user au2 on au2.id = a.user_id
+                where a.sheet_id = s.id and a.revision_number = s.revision_number) as authors
          from sheet s
          join project p on p.id = s.project_id
          join app_user pu on pu.id = s.preparer_id
@@ -191,6 +233,7 @@ export class SheetsService {
       revisionNumber: s.revision_number,
       revisionCode: revisionCode(s.revision_number),
       openQueries: Number(s.open_queries),
+      ...authorFields(s.preparer_id, s.authors),
       cells: await this.cellViews(s.id),
     };
   }
@@ -286,11 +329,16 @@ export class SheetsService {
     let contents: CellContent[] = [];
     let current = sheet;
     await this.em.transactional(async (em) => {
-      const raised = await em.nativeUpdate(Sheet, { id: sheet.id, version }, { version: version + 1 });
+      // The state check and the version bump in one statement: a save cannot land on a sheet that has
+      // just been passed or approved.
+      const raised = await em.nativeUpdate(Sheet, { id: sheet.id, version, state: { $in: EDITABLE } }, { version: version + 1 });
       if (raised === 0) {
+        const [now] = await em.execute<{ state: SheetState }[]>('select state from sheet where id = ?', [sheet.id]);
+        if (now && !EDITABLE.includes(now.state)) this.assertEditable({ ...sheet, state: now.state } as Sheet);
         throw new AppException(SheetErrorCode.StaleVersion, 'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.', HttpStatus.CONFLICT, undefined);
       }
       current = await em.findOneOrFail(Sheet, sheet.id);
+      if (auth.session.user.id !== current.preparer.id) await recordEdit(em, sheet.id, current.revisionNumber, auth.session.user.id);
       // Results are not loaded: they are computed afresh below, and stored apart from the change.
       applied = await apply(current, em, () => em.find(Cell, { sheet }, { orderBy: { position: 'asc' }, exclude: ['results'] }));
       await em.flush();

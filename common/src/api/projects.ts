@@ -59,7 +59,19 @@ export interface SheetDto {
   revisionCode: string;
   revisionNumber: number;
   openQueries: number;
+  /** Co-preparers the preparer named for this revision: they may edit it. */
+  coPreparers: { id: string; name: string }[];
+  /**
+   * Everyone who prepared this revision — the preparer, the co-preparers, anyone whose save was stored:
+   * none of them may check or approve it.
+   */
+  authorIds: string[];
   cells: CellDto[];
+}
+
+/** PUT /api/sheets/:id/co-preparers: the named co-preparers of the revision being prepared (replaces the list). */
+export interface CoPreparersBody {
+  userIds: string[];
 }
 
 /** The answer to a saved change: the sheet's new version and the cells whose content or results changed. */

@@ -14,7 +14,7 @@ function serve(roles: string[] | null) {
     vi.fn(async (url: string) => {
       if (url.endsWith('/api/health')) return new Response(JSON.stringify(health));
       if (url.endsWith('/api/auth/me')) return roles ? new Response(JSON.stringify(me(roles))) : new Response(JSON.stringify({ statusCode: 401, code: 'UNAUTHENTICATED', message: 'Sign in to continue.' }), { status: 401 });
-      if (url.endsWith('/api/sheets/s1')) return new Response(JSON.stringify({ id: 's1', projectId: 'p1', number: 'C-1', title: 'Probe sheet', settings: {}, state: 'being-prepared', version: 1, engineVersion: '0', preparer: { id: 'u1', name: 'Probe Person' }, checker: null, approver: null, revisionCode: 'A', revisionNumber: 1, openQueries: 0, cells: [] }));
+      if (url.endsWith('/api/sheets/s1')) return new Response(JSON.stringify({ id: 's1', projectId: 'p1', number: 'C-1', title: 'Probe sheet', settings: {}, state: 'being-prepared', version: 1, engineVersion: '0', preparer: { id: 'u1', name: 'Probe Person' }, checker: null, approver: null, revisionCode: 'A', revisionNumber: 1, openQueries: 0, coPreparers: [], authorIds: ['u1'], cells: [] }));
       return new Response('[]');
     }),
   );

@@ -23,6 +23,7 @@ const EVENT_WORDS: Record<string, string> = {
   'query-closed': 'closed a query',
   'cell-agreed': 'agreed a cell',
   'agreement-withdrawn': 'withdrew an agreement',
+  'co-preparers-named': 'named the co-preparers',
 };
 
 export function SheetHistoryPage() {

@@ -35,7 +35,9 @@ export function SheetPage() {
   if (!s || !me) return null;
   const mayEdit = me.roles.some((r) => r === 'owner' || r === 'engineer');
   const reviewing = (s.checker?.id === uid || s.approver?.id === uid) && s.preparer.id !== uid;
-  const editable = mayEdit && EDITABLE_STATES.includes(s.state) && !reviewing;
+  // Only the preparer and the co-preparers the preparer named edit a revision (independent checking).
+  const isPreparer = s.preparer.id === uid || s.coPreparers.some((p) => p.id === uid);
+  const editable = mayEdit && isPreparer && EDITABLE_STATES.includes(s.state) && !reviewing;
   return (
     <Stack spacing={2}>
       <PageHeading overline={`Sheet ${s.number}`}>{s.title}</PageHeading>
@@ -48,7 +50,8 @@ export function SheetPage() {
       </Stack>
       {saveTemplate.isSuccess && <Alert severity="success" onClose={() => saveTemplate.reset()}>Saved as the firm template “{saveTemplate.data.title}”: new sheets can start from it.</Alert>}
       {saveTemplate.isError && <Alert severity="error" onClose={() => saveTemplate.reset()}>{saveTemplate.error.message}</Alert>}
-      {mayEdit && !editable && !reviewing && <Alert severity="info">This sheet is {STATE_LABELS[s.state].toLowerCase()} and can no longer be edited.</Alert>}
+      {mayEdit && !editable && !reviewing && !EDITABLE_STATES.includes(s.state) && <Alert severity="info">This sheet is {STATE_LABELS[s.state].toLowerCase()} and can no longer be edited.</Alert>}
+      {mayEdit && !isPreparer && !reviewing && EDITABLE_STATES.includes(s.state) && <Alert severity="info">{s.preparer.name} prepares this sheet: only they and the co-preparers they name edit it.</Alert>}
       {reviewing && EDITABLE_STATES.includes(s.state) && <Alert severity="info">You review this sheet, so you do not edit it: raise queries on its cells for the preparer.</Alert>}
       {editable && <Typography variant="caption" color="text.secondary">Changes are saved and evaluated as you type. Keys: Ctrl+Enter evaluates now, Alt+Enter adds a cell below, Alt+↑ and Alt+↓ move between cells.</Typography>}
       <CautionNotice />

@@ -5,7 +5,7 @@ export type AuditType =
   | 'sign-in' | 'sign-in-failed' | 'sign-out' | 'firm-registered' | 'role-changed' | 'member-removed'
   | 'invitation-sent' | 'invitation-accepted' | 'password-reset-requested' | 'password-reset'
   | 'check-requested' | 'sheet-returned' | 'check-passed' | 'sheet-approved' | 'revision-issued' | 'revision-started'
-  | 'query-raised' | 'query-replied' | 'query-closed' | 'cell-agreed' | 'agreement-withdrawn';
+  | 'query-raised' | 'query-replied' | 'query-closed' | 'cell-agreed' | 'agreement-withdrawn' | 'co-preparers-named';
 
 /** Who did what and when. Ids, not references, so the record outlives what it names. */
 @Entity({ tableName: 'audit_event' })

@@ -1,5 +1,6 @@
 import { Transform, Type } from 'class-transformer';
-import { IsInt, IsObject, IsOptional, IsString, Length, Matches, Min } from 'class-validator';
+import { ArrayMaxSize, IsArray, IsInt, IsObject, IsOptional, IsString, IsUUID, Length, Matches, Min } from 'class-validator';
+import type { CoPreparersBody } from '@ampwright/common';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
@@ -60,4 +61,9 @@ export class ImportCsvDto {
 
   @Type(() => Number) @IsInt({ message: 'position must be a whole number' }) @Min(0)
   position: number;
+}
+
+export class CoPreparersDto implements CoPreparersBody {
+  @IsArray() @ArrayMaxSize(50) @IsUUID('4', { each: true, message: 'userIds must hold the ids of members of the firm' })
+  userIds: string[];
 }

@@ -1,5 +1,5 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { DiffDto, HistoryEventDto, NotificationDto, QueryDto, RevisionSummaryDto, SheetDto } from '@ampwright/common';
+import type { CoPreparersBody, DiffDto, HistoryEventDto, NotificationDto, QueryDto, RevisionSummaryDto, SheetDto } from '@ampwright/common';
 import { api } from '../../../lib/api-client';
 import { projectKeys } from '../../projects/api/projects';
 import { sheetKeys } from '../../sheets/api/sheets';
@@ -55,6 +55,15 @@ export function useRequestCheck(sheetId: string) {
       qc.setQueryData(sheetKeys.one(sheetId), data);
       invalidate();
     },
+  });
+}
+
+/** The preparer names the co-preparers of the revision (they may edit it, and then cannot check or approve it). */
+export function useCoPreparers(sheetId: string) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: CoPreparersBody) => api.put<SheetDto>(`/sheets/${sheetId}/co-preparers`, body),
+    onSuccess: (data) => qc.setQueryData(sheetKeys.one(sheetId), data),
   });
 }
 

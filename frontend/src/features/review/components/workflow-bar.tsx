@@ -6,23 +6,25 @@ import type { SheetDto } from '@ampwright/common';
 import type { Me } from '../../auth/api/get-me';
 import { useMembers } from '../../members/api/members';
 import { STATE_LABELS } from '../../sheets/api/sheets';
-import { useRequestCheck, useSheetAction, type SheetAction } from '../api/review';
+import { useCoPreparers, useRequestCheck, useSheetAction, type SheetAction } from '../api/review';
 
 function RequestCheck({ sheet, onDone }: { sheet: SheetDto; onDone: () => void }) {
   const members = useMembers();
   const request = useRequestCheck(sheet.id);
   const [checkerId, setChecker] = useState(sheet.checker?.id ?? '');
   const [approverId, setApprover] = useState(sheet.approver?.id ?? '');
-  const others = (members.data ?? []).filter((m) => m.user.id !== sheet.preparer.id);
-  const checkers = others.filter((m) => m.roles.includes('checker'));
-  const approvers = others.filter((m) => m.roles.includes('approver'));
+  // Independent checking: nobody who prepared or edited this revision checks or approves it, and the
+  // approver is not the checker (the server enforces the same rules).
+  const independent = (members.data ?? []).filter((m) => !sheet.authorIds.includes(m.user.id));
+  const checkers = independent.filter((m) => m.roles.includes('checker') && m.user.id !== approverId);
+  const approvers = independent.filter((m) => m.roles.includes('approver') && m.user.id !== checkerId);
   const fieldError = (f: string) => request.error && 'details' in request.error ? (request.error as { details: { field?: string; message: string }[] }).details.find((d) => d.field === f)?.message : undefined;
   return (
     <Stack direction={{ xs: 'column', sm: 'row' }} spacing={1.5} sx={{ alignItems: { sm: 'flex-start' }, mt: 1 }} component="form" onSubmit={(e) => (e.preventDefault(), request.mutate({ checkerId, ...(approverId ? { approverId } : {}) }, { onSuccess: onDone }))}>
-      <TextField select size="small" label="Checker" value={checkerId} onChange={(e) => setChecker(e.target.value)} sx={{ minWidth: 220 }} required error={!!fieldError('checkerId')} helperText={fieldError('checkerId') ?? 'Not the preparer'}>
+      <TextField select size="small" label="Checker" value={checkerId} onChange={(e) => setChecker(e.target.value)} sx={{ minWidth: 220 }} required error={!!fieldError('checkerId')} helperText={fieldError('checkerId') ?? 'Nobody who prepared or edited this revision'}>
         {checkers.map((m) => <MenuItem key={m.user.id} value={m.user.id}>{m.user.name}</MenuItem>)}
       </TextField>
-      <TextField select size="small" label="Approver (optional)" value={approverId} onChange={(e) => setApprover(e.target.value)} sx={{ minWidth: 220 }} helperText={fieldError('approverId') ?? 'Any approver if left empty'}>
+      <TextField select size="small" label="Approver (optional)" value={approverId} onChange={(e) => setApprover(e.target.value)} sx={{ minWidth: 220 }} helperText={fieldError('approverId') ?? 'Not the checker; any approver if left empty'}>
         <MenuItem value="">Any approver</MenuItem>
         {approvers.map((m) => <MenuItem key={m.user.id} value={m.user.id}>{m.user.name}</MenuItem>)}
       </TextField>
@@ -33,16 +35,45 @@ function RequestCheck({ sheet, onDone }: { sheet: SheetDto; onDone: () => void }
   );
 }
 
+/** The preparer's list of co-preparers: engineers of the firm who may edit this revision. */
+function CoPreparers({ sheet, onDone }: { sheet: SheetDto; onDone: () => void }) {
+  const members = useMembers();
+  const save = useCoPreparers(sheet.id);
+  const [chosen, setChosen] = useState<string[]>(sheet.coPreparers.map((p) => p.id));
+  const engineers = (members.data ?? []).filter((m) => m.roles.includes('engineer') && m.user.id !== sheet.preparer.id && m.user.id !== sheet.checker?.id && m.user.id !== sheet.approver?.id);
+  return (
+    <Stack direction={{ xs: 'column', sm: 'row' }} spacing={1.5} sx={{ alignItems: { sm: 'flex-start' }, mt: 1 }} component="form" onSubmit={(e) => (e.preventDefault(), save.mutate({ userIds: chosen }, { onSuccess: onDone }))}>
+      <TextField
+        select
+        size="small"
+        label="Co-preparers"
+        value={chosen}
+        onChange={(e) => setChosen(typeof e.target.value === 'string' ? e.target.value.split(',') : (e.target.value as string[]))}
+        slotProps={{ select: { multiple: true } }}
+        sx={{ minWidth: 260 }}
+        helperText="They may edit this revision, and then cannot check or approve it"
+      >
+        {engineers.map((m) => <MenuItem key={m.user.id} value={m.user.id}>{m.user.name}</MenuItem>)}
+      </TextField>
+      <Button type="submit" variant="contained" disabled={save.isPending}>Save co-preparers</Button>
+      <Button onClick={onDone}>Cancel</Button>
+      {save.isError && <Alert severity="error">{save.error.message}</Alert>}
+    </Stack>
+  );
+}
+
 export function WorkflowBar({ sheet, me }: { sheet: SheetDto; me: Me }) {
   const action = useSheetAction(sheet.id);
   const [asking, setAsking] = useState(false);
+  const [naming, setNaming] = useState(false);
   const [returning, setReturning] = useState(false);
   const [note, setNote] = useState('');
   const uid = me.user.id;
   const has = (r: string) => me.roles.includes(r as never);
   const isPreparer = sheet.preparer.id === uid;
   const isChecker = sheet.checker?.id === uid;
-  const mayApprove = has('approver') && !isPreparer && (!sheet.approver || sheet.approver.id === uid);
+  const mayApprove = has('approver') && !sheet.authorIds.includes(uid) && sheet.checker?.id !== uid && (!sheet.approver || sheet.approver.id === uid);
+  const editable = sheet.state === 'being-prepared' || sheet.state === 'with-checker';
   const act = (a: SheetAction, n?: string) => action.mutate({ action: a, note: n });
   const issued = sheet.state === 'issued';
   return (
@@ -51,11 +82,12 @@ export function WorkflowBar({ sheet, me }: { sheet: SheetDto; me: Me }) {
         <Chip label={STATE_LABELS[sheet.state]} color={issued ? 'success' : sheet.state === 'with-checker' ? 'secondary' : 'default'} data-testid="sheet-state" />
         <Typography variant="body2">Revision {sheet.revisionCode}{issued ? '' : ' (draft)'}</Typography>
         <Typography variant="body2" color="text.secondary">
-          Prepared by {sheet.preparer.name}{sheet.checker ? ` · checker ${sheet.checker.name}` : ''}{sheet.approver ? ` · approver ${sheet.approver.name}` : ''}
+          Prepared by {sheet.preparer.name}{sheet.coPreparers.length ? ` with ${sheet.coPreparers.map((p) => p.name).join(', ')}` : ''}{sheet.checker ? ` · checker ${sheet.checker.name}` : ''}{sheet.approver ? ` · approver ${sheet.approver.name}` : ''}
         </Typography>
         {sheet.openQueries > 0 && <Chip size="small" color="warning" label={`${sheet.openQueries} open ${sheet.openQueries === 1 ? 'query' : 'queries'}`} data-testid="open-queries" />}
         <Box sx={{ flex: 1 }} />
         <Button size="small" component={Link} to="history">History and revisions</Button>
+        {editable && isPreparer && !naming && <Button size="small" onClick={() => setNaming(true)}>Co-preparers</Button>}
         {sheet.state === 'being-prepared' && isPreparer && !asking && <Button variant="contained" size="small" onClick={() => setAsking(true)}>Ask for a check</Button>}
         {sheet.state === 'with-checker' && isChecker && (
           <>
@@ -67,6 +99,7 @@ export function WorkflowBar({ sheet, me }: { sheet: SheetDto; me: Me }) {
         {sheet.state === 'approved' && sheet.approver?.id === uid && <Button size="small" variant="contained" color="secondary" onClick={() => act('issue')}>Issue revision {sheet.revisionCode}</Button>}
         {issued && (has('engineer') || has('owner')) && <Button size="small" variant="outlined" onClick={() => act('new-revision')}>Start the next revision</Button>}
       </Stack>
+      {naming && <CoPreparers sheet={sheet} onDone={() => setNaming(false)} />}
       {asking && <RequestCheck sheet={sheet} onDone={() => setAsking(false)} />}
       {returning && (
         <Stack direction="row" spacing={1} sx={{ mt: 1 }}>

@@ -7,7 +7,7 @@ import { sheetKeys } from './sheets';
 import { EditConflict, mergeSave, sameCell, useCellChange } from './sheet-editing';
 
 const cell = (id: string, position: number, source: string, changedBy = 'A'): CellDto => ({ id, position, kind: 'calc', fields: { source }, results: null, changedBy, changedAt: '2026-01-01T00:00:00.000Z', agreedBy: null, changedAfterAgreement: false });
-const sheet = (version: number, cells: CellDto[]): SheetDto => ({ id: 's1', projectId: 'p1', number: 'C-1', title: 'T', settings: {}, state: 'being-prepared', version, engineVersion: null, preparer: { id: 'u', name: 'A' }, checker: null, approver: null, revisionCode: 'A', revisionNumber: 1, openQueries: 0, cells });
+const sheet = (version: number, cells: CellDto[]): SheetDto => ({ id: 's1', projectId: 'p1', number: 'C-1', title: 'T', settings: {}, state: 'being-prepared', version, engineVersion: null, preparer: { id: 'u', name: 'A' }, checker: null, approver: null, revisionCode: 'A', revisionNumber: 1, openQueries: 0, coPreparers: [], authorIds: ['u'], cells });
 
 describe('mergeSave', () => {
   it('replaces changed cells, drops removed ones, adds new ones in position order and raises the version', () => {

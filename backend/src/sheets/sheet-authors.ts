@@ -1,0 +1,42 @@
+/**
+ * Who prepared a revision of a sheet: its preparer, the co-preparers the preparer named, and anyone
+ * whose save was stored. Independent checking (common practice) rests on this list: none of them may
+ * check or approve that revision (review/review-access.ts).
+ */
+import type { EntityManager } from '@mikro-orm/mariadb';
+
+export interface Author {
+  userId: string;
+  name: string;
+  /** Named co-preparer (may edit). */
+  named: boolean;
+  /** Had a save stored. */
+  edited: boolean;
+}
+
+export async function authorsOf(em: EntityManager, sheetId: string, revisionNumber: number): Promise<Author[]> {
+  const rows = await em.execute<{ user_id: string; name: string; named: number; edited: number }[]>(
+    'select a.user_id, u.name, a.named, a.edited from sheet_author a join app_user u on u.id = a.user_id where a.sheet_id = ? and a.revision_number = ? order by u.name',
+    [sheetId, revisionNumber],
+  );
+  return rows.map((r) => ({ userId: r.user_id, name: r.name, named: !!r.named, edited: !!r.edited }));
+}
+
+/** Everyone who may not check or approve this revision: the preparer and every author. */
+export async function notIndependent(em: EntityManager, sheet: { id: string; revisionNumber: number; preparer: { id: string } }): Promise<Set<string>> {
+  return new Set([sheet.preparer.id, ...(await authorsOf(em, sheet.id, sheet.revisionNumber)).map((a) => a.userId)]);
+}
+
+/** Records that a person's save of this revision was stored (inside the saving transaction). */
+export async function recordEdit(em: EntityManager, sheetId: string, revisionNumber: number, userId: string): Promise<void> {
+  await em.execute('insert into sheet_author (id, sheet_id, revision_number, user_id, named, edited) values (uuid(), ?, ?, ?, 0, 1) on duplicate key update edited = 1', [sheetId, revisionNumber, userId], 'run');
+}
+
+/** Sets the named co-preparers of a revision; someone taken off the list stays an author if they edited. */
+export async function nameCoPreparers(em: EntityManager, sheetId: string, revisionNumber: number, userIds: string[]): Promise<void> {
+  await em.execute('update sheet_author set named = 0 where sheet_id = ? and revision_number = ?', [sheetId, revisionNumber], 'run');
+  for (const userId of userIds) {
+    await em.execute('insert into sheet_author (id, sheet_id, revision_number, user_id, named, edited) values (uuid(), ?, ?, ?, 1, 0) on duplicate key update named = 1', [sheetId, revisionNumber, userId], 'run');
+  }
+  await em.execute('delete from sheet_author where sheet_id = ? and revision_number = ? and named = 0 and edited = 0', [sheetId, revisionNumber], 'run');
+}
