@@ -43,7 +43,7 @@ describe('checking and revisions', () => {
 
     // The checker and the approver cannot be the preparer.
     const self = await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: engineer.user.id }).expect(400);
-    expect(self.body.message).toMatch(/cannot be the sheet's preparer/);
+    expect(self.body.message).toMatch(/prepared or edited this revision, so cannot check it/);
     const notChecker = await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: approver.user.id }).expect(400);
     expect(notChecker.body.details[0].field).toBe('checkerId');
 

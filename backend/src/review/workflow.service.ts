@@ -75,13 +75,14 @@ export class WorkflowService {
       requireState(s, ['being-prepared'], 'ask for a check');
       requirePreparer(auth, s, 'ask for a check');
       const authors = await notIndependent(em, s);
+      // Independence first: whoever prepared or edited the revision hears that, whatever their roles.
+      const named = async (userId: string) => ({ id: userId, name: authors.has(userId) ? ((await em.findOne(User, userId, { fields: ['name'] }))?.name ?? 'This person') : '' });
+      requireIndependent('checker', await named(dto.checkerId), authors);
+      if (dto.approverId) requireIndependent('approver', await named(dto.approverId), authors, dto.checkerId);
       const checker = await this.member(auth, dto.checkerId, 'checker', 'checker');
-      requireIndependent('checker', checker, authors);
       s.checker = checker;
       if (dto.approverId) {
-        const approver = await this.member(auth, dto.approverId, 'approver', 'approver');
-        requireIndependent('approver', approver, authors, checker.id);
-        s.approver = approver;
+        s.approver = await this.member(auth, dto.approverId, 'approver', 'approver');
       } else if (s.approver) requireIndependent('approver', s.approver, authors, checker.id);
       s.state = 'with-checker';
       s.checkRequestedAt = new Date();
