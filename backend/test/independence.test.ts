@@ -96,4 +96,21 @@ describe('independent checking', () => {
       await edit(preparer, sheet, now.version, 'x = 99').expect(409);
     }
   });
+
+  it('issues only what was checked: a fresh evaluation that differs from the stored results refuses the issue and names the cells', async () => {
+    const sheet = await newSheet();
+    await as(app, preparer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checker.user.id }).expect(200);
+    await as(app, checker, 'post', `/api/sheets/${sheet.id}/pass`).expect(200);
+    await as(app, approver, 'post', `/api/sheets/${sheet.id}/approve`).expect(200);
+    // The stored results drift from what this engine gives (as if they had been computed by another version).
+    const em = app.get(EntityManager).fork();
+    const cellId = sheet.cells[0].id;
+    const [row] = await em.getConnection().execute<{ results: string | object }[]>('select results from cell where id = ?', [cellId]);
+    const results = typeof row.results === 'string' ? JSON.parse(row.results) : row.results;
+    results.values.x.si = 2;
+    await em.getConnection().execute('update cell set results = ? where id = ?', [JSON.stringify(results), cellId]);
+    const refused = await as(app, approver, 'post', `/api/sheets/${sheet.id}/issue`).expect(409);
+    expect(refused.body).toMatchObject({ code: 'RESULTS_CHANGED', message: expect.stringMatching(/^The sheet cannot be issued: evaluated afresh, cell 1 gives results other than those the checker saw/), details: [{ field: 'cells[0]' }] });
+    expect((await as(app, approver, 'get', `/api/sheets/${sheet.id}`).expect(200)).body.state).toBe('approved');
+  });
 });

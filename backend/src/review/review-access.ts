@@ -11,6 +11,7 @@ export enum ReviewErrorCode {
   NotIndependent = 'NOT_INDEPENDENT',
   OpenQueries = 'OPEN_QUERIES',
   BadAssignee = 'BAD_ASSIGNEE',
+  ResultsChanged = 'RESULTS_CHANGED',
 }
 
 export const STATE_WORDS: Record<SheetState, string> = {

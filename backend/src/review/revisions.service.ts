@@ -14,6 +14,7 @@ import { User } from '../users/entities/user.entity';
 import { CellQuery } from './entities/cell-query.entity';
 import { Revision } from './entities/revision.entity';
 import { queryView } from './queries.service';
+import { ReviewErrorCode } from './review-access';
 
 export const SNAPSHOT_FORMAT = 'ampwright.revision/1';
 
@@ -52,6 +53,18 @@ export class RevisionsService {
     const file = this.sheets.toFile(sheet, cells);
     // Evaluated afresh, so the snapshot's results are exactly what this engine gives for this sheet.
     const outcome = await this.evaluation.evaluateOrThrow(file, { firm: sheet.project.firm.id });
+    // What was checked is what is issued: the fresh results must be the ones stored, which the checker saw.
+    const stable = (v: unknown) => canonicalJson(JSON.parse(JSON.stringify(v ?? null)));
+    const drifted = cells.map((c, k) => ({ position: k + 1, same: stable(c.results) === stable(outcome.cells[k]) })).filter((c) => !c.same);
+    if (drifted.length) {
+      const list = drifted.map((c) => c.position).join(', ');
+      throw new AppException(
+        ReviewErrorCode.ResultsChanged,
+        `The sheet cannot be issued: evaluated afresh, ${drifted.length === 1 ? `cell ${list} gives` : `cells ${list} give`} results other than those the checker saw. Nothing was issued; tell the checker and the preparer.`,
+        HttpStatus.CONFLICT,
+        drifted.map((c) => ({ field: `cells[${c.position - 1}]`, message: 'its results differ from the checked ones' })),
+      );
+    }
     const queries = await em.find(CellQuery, { sheet, revisionNumber: sheet.revisionNumber }, { orderBy: { createdAt: 'asc' }, populate: ['messages', 'messages.author', 'raisedBy', 'closedBy', 'cell'] });
     const attachments = await em.find(Attachment, { sheet }, { orderBy: { createdAt: 'asc' } });
     const issuedAt = new Date();
