@@ -27,8 +27,14 @@ export type PackageStatus = PackageStatusDto;
 export type PortalRevision = PortalRevisionDto;
 export type Verdict = VerdictDto;
 
+/** Runs of one job before it is failed with its reason. */
 const MAX_ATTEMPTS = 3;
-const STALE_LOCK_MS = 5 * 60_000;
+/** How often a run refreshes its heartbeat, and after how long without one its job is taken over. */
+const HEARTBEAT_MS = 5_000;
+const STALE_HEARTBEAT_MS = 30_000;
+
+/** A run whose claim was taken over by another: it stops and writes nothing. */
+class ClaimLost extends Error {}
 
 @Injectable()
 export class PackagesService implements OnApplicationBootstrap, BeforeApplicationShutdown {
@@ -59,25 +65,36 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
     clearInterval(this.timer);
     const until = Date.now() + 30_000;
     while (this.busy && Date.now() < until) await new Promise((r) => setTimeout(r, 100));
-    await this.orm.em.fork().nativeUpdate(PackageJob, { lockedBy: this.instance, status: 'running' }, { status: 'queued', lockedBy: null }).catch(() => undefined);
+    await this.orm.em.fork().nativeUpdate(PackageJob, { lockedBy: this.instance, status: 'running' }, { status: 'queued', lockedBy: null, claimToken: null }).catch(() => undefined);
   }
 
-  /** Takes the oldest waiting job (or one whose instance died) and makes its package. */
+  /**
+   * Takes the oldest waiting job, or one whose run stopped sending heartbeats (its instance died), and
+   * makes its package. A job past its last attempt is failed with the reason instead of run again.
+   */
   async tick(): Promise<boolean> {
     if (this.busy || this.stopped) return false;
     this.busy = true;
     try {
       return await RequestContext.create(this.orm.em, async () => {
         const conn = this.em.getConnection();
+        await conn.execute(
+          `update package_job set status = 'failed', claim_token = null, locked_by = null, updated_at = now(3),
+                  error = concat('stopped after ', attempts, ' attempts: the instance making it stopped answering')
+            where status = 'running' and heartbeat_at < now(3) - interval ? second and attempts >= ?`,
+          [STALE_HEARTBEAT_MS / 1000, MAX_ATTEMPTS],
+          'run',
+        );
+        const token = randomUUID();
         const res = await conn.execute(
-          `update package_job set status = 'running', locked_by = ?, locked_at = now(3), attempts = attempts + 1, updated_at = now(3)
-           where status = 'queued' or (status = 'running' and locked_at < now(3) - interval ? second) order by created_at limit 1`,
-          [this.instance, STALE_LOCK_MS / 1000],
+          `update package_job set status = 'running', claim_token = ?, locked_by = ?, locked_at = now(3), heartbeat_at = now(3), attempts = attempts + 1, updated_at = now(3)
+            where status = 'queued' or (status = 'running' and heartbeat_at < now(3) - interval ? second and attempts < ?) order by created_at limit 1`,
+          [token, this.instance, STALE_HEARTBEAT_MS / 1000, MAX_ATTEMPTS],
           'run',
         );
         if (!(res as { affectedRows?: number }).affectedRows) return false;
-        const job = await this.em.findOneOrFail(PackageJob, { lockedBy: this.instance, status: 'running' }, { populate: ['revision', 'revision.sheet', 'revision.sheet.project', 'revision.sheet.project.firm'] });
-        await this.run(job);
+        const job = await this.em.findOneOrFail(PackageJob, { claimToken: token }, { populate: ['revision', 'revision.sheet', 'revision.sheet.project', 'revision.sheet.project.firm'] });
+        await this.run(job, token);
         return true;
       });
     } catch (err) {
@@ -88,27 +105,60 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
     }
   }
 
-  private async run(job: PackageJob): Promise<void> {
+  /** Whether this run still holds its claim (and refreshes its heartbeat). */
+  private async beat(jobId: string, token: string): Promise<boolean> {
+    const res = await this.orm.em.fork().getConnection().execute("update package_job set heartbeat_at = now(3) where id = ? and claim_token = ? and status = 'running'", [jobId, token], 'run');
+    return (res as { affectedRows?: number }).affectedRows === 1;
+  }
+
+  /**
+   * Makes, stores and records one package under a claim. The object key is unique to the claim, so no
+   * run overwrites another's file; the job and the revision's hash are written in one transaction, only
+   * while the claim still holds (affected rows checked), so the recorded hash is always the stored file's.
+   */
+  private async run(job: PackageJob, token: string): Promise<void> {
     const revision = job.revision;
+    let percent = 0;
     const progress = (fraction: number) => {
-      const percent = Math.round(fraction * 80);
-      if (percent > job.percent + 9) {
-        job.percent = percent;
-        void this.orm.em.fork().nativeUpdate(PackageJob, { id: job.id }, { percent }).catch(() => undefined);
+      const next = Math.round(fraction * 80);
+      if (next > percent + 9) {
+        percent = next;
+        void this.orm.em.fork().nativeUpdate(PackageJob, { id: job.id, claimToken: token }, { percent }).catch(() => undefined);
       }
     };
+    let lost = false;
+    const heartbeat = setInterval(() => void this.beat(job.id, token).then((held) => (lost ||= !held), () => undefined), HEARTBEAT_MS);
+    const key = `packages/${revision.sheet.id}/${revision.code}-${revision.id}-${token}.pdf`;
+    let stored = false;
     try {
       const pdf = await this.make(revision, progress);
-      const key = `packages/${revision.sheet.id}/${revision.code}-${revision.id}.pdf`;
+      if (lost || !(await this.beat(job.id, token))) throw new ClaimLost();
       await this.store.put(key, pdf, 'application/pdf');
+      stored = true;
       const sha = createHash('sha256').update(pdf).digest('hex');
-      await this.em.nativeUpdate(Revision, { id: revision.id, pdfSha256: null }, { pdfSha256: sha, pdfObjectKey: key });
-      await this.em.nativeUpdate(PackageJob, { id: job.id }, { status: 'done', percent: 100, error: null, lockedBy: null });
+      await this.em.transactional(async (em) => {
+        const done = await em.nativeUpdate(PackageJob, { id: job.id, claimToken: token, status: 'running' }, { status: 'done', percent: 100, error: null, lockedBy: null, claimToken: null });
+        if (done !== 1) throw new ClaimLost();
+        const recorded = await em.nativeUpdate(Revision, { id: revision.id, pdfSha256: null }, { pdfSha256: sha, pdfObjectKey: key });
+        if (recorded !== 1) throw new ClaimLost();
+      });
       this.logger.log(`package of ${revision.sheet.number} revision ${revision.code} made (${pdf.length} bytes, sha256 ${sha.slice(0, 12)}…)`);
     } catch (err) {
-      const retry = job.attempts < MAX_ATTEMPTS;
-      this.logger.warn(`package of revision ${revision.id} failed (attempt ${job.attempts}): ${(err as Error).message}`);
-      await this.em.nativeUpdate(PackageJob, { id: job.id }, { status: retry ? 'queued' : 'failed', error: (err as Error).message.slice(0, 500), lockedBy: null });
+      if (stored) await this.store.delete(key).catch(() => undefined);
+      if (err instanceof ClaimLost) {
+        this.logger.warn(`package of revision ${revision.id}: another run took the job over; this one wrote nothing`);
+        return;
+      }
+      const last = job.attempts >= MAX_ATTEMPTS;
+      const reason = (err as Error).message.slice(0, 400);
+      this.logger.warn(`package of revision ${revision.id} failed (attempt ${job.attempts}): ${reason}`);
+      await this.em.nativeUpdate(
+        PackageJob,
+        { id: job.id, claimToken: token },
+        { status: last ? 'failed' : 'queued', error: last ? `failed after ${job.attempts} attempts: ${reason}` : reason, lockedBy: null, claimToken: null },
+      );
+    } finally {
+      clearInterval(heartbeat);
     }
   }
 
@@ -145,15 +195,18 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
     return { status: job?.status ?? 'none', percent: job?.percent ?? 0, error: job?.error ?? null, pdfSha256: r.pdfSha256 ?? null };
   }
 
-  /** Puts a failed (or missing) job back in the queue. */
+  /** Puts a failed (or missing) job back in the queue; a job waiting or being made is left alone. */
   async retry(auth: AuthContext, revisionId: string): Promise<PackageStatus> {
     const r = await this.findRevision(auth, revisionId);
     if (r.pdfSha256) throw new AppException(ErrorCode.Conflict, 'The package of this revision is made already; it is never made again.', HttpStatus.CONFLICT);
-    const job = (await this.em.findOne(PackageJob, { revision: r })) ?? this.em.create(PackageJob, { revision: r });
-    job.status = 'queued';
-    job.attempts = 0;
-    job.error = undefined;
-    await this.em.flush();
+    const job = await this.em.findOne(PackageJob, { revision: r });
+    if (!job) {
+      await this.em.persist(this.em.create(PackageJob, { revision: r })).flush();
+    } else {
+      const requeued = await this.em.nativeUpdate(PackageJob, { id: job.id, status: 'failed' }, { status: 'queued', attempts: 0, error: null, claimToken: null, lockedBy: null });
+      if (requeued !== 1) throw new AppException(ErrorCode.Conflict, 'The package of this revision is waiting or being made: only a failed one is tried again.', HttpStatus.CONFLICT);
+    }
+    this.em.clear();
     return this.status(auth, revisionId);
   }
 

@@ -33,6 +33,14 @@ export class PackageJob {
   @Property({ type: 'datetime', length: 3, nullable: true })
   lockedAt?: Date;
 
+  /** The claim this run holds: every write the run makes is conditional on it, so a run whose claim was taken over writes nothing. */
+  @Property({ length: 36, nullable: true })
+  claimToken?: string;
+
+  /** Refreshed while the package is being made; a job whose heartbeat stopped is taken over. */
+  @Property({ type: 'datetime', length: 3, nullable: true })
+  heartbeatAt?: Date;
+
   @Property({ type: 'datetime', length: 3 })
   createdAt: Date & Opt = new Date();
 
