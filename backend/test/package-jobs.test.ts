@@ -40,7 +40,8 @@ describe('package jobs', () => {
   });
   afterAll(async () => {
     await app?.close();
-    process.env.PACKAGE_WORKER = before;
+    if (before === undefined) delete process.env.PACKAGE_WORKER;
+    else process.env.PACKAGE_WORKER = before;
   });
 
   const issue = async (): Promise<string> => {
