@@ -68,7 +68,7 @@ describe('package jobs', () => {
       await gate;
       return pdf;
     });
-    const first = a.tick();
+    const first = a.tick(revisionId);
     // Wait for the first worker's claim, then make its heartbeat look stopped, as if its instance had died.
     let claim: { claim_token: string } | undefined;
     for (let k = 0; k < 100 && !claim; k++) {
@@ -77,7 +77,7 @@ describe('package jobs', () => {
     }
     expect(claim).toBeDefined();
     await sql('update package_job set heartbeat_at = now(3) - interval 1 hour where revision_id = ?', [revisionId]);
-    expect(await b.tick()).toBe(true);
+    expect(await b.tick(revisionId)).toBe(true);
     release();
     expect(await first).toBe(true);
 
@@ -101,12 +101,12 @@ describe('package jobs', () => {
     expect((await retry().expect(409)).body.message).toMatch(/only a failed one is tried again/);
     // Three runs whose instances died: the next look fails it with the reason instead of running it again.
     await sql("update package_job set status = 'running', attempts = 3, heartbeat_at = now(3) - interval 1 hour, claim_token = 'gone' where revision_id = ?", [revisionId]);
-    expect(await worker().tick()).toBe(false);
+    expect(await worker().tick(revisionId)).toBe(false);
     const failed = (await as(app, approver, 'get', `/api/revisions/${revisionId}/package/status`).expect(200)).body;
     expect(failed).toMatchObject({ status: 'failed', error: 'stopped after 3 attempts: the instance making it stopped answering' });
     // Failed: retried, and made.
     expect((await retry().expect(200)).body.status).toBe('queued');
-    expect(await worker().tick()).toBe(true);
+    expect(await worker().tick(revisionId)).toBe(true);
     expect((await as(app, approver, 'get', `/api/revisions/${revisionId}/package/status`).expect(200)).body.status).toBe('done');
     expect((await retry().expect(409)).body.message).toMatch(/made already/);
   }, 120_000);

@@ -71,8 +71,9 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
   /**
    * Takes the oldest waiting job, or one whose run stopped sending heartbeats (its instance died), and
    * makes its package. A job past its last attempt is failed with the reason instead of run again.
+   * With `revisionId`, only that revision's job is considered.
    */
-  async tick(): Promise<boolean> {
+  async tick(revisionId?: string): Promise<boolean> {
     if (this.busy || this.stopped) return false;
     this.busy = true;
     try {
@@ -81,15 +82,16 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
         await conn.execute(
           `update package_job set status = 'failed', claim_token = null, locked_by = null, updated_at = now(3),
                   error = concat('stopped after ', attempts, ' attempts: the instance making it stopped answering')
-            where status = 'running' and heartbeat_at < now(3) - interval ? second and attempts >= ?`,
-          [STALE_HEARTBEAT_MS / 1000, MAX_ATTEMPTS],
+            where status = 'running' and heartbeat_at < now(3) - interval ? second and attempts >= ? and (? is null or revision_id = ?)`,
+          [STALE_HEARTBEAT_MS / 1000, MAX_ATTEMPTS, revisionId ?? null, revisionId ?? null],
           'run',
         );
         const token = randomUUID();
         const res = await conn.execute(
           `update package_job set status = 'running', claim_token = ?, locked_by = ?, locked_at = now(3), heartbeat_at = now(3), attempts = attempts + 1, updated_at = now(3)
-            where status = 'queued' or (status = 'running' and heartbeat_at < now(3) - interval ? second and attempts < ?) order by created_at limit 1`,
-          [token, this.instance, STALE_HEARTBEAT_MS / 1000, MAX_ATTEMPTS],
+            where (status = 'queued' or (status = 'running' and heartbeat_at < now(3) - interval ? second and attempts < ?)) and (? is null or revision_id = ?)
+            order by created_at limit 1`,
+          [token, this.instance, STALE_HEARTBEAT_MS / 1000, MAX_ATTEMPTS, revisionId ?? null, revisionId ?? null],
           'run',
         );
         if (!(res as { affectedRows?: number }).affectedRows) return false;
