@@ -108,7 +108,9 @@ describe('signed packages, the client portal and verification', () => {
   it('renders as real pages: the text of the cover, the cells, the caution and the page numbers', () => {
     const file = toFile(pdf);
     const text = execFileSync('pdftotext', ['-layout', file, '-']).toString();
-    for (const words of ['Calculation package', 'Job number', 'P-1', 'Revision', 'Checked by', 'qualified engineers', 'Attachments', 'site.txt', 'Appendix: query register']) expect(text).toContain(words);
+    for (const words of ['Calculation package', 'Job number', 'P-1', 'Revision', 'Checked by', 'qualified engineers', 'Attachments', 'site.txt']) expect(text).toContain(words);
+    // The firm's internal query register stays out unless the firm chose to include it.
+    expect(text).not.toContain('Appendix: query register');
     const pages = Number(/Pages:\s+(\d+)/.exec(execFileSync('pdfinfo', [file]).toString())![1]);
     expect(pages).toBeGreaterThan(3);
     expect(text).toContain(`Page ${pages} of ${pages}`);
@@ -136,6 +138,44 @@ describe('signed packages, the client portal and verification', () => {
     expect(foreign.body).toEqual({ verdict: 'unknown', message: 'This PDF is not a package issued by this service.' });
     const big = await as(app, undefined, 'post', '/api/verify').attach('file', Buffer.concat([Buffer.from('%PDF-1.4\n'), Buffer.alloc(25 * 1024 * 1024)]), 'big.pdf').expect(413);
     expect(big.body.message).toMatch(/25 MB/);
+  });
+
+  it('includes the query register in packages issued after the owner turns it on', async () => {
+    expect((await as(app, owner, 'get', '/api/firm/package-settings').expect(200)).body).toEqual({ queryRegister: false });
+    await as(app, engineer, 'put', '/api/firm/package-settings').send({ queryRegister: true }).expect(403);
+    expect((await as(app, owner, 'put', '/api/firm/package-settings').send({ queryRegister: 'yes' }).expect(400)).body.message).toMatch(/queryRegister must be true or false/);
+    expect((await as(app, owner, 'put', '/api/firm/package-settings').send({ queryRegister: true }).expect(200)).body).toEqual({ queryRegister: true });
+    try {
+      const project = (await as(app, engineer, 'get', '/api/projects').expect(200)).body.find((p: { jobNumber: string }) => p.jobNumber === 'P-1');
+      const sheet = (await as(app, engineer, 'post', `/api/projects/${project.id}/sheets`).send({ number: 'C-2', sheet: { format: 'ampwright.sheet/1', title: 'Register', cells: [{ kind: 'calc', source: 'x = 1' }] } }).expect(201)).body;
+      await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checker.user.id }).expect(200);
+      await as(app, checker, 'post', `/api/sheets/${sheet.id}/pass`).expect(200);
+      await as(app, approver, 'post', `/api/sheets/${sheet.id}/approve`).expect(200);
+      const issued = (await as(app, approver, 'post', `/api/sheets/${sheet.id}/issue`).expect(200)).body;
+      const revision = (await as(app, engineer, 'get', `/api/revisions/${issued.id}`).expect(200)).body;
+      expect(revision.snapshot.packageOptions).toEqual({ queryRegister: true });
+      const made = await buildPackageInWorker({ revisionId: issued.id, snapshot: revision.snapshot, history: [revision], attachments: [] });
+      expect(execFileSync('pdftotext', ['-layout', toFile(made), '-']).toString()).toContain('Appendix: query register');
+    } finally {
+      await as(app, owner, 'put', '/api/firm/package-settings').send({ queryRegister: false }).expect(200);
+    }
+  }, 60_000);
+
+  it('tells a client nothing of the firm\'s internal work: no counts on projects, no error text on a package', async () => {
+    const projects = (await as(app, client, 'get', '/api/projects').expect(200)).body;
+    expect(projects).toHaveLength(1);
+    expect(projects[0]).not.toHaveProperty('sheetCount');
+    expect(projects[0]).not.toHaveProperty('openQueries');
+    expect((await as(app, engineer, 'get', '/api/projects').expect(200)).body[0]).toHaveProperty('openQueries');
+    const em = app.get(EntityManager).fork();
+    const [job] = await em.getConnection().execute<{ id: string; status: string; error: string | null }[]>('select id, status, error from package_job where revision_id = ?', [revisionId]);
+    await em.getConnection().execute("update package_job set error = 'ECONNREFUSED 10.0.0.7:9000 (internal store)' where id = ?", [job.id]);
+    try {
+      expect((await as(app, client, 'get', `/api/revisions/${revisionId}/package/status`).expect(200)).body.error).toBe('The package could not be made yet; the issuing firm has been told.');
+      expect((await as(app, approver, 'get', `/api/revisions/${revisionId}/package/status`).expect(200)).body.error).toMatch(/ECONNREFUSED/);
+    } finally {
+      await em.getConnection().execute('update package_job set error = ? where id = ?', [job.error, job.id]);
+    }
   });
 
   it('shows a client exactly the issued revisions of their projects, and nothing else', async () => {

@@ -14,5 +14,5 @@ export { sweepChart, transientChart, calcFigures, type CalcFigure } from './plot
 export type { QueryDto, QueryMessageDto, QueryStatus, RevisionSummaryDto, DiffDto, HistoryEventDto, NotificationDto } from './api/review';
 export { diffCells, type CellDiff, type SnapshotCell } from './review/diff';
 export { revisionCode, canonicalJson } from './review/revision-code';
-export type { PackageStatusDto, PortalRevisionDto, VerdictDto, CertificateDto } from './api/packages';
+export type { PackageStatusDto, PortalRevisionDto, VerdictDto, CertificateDto, PackageSettingsDto } from './api/packages';
 export { runWithDeadline } from './language/deadline';

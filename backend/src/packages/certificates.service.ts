@@ -1,7 +1,7 @@
 import { EntityManager } from '@mikro-orm/core';
 import { HttpStatus, Injectable } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
-import type { CertificateDto } from '@ampwright/common';
+import type { CertificateDto, PackageSettingsDto } from '@ampwright/common';
 import type { Environment } from '../config/environment';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
@@ -25,6 +25,17 @@ export class CertificatesService {
     config: ConfigService<Environment, true>,
   ) {
     this.secret = config.get('CERTIFICATE_SECRET', { infer: true });
+  }
+
+  /** What the firm's packages carry: the query register only if the owner turned it on. */
+  async packageSettings(auth: AuthContext): Promise<PackageSettingsDto> {
+    const [row] = await this.em.getConnection().execute<{ package_query_register: number }[]>('select package_query_register from firm where id = ?', [auth.session.firm.id]);
+    return { queryRegister: !!row?.package_query_register };
+  }
+
+  async setPackageSettings(auth: AuthContext, dto: PackageSettingsDto): Promise<PackageSettingsDto> {
+    await this.em.getConnection().execute('update firm set package_query_register = ? where id = ?', [dto.queryRegister, auth.session.firm.id], 'run');
+    return this.packageSettings(auth);
   }
 
   async current(auth: AuthContext): Promise<CertificateView | null> {

@@ -304,15 +304,17 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
   }
   if (input.attachments.length) para('The attachments are embedded in this file (open the attachments panel of your PDF reader).', { size: 9, colour: MUTED });
 
-  // Query register.
-  heading('Appendix: query register');
-  if (!snap.queries.length) para('No queries were raised for this revision.');
-  snap.queries.forEach((q: QueryDto, k) => {
-    const where = q.cellId ? `cell ${snap.cellIds.indexOf(q.cellId) + 1}${q.line ? `, line ${q.line}` : ''}` : 'a cell since removed';
-    para(`Query ${k + 1} on ${where} — ${q.status}${q.closedBy ? `, closed by ${q.closedBy} ${date(q.closedAt)}` : ''}`, { font: 'bold', size: 9 });
-    for (const m of q.messages) para(`${m.author} (${date(m.createdAt)}): ${m.text}`, { size: 9 });
-    doc.moveDown(0.3);
-  });
+  // Query register: the firm's internal review, included only where the firm chose so (older snapshots: always).
+  if (snap.packageOptions?.queryRegister !== false) {
+    heading('Appendix: query register');
+    if (!snap.queries.length) para('No queries were raised for this revision.');
+    snap.queries.forEach((q: QueryDto, k) => {
+      const where = q.cellId ? `cell ${snap.cellIds.indexOf(q.cellId) + 1}${q.line ? `, line ${q.line}` : ''}` : 'a cell since removed';
+      para(`Query ${k + 1} on ${where} — ${q.status}${q.closedBy ? `, closed by ${q.closedBy} ${date(q.closedAt)}` : ''}`, { font: 'bold', size: 9 });
+      for (const m of q.messages) para(`${m.author} (${date(m.createdAt)}): ${m.text}`, { size: 9 });
+      doc.moveDown(0.3);
+    });
+  }
 
   // Contents, headers and footers, now that the pages are known.
   const range = doc.bufferedPageRange();

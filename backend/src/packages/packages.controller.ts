@@ -1,4 +1,6 @@
-import { Body, Controller, Get, HttpCode, Param, ParseUUIDPipe, Post, Res, UploadedFile, UseInterceptors } from '@nestjs/common';
+import { Body, Controller, Get, HttpCode, Param, ParseUUIDPipe, Post, Put, Res, UploadedFile, UseInterceptors } from '@nestjs/common';
+import type { PackageSettingsDto } from '@ampwright/common';
+import { PackageSettingsBodyDto } from './dto/package-settings.dto';
 import { FileInterceptor } from '@nestjs/platform-express';
 import { Throttle } from '@nestjs/throttler';
 import { VERIFY_THROTTLE } from '../core/throttle/throttlers';
@@ -59,6 +61,19 @@ export class PackagesController {
   @UseInterceptors(FileInterceptor('file', SINGLE_FILE_OPTIONS))
   verify(@UploadedFile() file: Express.Multer.File | undefined): Promise<Verdict> {
     return this.packages.verify(file);
+  }
+
+  @Roles('owner')
+  @Get('firm/package-settings')
+  packageSettings(@CurrentAuth() auth: AuthContext): Promise<PackageSettingsDto> {
+    return this.certificates.packageSettings(auth);
+  }
+
+  /** Whether the firm's packages, issued from now on, carry the internal query register. */
+  @Roles('owner')
+  @Put('firm/package-settings')
+  setPackageSettings(@CurrentAuth() auth: AuthContext, @Body() dto: PackageSettingsBodyDto): Promise<PackageSettingsDto> {
+    return this.certificates.setPackageSettings(auth, dto);
   }
 
   @Roles('owner')

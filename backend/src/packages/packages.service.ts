@@ -194,7 +194,9 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
   async status(auth: AuthContext, revisionId: string): Promise<PackageStatus> {
     const r = await this.findRevision(auth, revisionId);
     const job = await this.em.findOne(PackageJob, { revision: r });
-    return { status: job?.status ?? 'none', percent: job?.percent ?? 0, error: job?.error ?? null, pdfSha256: r.pdfSha256 ?? null };
+    // A client sees whether the package is ready, never the firm's internal error text.
+    const error = job?.error ? (auth.roles.includes('client') ? 'The package could not be made yet; the issuing firm has been told.' : job.error) : null;
+    return { status: job?.status ?? 'none', percent: job?.percent ?? 0, error, pdfSha256: r.pdfSha256 ?? null };
   }
 
   /** Puts a failed (or missing) job back in the queue; a job waiting or being made is left alone. */

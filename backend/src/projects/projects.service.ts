@@ -17,15 +17,16 @@ export enum ProjectErrorCode {
 export class ProjectsService {
   constructor(private readonly em: EntityManager) {}
 
-  private async toResponse(p: Project): Promise<ProjectResponseDto> {
+  /** A project as the API shows it; a client gets no counts of the firm's internal work (drafts, open queries). */
+  private async toResponse(p: Project, auth: AuthContext): Promise<ProjectResponseDto> {
+    const internal = auth.roles.includes('client') ? {} : { sheetCount: await this.em.count(Sheet, { project: p }), openQueries: await this.openQueries(p) };
     return {
       id: p.id,
       jobNumber: p.jobNumber,
       title: p.title,
       clientOrganisation: p.clientOrganisation,
       site: p.site,
-      sheetCount: await this.em.count(Sheet, { project: p }),
-      openQueries: await this.openQueries(p),
+      ...internal,
       createdAt: p.createdAt.toISOString(),
       updatedAt: p.updatedAt.toISOString(),
     };
@@ -53,11 +54,11 @@ export class ProjectsService {
       ? { firm: auth.session.firm, id: { $in: (await this.em.find(ProjectClient, { user: auth.session.user }, { populate: ['project'] })).map((c) => c.project.id) } }
       : { firm: auth.session.firm };
     const projects = await this.em.find(Project, where, { orderBy: { jobNumber: 'asc' } });
-    return Promise.all(projects.map((p) => this.toResponse(p)));
+    return Promise.all(projects.map((p) => this.toResponse(p, auth)));
   }
 
   async get(auth: AuthContext, id: string): Promise<ProjectResponseDto> {
-    return this.toResponse(await this.find(auth, id));
+    return this.toResponse(await this.find(auth, id), auth);
   }
 
   private async save<T>(work: () => Promise<T>, jobNumber?: string): Promise<T> {
@@ -75,14 +76,14 @@ export class ProjectsService {
     const project = new Project(auth.session.firm, dto, auth.session.user);
     this.em.persist(new ProjectMember(project, this.em.getReference(User, auth.session.user.id)));
     await this.save(() => this.em.persist(project).flush(), dto.jobNumber);
-    return this.toResponse(project);
+    return this.toResponse(project, auth);
   }
 
   async update(auth: AuthContext, id: string, dto: UpdateProjectDto): Promise<ProjectResponseDto> {
     const project = await this.find(auth, id);
     Object.assign(project, Object.fromEntries(Object.entries(dto).filter(([, v]) => v !== undefined)));
     await this.save(() => this.em.flush(), dto.jobNumber);
-    return this.toResponse(project);
+    return this.toResponse(project, auth);
   }
 
   async remove(auth: AuthContext, id: string): Promise<void> {

@@ -33,6 +33,8 @@ export interface RevisionSnapshot {
   dates: { checkRequestedAt: string | null; checkedAt: string | null; approvedAt: string | null; issuedAt: string };
   queries: QueryDto[];
   attachments: { id: string; fileName: string; mediaType: string; size: number; sha256: string }[];
+  /** How the package is laid out, fixed at issue (absent in older snapshots, whose packages carry the register). */
+  packageOptions?: { queryRegister: boolean };
 }
 
 export const sha256Of = (value: unknown) => createHash('sha256').update(canonicalJson(value)).digest('hex');
@@ -46,6 +48,12 @@ export class RevisionsService {
     private readonly sheets: SheetsService,
     private readonly evaluation: EvaluationService,
   ) {}
+
+  /** The firm's choice, read from its row (the request's firm entity may be partly loaded). */
+  private async firmShowsQueryRegister(em: EntityManager, firmId: string): Promise<boolean> {
+    const [row] = await em.getConnection().execute<{ package_query_register: number }[]>('select package_query_register from firm where id = ?', [firmId], 'all', em.getTransactionContext());
+    return !!row?.package_query_register;
+  }
 
   /** Builds and stores the snapshot of a sheet (locked by the caller) as its next revision. */
   async freeze(em: EntityManager, sheet: Sheet): Promise<Revision> {
@@ -83,6 +91,7 @@ export class RevisionsService {
       dates: { checkRequestedAt: iso(sheet.checkRequestedAt), checkedAt: iso(sheet.checkedAt), approvedAt: iso(sheet.approvedAt), issuedAt: issuedAt.toISOString() },
       queries: queries.map(queryView),
       attachments: attachments.map((a) => ({ id: a.id, fileName: a.fileName, mediaType: a.mediaType, size: a.size, sha256: a.sha256 })),
+      packageOptions: { queryRegister: await this.firmShowsQueryRegister(em, sheet.project.firm.id) },
     };
     const revision = new Revision(sheet, {
       number: sheet.revisionNumber,

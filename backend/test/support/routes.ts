@@ -79,6 +79,8 @@ export const MATRIX: Record<string, Allowed> = {
   'GET /api/portal/revisions': ['client'],
   'POST /api/verify': 'public',
   'GET /api/firm/certificate': ['owner'],
+  'GET /api/firm/package-settings': ['owner'],
+  'PUT /api/firm/package-settings': ['owner'],
   'POST /api/firm/certificate': ['owner'],
 };
 
@@ -136,5 +138,6 @@ export function validBodies(ids: ResourceIds, userId: string): Record<string, ob
     'POST /api/queries/:id/close': { note: 'Agreed' },
     'POST /api/invitations': { email: 'someone@invited.example', roles: ['engineer'] },
     'PATCH /api/auth/me': { name: 'Renamed person' },
+    'PUT /api/firm/package-settings': { queryRegister: false },
   };
 }

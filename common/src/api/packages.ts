@@ -30,3 +30,8 @@ export interface CertificateDto {
   fingerprint: string;
   selfSigned: boolean;
 }
+
+/** GET/PUT /api/firm/package-settings: whether the firm's packages carry its internal query register (off by default). */
+export interface PackageSettingsDto {
+  queryRegister: boolean;
+}

@@ -9,9 +9,10 @@ export interface ProjectDto {
   title: string;
   clientOrganisation: string;
   site: string;
-  sheetCount: number;
-  /** Queries not yet closed, over the project's sheets. */
-  openQueries: number;
+  /** Members only: a client is told nothing of the firm's internal work. */
+  sheetCount?: number;
+  /** Queries not yet closed, over the project's sheets (members only). */
+  openQueries?: number;
   createdAt: string;
   updatedAt: string;
 }

@@ -37,6 +37,8 @@ export function ProjectsPage() {
   const [sort, setSort] = useState<{ key: SortKey; desc: boolean }>({ key: 'jobNumber', desc: false });
   const [creating, setCreating] = useState(false);
   const canCreate = !!me?.roles.some((r) => r === 'owner' || r === 'engineer');
+  // A client is told nothing of the firm's internal work (drafts, open queries): those columns are members' only.
+  const internal = !!me?.roles.some((r) => r !== 'client');
   const rows = useMemo(() => {
     const f = filter.trim().toLowerCase();
     const list = (projects.data ?? []).filter((p) => !f || [p.jobNumber, p.title, p.clientOrganisation, p.site].some((v) => v.toLowerCase().includes(f)));
@@ -63,8 +65,8 @@ export function ProjectsPage() {
               {header('jobNumber', 'Job')}
               {header('title', 'Title')}
               {header('clientOrganisation', 'Client')}
-              <TableCell>Sheets</TableCell>
-              <TableCell>Open queries</TableCell>
+              {internal && <TableCell>Sheets</TableCell>}
+              {internal && <TableCell>Open queries</TableCell>}
               {header('updatedAt', 'Updated')}
             </TableRow>
           </TableHead>
@@ -74,8 +76,8 @@ export function ProjectsPage() {
                 <TableCell><MuiLink component={Link} to={`/projects/${p.id}`}>{p.jobNumber}</MuiLink></TableCell>
                 <TableCell>{p.title}</TableCell>
                 <TableCell>{p.clientOrganisation}</TableCell>
-                <TableCell>{p.sheetCount}</TableCell>
-                <TableCell data-testid="project-open-queries">{p.openQueries || '—'}</TableCell>
+                {internal && <TableCell>{p.sheetCount}</TableCell>}
+                {internal && <TableCell data-testid="project-open-queries">{p.openQueries || '—'}</TableCell>}
                 <TableCell>{new Date(p.updatedAt).toLocaleDateString()}</TableCell>
               </TableRow>
             ))}

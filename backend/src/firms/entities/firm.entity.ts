@@ -13,6 +13,10 @@ export class Firm {
   @Property({ type: 'datetime' })
   createdAt: Date & Opt = new Date();
 
+  /** Whether issued packages carry the internal query register (off unless the owner turns it on). */
+  @Property({ type: 'boolean' })
+  packageQueryRegister: boolean & Opt = false;
+
   constructor(name: string) {
     this.name = name;
   }

@@ -1,5 +1,5 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { CertificateDto, PackageStatusDto, PortalRevisionDto, VerdictDto } from '@ampwright/common';
+import type { CertificateDto, PackageStatusDto, PortalRevisionDto, VerdictDto, PackageSettingsDto } from '@ampwright/common';
 import { api } from '../../../lib/api-client';
 
 export type PackageStatus = PackageStatusDto;
@@ -33,6 +33,16 @@ export function useVerify() {
 }
 
 export const useCertificate = () => useQuery({ queryKey: ['firm', 'certificate'], queryFn: ({ signal }) => api.get<CertificateView | null>('/firm/certificate', { signal }) });
+
+export const usePackageSettings = () => useQuery({ queryKey: ['firm', 'package-settings'], queryFn: ({ signal }) => api.get<PackageSettingsDto>('/firm/package-settings', { signal }) });
+
+export function useSetPackageSettings() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: PackageSettingsDto) => api.put<PackageSettingsDto>('/firm/package-settings', body),
+    onSuccess: (settings) => qc.setQueryData(['firm', 'package-settings'], settings),
+  });
+}
 
 export function useUploadCertificate() {
   const qc = useQueryClient();

@@ -1,8 +1,24 @@
 /** The owner's view of the firm's signing certificate, and the upload of the firm's own PKCS#12 file. */
-import { Alert, Button, Paper, Stack, TextField, Typography } from '@mui/material';
+import { Alert, Button, FormControlLabel, Paper, Stack, Switch, TextField, Typography } from '@mui/material';
 import { useRef, useState } from 'react';
 import { monoFont } from '../../../app/theme';
-import { useCertificate, useUploadCertificate } from '../api/packages';
+import { useCertificate, usePackageSettings, useSetPackageSettings, useUploadCertificate } from '../api/packages';
+
+/** Whether the firm's packages carry its internal query register: off unless the owner turns it on. */
+function QueryRegisterSetting() {
+  const settings = usePackageSettings();
+  const save = useSetPackageSettings();
+  return (
+    <Stack sx={{ mt: 2 }}>
+      <FormControlLabel
+        control={<Switch checked={settings.data?.queryRegister ?? false} disabled={!settings.data || save.isPending} onChange={(e) => save.mutate({ queryRegister: e.target.checked })} />}
+        label="Include the query register (the checker's queries and the answers) in packages issued from now on"
+      />
+      <Typography variant="caption" color="text.secondary">Off by default: a client's package shows the checked calculation, not the firm's internal review.</Typography>
+      {save.isError && <Alert severity="error">{save.error.message}</Alert>}
+    </Stack>
+  );
+}
 
 export function CertificatePanel() {
   const cert = useCertificate();
@@ -30,6 +46,7 @@ export function CertificatePanel() {
       </Stack>
       {upload.isError && <Alert severity="error" sx={{ mt: 1 }}>{upload.error.message}</Alert>}
       {upload.isSuccess && <Alert severity="success" sx={{ mt: 1 }}>The firm's certificate is in place; new packages are signed with it. Its password is kept encrypted.</Alert>}
+      <QueryRegisterSetting />
     </Paper>
   );
 }
