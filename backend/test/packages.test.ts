@@ -146,7 +146,7 @@ describe('signed packages, the client portal and verification', () => {
     expect((await as(app, owner, 'put', '/api/firm/package-settings').send({ queryRegister: 'yes' }).expect(400)).body.message).toMatch(/queryRegister must be true or false/);
     expect((await as(app, owner, 'put', '/api/firm/package-settings').send({ queryRegister: true }).expect(200)).body).toEqual({ queryRegister: true });
     try {
-      const project = (await as(app, engineer, 'get', '/api/projects').expect(200)).body.find((p: { jobNumber: string }) => p.jobNumber === 'P-1');
+      const project = (await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'P-3', title: 'Register', clientOrganisation: 'Client', site: 'Site' }).expect(201)).body;
       const sheet = (await as(app, engineer, 'post', `/api/projects/${project.id}/sheets`).send({ number: 'C-2', sheet: { format: 'ampwright.sheet/1', title: 'Register', cells: [{ kind: 'calc', source: 'x = 1' }] } }).expect(201)).body;
       await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checker.user.id }).expect(200);
       await as(app, checker, 'post', `/api/sheets/${sheet.id}/pass`).expect(200);
