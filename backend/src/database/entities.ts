@@ -17,6 +17,7 @@ import { SheetAuthor } from '../sheets/entities/sheet-author.entity';
 import { Sheet } from '../sheets/entities/sheet.entity';
 import { User } from '../users/entities/user.entity';
 import { ThrottleCounter } from '../core/throttle/throttle-counter.entity';
+import { MailJob } from '../mail/entities/mail-job.entity';
 
 /** Every entity, listed once: the ORM, the migrator and the seed read this list. */
-export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent, Project, ProjectClient, ProjectMember, Sheet, SheetAuthor, Cell, Attachment, CellQuery, QueryMessage, Revision, Notification, FirmCertificate, PackageJob, Template, ThrottleCounter];
+export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent, Project, ProjectClient, ProjectMember, Sheet, SheetAuthor, Cell, Attachment, CellQuery, QueryMessage, Revision, Notification, FirmCertificate, PackageJob, Template, ThrottleCounter, MailJob];
