@@ -21,8 +21,8 @@ export class AuthController {
     return this.auth.register(dto, res, req.ip);
   }
 
+  /** Throttled on failed attempts only (SignInThrottle), so an office behind one address signs in freely. */
   @Public()
-  @Throttle(AUTH_THROTTLE)
   @Post('login')
   @HttpCode(200)
   login(@Body() dto: LoginDto, @Req() req: Request, @Res({ passthrough: true }) res: Response): Promise<MeResponseDto> {

@@ -17,6 +17,7 @@ import type { MeResponseDto } from './dto/me-response.dto';
 import { PasswordReset } from './entities/password-reset.entity';
 import { PasswordService } from './password.service';
 import { SessionsService } from './sessions.service';
+import { SignInThrottle } from './sign-in-throttle.service';
 
 export enum AuthErrorCode {
   EmailTaken = 'EMAIL_TAKEN',
@@ -37,6 +38,7 @@ export class AuthService {
     private readonly sessions: SessionsService,
     private readonly audit: AuditService,
     private readonly mail: MailService,
+    private readonly signInThrottle: SignInThrottle,
     config: ConfigService<Environment, true>,
   ) {
     this.appUrl = config.get('APP_URL', { infer: true }).replace(/\/$/, '');
@@ -56,13 +58,16 @@ export class AuthService {
   }
 
   async login(dto: LoginDto, res: Response, ip?: string): Promise<MeResponseDto> {
+    await this.signInThrottle.check(dto.email, ip);
     const user = await this.em.findOne(User, { email: dto.email });
     const ok = await this.passwords.verify(dto.password, user?.passwordHash);
     const membership = user && ok ? await this.em.findOne(Membership, { user }, { populate: ['firm'], orderBy: { createdAt: 'asc' } }) : null;
     if (!user || !ok || !membership) {
+      await this.signInThrottle.failed(dto.email, ip);
       await this.audit.record('sign-in-failed', { email: dto.email, userId: user?.id, ip });
       throw new AppException(AuthErrorCode.BadCredentials, 'The e-mail address or the password is not right.', HttpStatus.UNAUTHORIZED);
     }
+    await this.signInThrottle.succeeded(dto.email, ip);
     const session = await this.sessions.open(user, membership.firm, res);
     await this.audit.record('sign-in', { firmId: membership.firm.id, userId: user.id, email: user.email, ip });
     return this.me({ session, membership, roles: membership.roles });
@@ -98,14 +103,21 @@ export class AuthService {
     );
   }
 
+  /**
+   * A reset link works once: it is taken by one conditional UPDATE (of two uses at once exactly one
+   * wins), and using it revokes the account's other reset links and ends all its sessions.
+   */
   async resetPassword(dto: ResetPasswordDto, ip?: string): Promise<void> {
+    const invalid = () => new AppException(AuthErrorCode.ResetInvalid, 'This reset link has expired or has been used. Ask for a new one.', HttpStatus.BAD_REQUEST);
     const reset = await this.em.findOne(PasswordReset, { tokenHash: hashToken(dto.token) }, { populate: ['user'] });
-    if (!reset || reset.usedAt || reset.expiresAt.getTime() < Date.now()) {
-      throw new AppException(AuthErrorCode.ResetInvalid, 'This reset link has expired or has been used. Ask for a new one.', HttpStatus.BAD_REQUEST);
-    }
-    reset.usedAt = new Date();
-    reset.user.passwordHash = await this.passwords.hash(dto.password);
-    await this.em.flush();
+    if (!reset) throw invalid();
+    const passwordHash = await this.passwords.hash(dto.password);
+    await this.em.transactional(async (em) => {
+      const taken = await em.getConnection().execute('update password_reset set used_at = ? where token_hash = ? and used_at is null and expires_at > ?', [new Date(), reset.tokenHash, new Date()], 'run', em.getTransactionContext());
+      if ((taken as { affectedRows?: number }).affectedRows !== 1) throw invalid();
+      await em.nativeUpdate(User, { id: reset.user.id }, { passwordHash });
+      await em.getConnection().execute('update password_reset set used_at = ? where user_id = ? and used_at is null', [new Date(), reset.user.id], 'run', em.getTransactionContext());
+    });
     await this.sessions.closeAllOf(reset.user);
     await this.audit.record('password-reset', { userId: reset.user.id, email: reset.user.email, ip });
   }

@@ -102,6 +102,10 @@ export class Environment {
   @IsIn(['true', 'false'])
   S3_FORCE_PATH_STYLE: 'true' | 'false' = 'true';
 
+  /** Failed sign-ins a minute from one client address (good ones never count). */
+  @Type(() => Number) @IsInt() @Min(1) @Max(100_000)
+  THROTTLE_FAILED_SIGN_INS_PER_ADDRESS = 30;
+
   /** Warm evaluation processes (sheets, CSV uploads and certificate files are worked through there). */
   @Type(() => Number) @IsInt() @Min(2) @Max(64)
   EVALUATION_PROCESSES = 3;

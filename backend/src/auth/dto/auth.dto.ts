@@ -1,5 +1,6 @@
 import { Transform } from 'class-transformer';
-import { IsEmail, IsNotEmpty, IsString, Length, MaxLength, MinLength } from 'class-validator';
+import { IsEmail, IsNotEmpty, IsString, Length, MaxLength, MinLength, ValidateBy } from 'class-validator';
+import { MAX_PASSWORD_BYTES } from '@ampwright/common';
 import { MIN_PASSWORD_LENGTH } from '../password.service';
 
 const lower = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim().toLowerCase() : value);
@@ -13,10 +14,14 @@ export class LoginDto {
   password: string;
 }
 
+/** At most `max` bytes once encoded as UTF-8 (what bcrypt reads), whatever the number of characters. */
+const MaxUtf8Bytes = (max: number, message: string) =>
+  ValidateBy({ name: 'maxUtf8Bytes', validator: { validate: (value: unknown) => typeof value === 'string' && Buffer.byteLength(value, 'utf8') <= max, defaultMessage: () => message } });
+
 export class NewPasswordFields {
   @IsString()
   @MinLength(MIN_PASSWORD_LENGTH, { message: `password must be at least ${MIN_PASSWORD_LENGTH} characters` })
-  @MaxLength(200, { message: 'password must be at most 200 characters' })
+  @MaxUtf8Bytes(MAX_PASSWORD_BYTES, `password must be at most ${MAX_PASSWORD_BYTES} bytes: about ${MAX_PASSWORD_BYTES} letters and digits, fewer with accents or symbols (bcrypt reads no further)`)
   password: string;
 }
 

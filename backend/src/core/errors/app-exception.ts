@@ -38,6 +38,8 @@ export class AppException extends Error {
     readonly status: HttpStatus = HttpStatus.BAD_REQUEST,
     readonly details?: ErrorDetail[],
     readonly current?: unknown,
+    /** Response headers that go with the error (Retry-After). */
+    readonly headers?: Record<string, string>,
   ) {
     super(message);
   }

@@ -25,6 +25,7 @@ export class AllExceptionsFilter implements ExceptionFilter {
     const response = host.switchToHttp().getResponse<Response>();
     const body = this.toBody(exception);
     if (body.statusCode >= 500) this.logger.error(exception instanceof Error ? (exception.stack ?? exception.message) : String(exception));
+    if (exception instanceof AppException && exception.headers) for (const [name, value] of Object.entries(exception.headers)) response.setHeader(name, value);
     response.status(body.statusCode).json(body);
   }
 

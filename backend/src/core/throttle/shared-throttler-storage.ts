@@ -45,4 +45,19 @@ export class SharedThrottlerStorage implements ThrottlerStorage {
     }
     return { totalHits: row.hits, timeToExpire: Math.max(0, Math.ceil(Number(row.expires_in) / 1e6)), isBlocked: blockedIn > 0, timeToBlockExpire: Math.max(0, Math.ceil(blockedIn / 1e6)) };
   }
+
+  /** The longest wait, in whole seconds, that any of these counters is blocked for (0: none is). */
+  async blockedFor(ids: string[]): Promise<number> {
+    const em = this.orm.em.fork() as EntityManager;
+    const [row] = await em.execute<{ wait: number | string | null }[]>(
+      `select max(timestampdiff(microsecond, now(3), blocked_until)) as wait from throttle_counter where tracker_key in (${ids.map(() => '?').join(', ')}) and blocked_until > now(3)`,
+      ids,
+    );
+    return row?.wait === null || row?.wait === undefined ? 0 : Math.max(1, Math.ceil(Number(row.wait) / 1e6));
+  }
+
+  /** Forgets a counter (a good sign-in clears its account's failures). */
+  async forget(id: string): Promise<void> {
+    await (this.orm.em.fork() as EntityManager).execute('delete from throttle_counter where tracker_key = ?', [id], 'run');
+  }
 }
