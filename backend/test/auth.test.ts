@@ -113,6 +113,27 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     await as(app, live, 'get', '/api/auth/me').expect(200);
   });
 
+  it('slides a session with its use: idle for SESSION_IDLE_MINUTES it ends, busy it lasts at most SESSION_HOURS', async () => {
+    const { cookie, email } = await register();
+    const sql = <T>(q: string, p: unknown[] = []) => app.get(EntityManager).fork().getConnection().execute<T>(q, p);
+    const sessionOf = `select s.token_hash from session s join app_user u on u.id = s.user_id where u.email = '${email}'`;
+    const left = async () => (await sql<{ minutes: number }[]>(`select timestampdiff(second, now(3), expires_at) / 60 as minutes from session where token_hash = (${sessionOf})`))[0].minutes;
+    // Signed in: it ends after 120 idle minutes, not after 12 hours.
+    expect(Number(await left())).toBeGreaterThan(118);
+    expect(Number(await left())).toBeLessThanOrEqual(120);
+    // Nearly idle out, then used: it moves on to 120 minutes from now.
+    await sql(`update session set expires_at = now(3) + interval 30 second where token_hash = (${sessionOf})`);
+    await http().get('/api/auth/me').set('cookie', cookie).expect(200);
+    expect(Number(await left())).toBeGreaterThan(118);
+    // Signed in nearly 12 hours ago: used now, it still ends 12 hours after sign-in.
+    await sql(`update session set created_at = now() - interval 12 hour + interval 10 minute, expires_at = now(3) + interval 30 second where token_hash = (${sessionOf})`);
+    await http().get('/api/auth/me').set('cookie', cookie).expect(200);
+    expect(Number(await left())).toBeLessThanOrEqual(10.1);
+    // Idle past its end: signed out.
+    await sql(`update session set expires_at = now(3) - interval 1 second where token_hash = (${sessionOf})`);
+    await http().get('/api/auth/me').set('cookie', cookie).expect(401);
+  });
+
   it('lets an office of 20 behind one address sign in within a minute: good sign-ins never count', async () => {
     const em = app.get(EntityManager).fork();
     const firm = await register();

@@ -15,6 +15,7 @@ export const newToken = () => randomBytes(32).toString('base64url');
 @Injectable()
 export class SessionsService {
   private readonly hours: number;
+  private readonly idleMinutes: number;
   private readonly secure: boolean;
 
   constructor(
@@ -22,6 +23,7 @@ export class SessionsService {
     config: ConfigService<Environment, true>,
   ) {
     this.hours = config.get('SESSION_HOURS', { infer: true });
+    this.idleMinutes = config.get('SESSION_IDLE_MINUTES', { infer: true });
     this.secure = config.get('COOKIE_SECURE', { infer: true }) === 'true';
   }
 
@@ -29,7 +31,8 @@ export class SessionsService {
   async open(user: User, firm: Firm, res: Response): Promise<Session> {
     await this.em.nativeDelete(Session, { expiresAt: { $lt: new Date() } });
     const token = newToken();
-    const session = new Session(hashToken(token), user, firm, newToken(), new Date(Date.now() + this.hours * 3600_000));
+    // Idle out first; the auth guard moves the end on at each use, up to SESSION_HOURS from now.
+    const session = new Session(hashToken(token), user, firm, newToken(), new Date(Date.now() + Math.min(this.hours * 60, this.idleMinutes) * 60_000));
     await this.em.persist(session).flush();
     res.cookie(SESSION_COOKIE, token, { httpOnly: true, sameSite: 'lax', secure: this.secure, path: '/', maxAge: this.hours * 3600_000 });
     return session;

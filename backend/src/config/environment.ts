@@ -75,8 +75,13 @@ export class Environment {
   @Type(() => Number) @IsInt() @Min(4) @Max(15)
   BCRYPT_COST = 12;
 
+  /** The longest a session lasts from sign-in, however busy. */
   @Type(() => Number) @IsInt() @Min(1) @Max(24 * 30)
   SESSION_HOURS = 12;
+
+  /** A session unused for this long ends (each use moves its end on, up to SESSION_HOURS). */
+  @Type(() => Number) @IsInt() @Min(5) @Max(24 * 60 * 30)
+  SESSION_IDLE_MINUTES = 120;
 
   /** Set when the app is served over HTTPS, so the session cookie is only sent over it. */
   @IsIn(['true', 'false'])

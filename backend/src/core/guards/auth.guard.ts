@@ -2,6 +2,8 @@ import { createHash, timingSafeEqual } from 'node:crypto';
 import { EntityManager } from '@mikro-orm/mariadb';
 import { CanActivate, ExecutionContext, HttpStatus, Injectable } from '@nestjs/common';
 import { Reflector } from '@nestjs/core';
+import { ConfigService } from '@nestjs/config';
+import type { Environment } from '../../config/environment';
 import type { Request } from 'express';
 import { Session } from '../../auth/entities/session.entity';
 import { Firm } from '../../firms/entities/firm.entity';
@@ -54,10 +56,17 @@ function sameToken(a: string, b: string): boolean {
  */
 @Injectable()
 export class AuthGuard implements CanActivate {
+  private readonly idleMinutes: number;
+  private readonly hours: number;
+
   constructor(
     private readonly reflector: Reflector,
     private readonly em: EntityManager,
-  ) {}
+    config: ConfigService<Environment, true>,
+  ) {
+    this.idleMinutes = config.get('SESSION_IDLE_MINUTES', { infer: true });
+    this.hours = config.get('SESSION_HOURS', { infer: true });
+  }
 
   async canActivate(context: ExecutionContext): Promise<boolean> {
     const rule = this.reflector.getAllAndOverride<AccessRule | undefined>(ACCESS_KEY, [context.getHandler(), context.getClass()]);
@@ -103,6 +112,15 @@ export class AuthGuard implements CanActivate {
       [hashToken(token)],
     );
     if (!row || new Date(row.expires_at).getTime() < Date.now()) return undefined;
+    // Sliding sessions: each use moves the end to SESSION_IDLE_MINUTES from now, never past SESSION_HOURS
+    // from sign-in. Written at most once a minute a session, not at every request.
+    if (new Date(row.expires_at).getTime() - Date.now() < this.idleMinutes * 60_000 - 60_000) {
+      await this.em.execute(
+        'update session set expires_at = least(created_at + interval ? hour, now(3) + interval ? minute) where token_hash = ?',
+        [this.hours, this.idleMinutes, row.token_hash],
+        'run',
+      );
+    }
     this.em.map(User, { id: row.user_id, email: row.u_email, name: row.u_name, password_hash: row.u_password_hash, created_at: row.u_created_at });
     this.em.map(Firm, { id: row.firm_id, name: row.f_name, created_at: row.f_created_at });
     const session = this.em.map(Session, { token_hash: row.token_hash, user_id: row.user_id, firm_id: row.firm_id, csrf_token: row.csrf_token, created_at: row.created_at, expires_at: row.expires_at });
