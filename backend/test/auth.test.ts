@@ -224,6 +224,24 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     const me = await http().get('/api/auth/me').set('cookie', cookieFrom(accepted)).expect(200);
     expect(me.body).toMatchObject({ user: { email: invitee, name: 'Cai Checker' }, firm: { name: 'Probe Consulting' }, roles: ['engineer', 'checker'] });
     await http().post('/api/invitations/accept').set(CSRF_HEADER, '1').send({ token, name: 'Again', password: PASSWORD }).expect(400);
+    // An accepted invitation is not withdrawn: the member is removed instead.
+    const late = await http().delete(`/api/invitations/${sent.body.id}`).set('cookie', owner.cookie).set(CSRF_HEADER, owner.csrf).expect(409);
+    expect(late.body.message).toMatch(/accepted already/);
+  });
+
+  it('lets the owner withdraw an invitation, whose link then no longer works', async () => {
+    const owner = await register();
+    const invitee = uniqueEmail('withdrawn');
+    const sent = await http().post('/api/invitations').set('cookie', owner.cookie).set(CSRF_HEADER, owner.csrf).send({ email: invitee, roles: ['engineer'] }).expect(201);
+    const token = /token=([\w-]+)/.exec((await waitForMail(invitee, (m) => m.subject.includes('invites you'))).text)![1];
+    const withdrawn = await http().delete(`/api/invitations/${sent.body.id}`).set('cookie', owner.cookie).set(CSRF_HEADER, owner.csrf).expect(200);
+    expect(withdrawn.body.revokedAt).toEqual(expect.any(String));
+    const refused = await http().post('/api/invitations/accept').set(CSRF_HEADER, '1').send({ token, name: 'Too Late', password: PASSWORD }).expect(400);
+    expect(refused.body.message).toMatch(/been withdrawn/);
+    await http().get(`/api/invitations/preview?token=${token}`).expect(400);
+    await http().delete(`/api/invitations/${sent.body.id}`).set('cookie', owner.cookie).set(CSRF_HEADER, owner.csrf).expect(409);
+    const audit = await app.get(EntityManager).fork().find(AuditEvent, { email: invitee, type: 'invitation-revoked' });
+    expect(audit).toHaveLength(1);
   });
 
   it('lets the owner change roles and remove members, keeps at least one owner, and audits role changes', async () => {

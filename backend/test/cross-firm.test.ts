@@ -46,6 +46,7 @@ describe('another firm\'s ids', () => {
       templates: (await as(app, aEngineer, 'get', '/api/templates').expect(200)).body,
       revision: (await as(app, aEngineer, 'get', `/api/revisions/${revision.id}`).expect(200)).body,
       members: (await as(app, aEngineer, 'get', '/api/members').expect(200)).body,
+      invitations: (await as(app, aEngineer, 'get', '/api/invitations').expect(200)).body,
       notifications: (await as(app, aEngineer, 'get', '/api/notifications').expect(200)).body,
     });
   }, 60_000);

@@ -1,4 +1,4 @@
-import { BadRequestException, Body, Controller, Get, HttpCode, Post, Query, Req, Res } from '@nestjs/common';
+import { BadRequestException, Body, Controller, Delete, Get, HttpCode, Param, ParseUUIDPipe, Post, Query, Req, Res } from '@nestjs/common';
 import { Throttle } from '@nestjs/throttler';
 import type { Request, Response } from 'express';
 import { Public, Roles } from '../core/decorators/access.decorator';
@@ -23,6 +23,13 @@ export class InvitationsController {
   @Get()
   list(@CurrentAuth() auth: AuthContext): Promise<InvitationResponseDto[]> {
     return this.invitations.list(auth);
+  }
+
+  /** Withdraws an invitation that has not been accepted. */
+  @Roles('owner')
+  @Delete(':id')
+  revoke(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string): Promise<InvitationResponseDto> {
+    return this.invitations.revoke(auth, id);
   }
 
   @Public()

@@ -6,7 +6,7 @@ import { AuditService } from '../audit/audit.service';
 import { PasswordService } from '../auth/password.service';
 import { newToken, SessionsService } from '../auth/sessions.service';
 import type { Environment } from '../config/environment';
-import { AppException } from '../core/errors/app-exception';
+import { AppException, ErrorCode } from '../core/errors/app-exception';
 import { hashToken, type AuthContext } from '../core/guards/auth.guard';
 import { Membership } from '../firms/entities/membership.entity';
 import { Project, ProjectClient } from '../projects/entities/project.entity';
@@ -30,6 +30,7 @@ const toResponse = (i: Invitation): InvitationResponseDto => ({
   roles: i.roles,
   expiresAt: i.expiresAt.toISOString(),
   acceptedAt: i.acceptedAt?.toISOString() ?? null,
+  revokedAt: i.revokedAt?.toISOString() ?? null,
 });
 
 @Injectable()
@@ -75,10 +76,21 @@ export class InvitationsService {
     return list.map(toResponse);
   }
 
+  /** The owner withdraws an invitation not yet accepted; its link stops working at once. */
+  async revoke(auth: AuthContext, id: string): Promise<InvitationResponseDto> {
+    const invitation = await this.em.findOne(Invitation, { id, firm: auth.session.firm });
+    if (!invitation) throw new AppException(ErrorCode.NotFound, 'No such invitation.', HttpStatus.NOT_FOUND);
+    const withdrawn = await this.em.nativeUpdate(Invitation, { id, acceptedAt: null, revokedAt: null }, { revokedAt: new Date() });
+    if (withdrawn !== 1) throw new AppException(ErrorCode.Conflict, invitation.acceptedAt ? 'This invitation was accepted already; remove the member instead.' : 'This invitation was withdrawn already.', HttpStatus.CONFLICT);
+    await this.audit.record('invitation-revoked', { firmId: auth.session.firm.id, userId: auth.session.user.id, email: invitation.email });
+    await this.em.refresh(invitation);
+    return toResponse(invitation);
+  }
+
   private async findOpen(token: string): Promise<Invitation> {
     const invitation = await this.em.findOne(Invitation, { tokenHash: hashToken(token) }, { populate: ['firm'] });
-    if (!invitation || invitation.acceptedAt || invitation.expiresAt.getTime() < Date.now()) {
-      throw new AppException(InvitationErrorCode.Invalid, 'This invitation has expired or has been used. Ask for a new one.', HttpStatus.BAD_REQUEST);
+    if (!invitation || invitation.acceptedAt || invitation.revokedAt || invitation.expiresAt.getTime() < Date.now()) {
+      throw new AppException(InvitationErrorCode.Invalid, 'This invitation has expired, been used or been withdrawn. Ask for a new one.', HttpStatus.BAD_REQUEST);
     }
     return invitation;
   }
@@ -101,8 +113,10 @@ export class InvitationsService {
       user = new User(invitation.email, dto.name, await this.passwords.hash(dto.password));
       this.em.persist(user);
     }
+    // Taken by one conditional UPDATE: an invitation withdrawn (or accepted) a moment ago is not accepted now.
+    const taken = await this.em.nativeUpdate(Invitation, { id: invitation.id, acceptedAt: null, revokedAt: null }, { acceptedAt: new Date() });
+    if (taken !== 1) throw new AppException(InvitationErrorCode.Invalid, 'This invitation has expired, been used or been withdrawn. Ask for a new one.', HttpStatus.BAD_REQUEST);
     const membership = new Membership(invitation.firm, user, invitation.roles);
-    invitation.acceptedAt = new Date();
     this.em.persist(membership);
     // A client is given the projects they were invited to (those that are still the firm's).
     if (invitation.roles.includes('client') && invitation.projectIds.length) {

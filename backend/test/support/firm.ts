@@ -44,10 +44,11 @@ export async function buildFirm(app: INestApplication, mark: string): Promise<Fi
   const template = (await as(app, engineer, 'post', '/api/templates').send({ sheetId: sheet.id, title: `${mark} template` }).expect(201)).body;
   const notification = (await as(app, engineer, 'get', '/api/notifications').expect(200)).body[0];
   const member = ((await as(app, engineer, 'get', '/api/members').expect(200)).body as { id: string; user: { email: string } }[]).find((m) => m.user.email === checker.user.email)!;
+  const invitation = (await as(app, engineer, 'post', '/api/invitations').send({ email: `${mark.toLowerCase().replace(/[^a-z0-9]/g, '')}-invitee@invited.example`, roles: ['engineer'] }).expect(201)).body;
   return {
     engineer,
     checker,
     approver,
-    ids: { project: project.id, sheet: sheet.id, issuedSheet: issued.id, cell: sheet.cells[0].id, query: openQuery.id, revision: revision.id, attachment: attachment.id, template: template.id, notification: notification.id, member: member.id },
+    ids: { project: project.id, sheet: sheet.id, issuedSheet: issued.id, cell: sheet.cells[0].id, query: openQuery.id, revision: revision.id, attachment: attachment.id, template: template.id, notification: notification.id, member: member.id, invitation: invitation.id },
   };
 }

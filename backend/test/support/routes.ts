@@ -22,6 +22,7 @@ export const MATRIX: Record<string, Allowed> = {
   'POST /api/auth/reset-password': 'public',
   'POST /api/invitations': ['owner'],
   'GET /api/invitations': ['owner'],
+  'DELETE /api/invitations/:id': ['owner'],
   'GET /api/invitations/preview': 'public',
   'POST /api/invitations/accept': 'public',
   'GET /api/members': MEMBERS,
@@ -99,6 +100,7 @@ export interface ResourceIds {
   template: string;
   notification: string;
   member: string;
+  invitation: string;
 }
 
 /** A route's path with each parameter replaced by the id of the resource it names. */
@@ -113,7 +115,8 @@ export function fillIds(path: string, ids: ResourceIds): string {
     .replace('/api/attachments/:id', `/api/attachments/${ids.attachment}`)
     .replace('/api/templates/:id', `/api/templates/${ids.template}`)
     .replace('/api/notifications/:id', `/api/notifications/${ids.notification}`)
-    .replace('/api/members/:id', `/api/members/${ids.member}`);
+    .replace('/api/members/:id', `/api/members/${ids.member}`)
+    .replace('/api/invitations/:id', `/api/invitations/${ids.invitation}`);
 }
 
 /** A valid body for each route of a signed-in member that takes one (`userId`: someone of the caller's firm). */

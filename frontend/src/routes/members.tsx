@@ -5,7 +5,7 @@ import { FormCard } from '../components/forms/form-card';
 import { useForm } from '../components/forms/use-form';
 import { PageHeading } from '../components/layout/page-heading';
 import { useMe, type Role } from '../features/auth/api/get-me';
-import { inviteSchema, ROLE_LABELS, useInvitations, useInvite, useMembers, useRemoveMember, useUpdateRoles, type Member } from '../features/members/api/members';
+import { inviteSchema, ROLE_LABELS, useInvitations, useInvite, useMembers, useRemoveMember, useRevokeInvitation, useUpdateRoles, type Member } from '../features/members/api/members';
 
 const ALL_ROLES: Role[] = ['owner', 'engineer', 'checker', 'approver', 'client'];
 
@@ -73,6 +73,7 @@ export function MembersPage() {
   const isOwner = !!me?.roles.includes('owner');
   const members = useMembers();
   const invitations = useInvitations(isOwner);
+  const revoke = useRevokeInvitation();
   return (
     <Stack spacing={3}>
       <PageHeading overline={me?.firm.name}>Members</PageHeading>
@@ -96,11 +97,18 @@ export function MembersPage() {
       {isOwner && !!invitations.data?.length && (
         <Paper sx={{ p: 2 }}>
           <Typography variant="h4" gutterBottom>Invitations</Typography>
-          {invitations.data.map((i) => (
-            <Typography key={i.id} variant="body2">
-              {i.email} — {i.roles.map((r) => ROLE_LABELS[r]).join(', ')} — {i.acceptedAt ? 'accepted' : new Date(i.expiresAt) < new Date() ? 'expired' : `open until ${new Date(i.expiresAt).toLocaleDateString()}`}
-            </Typography>
-          ))}
+          {invitations.data.map((i) => {
+            const open = !i.acceptedAt && !i.revokedAt && new Date(i.expiresAt) >= new Date();
+            return (
+              <Stack key={i.id} direction="row" spacing={1} sx={{ alignItems: 'center' }}>
+                <Typography variant="body2">
+                  {i.email} — {i.roles.map((r) => ROLE_LABELS[r]).join(', ')} — {i.acceptedAt ? 'accepted' : i.revokedAt ? 'withdrawn' : open ? `open until ${new Date(i.expiresAt).toLocaleDateString()}` : 'expired'}
+                </Typography>
+                {open && <Button size="small" disabled={revoke.isPending} onClick={() => revoke.mutate(i.id)} aria-label={`Withdraw the invitation of ${i.email}`}>Withdraw</Button>}
+              </Stack>
+            );
+          })}
+          {revoke.isError && <Alert severity="error">{revoke.error.message}</Alert>}
         </Paper>
       )}
     </Stack>

@@ -3,7 +3,7 @@ import { Entity, Index, Opt, PrimaryKey, Property } from '@mikro-orm/core';
 
 export type AuditType =
   | 'sign-in' | 'sign-in-failed' | 'sign-out' | 'firm-registered' | 'role-changed' | 'member-removed'
-  | 'invitation-sent' | 'invitation-accepted' | 'password-reset-requested' | 'password-reset'
+  | 'invitation-sent' | 'invitation-accepted' | 'invitation-revoked' | 'password-reset-requested' | 'password-reset'
   | 'check-requested' | 'sheet-returned' | 'check-passed' | 'sheet-approved' | 'revision-issued' | 'revision-started'
   | 'query-raised' | 'query-replied' | 'query-closed' | 'cell-agreed' | 'agreement-withdrawn' | 'co-preparers-named';
 

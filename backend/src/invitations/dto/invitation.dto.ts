@@ -32,4 +32,5 @@ export class InvitationResponseDto {
   roles: Role[];
   expiresAt: string;
   acceptedAt: string | null;
+  revokedAt: string | null;
 }

@@ -35,6 +35,10 @@ export class Invitation {
   @Property({ type: 'datetime', nullable: true })
   acceptedAt?: Date;
 
+  /** Set when the owner withdrew the invitation: its link no longer works. */
+  @Property({ type: 'datetime', nullable: true })
+  revokedAt?: Date;
+
   @Property({ type: 'datetime' })
   createdAt: Date & Opt = new Date();
 

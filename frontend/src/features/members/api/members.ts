@@ -15,6 +15,7 @@ export interface Invitation {
   roles: Role[];
   expiresAt: string;
   acceptedAt: string | null;
+  revokedAt: string | null;
 }
 
 export const memberKeys = { all: ['members'] as const, invitations: ['invitations'] as const };
@@ -33,6 +34,12 @@ export const inviteSchema = z
     roles: z.array(z.enum(['owner', 'engineer', 'checker', 'approver', 'client'])).min(1, 'Choose at least one role'),
   })
   .refine((v) => !v.roles.includes('client') || v.roles.length === 1, { message: 'A client cannot also hold a role in the firm', path: ['roles'] });
+
+/** The owner withdraws an invitation not yet accepted: its link stops working. */
+export function useRevokeInvitation() {
+  const qc = useQueryClient();
+  return useMutation({ mutationFn: (id: string) => api.delete<Invitation>(`/invitations/${id}`), onSuccess: () => qc.invalidateQueries({ queryKey: memberKeys.invitations }) });
+}
 
 export function useInvite() {
   const queryClient = useQueryClient();
