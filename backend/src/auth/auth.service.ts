@@ -1,6 +1,6 @@
 import { randomBytes } from 'node:crypto';
 import { EntityManager } from '@mikro-orm/core';
-import { HttpStatus, Injectable } from '@nestjs/common';
+import { HttpStatus, Injectable, Logger } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import type { Response } from 'express';
 import { AuditService } from '../audit/audit.service';
@@ -30,6 +30,7 @@ const RESET_MINUTES = 60;
 
 @Injectable()
 export class AuthService {
+  private readonly logger = new Logger(AuthService.name);
   private readonly appUrl: string;
 
   constructor(
@@ -89,14 +90,22 @@ export class AuthService {
     return this.me(auth);
   }
 
-  /** Answers the same whether or not the address has an account. */
+  /**
+   * Answers the same, and in the same time, whether or not the address has an account: the answer goes
+   * at once, and the link is made and queued for e-mail after it.
+   */
   async forgotPassword(dto: ForgotPasswordDto, ip?: string): Promise<void> {
-    const user = await this.em.findOne(User, { email: dto.email });
+    void this.sendResetLink(dto.email, ip).catch((err: Error) => this.logger.error(`password reset for a requested address failed: ${err.message}`));
+  }
+
+  private async sendResetLink(email: string, ip?: string): Promise<void> {
+    const em = this.em.fork();
+    const user = await em.findOne(User, { email });
     if (!user) return;
-    const membership = await this.em.findOne(Membership, { user }, { populate: ['firm'] });
+    const membership = await em.findOne(Membership, { user }, { populate: ['firm'] });
     const token = randomBytes(32).toString('base64url');
     const expires = new Date(Date.now() + RESET_MINUTES * 60_000);
-    await this.em.persist(new PasswordReset(hashToken(token), user, expires)).flush();
+    await em.persist(new PasswordReset(hashToken(token), user, expires)).flush();
     await this.audit.record('password-reset-requested', { firmId: membership?.firm.id, userId: user.id, email: user.email, ip });
     await this.mail.send(
       mailTemplates.passwordReset({ to: user.email, firm: membership?.firm.name ?? 'Ampwright', url: `${this.appUrl}/reset-password?token=${token}`, expires }),
