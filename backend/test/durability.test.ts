@@ -18,6 +18,14 @@ const BASE = `http://127.0.0.1:${PORT}`;
 const startApp = (port = PORT, worker = false) => startAppProcess(port, { worker });
 const ready = (base = BASE) => readyAt(base);
 
+// This file's in-process app makes no packages. Set before the app module is imported, since its
+// configuration is read then (vi.stubEnv in beforeAll would come too late).
+const packageWorkerBefore = vi.hoisted(() => {
+  const value = process.env.PACKAGE_WORKER;
+  process.env.PACKAGE_WORKER = 'false';
+  return value;
+});
+
 describe('durability', () => {
   let app: INestApplication;
   let engineer: Caller;
@@ -25,14 +33,14 @@ describe('durability', () => {
 
   beforeAll(async () => {
     // This file's in-process app makes no packages, so a package made here was made by a spawned instance.
-    vi.stubEnv('PACKAGE_WORKER', 'false');
     app = await createTestApp();
     engineer = await makeCaller(app, ['engineer']);
   });
   afterAll(async () => {
     child?.kill('SIGKILL');
     await app?.close();
-    vi.unstubAllEnvs();
+    if (packageWorkerBefore === undefined) delete process.env.PACKAGE_WORKER;
+    else process.env.PACKAGE_WORKER = packageWorkerBefore;
   });
 
   const call = (path: string, method: string, body?: unknown) =>

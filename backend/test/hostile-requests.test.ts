@@ -41,6 +41,14 @@ function p12WithMacIterations(count: number): Buffer {
   return Buffer.from(forge.asn1.toDer(pfx).getBytes(), 'binary');
 }
 
+// This file's in-process app makes no packages. Set before the app module is imported, since its
+// configuration is read then (vi.stubEnv in beforeAll would come too late).
+const packageWorkerBefore = vi.hoisted(() => {
+  const value = process.env.PACKAGE_WORKER;
+  process.env.PACKAGE_WORKER = 'false';
+  return value;
+});
+
 describe('hostile requests against the running app', () => {
   let app: INestApplication;
   let engineer: Caller;
@@ -51,7 +59,6 @@ describe('hostile requests against the running app', () => {
   let baselineMb: number;
 
   beforeAll(async () => {
-    vi.stubEnv('PACKAGE_WORKER', 'false');
     app = await createTestApp();
     engineer = await makeCaller(app, ['engineer']);
     owner = await makeCaller(app, ['owner'], engineer.firm);
@@ -66,7 +73,8 @@ describe('hostile requests against the running app', () => {
   afterAll(async () => {
     child?.kill('SIGKILL');
     await app?.close();
-    vi.unstubAllEnvs();
+    if (packageWorkerBefore === undefined) delete process.env.PACKAGE_WORKER;
+    else process.env.PACKAGE_WORKER = packageWorkerBefore;
   });
 
   const headers = (who: Caller) => ({ cookie: who.cookie, 'x-ampwright-csrf': who.csrf });
