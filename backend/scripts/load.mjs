@@ -160,7 +160,16 @@ main(async () => {
    */
   async function noisyPhase(seconds) {
     for (const w of writers) w.version = (await json(`/sheets/${w.sheetId}`, { session: w.session })).data.version;
-    const registered = await json('/auth/register', { method: 'POST', body: { firmName: 'Noisy Neighbour Ltd', name: 'Noisy', email: `noisy-${Date.now()}@load.example`, password: 'noisy-neighbour-password' } });
+    // Registered as anyone would: the form, then the link e-mailed to the address (read from the mail sink).
+    const email = `noisy-${Date.now()}@load.example`;
+    await json('/auth/register', { method: 'POST', body: { firmName: 'Noisy Neighbour Ltd', name: 'Noisy', email, password: 'noisy-neighbour-password' } });
+    let token;
+    for (let k = 0; k < 100 && !token; k++) {
+      const messages = await (await fetch(`http://127.0.0.1:2680/messages?to=${encodeURIComponent(email)}`)).json();
+      token = /token=([\w-]+)/.exec(messages.find((m) => m.subject === 'Confirm your Ampwright registration')?.text ?? '')?.[1];
+      if (!token) await new Promise((r) => setTimeout(r, 100));
+    }
+    const registered = await json('/auth/register/confirm', { method: 'POST', body: { token } });
     const noisy = { cookie: registered.res.headers.get('set-cookie').split(';')[0], csrf: registered.data.csrfToken };
     const runaway = { format: 'ampwright.sheet/1', title: 'Runaway', cells: [{ kind: 'calc', source: `M = ones(316, 316)\nP = ${Array.from({ length: 20 }, () => 'M').join(' * ')}` }] };
     const noisyStatuses = new Map();

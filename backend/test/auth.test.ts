@@ -27,15 +27,23 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     await app?.close();
   });
 
+  const REGISTERED = 'Check your e-mail: follow the link we sent to confirm the address, and the firm is ready.';
+
+  /** Registers a firm the way a person does: the form, then the link e-mailed to the address. */
   async function register(email = uniqueEmail('owner')) {
-    const res = await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Probe Consulting', name: 'Olu Owner', email, password: PASSWORD }).expect(201);
-    return { email, cookie: cookieFrom(res), csrf: res.body.csrfToken as string, body: res.body };
+    const asked = await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Probe Consulting', name: 'Olu Owner', email, password: PASSWORD }).expect(202);
+    expect(asked.body).toEqual({ message: REGISTERED });
+    const mail = await waitForMail(email, (m) => m.subject === 'Confirm your Ampwright registration');
+    const token = /token=([\w-]+)/.exec(mail.text)![1];
+    const res = await http().post('/api/auth/register/confirm').set(CSRF_HEADER, '1').send({ token }).expect(201);
+    return { email, token, cookie: cookieFrom(res), csrf: res.body.csrfToken as string, body: res.body, res };
   }
 
-  it('registers a firm whose first user is its owner, with an httpOnly SameSite=Lax session cookie', async () => {
-    const email = uniqueEmail('owner');
-    const res = await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Probe Consulting', name: 'Olu Owner', email, password: PASSWORD }).expect(201);
+  it('registers a firm by an e-mailed link; its first user is its owner, with an httpOnly SameSite=Lax session cookie', async () => {
+    const { email, res, token } = await register();
     expect(res.body).toMatchObject({ user: { email }, firm: { name: 'Probe Consulting' }, roles: ['owner'] });
+    // The link works once.
+    expect((await http().post('/api/auth/register/confirm').set(CSRF_HEADER, '1').send({ token }).expect(400)).body.code).toBe('REGISTRATION_INVALID');
     const setCookie = String(res.headers['set-cookie']);
     expect(setCookie).toMatch(/HttpOnly/i);
     expect(setCookie).toMatch(/SameSite=Lax/i);
@@ -47,9 +55,14 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
   it('refuses a short password and a taken address with clear messages', async () => {
     const short = await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'X Ltd', name: 'X', email: uniqueEmail('x'), password: 'short' }).expect(400);
     expect(short.body.details).toEqual([{ field: 'password', message: 'password must be at least 12 characters' }]);
+  });
+
+  it('answers a registration alike whether or not the address has an account, and tells the address by e-mail', async () => {
     const { email } = await register();
-    const taken = await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Y Ltd', name: 'Y', email, password: PASSWORD }).expect(409);
-    expect(taken.body.code).toBe('EMAIL_TAKEN');
+    const known = await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Y Ltd', name: 'Y', email, password: PASSWORD }).expect(202);
+    const unknown = await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Y Ltd', name: 'Y', email: uniqueEmail('fresh'), password: PASSWORD }).expect(202);
+    expect(known.body).toEqual(unknown.body);
+    expect((await waitForMail(email, (m) => m.subject === 'Your Ampwright account')).text).toMatch(/has an account already/);
   });
 
   it('signs in, records sign-ins and failures, and signs out', async () => {
@@ -60,7 +73,7 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     const cookie = cookieFrom(ok);
     await http().post('/api/auth/logout').set('cookie', cookie).set(CSRF_HEADER, ok.body.csrfToken).expect(204);
     await http().get('/api/auth/me').set('cookie', cookie).expect(401);
-    expect((await audit(email)).map((e) => e.type)).toEqual(['firm-registered', 'sign-in-failed', 'sign-in', 'sign-out']);
+    expect((await audit(email)).map((e) => e.type)).toEqual(['registration-requested', 'firm-registered', 'sign-in-failed', 'sign-in', 'sign-out']);
   });
 
   it('answers an unknown address exactly as a wrong password', async () => {
@@ -172,7 +185,7 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     const tooLong = 'ü'.repeat(37); // 37 characters, 74 bytes
     const res = await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Long Pass Ltd', name: 'Lena Long', email: uniqueEmail('long'), password: tooLong }).expect(400);
     expect(res.body.message).toMatch(/password must be at most 72 bytes/);
-    await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Long Pass Ltd', name: 'Lena Long', email: uniqueEmail('long'), password: 'ü'.repeat(36) }).expect(201);
+    await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Long Pass Ltd', name: 'Lena Long', email: uniqueEmail('long'), password: 'ü'.repeat(36) }).expect(202);
   });
 
   it('takes a reset link once when it is used twice at the same moment, and revokes the account\'s other links', async () => {

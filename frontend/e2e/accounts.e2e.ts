@@ -39,7 +39,7 @@ describe('accounts in a real browser', () => {
     expect(await s.page.getByText('Enter your name').count()).toBe(1);
   });
 
-  it('registers a firm and lets its owner see the members page', async () => {
+  it('registers a firm by the e-mailed link and lets its owner see the members page', async () => {
     const email = `owner-${Date.now()}@quillon.example`;
     await s.page.goto(`${baseUrl()}/register`);
     await s.page.getByLabel('Firm name').fill('Quillon Power Studies');
@@ -47,6 +47,16 @@ describe('accounts in a real browser', () => {
     await s.page.getByLabel('E-mail address').fill(email);
     await s.page.getByLabel('Password').fill('a long enough passphrase');
     await s.page.getByRole('button', { name: 'Register' }).click();
+    await s.page.getByText('Check your e-mail: follow the link we sent to confirm the address, and the firm is ready.').waitFor();
+    // The link arrives by e-mail (the SMTP sink that npm test starts); following it makes the firm and signs in.
+    let link: string | undefined;
+    for (let k = 0; k < 50 && !link; k++) {
+      const messages = (await (await fetch(`${process.env.MAIL_API_URL}/messages?to=${encodeURIComponent(email)}`)).json()) as { subject: string; text: string }[];
+      link = /(http\S+confirm-registration\?token=[\w-]+)/.exec(messages.find((m) => m.subject === 'Confirm your Ampwright registration')?.text ?? '')?.[1];
+      if (!link) await new Promise((r) => setTimeout(r, 200));
+    }
+    expect(link).toBeDefined();
+    await s.page.goto(link!);
     await s.page.waitForURL(/\/members$/);
     await s.page.getByRole('table', { name: 'Members' }).getByText(email).waitFor();
     await expect.poll(() => s.page.getByTestId('firm-and-roles').textContent()).toBe('Quillon Power Studies · Owner');

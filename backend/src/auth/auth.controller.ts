@@ -6,19 +6,28 @@ import { CurrentAuth } from '../core/decorators/current-auth.decorator';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { AUTH_THROTTLE } from '../core/throttle/throttlers';
 import { AuthService } from './auth.service';
-import { ChangeProfileDto, ForgotPasswordDto, LoginDto, RegisterFirmDto, ResetPasswordDto } from './dto/auth.dto';
+import { ChangeProfileDto, ForgotPasswordDto, LoginDto, ConfirmRegistrationDto, RegisterFirmDto, ResetPasswordDto } from './dto/auth.dto';
 import { MeResponseDto } from './dto/me-response.dto';
 
 @Controller('auth')
 export class AuthController {
   constructor(private readonly auth: AuthService) {}
 
-  /** Registers a firm; its first user becomes the owner and is signed in. */
+  /** Registers a firm: answers the same for every address; the e-mailed link makes the firm (below). */
   @Public()
   @Throttle(AUTH_THROTTLE)
   @Post('register')
-  register(@Body() dto: RegisterFirmDto, @Req() req: Request, @Res({ passthrough: true }) res: Response): Promise<MeResponseDto> {
-    return this.auth.register(dto, res, req.ip);
+  @HttpCode(202)
+  register(@Body() dto: RegisterFirmDto, @Req() req: Request): { message: string } {
+    return this.auth.register(dto, req.ip);
+  }
+
+  /** The e-mailed link: makes the firm, its first user its owner, and signs them in. */
+  @Public()
+  @Throttle(AUTH_THROTTLE)
+  @Post('register/confirm')
+  confirmRegistration(@Body() dto: ConfirmRegistrationDto, @Req() req: Request, @Res({ passthrough: true }) res: Response): Promise<MeResponseDto> {
+    return this.auth.confirmRegistration(dto, res, req.ip);
   }
 
   /** Throttled on failed attempts only (SignInThrottle), so an office behind one address signs in freely. */

@@ -12,9 +12,10 @@ import { Membership } from '../firms/entities/membership.entity';
 import { MailService } from '../mail/mail.service';
 import { mailTemplates } from '../mail/mail-templates';
 import { User } from '../users/entities/user.entity';
-import type { ChangeProfileDto, ForgotPasswordDto, LoginDto, RegisterFirmDto, ResetPasswordDto } from './dto/auth.dto';
+import type { ChangeProfileDto, ConfirmRegistrationDto, ForgotPasswordDto, LoginDto, RegisterFirmDto, ResetPasswordDto } from './dto/auth.dto';
 import type { MeResponseDto } from './dto/me-response.dto';
 import { PasswordReset } from './entities/password-reset.entity';
+import { PendingRegistration } from './entities/pending-registration.entity';
 import { PasswordService } from './password.service';
 import { SessionsService } from './sessions.service';
 import { SignInThrottle } from './sign-in-throttle.service';
@@ -24,9 +25,11 @@ export enum AuthErrorCode {
   BadCredentials = 'BAD_CREDENTIALS',
   NoMembership = 'NO_MEMBERSHIP',
   ResetInvalid = 'RESET_INVALID',
+  RegistrationInvalid = 'REGISTRATION_INVALID',
 }
 
 const RESET_MINUTES = 60;
+const REGISTRATION_HOURS = 24;
 
 @Injectable()
 export class AuthService {
@@ -45,12 +48,41 @@ export class AuthService {
     this.appUrl = config.get('APP_URL', { infer: true }).replace(/\/$/, '');
   }
 
-  async register(dto: RegisterFirmDto, res: Response, ip?: string): Promise<MeResponseDto> {
-    if (await this.em.count(User, { email: dto.email })) {
-      throw new AppException(AuthErrorCode.EmailTaken, 'An account with this e-mail address exists already: sign in instead.', HttpStatus.CONFLICT);
+  /**
+   * Registering answers the same, at once, whatever the address: the work is done after the answer. For
+   * a new address the registration waits for its e-mail to be confirmed (the firm is made then); an
+   * address with an account is told so by e-mail, never in the answer.
+   */
+  register(dto: RegisterFirmDto, ip?: string): { message: string } {
+    void this.startRegistration(dto, ip).catch((err: Error) => this.logger.error(`registration for a requested address failed: ${err.message}`));
+    return { message: 'Check your e-mail: follow the link we sent to confirm the address, and the firm is ready.' };
+  }
+
+  private async startRegistration(dto: RegisterFirmDto, ip?: string): Promise<void> {
+    const em = this.em.fork();
+    if (await em.count(User, { email: dto.email })) {
+      await this.mail.send(mailTemplates.alreadyRegistered({ to: dto.email, url: `${this.appUrl}/sign-in` }));
+      return;
     }
-    const firm = new Firm(dto.firmName);
-    const user = new User(dto.email, dto.name, await this.passwords.hash(dto.password));
+    const token = randomBytes(32).toString('base64url');
+    const expires = new Date(Date.now() + REGISTRATION_HOURS * 3600_000);
+    await em.persist(new PendingRegistration(hashToken(token), { firmName: dto.firmName, name: dto.name, email: dto.email, passwordHash: await this.passwords.hash(dto.password), expiresAt: expires })).flush();
+    await this.mail.send(mailTemplates.confirmRegistration({ to: dto.email, firm: dto.firmName, url: `${this.appUrl}/confirm-registration?token=${token}`, expires }));
+    await this.audit.record('registration-requested', { email: dto.email, ip });
+  }
+
+  /** Following the e-mailed link makes the firm and its owner, once, and signs the owner in. */
+  async confirmRegistration(dto: ConfirmRegistrationDto, res: Response, ip?: string): Promise<MeResponseDto> {
+    const invalid = () => new AppException(AuthErrorCode.RegistrationInvalid, 'This registration link has expired or has been used. Register again, or sign in.', HttpStatus.BAD_REQUEST);
+    const pending = await this.em.findOne(PendingRegistration, { tokenHash: hashToken(dto.token) });
+    if (!pending) throw invalid();
+    const taken = await this.em.getConnection().execute('update pending_registration set used_at = ? where token_hash = ? and used_at is null and expires_at > ?', [new Date(), pending.tokenHash, new Date()], 'run');
+    if ((taken as { affectedRows?: number }).affectedRows !== 1) throw invalid();
+    if (await this.em.count(User, { email: pending.email })) {
+      throw new AppException(AuthErrorCode.EmailTaken, 'This address has an account already: sign in instead.', HttpStatus.CONFLICT);
+    }
+    const firm = new Firm(pending.firmName);
+    const user = new User(pending.email, pending.name, pending.passwordHash);
     const membership = new Membership(firm, user, ['owner']);
     await this.em.persist([firm, user, membership]).flush();
     const session = await this.sessions.open(user, firm, res);

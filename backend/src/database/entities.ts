@@ -7,6 +7,7 @@ import { Template } from '../templates/entities/template.entity';
 import { Attachment } from '../attachments/entities/attachment.entity';
 import { AuditEvent } from '../audit/entities/audit-event.entity';
 import { PasswordReset } from '../auth/entities/password-reset.entity';
+import { PendingRegistration } from '../auth/entities/pending-registration.entity';
 import { Session } from '../auth/entities/session.entity';
 import { Firm } from '../firms/entities/firm.entity';
 import { Membership } from '../firms/entities/membership.entity';
@@ -20,4 +21,4 @@ import { ThrottleCounter } from '../core/throttle/throttle-counter.entity';
 import { MailJob } from '../mail/entities/mail-job.entity';
 
 /** Every entity, listed once: the ORM, the migrator and the seed read this list. */
-export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent, Project, ProjectClient, ProjectMember, Sheet, SheetAuthor, Cell, Attachment, CellQuery, QueryMessage, Revision, Notification, FirmCertificate, PackageJob, Template, ThrottleCounter, MailJob];
+export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent, Project, ProjectClient, ProjectMember, Sheet, SheetAuthor, Cell, Attachment, CellQuery, QueryMessage, Revision, Notification, FirmCertificate, PackageJob, Template, ThrottleCounter, MailJob, PendingRegistration];

@@ -41,6 +41,27 @@ export const mailTemplates = {
       ],
       { label: 'Choose a new password', url: p.url },
     ),
+  /** The link that makes a registered firm (registration answers the same for every address). */
+  confirmRegistration: (p: { to: string; firm: string; url: string; expires: Date }) =>
+    compose(
+      p.to,
+      'Confirm your Ampwright registration',
+      p.firm,
+      [
+        `Someone registered the firm ${p.firm} on Ampwright with this address. Follow the link to confirm it and sign in; it works once.`,
+        `It is valid until ${p.expires.toUTCString()}. If you did not register, ignore this message: nothing is made.`,
+      ],
+      { label: 'Confirm and sign in', url: p.url },
+    ),
+  /** Registration with an address that has an account already: said to the address, never to the requester. */
+  alreadyRegistered: (p: { to: string; url: string }) =>
+    compose(
+      p.to,
+      'Your Ampwright account',
+      'Ampwright',
+      ['Someone tried to register a firm on Ampwright with this address, which has an account already. Sign in instead; if you forgot the password, the sign-in page can reset it. If it was not you, ignore this message.'],
+      { label: 'Sign in', url: p.url },
+    ),
   /** A sheet's review event, to one person: what happened, in one sentence, with a link to the sheet. */
   sheetEvent: (p: { to: string; firm: string; subject: string; sentence: string; url: string; action?: string }) =>
     compose(p.to, p.subject, p.firm, [p.sentence], { label: p.action ?? 'Open the sheet', url: p.url }),

@@ -14,6 +14,7 @@ export const MATRIX: Record<string, Allowed> = {
   'GET /api/health': 'public',
   'POST /api/evaluate': MEMBERS,
   'POST /api/auth/register': 'public',
+  'POST /api/auth/register/confirm': 'public',
   'POST /api/auth/login': 'public',
   'POST /api/auth/logout': 'signed-in',
   'GET /api/auth/me': 'signed-in',

@@ -17,6 +17,7 @@ import { MembersPage } from '../routes/members';
 import { NoAccessPage } from '../routes/no-access';
 import { ProfilePage } from '../routes/profile';
 import { RegisterPage } from '../routes/register';
+import { ConfirmRegistrationPage } from '../routes/confirm-registration';
 import { ResetPasswordPage } from '../routes/reset-password';
 import { RequireAuth } from '../features/auth/components/require-auth';
 import type { Role } from '../features/auth/api/get-me';
@@ -32,6 +33,7 @@ export const routes: RouteObject[] = [
       { index: true, element: <HomePage /> },
       { path: 'sign-in', element: <SignInPage /> },
       { path: 'register', element: <RegisterPage /> },
+      { path: 'confirm-registration', element: <ConfirmRegistrationPage /> },
       { path: 'forgot-password', element: <ForgotPasswordPage /> },
       { path: 'reset-password', element: <ResetPasswordPage /> },
       { path: 'accept-invitation', element: <AcceptInvitationPage /> },

@@ -1,17 +1,16 @@
-import { Button, TextField } from '@mui/material';
-import { useNavigate } from 'react-router-dom';
+import { Alert, Button, TextField } from '@mui/material';
 import { FormCard } from '../components/forms/form-card';
 import { useForm } from '../components/forms/use-form';
 import { MIN_PASSWORD_LENGTH, registerSchema, useRegister } from '../features/auth/api/auth-mutations';
 
 export function RegisterPage() {
-  const navigate = useNavigate();
   const form = useForm(registerSchema, { firmName: '', name: '', email: '', password: '' });
   const register = useRegister();
   const submit = () => {
     const body = form.validate();
-    if (body) register.mutate(body, { onSuccess: () => navigate('/members'), onError: form.showError });
+    if (body) register.mutate(body, { onError: form.showError });
   };
+  if (register.isSuccess) return <Alert severity="success" role="status">{register.data.message}</Alert>;
   const field = (key: 'firmName' | 'name' | 'email' | 'password', label: string, props: Record<string, unknown> = {}) => (
     <TextField label={label} value={form.values[key]} onChange={(e) => form.set(key, e.target.value)} error={!!form.errors[key]} helperText={form.errors[key] ?? props.helperText} required {...props} />
   );

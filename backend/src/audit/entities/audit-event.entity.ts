@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import { Entity, Index, Opt, PrimaryKey, Property } from '@mikro-orm/core';
 
 export type AuditType =
-  | 'sign-in' | 'sign-in-failed' | 'sign-out' | 'firm-registered' | 'role-changed' | 'member-removed'
+  | 'sign-in' | 'sign-in-failed' | 'sign-out' | 'registration-requested' | 'firm-registered' | 'role-changed' | 'member-removed'
   | 'invitation-sent' | 'invitation-accepted' | 'invitation-revoked' | 'password-reset-requested' | 'password-reset'
   | 'check-requested' | 'sheet-returned' | 'check-passed' | 'sheet-approved' | 'revision-issued' | 'revision-started'
   | 'query-raised' | 'query-replied' | 'query-closed' | 'cell-agreed' | 'agreement-withdrawn' | 'co-preparers-named';

@@ -50,3 +50,8 @@ export class ChangeProfileDto {
   @Transform(trim) @IsString() @Length(1, 200, { message: 'name must be 1 to 200 characters' })
   name: string;
 }
+
+export class ConfirmRegistrationDto {
+  @IsString() @Length(20, 200, { message: 'token is not a valid registration token' })
+  token: string;
+}

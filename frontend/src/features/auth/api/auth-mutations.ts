@@ -36,9 +36,15 @@ export function useSignIn() {
   return useMutation({ mutationFn: (body: z.infer<typeof signInSchema>) => api.post<Me>('/auth/login', body), onSuccess: signedIn });
 }
 
+/** Registering answers the same for every address: the firm is made when the e-mailed link is followed. */
 export function useRegister() {
+  return useMutation({ mutationFn: (body: z.infer<typeof registerSchema>) => api.post<{ message: string }>('/auth/register', body) });
+}
+
+/** The e-mailed registration link: makes the firm and signs its owner in. */
+export function useConfirmRegistration() {
   const signedIn = useSignedIn();
-  return useMutation({ mutationFn: (body: z.infer<typeof registerSchema>) => api.post<Me>('/auth/register', body), onSuccess: signedIn });
+  return useMutation({ mutationFn: (token: string) => api.post<Me>('/auth/register/confirm', { token }), onSuccess: signedIn });
 }
 
 export function useSignOut() {
