@@ -112,5 +112,13 @@ describe('independent checking', () => {
     const refused = await as(app, approver, 'post', `/api/sheets/${sheet.id}/issue`).expect(409);
     expect(refused.body).toMatchObject({ code: 'RESULTS_CHANGED', message: expect.stringMatching(/^The sheet cannot be issued: evaluated afresh, cell 1 gives results other than those the checker saw/), details: [{ field: 'cells[0]' }] });
     expect((await as(app, approver, 'get', `/api/sheets/${sheet.id}`).expect(200)).body.state).toBe('approved');
+    // The way out: back to the checker, evaluated afresh; checked and approved again, it is issued.
+    await as(app, checker, 'post', `/api/sheets/${sheet.id}/return-to-checker`).send({}).expect(403);
+    const back = await as(app, approver, 'post', `/api/sheets/${sheet.id}/return-to-checker`).send({ note: 'Results changed since the check' }).expect(200);
+    expect(back.body.state).toBe('with-checker');
+    expect(back.body.cells[0].results.values.x.si).toBe(1);
+    await as(app, checker, 'post', `/api/sheets/${sheet.id}/pass`).expect(200);
+    await as(app, approver, 'post', `/api/sheets/${sheet.id}/approve`).expect(200);
+    expect((await as(app, approver, 'post', `/api/sheets/${sheet.id}/issue`).expect(200)).body.code).toBe('A');
   });
 });

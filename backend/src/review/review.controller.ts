@@ -27,6 +27,14 @@ export class ReviewController {
     return this.workflow.requestCheck(auth, id, dto);
   }
 
+  /** A checked or approved sheet back to its checker, evaluated afresh (the approver or an owner). */
+  @Roles('approver', 'owner')
+  @Post('sheets/:id/return-to-checker')
+  @HttpCode(200)
+  returnToChecker(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Body() dto: NoteDto): Promise<SheetDto> {
+    return this.workflow.returnToChecker(auth, id, dto);
+  }
+
   @Roles('checker')
   @Post('sheets/:id/return')
   @HttpCode(200)

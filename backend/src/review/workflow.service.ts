@@ -134,6 +134,28 @@ export class WorkflowService {
     return this.sheets.get(auth, id);
   }
 
+  /**
+   * Sends a checked or approved sheet back to its checker (the approver, or an owner, who had no hand in
+   * it): evaluated afresh and stored, so the checker checks again what would be issued — the way out when
+   * an issue was refused because the results changed.
+   */
+  async returnToChecker(auth: AuthContext, id: string, dto: NoteDto) {
+    const { sheet } = await this.locked(auth, id, async (s, em) => {
+      requireState(s, ['checked', 'approved'], 'return the sheet to its checker');
+      const isOwner = auth.roles.includes('owner');
+      if (!isOwner && s.approver && !isUser(auth, s.approver)) throw new AppException(ReviewErrorCode.NotYours, `Only the sheet's approver (${s.approver.name}) or an owner can return it to the checker.`, HttpStatus.FORBIDDEN);
+      if (!isOwner && !auth.roles.includes('approver')) throw new AppException(ReviewErrorCode.NotYours, 'Only an approver or an owner can return a checked sheet to its checker.', HttpStatus.FORBIDDEN);
+      requireIndependent('approver', { id: auth.session.user.id, name: auth.session.user.name }, await notIndependent(em, s), s.checker?.id);
+      s.state = 'with-checker';
+      s.checkedAt = undefined;
+      s.approvedAt = undefined;
+    });
+    await this.sheets.refreshResults(id, auth.session.firm.id);
+    await this.record(auth, 'sheet-returned-to-checker', sheet, { note: dto.note ?? null });
+    await this.tell(sheet, [sheet.checker], 'sheet-returned-to-checker', `Back for checking: ${sheet.number}`, `${auth.session.user.name} returned sheet ${sheet.number} to you to check again${dto.note ? `: ${dto.note}` : '.'}`);
+    return this.sheets.get(auth, id);
+  }
+
   /** Freezes the sheet as the next revision: an immutable snapshot with its SHA-256. */
   async issue(auth: AuthContext, id: string) {
     const { sheet, out: revision } = await this.locked(auth, id, async (s, em) => {

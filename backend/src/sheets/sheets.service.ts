@@ -364,6 +364,23 @@ export class SheetsService {
    * reason instead of a number: no result of an older state stays on screen. The change itself is saved.
    * Returns the results by cell id and the ids whose stored results changed.
    */
+  /**
+   * Evaluates a sheet afresh, as it stands, and stores every cell's results: what a checker sees after the
+   * sheet comes back to them (review/workflow.service.ts). Reads the sheet and its cells itself.
+   */
+  async refreshResults(sheetId: string, firmId: string): Promise<void> {
+    const em = this.em.fork();
+    const sheet = await em.findOneOrFail(Sheet, sheetId);
+    const rows = await em.execute<{ id: string; kind: string; fields: unknown }[]>('select id, kind, fields from cell where sheet_id = ? order by position', [sheetId]);
+    const contents = rows.map((r) => ({ id: r.id, kind: r.kind, fields: parsedJson(r.fields) as Record<string, unknown> }));
+    const reservation = this.evaluation.reserve(firmId);
+    try {
+      await this.evaluateAndStore(sheet, contents, sheet.version, { firm: firmId, reservation });
+    } finally {
+      reservation.release();
+    }
+  }
+
   private async evaluateAndStore(sheet: Sheet, cells: readonly CellContent[], version: number, options: { firm: string; reservation: Reservation }): Promise<{ results: Map<string, CellResult>; changed: Set<string> }> {
     const outcome = await this.evaluation.evaluate(this.toFile(sheet, cells), { ...options, key: sheet.id });
     const results = outcome.ok ? outcome.cells : unevaluatedResults(cells.length, outcome.message);

@@ -32,7 +32,7 @@ function useInvalidateReview(sheetId: string) {
   };
 }
 
-export type SheetAction = 'return' | 'pass' | 'approve' | 'issue' | 'new-revision';
+export type SheetAction = 'return' | 'return-to-checker' | 'pass' | 'approve' | 'issue' | 'new-revision';
 
 export function useSheetAction(sheetId: string) {
   const invalidate = useInvalidateReview(sheetId);

@@ -96,6 +96,9 @@ export function WorkflowBar({ sheet, me }: { sheet: SheetDto; me: Me }) {
           </>
         )}
         {sheet.state === 'checked' && mayApprove && <Button size="small" variant="contained" onClick={() => act('approve')}>Approve</Button>}
+        {(sheet.state === 'checked' || sheet.state === 'approved') && (mayApprove || (has('owner') && !sheet.authorIds.includes(uid) && sheet.checker?.id !== uid)) && (
+          <Button size="small" variant="outlined" onClick={() => act('return-to-checker')}>Return to the checker</Button>
+        )}
         {sheet.state === 'approved' && sheet.approver?.id === uid && <Button size="small" variant="contained" color="secondary" onClick={() => act('issue')}>Issue revision {sheet.revisionCode}</Button>}
         {issued && (has('engineer') || has('owner')) && <Button size="small" variant="outlined" onClick={() => act('new-revision')}>Start the next revision</Button>}
       </Stack>
