@@ -29,6 +29,13 @@ export enum AuthErrorCode {
 }
 
 const RESET_MINUTES = 60;
+
+/** Takes a single-use link by one conditional UPDATE: true for exactly one of any number of simultaneous uses. */
+async function takeOnce(em: EntityManager, table: 'password_reset' | 'pending_registration', tokenHash: string): Promise<boolean> {
+  const now = new Date();
+  const res = await em.getConnection().execute(`update ${table} set used_at = ? where token_hash = ? and used_at is null and expires_at > ?`, [now, tokenHash, now], 'run', em.getTransactionContext());
+  return (res as { affectedRows?: number }).affectedRows === 1;
+}
 const REGISTRATION_HOURS = 24;
 
 @Injectable()
@@ -60,6 +67,8 @@ export class AuthService {
 
   private async startRegistration(dto: RegisterFirmDto, ip?: string): Promise<void> {
     const em = this.em.fork();
+    // Registrations never confirmed are cleared out as new ones come, so the table does not grow.
+    await em.nativeDelete(PendingRegistration, { expiresAt: { $lt: new Date() } });
     if (await em.count(User, { email: dto.email })) {
       await this.mail.send(mailTemplates.alreadyRegistered({ to: dto.email, url: `${this.appUrl}/sign-in` }));
       return;
@@ -76,8 +85,7 @@ export class AuthService {
     const invalid = () => new AppException(AuthErrorCode.RegistrationInvalid, 'This registration link has expired or has been used. Register again, or sign in.', HttpStatus.BAD_REQUEST);
     const pending = await this.em.findOne(PendingRegistration, { tokenHash: hashToken(dto.token) });
     if (!pending) throw invalid();
-    const taken = await this.em.getConnection().execute('update pending_registration set used_at = ? where token_hash = ? and used_at is null and expires_at > ?', [new Date(), pending.tokenHash, new Date()], 'run');
-    if ((taken as { affectedRows?: number }).affectedRows !== 1) throw invalid();
+    if (!(await takeOnce(this.em, 'pending_registration', pending.tokenHash))) throw invalid();
     if (await this.em.count(User, { email: pending.email })) {
       throw new AppException(AuthErrorCode.EmailTaken, 'This address has an account already: sign in instead.', HttpStatus.CONFLICT);
     }
@@ -154,8 +162,7 @@ export class AuthService {
     if (!reset) throw invalid();
     const passwordHash = await this.passwords.hash(dto.password);
     await this.em.transactional(async (em) => {
-      const taken = await em.getConnection().execute('update password_reset set used_at = ? where token_hash = ? and used_at is null and expires_at > ?', [new Date(), reset.tokenHash, new Date()], 'run', em.getTransactionContext());
-      if ((taken as { affectedRows?: number }).affectedRows !== 1) throw invalid();
+      if (!(await takeOnce(em, 'password_reset', reset.tokenHash))) throw invalid();
       await em.nativeUpdate(User, { id: reset.user.id }, { passwordHash });
       await em.getConnection().execute('update password_reset set used_at = ? where user_id = ? and used_at is null', [new Date(), reset.user.id], 'run', em.getTransactionContext());
     });

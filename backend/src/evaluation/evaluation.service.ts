@@ -65,6 +65,16 @@ export class EvaluationService implements OnModuleDestroy {
     return reservation;
   }
 
+  /** Runs `work` holding a place in the firm's queue (429 before any of it when the queue is full). */
+  async holding<T>(firmId: string, work: (reservation: Reservation) => Promise<T>): Promise<T> {
+    const reservation = this.reserve(firmId);
+    try {
+      return await work(reservation);
+    } finally {
+      reservation.release();
+    }
+  }
+
   /** Evaluates a sheet for a firm; `key` (a stored sheet's id) lets a process reuse what it kept of that sheet. */
   async evaluate(sheet: SheetFile, options: { firm: string; key?: string; reservation?: Reservation }): Promise<EvaluationOutcome> {
     const outcome = await this.pool.run({ kind: 'evaluate', sheet, key: options.key }, { tenant: options.firm, key: options.key, reservation: options.reservation });

@@ -23,6 +23,7 @@ export enum InvitationErrorCode {
 }
 
 const VALID_DAYS = 7;
+const invalid = () => new AppException(InvitationErrorCode.Invalid, 'This invitation has expired, been used or been withdrawn. Ask for a new one.', HttpStatus.BAD_REQUEST);
 
 const toResponse = (i: Invitation): InvitationResponseDto => ({
   id: i.id,
@@ -89,9 +90,7 @@ export class InvitationsService {
 
   private async findOpen(token: string): Promise<Invitation> {
     const invitation = await this.em.findOne(Invitation, { tokenHash: hashToken(token) }, { populate: ['firm'] });
-    if (!invitation || invitation.acceptedAt || invitation.revokedAt || invitation.expiresAt.getTime() < Date.now()) {
-      throw new AppException(InvitationErrorCode.Invalid, 'This invitation has expired, been used or been withdrawn. Ask for a new one.', HttpStatus.BAD_REQUEST);
-    }
+    if (!invitation || invitation.acceptedAt || invitation.revokedAt || invitation.expiresAt.getTime() < Date.now()) throw invalid();
     return invitation;
   }
 
@@ -115,7 +114,7 @@ export class InvitationsService {
     }
     // Taken by one conditional UPDATE: an invitation withdrawn (or accepted) a moment ago is not accepted now.
     const taken = await this.em.nativeUpdate(Invitation, { id: invitation.id, acceptedAt: null, revokedAt: null }, { acceptedAt: new Date() });
-    if (taken !== 1) throw new AppException(InvitationErrorCode.Invalid, 'This invitation has expired, been used or been withdrawn. Ask for a new one.', HttpStatus.BAD_REQUEST);
+    if (taken !== 1) throw invalid();
     const membership = new Membership(invitation.firm, user, invitation.roles);
     this.em.persist(membership);
     // A client is given the projects they were invited to (those that are still the firm's).

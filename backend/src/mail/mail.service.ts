@@ -78,7 +78,11 @@ export class MailService implements OnApplicationBootstrap, BeforeApplicationShu
         [token, CLAIM_SECONDS, BATCH],
         'run',
       );
-      if (!(claimed as { affectedRows?: number }).affectedRows) return 0;
+      if (!(claimed as { affectedRows?: number }).affectedRows) {
+        // Idle: now and then, sent messages older than a week are cleared out, so the table does not grow.
+        if (Math.random() < 0.01) await conn.execute("delete from mail_job where status = 'sent' and sent_at < now(3) - interval 7 day limit 500", [], 'run');
+        return 0;
+      }
       const jobs = await em.find(MailJob, { claimToken: token });
       let sent = 0;
       for (const job of jobs) sent += (await this.deliver(em, job, token)) ? 1 : 0;

@@ -48,16 +48,17 @@ export function requireNotPreparer(auth: AuthContext, sheet: Sheet, action: stri
  * Independent checking (common practice): the checker is none of the revision's authors (its preparer,
  * co-preparers and anyone whose save was stored); the approver is none of them and not the checker.
  */
-export function requireIndependent(role: 'checker' | 'approver', person: { id: string; name: string }, authors: ReadonlySet<string>, checkerId?: string): void {
+export function requireIndependent(role: 'checker' | 'approver', person: { id: string; name?: string }, authors: ReadonlyMap<string, string>, checkerId?: string): void {
+  const name = person.name ?? authors.get(person.id) ?? 'This person';
   if (authors.has(person.id)) {
     throw new AppException(
       ReviewErrorCode.NotIndependent,
-      `${person.name} prepared or edited this revision, so cannot ${role === 'checker' ? 'check' : 'approve'} it: choose someone who had no hand in it.`,
+      `${name} prepared or edited this revision, so cannot ${role === 'checker' ? 'check' : 'approve'} it: choose someone who had no hand in it.`,
       HttpStatus.BAD_REQUEST,
-      [{ field: `${role}Id`, message: `${person.name} prepared or edited this revision` }],
+      [{ field: `${role}Id`, message: `${name} prepared or edited this revision` }],
     );
   }
   if (role === 'approver' && person.id === checkerId) {
-    throw new AppException(ReviewErrorCode.NotIndependent, `${person.name} is this sheet's checker, so cannot also approve it: the approver is a third person.`, HttpStatus.BAD_REQUEST, [{ field: 'approverId', message: 'the checker cannot approve the sheet they checked' }]);
+    throw new AppException(ReviewErrorCode.NotIndependent, 'The checker cannot also approve this sheet: the approver is a third person.', HttpStatus.BAD_REQUEST, [{ field: 'approverId', message: 'the checker cannot approve the sheet they checked' }]);
   }
 }

@@ -76,9 +76,8 @@ export class WorkflowService {
       requirePreparer(auth, s, 'ask for a check');
       const authors = await notIndependent(em, s);
       // Independence first: whoever prepared or edited the revision hears that, whatever their roles.
-      const named = async (userId: string) => ({ id: userId, name: authors.has(userId) ? ((await em.findOne(User, userId, { fields: ['name'] }))?.name ?? 'This person') : '' });
-      requireIndependent('checker', await named(dto.checkerId), authors);
-      if (dto.approverId) requireIndependent('approver', await named(dto.approverId), authors, dto.checkerId);
+      requireIndependent('checker', { id: dto.checkerId }, authors);
+      if (dto.approverId) requireIndependent('approver', { id: dto.approverId }, authors, dto.checkerId);
       const checker = await this.member(auth, dto.checkerId, 'checker', 'checker');
       s.checker = checker;
       if (dto.approverId) {

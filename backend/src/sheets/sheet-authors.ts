@@ -22,9 +22,9 @@ export async function authorsOf(em: EntityManager, sheetId: string, revisionNumb
   return rows.map((r) => ({ userId: r.user_id, name: r.name, named: !!r.named, edited: !!r.edited }));
 }
 
-/** Everyone who may not check or approve this revision: the preparer and every author. */
-export async function notIndependent(em: EntityManager, sheet: { id: string; revisionNumber: number; preparer: { id: string } }): Promise<Set<string>> {
-  return new Set([sheet.preparer.id, ...(await authorsOf(em, sheet.id, sheet.revisionNumber)).map((a) => a.userId)]);
+/** Everyone who may not check or approve this revision, by id with their names: the preparer and every author. */
+export async function notIndependent(em: EntityManager, sheet: { id: string; revisionNumber: number; preparer: { id: string; name: string } }): Promise<Map<string, string>> {
+  return new Map([[sheet.preparer.id, sheet.preparer.name], ...(await authorsOf(em, sheet.id, sheet.revisionNumber)).map((a) => [a.userId, a.name] as [string, string])]);
 }
 
 /** Records that a person's save of this revision was stored (inside the saving transaction). */

@@ -83,6 +83,12 @@ interface SheetRow {
   authors: unknown;
 }
 
+/** A sheet's cells in order, as stored (their content, not their results). */
+async function cellContents(em: EntityManager, sheetId: string): Promise<CellContent[]> {
+  const rows = await em.execute<{ id: string; kind: string; fields: unknown }[]>('select id, kind, fields from cell where sheet_id = ? order by position', [sheetId]);
+  return rows.map((r) => ({ id: r.id, kind: r.kind, fields: parsedJson(r.fields) as Record<string, unknown> }));
+}
+
 /** The co-preparers, and everyone who may not check or approve the revision (preparer, co-preparers, editors). */
 function authorFields(preparerId: string, raw: unknown): Pick<SheetView, 'coPreparers' | 'authorIds'> {
   const authors = ((raw === null || raw === undefined ? [] : parsedJson(raw)) ?? []) as { id: string; name: string; named: number | boolean }[];
@@ -145,7 +151,7 @@ export class SheetsService {
    */
   async findEditable(auth: AuthContext, id: string): Promise<Sheet> {
     const sheet = await this.find(auth, id);
-    this.assertEditable(sheet);
+    this.assertEditable(sheet.state);
     const uid = auth.session.user.id;
     if (sheet.preparer.id === uid) return sheet;
     if (sheet.checker?.id === uid || sheet.approver?.id === uid) {
@@ -161,7 +167,7 @@ export class SheetsService {
   /** The preparer names the co-preparers of the revision being prepared: members of the firm with the engineer role. */
   async setCoPreparers(auth: AuthContext, id: string, dto: CoPreparersDto): Promise<SheetView> {
     const sheet = await this.find(auth, id);
-    this.assertEditable(sheet);
+    this.assertEditable(sheet.state);
     if (sheet.preparer.id !== auth.session.user.id) throw new AppException(SheetErrorCode.NotPreparer, `Only the sheet's preparer (${sheet.preparer.name}) names its co-preparers.`, HttpStatus.FORBIDDEN);
     const ids = [...new Set(dto.userIds)].filter((u) => u !== sheet.preparer.id);
     const members = ids.length ? await this.em.find(Membership, { firm: auth.session.firm, user: { $in: ids } }) : [];
@@ -175,9 +181,9 @@ export class SheetsService {
     return this.view(auth, id);
   }
 
-  private assertEditable(sheet: Sheet): void {
-    if (!EDITABLE.includes(sheet.state)) {
-      throw new AppException(SheetErrorCode.ReadOnly, `The sheet is ${sheet.state.replace('-', ' ')} and can no longer be edited.`, HttpStatus.CONFLICT);
+  private assertEditable(state: SheetState): void {
+    if (!EDITABLE.includes(state)) {
+      throw new AppException(SheetErrorCode.ReadOnly, `The sheet is ${state.replace('-', ' ')} and can no longer be edited.`, HttpStatus.CONFLICT);
     }
   }
 
@@ -283,8 +289,7 @@ export class SheetsService {
     const title = dto.title ?? file?.title;
     if (!title) throw new AppException(ErrorCode.ValidationFailed, 'title is needed for a blank sheet', HttpStatus.BAD_REQUEST, [{ field: 'title', message: 'title is needed for a blank sheet' }]);
     const { sheet, cells } = sheetFromFile(project, dto.number, title, file, auth.session.user);
-    const reservation = this.evaluation.reserve(auth.session.firm.id);
-    try {
+    await this.evaluation.holding(auth.session.firm.id, async (reservation) => {
       this.em.persist(cells);
       try {
         await this.em.persist(sheet).flush();
@@ -295,9 +300,7 @@ export class SheetsService {
         throw err;
       }
       await this.evaluateAndStore(sheet, cells, sheet.version, { firm: auth.session.firm.id, reservation });
-    } finally {
-      reservation.release();
-    }
+    });
     return this.view(auth, sheet.id);
   }
 
@@ -316,12 +319,7 @@ export class SheetsService {
     const sheet = await this.findEditable(auth, id);
     // A place in the firm's evaluation queue is held before anything is written: a firm whose queue is
     // full is told so (429) and its change is not saved, rather than saved and left unevaluated.
-    const reservation = this.evaluation.reserve(auth.session.firm.id);
-    try {
-      return await this.changeHolding(sheet, auth, id, version, apply, reservation);
-    } finally {
-      reservation.release();
-    }
+    return this.evaluation.holding(auth.session.firm.id, (reservation) => this.changeHolding(sheet, auth, id, version, apply, reservation));
   }
 
   private async changeHolding(sheet: Sheet, auth: AuthContext, id: string, version: number, apply: Change, reservation: Reservation): Promise<SaveResult> {
@@ -334,7 +332,7 @@ export class SheetsService {
       const raised = await em.nativeUpdate(Sheet, { id: sheet.id, version, state: { $in: EDITABLE } }, { version: version + 1 });
       if (raised === 0) {
         const [now] = await em.execute<{ state: SheetState }[]>('select state from sheet where id = ?', [sheet.id]);
-        if (now && !EDITABLE.includes(now.state)) this.assertEditable({ ...sheet, state: now.state } as Sheet);
+        if (now) this.assertEditable(now.state);
         throw new AppException(SheetErrorCode.StaleVersion, 'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.', HttpStatus.CONFLICT, undefined);
       }
       current = await em.findOneOrFail(Sheet, sheet.id);
@@ -342,8 +340,7 @@ export class SheetsService {
       // Results are not loaded: they are computed afresh below, and stored apart from the change.
       applied = await apply(current, em, () => em.find(Cell, { sheet }, { orderBy: { position: 'asc' }, exclude: ['results'] }));
       await em.flush();
-      const rows = await em.execute<{ id: string; kind: string; fields: unknown }[]>('select id, kind, fields from cell where sheet_id = ? order by position', [sheet.id]);
-      contents = rows.map((r) => ({ id: r.id, kind: r.kind, fields: parsedJson(r.fields) as Record<string, unknown> }));
+      contents = await cellContents(em, sheet.id);
     }).catch(async (err) => {
       if (err instanceof AppException && err.code === SheetErrorCode.StaleVersion) {
         throw new AppException(SheetErrorCode.StaleVersion, err.message, HttpStatus.CONFLICT, undefined, await this.view(auth, id));
@@ -357,6 +354,17 @@ export class SheetsService {
   }
 
   /**
+   * Evaluates a sheet afresh, as it stands, and stores every cell's results: what a checker sees after the
+   * sheet comes back to them (review/workflow.service.ts).
+   */
+  async refreshResults(sheetId: string, firmId: string): Promise<void> {
+    const em = this.em.fork();
+    const sheet = await em.findOneOrFail(Sheet, sheetId);
+    const contents = await cellContents(em, sheetId);
+    await this.evaluation.holding(firmId, (reservation) => this.evaluateAndStore(sheet, contents, sheet.version, { firm: firmId, reservation }));
+  }
+
+  /**
    * Evaluates the cells of a sheet as they stand at `version` and stores each result that differs
    * from the stored one. The results are stored only while the sheet is still at that version (its row
    * locked): a later save evaluates a later state and stores that, so older results never overwrite
@@ -364,23 +372,6 @@ export class SheetsService {
    * reason instead of a number: no result of an older state stays on screen. The change itself is saved.
    * Returns the results by cell id and the ids whose stored results changed.
    */
-  /**
-   * Evaluates a sheet afresh, as it stands, and stores every cell's results: what a checker sees after the
-   * sheet comes back to them (review/workflow.service.ts). Reads the sheet and its cells itself.
-   */
-  async refreshResults(sheetId: string, firmId: string): Promise<void> {
-    const em = this.em.fork();
-    const sheet = await em.findOneOrFail(Sheet, sheetId);
-    const rows = await em.execute<{ id: string; kind: string; fields: unknown }[]>('select id, kind, fields from cell where sheet_id = ? order by position', [sheetId]);
-    const contents = rows.map((r) => ({ id: r.id, kind: r.kind, fields: parsedJson(r.fields) as Record<string, unknown> }));
-    const reservation = this.evaluation.reserve(firmId);
-    try {
-      await this.evaluateAndStore(sheet, contents, sheet.version, { firm: firmId, reservation });
-    } finally {
-      reservation.release();
-    }
-  }
-
   private async evaluateAndStore(sheet: Sheet, cells: readonly CellContent[], version: number, options: { firm: string; reservation: Reservation }): Promise<{ results: Map<string, CellResult>; changed: Set<string> }> {
     const outcome = await this.evaluation.evaluate(this.toFile(sheet, cells), { ...options, key: sheet.id });
     const results = outcome.ok ? outcome.cells : unevaluatedResults(cells.length, outcome.message);

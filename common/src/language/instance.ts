@@ -6,7 +6,6 @@
 import type { Unit as MathUnit } from 'mathjs';
 import { circuitFunctions } from '../circuits/functions';
 import { dropRidingAngle } from '../units/quantities';
-import { checkDeadline } from './deadline';
 import { checkCombined, disableUnsafeFunctions, math, withValue } from './math';
 
 const typed = math.typed;
@@ -29,8 +28,7 @@ const withRidingAngleDropped = (name: 'add' | 'subtract' | 'smaller' | 'larger' 
     'number | Complex, Unit': (a: unknown, b: MathUnit) => original(plainAsAngle(a, b), b),
     'Unit, number | Complex': (a: MathUnit, b: unknown) => original(a, plainAsAngle(b, a)),
     'any, any': (a: unknown, b: unknown) => {
-      if (typeof a === 'object' && typeof b === 'object') checkCombined([a, b]);
-      else checkDeadline();
+      checkCombined([a, b]);
       return original(a, b);
     },
   });

@@ -81,13 +81,14 @@ function dimsOf(x: unknown): number[] | undefined {
 const countOf = (x: unknown) => dimsOf(x)?.reduce((a, b) => a * b, 1) ?? 1;
 
 /**
- * The largest result an element-wise operation with broadcasting, or a matrix product, can give for
- * these operands: per axis, the largest size (an n×1 by 1×m pair makes n×m). Checked before mathjs
- * allocates anything.
+ * Before an element-wise operation with broadcasting, or a matrix product: the largest result it can give
+ * for these operands — per axis, the largest size (an n×1 by 1×m pair makes n×m) — is checked before
+ * mathjs allocates anything, and the evaluation's deadline is read at each matrix operation.
  */
 export function checkCombined(args: unknown[]): void {
-  checkDeadline(true); // matrix operations are costly: the clock is read at each one
   const all = args.map(dimsOf).filter((d): d is number[] => d !== undefined);
+  if (all.length === 0) return checkDeadline();
+  checkDeadline(true);
   if (all.length < 2) return;
   const rank = Math.max(...all.map((d) => d.length));
   const combined = Array.from({ length: rank }, (_, k) => Math.max(...all.map((d) => d[d.length - rank + k] ?? 1)));
@@ -206,8 +207,7 @@ math.import(
         name,
         typed(name, {
           'any, any': (a: unknown, b: unknown) => {
-            if (typeof a === 'object' && typeof b === 'object') checkCombined([a, b]);
-            else checkDeadline();
+            checkCombined([a, b]);
             return original(a, b);
           },
           'any, any, ...any': (a: unknown, b: unknown, rest: unknown[]) => {
