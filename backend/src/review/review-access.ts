@@ -59,6 +59,6 @@ export function requireIndependent(role: 'checker' | 'approver', person: { id: s
     );
   }
   if (role === 'approver' && person.id === checkerId) {
-    throw new AppException(ReviewErrorCode.NotIndependent, 'The checker cannot also approve this sheet: the approver is a third person.', HttpStatus.BAD_REQUEST, [{ field: 'approverId', message: 'the checker cannot approve the sheet they checked' }]);
+    throw new AppException(ReviewErrorCode.NotIndependent, 'The checker cannot also approve it: the approver is a third person.', HttpStatus.BAD_REQUEST, [{ field: 'approverId', message: 'the checker cannot approve the sheet they checked' }]);
   }
 }
