@@ -9,7 +9,7 @@ import { readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
-import { calcFigures, sweepChart, transientChart, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
+import { calcFigures, sweepChart, transientChart, transientSummary, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
 import type { RevisionSnapshot } from '../review/revisions.service';
 import { drawTex, texToSvg } from './tex-svg';
 import { woffToSfnt } from './woff';
@@ -213,7 +213,8 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
       if (svg) svgFigure(svg, width());
     } else if (cell.kind === 'transient' && result?.kind === 'transient') {
       const t = result as TransientResult;
-      para(`R = ${cell.R}, L = ${cell.L}, C = ${cell.C}, E(t) = ${cell.source}, over ${cell.span}. ${t.dampingCase ?? ''}; peak current ${t.peakCurrent?.display ?? '—'} at ${t.peakTime?.display ?? '—'}; solver ${t.solver?.name ?? ''} ${t.solver?.version ?? ''}${t.analytic?.available ? `; the analytic solution agrees within ${((t.maxRelativeDeviation ?? 0) * 100).toExponential(1)} % of the peak` : ''}.`, { size: 9 });
+      para(`R = ${cell.R}, L = ${cell.L}, C = ${cell.C}, E(t) = ${cell.source}, from q0 = ${cell.q0 || '0'}, i0 = ${cell.i0 || '0'}, over ${cell.span}.`, { size: 9 });
+      for (const row of transientSummary(t)) para(`${row.label}: ${row.text}`, { size: 9 });
       const svg = transientChart(t);
       if (svg) svgFigure(svg, width());
     } else if (cell.kind === 'table') {
@@ -239,6 +240,9 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
       doc.y = y2;
       if (line.description) {
         doc.font('italic').fontSize(8).fillColor(MUTED).text(line.description, M + 14, doc.y, { width: width() - 14 });
+      }
+      if (line.convention) {
+        doc.font('sans').fontSize(8).fillColor(MUTED).text(line.convention, M + 14, doc.y, { width: width() - 14 });
       }
       doc.moveDown(0.35);
     }

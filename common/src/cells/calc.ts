@@ -9,7 +9,11 @@ import { EngineError, type Diagnostic } from '../language/errors';
 import { checkNames, evaluateNode, normalizeSource, parseExpression, valueNames } from '../language/expression';
 import { displayTex, expressionTex, variableTex } from '../tex/tex';
 import { formatValue, type DisplayOptions } from '../units/display';
+import { asFrequencyKind, frequencyKind } from '../units/quantities';
 import { convertTo } from './convert';
+import { calledFunction, RESULT_CONVENTIONS, rmsWarnings } from '../circuits/conventions';
+import { powerFactorSense } from '../circuits/functions';
+import { isUnit } from '../language/instance';
 import { describePlace, type SheetScope } from './scope';
 import type { CalcResult } from './types';
 
@@ -69,12 +73,20 @@ export function parseStatement(text: string, line: number, isValue: (name: strin
   return { name, expression, target, description, code };
 }
 
-/** w, omega, w_0, omega_d, ...: an angular frequency, shown in rad/s rather than Hz. */
+/** w, omega, w_0, omega_d, ...: a name an engineer gives an angular frequency. */
 const isAngularName = (name: string) => /^(w|omega)(_|\d|$)/.test(name);
-const isFrequency = (v: unknown) => {
-  const d = (v as { dimensions?: number[] })?.dimensions;
-  return Array.isArray(d) && d.every((x, i) => x === (i === 2 ? -1 : 0));
-};
+
+/**
+ * A rate in s⁻¹ (1/sqrt(L C)) bound to an angular name is an angular frequency; a frequency in Hz bound
+ * to one is kept in Hz, with a warning, because showing it in rad/s would be 2π out.
+ */
+function angularByName(name: string, value: unknown, line: number, warnings: Diagnostic[]): unknown {
+  if (!isAngularName(name)) return value;
+  const kind = frequencyKind(value);
+  if (kind === 'rate') return asFrequencyKind(value as never, 'angular');
+  if (kind === 'cyclic') warnings.push({ line, column: 1, message: `${name} is named like an angular frequency but holds a frequency in Hz; for the angular frequency write 2 pi times it` });
+  return value;
+}
 
 const RESERVED = new Set(['pi', 'e', 'i', 'j', 'true', 'false', 'Infinity', 'NaN', 'null', 'end']);
 
@@ -99,6 +111,7 @@ export function evaluateCalcCell(cell: CalcCell, cellIndex: number, scope: Sheet
       const exprSource = code.slice(exprOffset);
       const warnings = checkNames(expression, exprSource, scope, place, exprOffset);
       result.warnings.push(...warnings);
+      for (const message of rmsWarnings(expression)) result.warnings.push({ line: lineNo, column: exprOffset + 1, message });
       let value = evaluateNode(expression, expression.compile(), mathScope, exprSource, lineNo, exprOffset);
       if (typeof value === 'function' || value === undefined) throw new EngineError('this expression has no value', lineNo, exprOffset + 1);
       if (target) {
@@ -110,13 +123,14 @@ export function evaluateCalcCell(cell: CalcCell, cellIndex: number, scope: Sheet
       }
       const previous = scope.origin.get(name);
       if (previous) result.warnings.push({ line: lineNo, column: 1, message: `${name} was defined before (${describePlace(previous)}); from here on it means this new value` });
-      const formatted = formatValue(value, display, target ?? (isAngularName(name) && isFrequency(value) ? 'rad/s' : undefined));
+      if (!target) value = angularByName(name, value, lineNo, result.warnings);
+      const formatted = formatValue(value, display, target);
       // Typeset before binding: the formula's own name may be read on its right-hand side.
       const tex = lineTex(name, expression, scope, display, formatted.display);
       scope.define(name, value, place);
       scope.rememberDisplay(name, value, formatted.display);
       result.values[name] = formatted;
-      result.lines.push({ line: lineNo, name, description, value: formatted, tex });
+      result.lines.push({ line: lineNo, name, description, value: formatted, tex, ...conventionOf(expression, mathScope) });
     } catch (err) {
       const error: Diagnostic = err instanceof EngineError ? err.toDiagnostic() : { line: lineNo, column: 1, message: (err as Error).message };
       result.errors.push(error);
@@ -127,6 +141,26 @@ export function evaluateCalcCell(cell: CalcCell, cellIndex: number, scope: Sheet
     }
   });
   return result;
+}
+
+/** The convention of the function a line calls, with the sense of a power factor from its argument. */
+function conventionOf(expression: MathNode, mathScope: Map<string, unknown>): { convention?: string } {
+  const call = calledFunction(expression);
+  const convention = call && RESULT_CONVENTIONS[call.name as keyof typeof RESULT_CONVENTIONS];
+  if (!call || !convention) return {};
+  if (call.name === 'power_factor' && call.args.length === 1) {
+    let sense: string;
+    try {
+      const x = call.args[0].compile().evaluate(mathScope) as unknown;
+      const v = isUnit(x) ? (x as unknown as { value: unknown }).value : x;
+      sense = powerFactorSense(typeof v === 'number' ? 0 : (v as { im: number }).im);
+    } catch {
+      return { convention };
+    }
+    return { convention: `${sense} (${sense === 'lagging' ? 'Q > 0: the current lags the voltage' : sense === 'leading' ? 'Q < 0: the current leads the voltage' : 'Q = 0'}); ${convention}` };
+  }
+  if (call.name === 'power_factor') return { convention: `${convention}; from P and |S| alone the sense (leading or lagging) is unknown: pass the complex power S for it` };
+  return { convention };
 }
 
 /** Formula, working and result of one line as LaTeX. */

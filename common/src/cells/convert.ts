@@ -1,6 +1,6 @@
 import type { Unit as MathUnit } from 'mathjs';
 import { isUnit, math } from '../language/instance';
-import { dimensionsOf, dropRidingAngle, withoutAngle } from '../units/quantities';
+import { dimensionsOf, dropRidingAngle, frequencyKind, withoutAngle } from '../units/quantities';
 import { kindOf } from '../language/errors';
 
 const ANGLE_UNITS = /^(rad|deg|grad|cycle|arcsec|arcmin|mrad|urad)$/;
@@ -25,6 +25,10 @@ export function convertTo(value: unknown, target: string): unknown {
   const to = dimensionsOf(targetUnit);
   const same = (a: number[], b: number[]) => a.every((x, i) => x === b[i]);
   if (same(from, to)) return (value as MathUnit).to(target);
+  const kinds = [frequencyKind(value), frequencyKind(targetUnit)];
+  if (kinds.includes('angular') && kinds.includes('cyclic')) {
+    throw new Error(kinds[0] === 'angular' ? `this is an angular frequency (rad/s), not a frequency: divide by 2 pi to show it in ${target}` : `this is a frequency (Hz), not an angular frequency: multiply by 2 pi to show it in ${target}`);
+  }
   if (same(withoutAngle(from), withoutAngle(to))) {
     const bare = dropRidingAngle(value as MathUnit);
     const angle = to[7] - dimensionsOf(bare)[7];

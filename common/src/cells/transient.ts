@@ -8,12 +8,12 @@ import type { TransientCell } from '../sheet/sheet-format';
 import { EngineError } from '../language/errors';
 import { checkNames, evaluateNode, parseExpression, valueNames } from '../language/expression';
 import { isUnit, math } from '../language/instance';
-import { analyticSolution, dampingOf, numericSolution, type SourceForm } from '../circuits/transient';
+import { analyticSolution, dampingOf, extremaOnGrid, numericSolution, summarise, type Extrema, type SourceForm } from '../circuits/transient';
 import { formatValue, type DisplayOptions } from '../units/display';
 import { angleValue } from '../circuits/functions';
 import { real, type Dimension } from '../units/quantities';
 import type { SheetScope } from './scope';
-import type { SeriesData, TransientResult } from './types';
+import type { ExtremaResult, SeriesData, TransientResult } from './types';
 
 type AnyNode = MathNode & Record<string, unknown>;
 const ODEX_VERSION = '2.0.4';
@@ -90,16 +90,22 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
       return n.compile().evaluate(tScope) as unknown;
     };
     const first = evalAtUnits(sourceNode, 0);
-    try {
-      real(first, 'voltage', 'the source E(t)');
-    } catch (err) {
-      throw new EngineError(`${(err as Error).message} (at t = 0)`, 1, 1);
+    // A plain 0 is no source at all (a free response from q0 and i0), as it is for q0 and i0.
+    const zeroSource = first === 0 && !dependsOnT(sourceNode);
+    if (!zeroSource) {
+      try {
+        real(first, 'voltage', 'the source E(t)');
+      } catch (err) {
+        throw new EngineError(`${(err as Error).message} (at t = 0)`, 1, 1);
+      }
     }
     const compiledSource = sourceNode.compile();
-    const E = (t: number) => {
-      tScope.set('t', math.unit(t, 's'));
-      return (compiledSource.evaluate(tScope) as { value: number }).value;
-    };
+    const E = zeroSource
+      ? () => 0
+      : (t: number) => {
+          tScope.set('t', math.unit(t, 's'));
+          return (compiledSource.evaluate(tScope) as { value: number }).value;
+        };
     const scalarAt = (n: MathNode, t: number) => {
       let v = evalAtUnits(n, t);
       // A bare unit (the V of "100 V") has no value of its own: give it one, in SI.
@@ -110,7 +116,7 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
     const { alpha, omega0, dampingCase } = dampingOf({ R, L, C });
     result.dampingCase = dampingCase;
     result.parameters = {
-      alpha: formatValue(math.unit(alpha, 'rad/s'), display),
+      alpha: formatValue(math.unit(alpha, 's^-1'), display),
       omega_0: formatValue(math.unit(omega0, 'rad/s'), display),
       zeta: formatValue((R / 2) * Math.sqrt(C / L), display),
       ...(omega0 > alpha ? { omega_d: formatValue(math.unit(Math.sqrt(omega0 ** 2 - alpha ** 2), 'rad/s'), display) } : {}),
@@ -122,36 +128,87 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
     result.charge = { name: 'q', unit: 'C', values: numeric.q };
     result.current = { name: 'i', unit: 'A', values: numeric.i };
 
-    let k = 0;
-    numeric.i.forEach((x, j) => {
-      if (Math.abs(x) > Math.abs(numeric.i[k])) k = j;
-    });
-    result.peakCurrent = formatValue(math.unit(numeric.i[k], 'A'), display);
-    result.peakTime = formatValue(math.unit(numeric.t[k], 's'), display);
-
     let form: SourceForm | undefined;
     try {
-      form = sourceForm(sourceNode, scalarAt);
+      form = zeroSource ? { kind: 'constant', E0: 0 } : sourceForm(sourceNode, scalarAt);
     } catch {
       form = undefined;
     }
+    let currentExtrema = numeric.currentExtrema;
+    let chargeExtrema = numeric.chargeExtrema;
     if (form) {
-      const a = analyticSolution({ R, L, C, q0, i0 }, form);
+      const a = analyticSolution({ R, L, C, q0, i0 }, form, span);
+      const Ea = form.kind === 'constant' ? () => form.E0 : (t: number) => form.E0 * Math.sin(form.omega * t + form.theta);
       const ia = numeric.t.map(a.i);
       const peak = Math.max(...numeric.i.map(Math.abs), 1e-300);
       result.analytic = { available: true, sourceForm: form.kind === 'constant' ? 'constant' : 'sinusoid' };
       result.chargeAnalytic = { name: 'q (analytic)', unit: 'C', values: numeric.t.map(a.q) };
       result.currentAnalytic = { name: 'i (analytic)', unit: 'A', values: ia };
-      const steady: SeriesData = { name: 'i steady', unit: 'A', values: numeric.t.map(a.iSteady) };
-      result.currentSteady = steady;
-      result.currentTransient = { name: 'i transient', unit: 'A', values: numeric.i.map((x, j) => x - steady.values[j]) };
+      if (a.iSteady) {
+        const steady: SeriesData = { name: 'i steady', unit: 'A', values: numeric.t.map(a.iSteady) };
+        result.currentSteady = steady;
+        result.currentTransient = { name: 'i transient', unit: 'A', values: numeric.i.map((x, j) => x - steady.values[j]) };
+      }
       result.maxRelativeDeviation = Math.max(...ia.map((x, j) => Math.abs(x - numeric.i[j]))) / peak;
+      currentExtrema = extremaOnGrid(numeric.grid, a.i, (t) => Ea(t) - R * a.i(t) - a.q(t) / C);
+      chargeExtrema = extremaOnGrid(numeric.grid, a.q, a.i);
+      if (!a.resonant) result.steady = steadyState(form, { R, L, C }, display);
+      if (a.resonant) {
+        result.warnings.push({
+          line: 1,
+          column: 1,
+          message: 'R = 0 and the source is at the resonant frequency: the current grows in proportion to time without bound and has no steady state; the solution is given over this span only',
+        });
+      }
     } else {
       result.analytic = { available: false, reason: 'the source is not a constant or a single sinusoid, so only the numeric solution is given' };
+    }
+    result.peaks = {
+      from: form ? 'analytic' : 'numeric',
+      current: extremaResult(currentExtrema, 'A', 1, display),
+      capacitorVoltage: extremaResult(chargeExtrema, 'V', 1 / C, display),
+    };
+    result.peakCurrent = result.peaks.current.peak.value;
+    result.peakTime = result.peaks.current.peak.time;
+    const peakAtEnd = summarise(currentExtrema).peak.t === span;
+    if (peakAtEnd && span > 0) {
+      result.warnings.push({ line: 1, column: 1, message: 'the largest current is at the end of the span, so it may be larger later: lengthen the span to find the peak' });
     }
   } catch (err) {
     result.status = 'error';
     result.errors.push(err instanceof EngineError ? err.toDiagnostic() : { line: 1, column: 1, message: (err as Error).message });
   }
   return result;
+}
+
+/** The largest value, the smallest and the largest magnitude, each with its time, in `unit` (value × factor). */
+function extremaResult(extrema: Extrema, unit: string, factor: number, display: DisplayOptions): ExtremaResult {
+  const { max, min, peak } = summarise(extrema);
+  const shown = (p: { t: number; value: number }) => ({ value: formatValue(math.unit(p.value * factor, unit), display), time: formatValue(math.unit(p.t, 's'), display) });
+  return { peak: shown(peak), max: shown(max), min: shown(min) };
+}
+
+/**
+ * What remains when the transient has died away: for a constant source the charge C·E0 and the
+ * capacitor voltage E0 with no current; for E0 sin(ωt + θ), the amplitudes of current E0/Z, charge
+ * E0/(ωZ) and capacitor voltage E0/(ωCZ), and the delay angle. None at resonance without damping.
+ */
+function steadyState(form: SourceForm, { R, L, C }: { R: number; L: number; C: number }, display: DisplayOptions): Record<string, ReturnType<typeof formatValue>> | undefined {
+  if (form.kind === 'constant') {
+    return {
+      q_ss: formatValue(math.unit(C * form.E0, 'C'), display),
+      v_C_ss: formatValue(math.unit(form.E0, 'V'), display),
+      i_ss: formatValue(math.unit(0, 'A'), display),
+    };
+  }
+  const w = form.omega;
+  const S = w * L - 1 / (w * C);
+  const Z = Math.hypot(R, S);
+  if (Z === 0) return undefined;
+  return {
+    I_ss: formatValue(math.unit(Math.abs(form.E0) / Z, 'A'), display),
+    Q_ss: formatValue(math.unit(Math.abs(form.E0) / (w * Z), 'C'), display),
+    V_C_ss: formatValue(math.unit(Math.abs(form.E0) / (w * C * Z), 'V'), display),
+    phi: formatValue(math.unit(Math.atan2(S, R), 'rad'), display, 'deg'),
+  };
 }

@@ -16,6 +16,8 @@ export interface LineResult {
   line: number;
   name: string;
   description?: string;
+  /** The convention of the function the line calls (rms values, a bank's basis, leading or lagging). */
+  convention?: string;
   value?: FormattedValue;
   tex?: LineTex;
   error?: Diagnostic;
@@ -62,6 +64,18 @@ export interface SweepResult extends CellResultBase {
   outputs: SeriesData[];
 }
 
+export interface ExtremumResult {
+  value: FormattedValue;
+  time: FormattedValue;
+}
+
+/** The largest value, the smallest value and the largest magnitude (with its sign) of a waveform. */
+export interface ExtremaResult {
+  peak: ExtremumResult;
+  max: ExtremumResult;
+  min: ExtremumResult;
+}
+
 export interface TransientResult extends CellResultBase {
   kind: 'transient';
   dampingCase?: 'overdamped' | 'critically damped' | 'underdamped' | 'undamped';
@@ -74,8 +88,16 @@ export interface TransientResult extends CellResultBase {
   currentAnalytic?: SeriesData;
   currentSteady?: SeriesData;
   currentTransient?: SeriesData;
+  /** The current's largest magnitude (signed) and its time: the same as peaks.current.peak. */
   peakCurrent?: FormattedValue;
   peakTime?: FormattedValue;
+  /** Extrema of i(t) and of the capacitor voltage q(t)/C over the span, from the solution (not from samples). */
+  peaks?: { from: 'analytic' | 'numeric'; current: ExtremaResult; capacitorVoltage: ExtremaResult };
+  /**
+   * The steady state: for a constant source q_ss, v_C_ss, i_ss; for a sinusoid the amplitudes I_ss,
+   * Q_ss, V_C_ss and the delay angle phi. Absent when there is none (undamped resonance) or no analytic form.
+   */
+  steady?: Record<string, FormattedValue>;
   /** Largest difference between the numeric and analytic current, relative to the peak current. */
   maxRelativeDeviation?: number;
   solver?: { name: string; version: string; steps: number; evaluations: number };

@@ -4,7 +4,7 @@
  * the reference checks in reference-checks/ compare them with outside sources.
  */
 import { math } from '../language/math';
-import { quantity, real, si, type Scalar } from '../units/quantities';
+import { frequencyKind, quantity, real, si, type Scalar } from '../units/quantities';
 
 type C = { re: number; im: number };
 const c = (x: Scalar): C => (typeof x === 'number' ? { re: x, im: 0 } : x);
@@ -47,9 +47,16 @@ function like(template: unknown, value: C): unknown {
   return out;
 }
 
-/** Angular frequency from a value in rad/s or 1/s. */
-const omega = (w: unknown, what = 'w') => positive(real(w, 'frequency', `${what} (angular frequency)`), what);
-const hz = (f: unknown, what = 'f') => positive(real(f, 'frequency', `${what} (frequency)`), what);
+/** Angular frequency from a value in rad/s or s⁻¹; a value in Hz is refused (it would be 2π out). */
+const omega = (w: unknown, what = 'w') => {
+  if (frequencyKind(w) === 'cyclic') throw new Error(`${what} is an angular frequency in rad/s, but this value is a frequency in Hz: pass 2 pi times it`);
+  return positive(real(w, 'frequency', `${what} (angular frequency)`), what);
+};
+/** Frequency from a value in Hz or s⁻¹; a value in rad/s is refused (it would be 2π out). */
+const hz = (f: unknown, what = 'f') => {
+  if (frequencyKind(f) === 'angular') throw new Error(`${what} is a frequency in Hz, but this value is an angular frequency in rad/s: pass it divided by 2 pi`);
+  return positive(real(f, 'frequency', `${what} (frequency)`), what);
+};
 
 function rlcParts(R: unknown, L: unknown, Cap: unknown, w: unknown) {
   const r = nonNegative(real(R, 'impedance', 'R'), 'R');
@@ -78,7 +85,7 @@ export const circuitFunctions = {
   impedance_L: (L: unknown, f: unknown) => quantity({ re: 0, im: TWO_PI * hz(f) * positive(real(L, 'inductance', 'L'), 'L') }, 'ohm'),
   impedance_C: (Cap: unknown, f: unknown) => quantity({ re: 0, im: -1 / (TWO_PI * hz(f) * positive(real(Cap, 'capacitance', 'C'), 'C')) }, 'ohm'),
   impedance_RLC: (R: unknown, L: unknown, Cap: unknown, f: unknown) => {
-    const { r, S } = rlcParts(R, L, Cap, quantity(TWO_PI * hz(f), 'Hz'));
+    const { r, S } = rlcParts(R, L, Cap, quantity(TWO_PI * hz(f), 'rad/s'));
     return quantity({ re: r, im: S }, 'ohm');
   },
 
@@ -91,7 +98,7 @@ export const circuitFunctions = {
     (1 / positive(real(R, 'impedance', 'R'), 'R')) * Math.sqrt(positive(real(L, 'inductance', 'L'), 'L') / positive(real(Cap, 'capacitance', 'C'), 'C')),
   damping_ratio: (R: unknown, L: unknown, Cap: unknown) =>
     (nonNegative(real(R, 'impedance', 'R'), 'R') / 2) * Math.sqrt(positive(real(Cap, 'capacitance', 'C'), 'C') / positive(real(L, 'inductance', 'L'), 'L')),
-  attenuation: (R: unknown, L: unknown) => quantity(nonNegative(real(R, 'impedance', 'R'), 'R') / (2 * positive(real(L, 'inductance', 'L'), 'L')), 'rad/s'),
+  attenuation: (R: unknown, L: unknown) => quantity(nonNegative(real(R, 'impedance', 'R'), 'R') / (2 * positive(real(L, 'inductance', 'L'), 'L')), 's^-1'),
   damped_frequency: (R: unknown, L: unknown, Cap: unknown) => {
     const r = nonNegative(real(R, 'impedance', 'R'), 'R');
     const l = positive(real(L, 'inductance', 'L'), 'L');
@@ -133,17 +140,17 @@ export const circuitFunctions = {
 
   // Power
   complex_power: (V: unknown, I: unknown) => {
-    const i = c(si(I, 'current', 'I'));
-    return quantity(simplest(cmul(c(si(V, 'voltage', 'V')), { re: i.re, im: -i.im })), 'VA');
+    const i = c(si(rmsOnly(I, 'I'), 'current', 'I'));
+    return quantity(simplest(cmul(c(si(rmsOnly(V, 'V'), 'voltage', 'V')), { re: i.re, im: -i.im })), 'VA');
   },
-  apparent_power: (V: unknown, I: unknown) => quantity(cabs(c(si(V, 'voltage', 'V'))) * cabs(c(si(I, 'current', 'I'))), 'VA'),
+  apparent_power: (V: unknown, I: unknown) => quantity(cabs(c(si(rmsOnly(V, 'V'), 'voltage', 'V'))) * cabs(c(si(rmsOnly(I, 'I'), 'current', 'I'))), 'VA'),
   real_power: (V: unknown, I: unknown) => {
-    const i = c(si(I, 'current', 'I'));
-    return quantity(cmul(c(si(V, 'voltage', 'V')), { re: i.re, im: -i.im }).re, 'W');
+    const i = c(si(rmsOnly(I, 'I'), 'current', 'I'));
+    return quantity(cmul(c(si(rmsOnly(V, 'V'), 'voltage', 'V')), { re: i.re, im: -i.im }).re, 'W');
   },
   reactive_power: (V: unknown, I: unknown) => {
-    const i = c(si(I, 'current', 'I'));
-    return quantity(cmul(c(si(V, 'voltage', 'V')), { re: i.re, im: -i.im }).im, 'var');
+    const i = c(si(rmsOnly(I, 'I'), 'current', 'I'));
+    return quantity(cmul(c(si(rmsOnly(V, 'V'), 'voltage', 'V')), { re: i.re, im: -i.im }).im, 'var');
   },
   power_factor: (...args: unknown[]) => {
     if (args.length === 1) {
@@ -153,8 +160,12 @@ export const circuitFunctions = {
     }
     if (args.length !== 2) throw new Error('power_factor takes a complex power or impedance, or P and S');
     const p = real(args[0], 'power', 'P');
-    const s = cabs(c(si(args[1], 'power', 'S')));
+    const s = magnitudeOnly(args[1], 'S');
     return p / positive(s, 'S');
+  },
+  power_factor_sense: (x: unknown) => {
+    const z = c(math.isUnit(x) ? ((x as unknown as { value: Scalar }).value as Scalar) : (x as Scalar));
+    return powerFactorSense(z.im);
   },
 
   // Three-phase relations (balanced)
@@ -167,7 +178,7 @@ export const circuitFunctions = {
   },
   apparent_power_3ph: (Vll: unknown, I: unknown) => quantity(Math.sqrt(3) * real(Vll, 'voltage', 'V_LL') * real(I, 'current', 'I_L'), 'VA'),
   line_current_3ph: (S: unknown, Vll: unknown) =>
-    quantity(cabs(c(si(S, 'power', 'S'))) / (Math.sqrt(3) * positive(real(Vll, 'voltage', 'V_LL'), 'V_LL')), 'A'),
+    quantity(magnitudeOnly(S, 'S') / (Math.sqrt(3) * positive(real(Vll, 'voltage', 'V_LL'), 'V_LL')), 'A'),
 
   // Capacitor banks
   bank_reactive_power: (Cap: unknown, V: unknown, f: unknown) =>
@@ -175,8 +186,14 @@ export const circuitFunctions = {
   bank_capacitance: (Q: unknown, V: unknown, f: unknown) =>
     quantity(positive(real(Q, 'power', 'Q'), 'Q') / (TWO_PI * hz(f) * positive(real(V, 'voltage', 'V'), 'V') ** 2), 'F'),
   resonance_order: (Ssc: unknown, Qc: unknown) => Math.sqrt(positive(real(Ssc, 'power', 'S_sc'), 'S_sc') / positive(real(Qc, 'power', 'Q_c'), 'Q_c')),
-  resonance_order_tr: (Str: unknown, zPercent: unknown, Qc: unknown) =>
-    Math.sqrt((positive(real(Str, 'power', 'S_tr'), 'S_tr') * 100) / (positive(real(Qc, 'power', 'Q_c'), 'Q_c') * positive(real(zPercent, 'none', 'z_percent'), 'z_percent'))),
+  resonance_order_tr: (Str: unknown, zPercent: unknown, Qc: unknown, Ssc?: unknown) => {
+    const str = positive(real(Str, 'power', 'S_tr'), 'S_tr');
+    const z = positive(real(zPercent, 'none', 'z_percent'), 'z_percent');
+    const qc = positive(real(Qc, 'power', 'Q_c'), 'Q_c');
+    // Source and transformer reactances add: 1/S_sc,bus = 1/S_sc + z%/(100·S_tr). Without S_sc the source is infinite.
+    const source = Ssc === undefined ? 0 : 1 / positive(real(Ssc, 'power', 'S_sc'), 'S_sc');
+    return Math.sqrt(1 / ((source + z / (100 * str)) * qc));
+  },
   tuning_order: (p: unknown) => {
     const x = real(p, 'none', 'p');
     if (!(x > 0 && x < 1)) throw new Error('p (the reactor as a fraction of the capacitor reactance) must lie between 0 and 1');
@@ -202,9 +219,88 @@ export const circuitFunctions = {
   // Phasors and waveforms
   phasor: (mag: unknown, angle: unknown) => phasor(mag, angle),
   polar: (mag: unknown, angle: unknown) => phasor(mag, angle),
-  rms: (peakValue: unknown) => math.divide(peakValue as number, Math.SQRT2),
-  peak: (rmsValue: unknown) => math.multiply(rmsValue as number, Math.SQRT2),
+  rms: (peakValue: unknown) => sinusoid(peakValue, 'rms', (x) => math.divide(x as number, Math.SQRT2)),
+  peak: (rmsValue: unknown) => markPeak(sinusoid(rmsValue, 'peak', (x) => math.multiply(x as number, Math.SQRT2))),
+  total_rms: (spectrum: unknown) => {
+    const h = harmonics(spectrum, 'total_rms');
+    return likeScalar(spectrum, Math.sqrt(h.reduce((acc, x) => acc + x * x, 0)));
+  },
+  thd: (spectrum: unknown) => {
+    const h = harmonics(spectrum, 'thd');
+    if (h.length < 2) throw new Error('thd needs the fundamental and at least one harmonic: [V_1, V_2, V_3, …]');
+    if (h.length > 50) throw new Error('thd counts harmonics up to the 50th (IEEE Std 519-2014, 3.1): give at most 50 values');
+    if (h[0] === 0) throw new Error('thd is relative to the fundamental, which is zero here');
+    return Math.sqrt(h.slice(1).reduce((acc, x) => acc + x * x, 0)) / h[0];
+  },
+  tdd: (spectrum: unknown, IL: unknown) => {
+    const h = harmonics(spectrum, 'tdd');
+    if (h.length > 50) throw new Error('tdd counts harmonics up to the 50th (IEEE Std 519-2014, 3.1): give at most 50 values');
+    real(math.abs(spectrumValues(spectrum)[0] as never), 'current', 'the spectrum of tdd');
+    const il = positive(real(IL, 'current', 'I_L'), 'I_L');
+    return Math.sqrt(h.slice(1).reduce((acc, x) => acc + x * x, 0)) / il;
+  },
 };
+
+/** Leading or lagging from the sign of X or Q (S = V·I*): lagging when the current lags, Q > 0. */
+export function powerFactorSense(imaginary: number): string {
+  return imaginary > 0 ? 'lagging' : imaginary < 0 ? 'leading' : 'unity';
+}
+
+/** A real magnitude where a complex value would be ambiguous (|S| of a complex power must be asked for). */
+function magnitudeOnly(x: unknown, what: string): number {
+  const v = si(x, 'power', what);
+  if (typeof v !== 'number') throw new Error(`${what} must be the apparent power |S|, a real value in VA; this one is a complex power: pass abs(${what}) if its magnitude is meant`);
+  return nonNegative(v, what);
+}
+
+/** rms and peak convert one sinusoid; a spectrum has a total rms (total_rms), not one per element. */
+function sinusoid(x: unknown, fn: string, convert: (x: unknown) => unknown): unknown {
+  if (math.isMatrix(x) || Array.isArray(x)) {
+    throw new Error(`${fn} converts the value of one sinusoid; for a spectrum use total_rms(v) (the square root of the sum of squares), or write v ${fn === 'rms' ? '/' : '*'} sqrt(2) to convert every element`);
+  }
+  return convert(x);
+}
+
+/** The elements of a vector or matrix, flattened. */
+function spectrumValues(spectrum: unknown): unknown[] {
+  return ((math.isMatrix(spectrum) ? (spectrum as { toArray(): unknown[] }).toArray() : spectrum) as unknown[]).flat(Infinity) as unknown[];
+}
+
+/** The magnitudes of a spectrum [X_1, X_2, …] (rms, order h at position h), all of one kind, as SI numbers. */
+function harmonics(spectrum: unknown, fn: string): number[] {
+  if (!(math.isMatrix(spectrum) || Array.isArray(spectrum))) throw new Error(`${fn} takes a spectrum: the rms values [X_1, X_2, X_3, …] of the fundamental and each harmonic`);
+  const values = spectrumValues(spectrum);
+  if (values.length === 0) throw new Error(`${fn} needs at least one value`);
+  const first = values[0];
+  return values.map((x) => {
+    if (math.isUnit(first) !== math.isUnit(x) || (math.isUnit(first) && !(first as { equalBase(u: unknown): boolean }).equalBase(x))) {
+      throw new Error(`${fn} needs a spectrum of one kind (all voltages or all currents)`);
+    }
+    const v = math.isUnit(x) ? ((x as unknown as { value: Scalar }).value as Scalar) : (x as Scalar);
+    return cabs(c(v));
+  });
+}
+
+/** A number with the unit of a spectrum's first element. */
+function likeScalar(spectrum: unknown, value: number): unknown {
+  return like(spectrumValues(spectrum)[0], { re: value, im: 0 });
+}
+
+/** A value made by peak() is marked, so that a function taking rms values can refuse it. */
+const PEAK = Symbol('peak value');
+function markPeak<T>(x: T): T {
+  if (x && typeof x === 'object') (x as unknown as Record<symbol, boolean>)[PEAK] = true;
+  return x;
+}
+export function isPeakValue(x: unknown): boolean {
+  return Boolean(x && typeof x === 'object' && (x as Record<symbol, boolean>)[PEAK]);
+}
+
+/** The power functions take rms phasors; a value marked as a peak is refused. */
+function rmsOnly(x: unknown, what: string): unknown {
+  if (isPeakValue(x)) throw new Error(`${what} must be an rms value; this one is a peak made by peak(): pass rms of it, or the rms value itself`);
+  return x;
+}
 
 /** An angle in radians from a plain number (radians) or a quantity in rad or deg. */
 export function angleValue(angle: unknown, what = 'angle'): number {
@@ -219,7 +315,8 @@ export function angleValue(angle: unknown, what = 'angle'): number {
 function phasor(mag: unknown, angle: unknown): unknown {
   const a = angleValue(angle);
   const rotation = math.complex(Math.cos(a), Math.sin(a));
-  return math.multiply(mag as number, rotation);
+  const out = math.multiply(mag as number, rotation);
+  return isPeakValue(mag) ? markPeak(out) : out;
 }
 
 export type CircuitFunctionName = keyof typeof circuitFunctions;

@@ -21,10 +21,12 @@ export type SourceForm = { kind: 'constant'; E0: number } | { kind: 'sine'; E0: 
 export interface AnalyticSolution {
   q(t: number): number;
   i(t: number): number;
-  /** The steady periodic (or constant) part, which remains when the transient has died away. */
-  qSteady(t: number): number;
-  iSteady(t: number): number;
+  /** The steady periodic (or constant) part, which remains when the transient has died away; none at resonance. */
+  qSteady?(t: number): number;
+  iSteady?(t: number): number;
   dampingCase: DampingCase;
+  /** An undamped circuit driven at its resonant frequency: the response grows without bound. */
+  resonant?: boolean;
 }
 
 export function dampingOf({ R, L, C }: Pick<RlcParameters, 'R' | 'L' | 'C'>): { alpha: number; omega0: number; dampingCase: DampingCase } {
@@ -35,7 +37,38 @@ export function dampingOf({ R, L, C }: Pick<RlcParameters, 'R' | 'L' | 'C'>): { 
   return { alpha, omega0, dampingCase };
 }
 
-export function analyticSolution(p: RlcParameters, source: SourceForm): AnalyticSolution {
+/**
+ * True when an undamped circuit is driven so close to its resonant frequency that, over the span, the
+ * drive cannot be told from exact resonance: |ω − ω0|·span ≤ 1e-6 rad. The resonant form then differs
+ * from the exact solution by O((|ω − ω0|·span)²), and the beat form would lose digits to cancellation.
+ */
+export function isResonantDrive(omega: number, omega0: number, span: number): boolean {
+  return Math.abs(omega - omega0) * span <= 1e-6;
+}
+
+/**
+ * L q'' + q/C = E0 sin(ω0 t + θ) with ω0 = 1/√(LC): no steady periodic part; the particular solution
+ * q_p = −E0 t cos(ω0 t + θ) / (2 L ω0) grows linearly with t. With θ = 0 and q0 = i0 = 0 the sum is the
+ * textbook q = E0 / (2 L ω0²) (sin ω0 t − ω0 t cos ω0 t) (Boyce and DiPrima, Elementary Differential
+ * Equations, section on forced vibrations, resonance; from memory).
+ */
+function resonantSolution(p: RlcParameters, source: { E0: number; omega: number; theta: number }): AnalyticSolution {
+  const { E0, theta } = source;
+  const w0 = 1 / Math.sqrt(p.L * p.C);
+  const k = -E0 / (2 * p.L * w0);
+  const qp = (t: number) => k * t * Math.cos(w0 * t + theta);
+  const ip = (t: number) => k * (Math.cos(w0 * t + theta) - w0 * t * Math.sin(w0 * t + theta));
+  const A = p.q0 - qp(0);
+  const B = (p.i0 - ip(0)) / w0;
+  return {
+    q: (t) => A * Math.cos(w0 * t) + B * Math.sin(w0 * t) + qp(t),
+    i: (t) => w0 * (B * Math.cos(w0 * t) - A * Math.sin(w0 * t)) + ip(t),
+    dampingCase: 'undamped',
+    resonant: true,
+  };
+}
+
+export function analyticSolution(p: RlcParameters, source: SourceForm, span = Infinity): AnalyticSolution {
   const { R, L, C } = p;
   const { alpha, omega0, dampingCase } = dampingOf(p);
   let qSteady: (t: number) => number;
@@ -45,9 +78,9 @@ export function analyticSolution(p: RlcParameters, source: SourceForm): Analytic
     iSteady = () => 0;
   } else {
     const { E0, omega: w, theta } = source;
+    if (R === 0 && isResonantDrive(w, omega0, span)) return resonantSolution(p, { E0, omega: w, theta });
     const S = w * L - 1 / (w * C);
     const Z = Math.hypot(R, S);
-    if (Z === 0) throw new Error('the source drives an undamped circuit at its resonant frequency: the response grows without bound');
     const phi = Math.atan2(S, R);
     iSteady = (t) => (E0 / Z) * Math.sin(w * t + theta - phi);
     qSteady = (t) => (-E0 / (Z * w)) * Math.cos(w * t + theta - phi);
@@ -79,15 +112,97 @@ export function analyticSolution(p: RlcParameters, source: SourceForm): Analytic
   return { q: (t) => qc(t) + qSteady(t), i: (t) => ic(t) + iSteady(t), qSteady, iSteady, dampingCase };
 }
 
+/** A local extremum of a waveform (or an end of the span), found by root-finding its slope. */
+export interface Extremum {
+  t: number;
+  value: number;
+}
+
+export interface Extrema {
+  /** Local extrema inside the span and the values at its two ends, in time order. */
+  points: Extremum[];
+}
+
 export interface NumericSolution {
   t: number[];
   q: number[];
   i: number[];
   steps: number;
   evaluations: number;
+  /** The ends of the solver's steps, from 0 to the span: a grid fine enough to bracket every extremum. */
+  grid: number[];
+  /** Extrema of i (di/dt = (E − R i − q/C)/L = 0) and of q (dq/dt = i = 0), from the dense output. */
+  currentExtrema: Extrema;
+  chargeExtrema: Extrema;
 }
 
-/** Solves the circuit numerically at `points` evenly spaced times over [0, span]. */
+const SUBDIVISIONS = 16;
+
+/**
+ * Local extrema of value(t) on (a, b]: the slope is sampled at SUBDIVISIONS points, and each change of
+ * sign is bisected to the last representable time. A zero slope at a sample counts once (at its right end).
+ */
+export function extremaIn(a: number, b: number, value: (t: number) => number, slope: (t: number) => number, out: Extremum[]): void {
+  let t0 = a;
+  let s0 = slope(a);
+  for (let k = 1; k <= SUBDIVISIONS; k++) {
+    const t1 = k === SUBDIVISIONS ? b : a + ((b - a) * k) / SUBDIVISIONS;
+    const s1 = slope(t1);
+    if (s0 !== 0 && s1 !== 0 && Math.sign(s0) !== Math.sign(s1)) {
+      let lo = t0;
+      let hi = t1;
+      let slo = s0;
+      for (let n = 0; n < 200; n++) {
+        const mid = lo + (hi - lo) / 2;
+        if (mid <= lo || mid >= hi) break;
+        const sm = slope(mid);
+        if (sm === 0) {
+          lo = hi = mid;
+          break;
+        }
+        if (Math.sign(sm) === Math.sign(slo)) {
+          lo = mid;
+          slo = sm;
+        } else hi = mid;
+      }
+      const vlo = value(lo);
+      const vhi = value(hi);
+      out.push(Math.abs(vlo) >= Math.abs(vhi) ? { t: lo, value: vlo } : { t: hi, value: vhi });
+    } else if (s1 === 0) {
+      out.push({ t: t1, value: value(t1) });
+    }
+    t0 = t1;
+    s0 = s1;
+  }
+}
+
+/** Extrema over the whole span on a grid of step ends, with the values at the two ends of the span. */
+export function extremaOnGrid(grid: number[], value: (t: number) => number, slope: (t: number) => number): Extrema {
+  const points: Extremum[] = [{ t: grid[0], value: value(grid[0]) }];
+  for (let k = 1; k < grid.length; k++) extremaIn(grid[k - 1], grid[k], value, slope, points);
+  const end = grid[grid.length - 1];
+  points.push({ t: end, value: value(end) });
+  return { points };
+}
+
+/** The largest value, the smallest value, and the largest magnitude (with its sign) among extrema. */
+export function summarise(extrema: Extrema): { max: Extremum; min: Extremum; peak: Extremum } {
+  let max = extrema.points[0];
+  let min = extrema.points[0];
+  let peak = extrema.points[0];
+  for (const p of extrema.points) {
+    if (p.value > max.value) max = p;
+    if (p.value < min.value) min = p;
+    if (Math.abs(p.value) > Math.abs(peak.value)) peak = p;
+  }
+  return { max, min, peak };
+}
+
+/**
+ * Solves the circuit numerically at `points` evenly spaced times over [0, span], and finds the extrema
+ * of i and q inside every step from the solver's dense output. The solver's steps do not depend on
+ * `points`, so neither do the extrema.
+ */
 export function numericSolution(p: RlcParameters, E: (t: number) => number, span: number, points: number, options: { tolerance?: number; deadline?: number } = {}): NumericSolution {
   const { R, L, C } = p;
   // Scale charge so the solver's absolute tolerance means the same for µC and kC circuits.
@@ -99,10 +214,13 @@ export function numericSolution(p: RlcParameters, E: (t: number) => number, span
   solver.absoluteTolerance = options.tolerance ?? 1e-12;
   solver.relativeTolerance = options.tolerance ?? 1e-12;
   solver.maxSteps = 1_000_000;
-  solver.initialStepSize = span / Math.max(points, 1000);
+  solver.initialStepSize = span / 1000;
   const t = Array.from({ length: points }, (_, k) => (span * k) / (points - 1));
   const q = new Array<number>(points);
   const i = new Array<number>(points);
+  const grid: number[] = [0];
+  const iPoints: Extremum[] = [{ t: 0, value: p.i0 }];
+  const qPoints: Extremum[] = [{ t: 0, value: p.q0 }];
   let next = 0;
   let evaluations = 0;
   const f = (x: number, y: number[]) => {
@@ -110,7 +228,15 @@ export function numericSolution(p: RlcParameters, E: (t: number) => number, span
     if (options.deadline !== undefined && (evaluations & 1023) === 0 && Date.now() > options.deadline) throw new Error('the transient took longer than the time allowed for an evaluation');
     return [y[1], (E(x) / scale - R * y[1] - y[0] / C) / L];
   };
+  let last = { q: p.q0, i: p.i0 };
   const out = solver.solve(f, 0, [p.q0 / scale, p.i0 / scale], span, (_n: number, x0: number, x1: number, y: number[], dense?: (c: number, x: number) => number) => {
+    if (dense && x1 > x0) {
+      const qAt = (x: number) => dense(0, x) * scale;
+      const iAt = (x: number) => dense(1, x) * scale;
+      extremaIn(x0, x1, iAt, (x) => E(x) - R * iAt(x) - qAt(x) / C, iPoints);
+      extremaIn(x0, x1, qAt, iAt, qPoints);
+      grid.push(x1);
+    }
     while (next < points && t[next] <= x1 + 1e-15 * span) {
       const tk = Math.min(t[next], x1);
       if (dense && x1 > x0) {
@@ -122,8 +248,11 @@ export function numericSolution(p: RlcParameters, E: (t: number) => number, span
       }
       next++;
     }
+    last = { q: y[0] * scale, i: y[1] * scale };
     return undefined;
   });
   if (out.outcome !== 0) throw new Error('the numeric solver did not reach the end of the time span (the circuit may be too stiff for this span)');
-  return { t, q, i, steps: out.nStep, evaluations: out.nEval };
+  iPoints.push({ t: span, value: last.i });
+  qPoints.push({ t: span, value: last.q });
+  return { t, q, i, steps: out.nStep, evaluations: out.nEval, grid, currentExtrema: { points: iPoints }, chargeExtrema: { points: qPoints } };
 }

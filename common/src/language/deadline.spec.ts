@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { evaluateSheet } from '../cells/evaluate-sheet';
 import { runWithDeadline } from './deadline';
 
-const RUNAWAY = 'M = ones(316, 316)\nP = M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M\nx = 1';
+const RUNAWAY = 'M = ones(200, 200)\nP = M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M\nx = 1';
 
 describe('the soft deadline of an evaluation', () => {
   it('stops a runaway sheet soon after its deadline, and says so', () => {

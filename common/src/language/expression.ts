@@ -26,7 +26,7 @@ export const normalizeSource = (s: string) => s.replace(/[µμ]/g, 'u');
 /** Parses text at a place; `offset` is the column of the text's first character minus one. */
 export function parseExpression(text: string, line: number, offset = 0, isValue: (name: string) => boolean = () => false): MathNode {
   try {
-    return callsToProducts(parse(normalizeSource(text)), isValue);
+    return groupTwoPi(callsToProducts(parse(normalizeSource(text)), isValue));
   } catch (err) {
     const char = (err as { char?: number }).char;
     const column = typeof char === 'number' ? Math.max(1, Math.min(char, text.length + 1)) + offset : offset + 1;
@@ -56,6 +56,31 @@ export function callsToProducts(node: MathNode, isValue: (name: string) => boole
       }
     }
     return n;
+  });
+}
+
+const isMultiply = (n: MathNode) => n.type === 'OperatorNode' && (n as AnyNode).fn === 'multiply' && ((n as AnyNode).args as MathNode[]).length === 2;
+const isTwo = (n: MathNode) => n.type === 'ConstantNode' && (n as AnyNode).value === 2;
+const isPi = (n: MathNode) => n.type === 'SymbolNode' && (n as AnyNode).name === 'pi';
+
+/**
+ * A product with the factors 2 and pi anywhere in it (`2 f pi`) is read as `2 pi f`, so that 2π meets
+ * the frequency first and makes it an angular frequency (see instance.ts). Only scalar factors move.
+ */
+export function groupTwoPi(node: MathNode): MathNode {
+  if (node.filter(isPi).length === 0) return node;
+  return node.transform((n) => {
+    if (!isMultiply(n)) return n;
+    const factors: MathNode[] = [];
+    const flatten = (m: MathNode) => (isMultiply(m) ? ((m as AnyNode).args as MathNode[]).forEach(flatten) : factors.push(m));
+    flatten(n);
+    const two = factors.findIndex(isTwo);
+    const pi = factors.findIndex(isPi);
+    const rest = factors.filter((_, k) => k !== two && k !== pi).map(groupTwoPi);
+    if (two < 0 || pi < 0 || rest.length === 0 || Math.max(two, pi) === 1) return n.map((c) => groupTwoPi(c));
+    const implicit = Boolean((n as AnyNode).implicit);
+    const product = (a: MathNode, b: MathNode) => new math.OperatorNode('*', 'multiply', [a, b], implicit);
+    return rest.reduce(product, product(factors[two], factors[pi]));
   });
 }
 

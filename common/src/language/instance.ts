@@ -5,7 +5,7 @@
  */
 import type { Unit as MathUnit } from 'mathjs';
 import { circuitFunctions } from '../circuits/functions';
-import { dropRidingAngle } from '../units/quantities';
+import { asFrequencyKind, dropRidingAngle, frequencyKind } from '../units/quantities';
 import { checkCombined, disableUnsafeFunctions, math, withValue } from './math';
 
 const typed = math.typed;
@@ -13,20 +13,25 @@ const ANGLE = 7;
 const dims = (u: MathUnit) => (u as unknown as { dimensions: number[] }).dimensions;
 const isPureAngle = (u: MathUnit) => dims(u).every((x, i) => x === (i === ANGLE ? 1 : 0));
 const isDimensionless = (u: MathUnit) => dims(u).every((x) => x === 0);
+/** Only the angle, to a power other than 0 and 1. */
+const isAnglePower = (u: MathUnit) => dims(u).every((x, i) => (i === ANGLE ? x !== 0 && x !== 1 : x === 0));
 const asRadians = (value: unknown) => withValue(math.unit('rad') as MathUnit, value);
 
 /** Operators that treat the radian as 1 (SI Brochure): rad·Ω meets Ω, and a plain number meets an angle. */
 const withRidingAngleDropped = (name: 'add' | 'subtract' | 'smaller' | 'larger' | 'smallerEq' | 'largerEq' | 'equal' | 'unequal') => {
   const original = math[name] as (a: unknown, b: unknown) => unknown;
   const plainAsAngle = (x: unknown, other: MathUnit) => (isPureAngle(other) ? asRadians(x) : x);
+  // rad², rad⁻¹, ... alone (the (2 pi f)² L C of a filter) is a plain number.
+  const plainIfAnglePower = (u: MathUnit): unknown => (isAnglePower(u) ? (u as unknown as { value: unknown }).value : u);
   return typed(name, {
     'Unit, Unit': (a: MathUnit, b: MathUnit) => {
+      if (isAnglePower(a) || isAnglePower(b)) return (math[name] as (x: unknown, y: unknown) => unknown)(plainIfAnglePower(a), plainIfAnglePower(b));
       if (isPureAngle(a) && isDimensionless(b)) return original(a, asRadians((b as unknown as { value: unknown }).value));
       if (isPureAngle(b) && isDimensionless(a)) return original(asRadians((a as unknown as { value: unknown }).value), b);
       return original(dropRidingAngle(a), dropRidingAngle(b));
     },
-    'number | Complex, Unit': (a: unknown, b: MathUnit) => original(plainAsAngle(a, b), b),
-    'Unit, number | Complex': (a: MathUnit, b: unknown) => original(a, plainAsAngle(b, a)),
+    'number | Complex, Unit': (a: unknown, b: MathUnit) => (isAnglePower(b) ? original(a, plainIfAnglePower(b)) : original(plainAsAngle(a, b), b)),
+    'Unit, number | Complex': (a: MathUnit, b: unknown) => (isAnglePower(a) ? original(plainIfAnglePower(a), b) : original(a, plainAsAngle(b, a))),
     'any, any': (a: unknown, b: unknown) => {
       checkCombined([a, b]);
       return original(a, b);
@@ -44,6 +49,53 @@ math.import(
     largerEq: withRidingAngleDropped('largerEq'),
     equal: withRidingAngleDropped('equal'),
     unequal: withRidingAngleDropped('unequal'),
+  },
+  { override: true },
+);
+const TWO_PI = 2 * Math.PI;
+const isTwoPi = (x: unknown) => typeof x === 'number' && Math.abs(x - TWO_PI) <= 4 * Number.EPSILON * TWO_PI;
+const isTime = (u: MathUnit) => dims(u).every((x, i) => x === (i === 2 ? 1 : 0));
+
+/**
+ * 2π keeps angular frequency apart from frequency: 2π times a frequency (or 2π over a time) is an
+ * angular frequency in rad/s; an angular frequency (or any s⁻¹) over 2π, or one over 2π times a time
+ * (1 / (2 pi sqrt(L C))), is a frequency in Hz.
+ */
+const originalMultiply = math.multiply as (a: unknown, b: unknown) => unknown;
+const originalDivide = math.divide as (a: unknown, b: unknown) => unknown;
+/** Marks 2π times a time (2 pi sqrt(L C)): a period, one over which is a frequency in Hz. */
+const PERIOD = Symbol('period');
+const angularProduct = (n: unknown, u: MathUnit) => {
+  const out = originalMultiply(n, u) as MathUnit;
+  if (!isTwoPi(n)) return out;
+  const kind = frequencyKind(u);
+  if (kind === 'cyclic' || kind === 'rate') return asFrequencyKind(out, 'angular');
+  if (isTime(u)) (out as unknown as Record<symbol, boolean>)[PERIOD] = true;
+  return out;
+};
+const overPeriod = (out: unknown, divisor: MathUnit) =>
+  (divisor as unknown as Record<symbol, boolean>)[PERIOD] && frequencyKind(out) === 'rate' ? asFrequencyKind(out as MathUnit, 'cyclic') : out;
+math.import(
+  {
+    multiply: typed('multiply', {
+      'number, Unit': (a: number, b: MathUnit) => angularProduct(a, b),
+      'Unit, number': (a: MathUnit, b: number) => angularProduct(b, a),
+      'any, any': (a: unknown, b: unknown) => originalMultiply(a, b),
+      'any, any, ...any': (a: unknown, b: unknown, rest: unknown[]) => rest.reduce((acc, x) => math.multiply(acc as never, x as never), math.multiply(a as never, b as never)),
+    }),
+    divide: typed('divide', {
+      'Unit, number': (a: MathUnit, b: number) => {
+        const out = originalDivide(a, b) as MathUnit;
+        const kind = frequencyKind(a);
+        return isTwoPi(b) && (kind === 'angular' || kind === 'rate') ? asFrequencyKind(out, 'cyclic') : out;
+      },
+      'number, Unit': (a: number, b: MathUnit) => {
+        const out = originalDivide(a, b) as MathUnit;
+        return isTwoPi(a) && isTime(b) ? asFrequencyKind(out, 'angular') : overPeriod(out, b);
+      },
+      'Unit, Unit': (a: MathUnit, b: MathUnit) => overPeriod(originalDivide(a, b), b),
+      'any, any': (a: unknown, b: unknown) => originalDivide(a, b),
+    }),
   },
   { override: true },
 );

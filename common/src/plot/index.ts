@@ -1,2 +1,3 @@
 export { sweepChart, transientChart, calcFigures, impedanceTriangle, phasorDiagram, type CalcFigure, type ChartOptions } from './charts';
 export { escapeXml } from './svg';
+export { transientSummary, type SummaryRow } from './summary';

@@ -5,6 +5,7 @@
  */
 import type { Unit as MathUnit } from 'mathjs';
 import { isComplex, isUnit, math } from '../language/math';
+import { frequencyKind } from './quantities';
 
 export type SiValue = number | boolean | string | { re: number; im: number } | SiValue[];
 
@@ -54,6 +55,9 @@ function unitValue(u: MathUnit): unknown {
 
 /** The coherent-SI unit name for a quantity, or undefined when none of ours fits. */
 export function siUnitName(u: MathUnit): string | undefined {
+  // An angular frequency in rad/s, a frequency in Hz, any other s⁻¹ (a rate such as R/L) in s⁻¹.
+  const frequency = frequencyKind(u);
+  if (frequency) return frequency === 'angular' ? 'rad/s' : frequency === 'cyclic' ? 'Hz' : 's^-1';
   const d = effectiveDims(u);
   const single = (u as unknown as { units: { unit: { name: string }; power: number }[] }).units;
   if (single.length === 1 && single[0].power === 1 && POWER_UNITS.has(single[0].unit.name)) {
@@ -156,6 +160,9 @@ export function formatValue(value: unknown, options: DisplayOptions = DEFAULT_DI
   if (isUnit(value)) {
     const u = value as MathUnit;
     const raw = unitValue(u);
+    // rad², rad⁻¹, ... alone is a plain number (the radian is 1 in SI).
+    const d = dims(u);
+    if (!target && d[ANGLE] !== 0 && d[ANGLE] !== 1 && d.every((x, i) => i === ANGLE || x === 0)) return formatValue(raw, options);
     const baseName = siUnitName(u) ?? '';
     let shownUnit: string;
     let factor: number;

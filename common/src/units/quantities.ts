@@ -103,3 +103,26 @@ export function dropRidingAngle(u: MathUnit): MathUnit {
   });
   return withValue(math.unit(parts.join(' ')) as MathUnit, (u as unknown as { value: unknown }).value);
 }
+
+/**
+ * Angular frequency and frequency have the same SI dimension (s⁻¹, the radian being 1), yet confusing
+ * them is an error of 2π. A value's kind is read from its unit: `angular` carries the radian (rad/s,
+ * natural_frequency, 2 pi f); `cyclic` is in hertz (Hz, resonant_frequency, w / (2 pi)); `rate` is any
+ * other s⁻¹ (R/L, 1/sqrt(L C), 1/T), which either kind of argument accepts.
+ */
+export type FrequencyKind = 'angular' | 'cyclic' | 'rate';
+
+export function frequencyKind(x: unknown): FrequencyKind | undefined {
+  if (!isUnit(x)) return undefined;
+  const d = dimensionsOf(x);
+  if (!d.every((p, i) => (i === 2 ? p === -1 : i === ANGLE || p === 0))) return undefined;
+  if (d[ANGLE] === 1) return 'angular';
+  if (d[ANGLE] !== 0) return undefined;
+  const parts = (x as unknown as { units: { unit: { name: string }; power: number }[] }).units;
+  return parts.length === 1 && parts[0].power === 1 && parts[0].unit.name === 'Hz' ? 'cyclic' : 'rate';
+}
+
+/** The same SI value as an angular frequency (rad/s) or a frequency (Hz). */
+export function asFrequencyKind(x: MathUnit, kind: 'angular' | 'cyclic'): MathUnit {
+  return withValue(math.unit(kind === 'angular' ? 'rad/s' : 'Hz') as MathUnit, (x as unknown as { value: unknown }).value);
+}

@@ -2,7 +2,7 @@
 import { Alert, Box, Chip, LinearProgress, Stack, Table, TableBody, TableCell, TableHead, TableRow, Typography } from '@mui/material';
 import { useMemo } from 'react';
 import type { CalcResult, CellResult, CheckResult, Diagnostic, SweepResult, TransientResult } from '@ampwright/common';
-import { calcFigures, sweepChart, transientChart } from '@ampwright/common/plot/index';
+import { calcFigures, sweepChart, transientChart, transientSummary } from '@ampwright/common/plot/index';
 import { monoFont, palette } from '../../../app/theme';
 import { SvgFigure } from './svg-figure';
 import { Tex, TextWithMaths } from './tex';
@@ -57,6 +57,7 @@ function CalcResults({ result }: { result: CalcResult }) {
             <Box>
               <Tex>{line.tex.formula}</Tex>
               {line.description && <Typography variant="caption" color="text.secondary" sx={{ display: 'block' }}>{line.description}</Typography>}
+              {line.convention && <Typography variant="caption" color="text.secondary" sx={{ display: 'block' }} data-testid={`convention-${line.name}`}>{line.convention}</Typography>}
             </Box>
             <Box sx={{ color: 'text.secondary', overflowX: 'auto' }}><Tex>{line.tex.working}</Tex></Box>
             <Box sx={{ fontWeight: 600 }} data-testid={`result-${line.name}`} title={line.value?.displayAlt}>
@@ -122,11 +123,19 @@ function SweepResults({ result, logX }: { result: SweepResult; logX: boolean }) 
 
 function TransientResults({ result }: { result: TransientResult }) {
   const svg = useMemo(() => transientChart(result), [result]);
+  const rows = useMemo(() => transientSummary(result), [result]);
   return (
     <Box>
-      <Typography variant="body2">
-        {result.dampingCase}; peak current {result.peakCurrent?.display} at {result.peakTime?.display}; {result.analytic?.available ? `the analytic solution agrees within ${((result.maxRelativeDeviation ?? 0) * 100).toExponential(1)} % of the peak` : result.analytic?.reason ?? 'numeric solution only'}.
-      </Typography>
+      <Table size="small" sx={{ width: 'auto', mb: 1 }} aria-label="Transient results">
+        <TableBody>
+          {rows.map((r) => (
+            <TableRow key={r.label}>
+              <TableCell component="th" scope="row" sx={{ fontWeight: 600, verticalAlign: 'top' }}>{r.label}</TableCell>
+              <TableCell>{r.text}</TableCell>
+            </TableRow>
+          ))}
+        </TableBody>
+      </Table>
       {svg && <SvgFigure svg={svg} label="Transient current" />}
     </Box>
   );
