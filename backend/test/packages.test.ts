@@ -1,6 +1,6 @@
 import { execFileSync, spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { INestApplication } from '@nestjs/common';
@@ -116,6 +116,37 @@ describe('signed packages, the client portal and verification', () => {
     expect(text).toContain(`Page ${pages} of ${pages}`);
     // The attachment is embedded in the file.
     expect(execFileSync('pdfdetach', ['-list', file]).toString()).toContain('site.txt');
+  });
+
+  it('draws the maths of a note as maths in the signed package: none of its TeX in the text, and ink between the words around it (pdftotext -bbox, pdftoppm)', () => {
+    const file = toFile(pdf);
+    const text = execFileSync('pdftotext', ['-layout', file, '-']).toString();
+    // The template's note: "The amplitude of the current is $I_0 = \frac{E_0}{Z}$ where $Z = \sqrt{…}$".
+    expect(text).toContain('The amplitude of the current is');
+    expect(text).not.toMatch(/\\frac|fracE|\\sqrt|sqrtR|E_0|\$I/);
+    // Find the words either side of the first formula, on the page and line where they stand.
+    const boxes = execFileSync('pdftotext', ['-bbox', file, '-']).toString();
+    const pages = boxes.split('<page ').slice(1);
+    const pageIndex = pages.findIndex((p) => /<word[^>]*>amplitude<\/word>/.test(p) && />where</.test(p));
+    expect(pageIndex).toBeGreaterThanOrEqual(0);
+    const words = [...pages[pageIndex].matchAll(/<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">([^<]*)<\/word>/g)].map((m) => ({ x0: +m[1], y0: +m[2], x1: +m[3], y1: +m[4], w: m[5] }));
+    const k = words.findIndex((w, i) => w.w === 'is' && words[i - 1]?.w === 'current');
+    const before = words[k];
+    const after = words.slice(k + 1).find((w) => w.w === 'where')!;
+    expect(Math.abs(after.y0 - before.y0)).toBeLessThan(4); // the formula sits on the line, between them
+    expect(after.x0 - before.x1).toBeGreaterThan(25);
+    // A picture of that page at 144 dpi (2 pixels a point): the gap between the words holds ink.
+    const dir = mkdtempSync(join(tmpdir(), 'aw-page-'));
+    execFileSync('pdftoppm', ['-r', '144', '-gray', '-f', String(pageIndex + 1), '-l', String(pageIndex + 1), file, join(dir, 'p')]);
+    const pgm = readFileSync(join(dir, readdirSync(dir).find((f) => f.endsWith('.pgm'))!));
+    const header = /^P5\s+(\d+)\s+(\d+)\s+255\s/.exec(pgm.subarray(0, 40).toString('latin1'))!;
+    const width = Number(header[1]);
+    const pixels = pgm.subarray(header[0].length);
+    let ink = 0;
+    for (let y = Math.floor((before.y0 - 6) * 2); y < Math.ceil((before.y1 + 6) * 2); y++) {
+      for (let x = Math.ceil(before.x1 * 2) + 4; x < Math.floor(after.x0 * 2) - 4; x++) if (pixels[y * width + x] < 128) ink++;
+    }
+    expect(ink).toBeGreaterThan(150);
   });
 
   it('calls a package with one byte changed altered, in pdfsig and on the verification page', async () => {

@@ -16,3 +16,4 @@ export { diffCells, type CellDiff, type SnapshotCell } from './review/diff';
 export { revisionCode, canonicalJson } from './review/revision-code';
 export type { PackageStatusDto, PortalRevisionDto, VerdictDto, CertificateDto, PackageSettingsDto } from './api/packages';
 export { runWithDeadline } from './language/deadline';
+export { parseNote, linkText, type NoteBlock, type NoteInline } from './notes/markdown';

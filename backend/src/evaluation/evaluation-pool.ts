@@ -52,6 +52,8 @@ interface Child {
 
 /** How long a sheet's evaluation may wait for the process holding its cache (a fresh one costs more). */
 const AFFINITY_WAIT_MS = 50;
+/** The longest a task waits for the first evaluator to finish starting. */
+const STARTING_GRACE_MS = 30_000;
 /**
  * An evaluation stops itself at its deadline and the process lives on (common/src/language/deadline.ts);
  * one that does not (a single long operation) has its process killed this much later.
@@ -260,6 +262,13 @@ export class EvaluationPool {
   private expire(id: number): void {
     const at = this.queue.findIndex((j) => j.id === id);
     if (at < 0) return;
+    // While no evaluator has started yet (the server or a seed just booted, on a loaded machine), the
+    // wait has not really begun: it is counted again, up to STARTING_GRACE_MS from when the task came.
+    const job0 = this.queue[at];
+    if (![...this.children].some((c) => c.ready) && Date.now() - job0.queuedAt < STARTING_GRACE_MS) {
+      job0.expiry = setTimeout(() => this.expire(id), this.limits.waitMs);
+      return;
+    }
     const [job] = this.queue.splice(at, 1);
     job.resolve({ ok: false, reason: 'busy', message: `it waited ${this.limits.waitMs / 1000} s for a free evaluator` });
   }

@@ -11,6 +11,7 @@ import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
 import { calcFigures, sweepChart, transientChart, transientSummary, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
 import type { RevisionSnapshot } from '../review/revisions.service';
+import { drawNote } from './note-pdf';
 import { drawTex, texToSvg } from './tex-svg';
 import { woffToSfnt } from './woff';
 
@@ -59,12 +60,6 @@ export const REVISION_KEY = 'AmpwrightRevision';
 
 const M = 56; // margin
 const date = (iso: string | null) => (iso ? `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC` : '—');
-
-/** Inline TeX in notes, made readable as text. */
-function plainMaths(s: string): string {
-  const words: Record<string, string> = { omega: 'ω', Omega: 'Ω', pi: 'π', phi: 'φ', varphi: 'φ', theta: 'θ', alpha: 'α', beta: 'β', zeta: 'ζ', mu: 'µ', sqrt: '√', cdot: '·', times: '×', le: '≤', leq: '≤', ge: '≥', geq: '≥', approx: '≈', sin: 'sin', cos: 'cos', tan: 'tan', angle: '∠' };
-  return s.replace(/\$([^$]+)\$/g, (_, m: string) => m.replace(/\\([A-Za-z]+)/g, (w, n: string) => words[n] ?? n).replace(/[{}]/g, '').replace(/_/g, '').replace(/\\,/g, ' '));
-}
 
 export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
   const { snapshot: snap } = input;
@@ -194,15 +189,7 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     doc.moveTo(M, doc.y + 1).lineTo(M + width(), doc.y + 1).lineWidth(0.5).strokeColor(RULE).stroke();
     doc.moveDown(0.4);
     if (cell.kind === 'note') {
-      for (const block of String(cell.text ?? '').split(/\n{2,}/)) {
-        const h = /^(#{1,3})\s+(.*)/.exec(block);
-        if (h) para(plainMaths(h[2]), { font: 'bold', size: h[1].length === 1 ? 14 : 12, colour: INK });
-        else {
-          const italic = /^\*(.*)\*$/s.exec(block);
-          para(plainMaths((italic ? italic[1] : block).replace(/\n/g, ' ')), { font: italic ? 'italic' : 'sans' });
-        }
-        doc.moveDown(0.4);
-      }
+      drawNote({ doc, left: M, width: width(), ensure, colours: { text: TEXT, muted: MUTED, heading: INK, rule: RULE } }, String(cell.text ?? ''));
     } else if (cell.kind === 'calc' && result?.kind === 'calc') {
       drawCalc(result);
     } else if (cell.kind === 'check' && result?.kind === 'check') {

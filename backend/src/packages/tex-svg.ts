@@ -50,19 +50,19 @@ export interface TexSvg {
 const cache = new Map<string, TexSvg>();
 
 /** Converted once per formula and size (a layout asks for a formula's size before drawing it). */
-export function texToSvg(tex: string, fontSize: number): TexSvg {
-  const key = `${fontSize}|${tex}`;
+export function texToSvg(tex: string, fontSize: number, style: 'display' | 'text' = 'display'): TexSvg {
+  const key = `${fontSize}|${style}|${tex}`;
   let hit = cache.get(key);
   if (!hit) {
     if (cache.size > 5000) cache.clear();
-    hit = convert(tex, fontSize);
+    hit = convert(tex, fontSize, style);
     cache.set(key, hit);
   }
   return hit;
 }
 
-function convert(tex: string, fontSize: number): TexSvg {
-  const node = doc.convert(`\\displaystyle ${tex}`, { display: false });
+function convert(tex: string, fontSize: number, style: 'display' | 'text'): TexSvg {
+  const node = doc.convert(style === 'display' ? `\\displaystyle ${tex}` : tex, { display: false });
   const svgNode = adaptor.firstChild(node) as unknown as Parameters<typeof adaptor.outerHTML>[0];
   const svg = adaptor.outerHTML(svgNode);
   const ex = fontSize * EX_PER_EM;

@@ -5,7 +5,7 @@ import type { CalcResult, CellResult, CheckResult, Diagnostic, SweepResult, Tran
 import { calcFigures, sweepChart, transientChart, transientSummary } from '@ampwright/common/plot/index';
 import { monoFont, palette } from '../../../app/theme';
 import { SvgFigure } from './svg-figure';
-import { Tex, TextWithMaths } from './tex';
+import { Tex } from './tex';
 
 export function Problems({ errors, warnings }: { errors: Diagnostic[]; warnings: Diagnostic[] }) {
   if (!errors.length && !warnings.length) return null;
@@ -22,24 +22,6 @@ export function Problems({ errors, warnings }: { errors: Diagnostic[]; warnings:
         </Alert>
       ))}
     </Stack>
-  );
-}
-
-/** Markdown kept simple: headings (#, ##, ###), paragraphs, *emphasis* of a whole paragraph, $maths$. */
-export function NoteText({ text }: { text: string }) {
-  const blocks = text.split(/\n{2,}/).flatMap((block) => {
-    const lines = block.split('\n');
-    const heading = /^(#{1,3})\s+(.*)$/.exec(lines[0]);
-    return heading ? [{ level: heading[1].length, text: heading[2] }, ...(lines.length > 1 ? [{ level: 0, text: lines.slice(1).join(' ') }] : [])] : [{ level: 0, text: lines.join(' ') }];
-  });
-  return (
-    <Box>
-      {blocks.map((b, i) => {
-        if (b.level) return <Typography key={i} variant={b.level === 1 ? 'h2' : b.level === 2 ? 'h3' : 'h4'} component="p" gutterBottom><TextWithMaths text={b.text} /></Typography>;
-        const emphasis = /^\*(.*)\*$/s.exec(b.text);
-        return <Typography key={i} sx={{ mb: 1.5, fontStyle: emphasis ? 'italic' : undefined }}><TextWithMaths text={emphasis ? emphasis[1] : b.text} /></Typography>;
-      })}
-    </Box>
   );
 }
 

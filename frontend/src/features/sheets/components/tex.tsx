@@ -12,9 +12,3 @@ export function Tex({ children, display = false }: { children: string; display?:
   const html = useMemo(() => katex.renderToString(children, { ...KATEX_OPTIONS, displayMode: display }), [children, display]);
   return <span className="aw-tex" dangerouslySetInnerHTML={{ __html: html }} />;
 }
-
-/** Text with $inline maths$: the maths typeset, the rest as it is. */
-export function TextWithMaths({ text }: { text: string }) {
-  const parts = text.split(/(\$[^$]+\$)/g);
-  return <>{parts.map((p, i) => (p.startsWith('$') && p.endsWith('$') && p.length > 2 ? <Tex key={i}>{p.slice(1, -1)}</Tex> : <span key={i}>{p}</span>))}</>;
-}
