@@ -1,6 +1,7 @@
 /**
  * Sheet files with expected values from outside sources (cases/*.json). Each case names its source
- * and whether it is a standard, a handbook value, common practice, or from memory.
+ * and whether it is a standard, a handbook value, common practice, or from memory; `expectErrors` lists
+ * lines the engine must refuse, with the sentence it gives.
  */
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -14,6 +15,8 @@ interface Case {
   sheet: unknown;
   expect: { cell: number; name: string; si: number | [number, number]; relTol: number }[];
   expectChecks?: { cell: number; pass: boolean; utilization: number; relTol: number }[];
+  /** Lines the engine must refuse, with a pattern of the sentence it gives. */
+  expectErrors?: { cell: number; line: number; match: string }[];
 }
 
 const dir = join(__dirname, 'cases');
@@ -37,7 +40,11 @@ describe('reference cases', () => {
     const parsed = parseSheetFile(c.sheet);
     if (!parsed.ok) throw new Error(`case sheet invalid: ${JSON.stringify(parsed.problems)}`);
     const result = evaluateSheet(parsed.sheet);
-    for (const cell of result.cells) expect(cell.errors, `${c.id}: ${c.source}`).toEqual([]);
+    result.cells.forEach((cell, k) => {
+      const wanted = (c.expectErrors ?? []).filter((e) => e.cell === k);
+      expect(cell.errors.map((e) => e.line), `${c.id}: ${JSON.stringify(cell.errors)}`).toEqual(wanted.map((e) => e.line));
+      wanted.forEach((e, n) => expect(cell.errors[n].message).toMatch(new RegExp(e.match)));
+    });
     for (const e of c.expect) {
       const cell = result.cells[e.cell] as CalcResult | TableResult;
       const value = cell.values[e.name];

@@ -6,7 +6,9 @@
 import fc from 'fast-check';
 import Qty from 'js-quantities';
 import { describe, expect, it } from 'vitest';
-import { evaluateSheet, type CalcResult } from '../common/src/index';
+import { readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { evaluateSheet, parseSheetFile, type CalcResult, type TransientResult } from '../common/src/index';
 
 const positive = (min: number, max: number) => fc.double({ min, max, noNaN: true, noDefaultInfinity: true });
 const circuit = fc.record({ R: positive(0.01, 1000), L: positive(1e-6, 10), C: positive(1e-9, 1e-2), w: positive(1, 1e5), E0: positive(1, 1e5), t: positive(0, 1) });
@@ -136,5 +138,26 @@ describe('angular frequency and frequency, as shown', () => {
     expect(errors('f = 50 Hz\nw = f to rad/s')[0]).toMatch(/multiply by 2 pi/);
     expect(errors('f = 50 Hz\nX = rlc_reactance(1 mH, 1 uF, f)')[0]).toMatch(/angular frequency in rad\/s, but this value is a frequency in Hz/);
     expect(errors('w = 314 rad/s\nX = reactance_L(1 mH, w)')[0]).toMatch(/frequency in Hz, but this value is an angular frequency/);
+  });
+});
+
+describe('every template shows its angular frequencies in rad/s', () => {
+  const dir = join(__dirname, '..', 'templates');
+  it.each(readdirSync(dir).filter((f) => f.endsWith('.json')))('%s', (file) => {
+    const parsed = parseSheetFile(JSON.parse(readFileSync(join(dir, file), 'utf8')));
+    if (!parsed.ok) throw new Error('template invalid');
+    for (const cell of evaluateSheet(parsed.sheet).cells) {
+      const calc = cell as CalcResult;
+      for (const [name, v] of Object.entries(calc.values ?? {})) {
+        if (v.siUnit === 'rad/s' || /^(w|omega)(_|\d|$)/.test(name)) expect(v.display, `${file}: ${name}`).toMatch(/ rad\/s$/);
+        if (v.siUnit === 'Hz') expect(/^(w|omega)/.test(name), `${file}: ${name} = ${v.display}`).toBe(false);
+      }
+      const t = cell as TransientResult;
+      if (t.kind === 'transient') {
+        expect(t.parameters?.omega_0.display, file).toMatch(/ rad\/s$/);
+        if (t.parameters?.omega_d) expect(t.parameters.omega_d.display, file).toMatch(/ rad\/s$/);
+        expect(t.parameters?.alpha.display, file).toMatch(/ s⁻¹$/);
+      }
+    }
   });
 });
