@@ -1,17 +1,22 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
 import { useBrowserPage } from './support/browser';
 import { newSheetFromTemplate, signIn } from './support/flows';
+
+/** Signs in as the second engineer (the first signs in often across the other files) and starts a sheet from a template. */
+async function asEngineer2(page: Page, template: string, sheetNumber: string) {
+  await signIn(page, 'engineer2@northfold.example', '/projects');
+  await page.waitForURL(/\/projects$/);
+  await page.getByRole('table', { name: 'Projects' }).getByText('NE-2417').waitFor();
+  await newSheetFromTemplate(page, template, sheetNumber);
+}
 
 describe('projects and sheets in a real browser', () => {
   const s = useBrowserPage({ beforeAll, afterAll, beforeEach });
 
   it('creates a project and a sheet from the series RLC template, and shows its typeset results', async () => {
     const { page } = s;
-    // A second engineer: the first signs in more than five times a minute across the other files (the per-account limit).
-    await signIn(page, 'engineer2@northfold.example', '/projects');
-    await page.waitForURL(/\/projects$/);
-    await page.getByRole('table', { name: 'Projects' }).getByText('NE-2417').waitFor();
-    await newSheetFromTemplate(page, 'Series RLC branch: steady-state current at the supply frequency', 'C-900');
+    await asEngineer2(page, 'Series RLC branch: steady-state current at the supply frequency', 'C-900');
     await expect.poll(() => page.getByRole('heading', { level: 1 }).textContent()).toBe('Series RLC branch: steady-state current at the supply frequency');
     await expect.poll(() => page.getByTestId('result-Z').first().textContent()).toContain('13.05');
     expect(await page.getByTestId('check-outcome').first().textContent()).toBe('Pass');
@@ -36,10 +41,7 @@ describe('projects and sheets in a real browser', () => {
 
   it('gives the inrush template the same peak current for 500 and for 20 000 points, found from the solution', async () => {
     const { page } = s;
-    await signIn(page, 'engineer2@northfold.example', '/projects');
-    await page.waitForURL(/\/projects$/);
-    await page.getByRole('table', { name: 'Projects' }).getByText('NE-2417').waitFor();
-    await newSheetFromTemplate(page, 'Inrush when the bank is energised', 'C-901');
+    await asEngineer2(page, 'Inrush when the bank is energised', 'C-901');
     const cell = page.getByRole('region', { name: 'Cell 4: Transient' });
     const row = (label: string) => cell.getByRole('table', { name: 'Transient results' }).getByRole('row').filter({ has: page.getByRole('rowheader', { name: label, exact: true }) });
     await row('Peak current').waitFor();
