@@ -7,6 +7,12 @@ declare module 'js-quantities' {
   export default Qty;
 }
 declare module 'numeric' {
-  const numeric: { dopri(x0: number, x1: number, y0: number[], f: (t: number, y: number[]) => number[], tol?: number, maxit?: number): { at(x: number): number[] } };
+  /** numeric 1.2.6's Dormand–Prince solver; with `event`, it stops where an event value crosses zero upwards. */
+  interface DopriSolution {
+    x: number[];
+    y: number[][];
+    at(x: number): number[];
+  }
+  const numeric: { dopri(x0: number, x1: number, y0: number[], f: (t: number, y: number[]) => number[], tol?: number, maxit?: number, event?: (t: number, y: number[]) => number[]): DopriSolution };
   export default numeric;
 }

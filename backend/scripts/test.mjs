@@ -38,6 +38,24 @@ function runLayer(name, cwd, args, env) {
   return { name, passed, failed, skipped, ok, note: passed === 0 ? 'no test ran' : '' };
 }
 
+/** Type-checks every project, tests included (the same as `npm run typecheck`); one count per project. */
+function runTypecheck(name) {
+  log(`layer: ${name}`);
+  const TSC = join(ROOT, 'node_modules', 'typescript', 'bin', 'tsc');
+  const projects = ['common/tsconfig.test.json', 'backend/tsconfig.test.json', 'frontend/tsconfig.json', 'reference-checks/tsconfig.json'];
+  let passed = 0;
+  let failed = 0;
+  for (const project of projects) {
+    try {
+      run(process.execPath, [TSC, '-p', join(ROOT, project), '--noEmit'], { cwd: ROOT });
+      passed++;
+    } catch {
+      failed++;
+    }
+  }
+  return { name, passed, failed, skipped: 0, ok: failed === 0, note: '' };
+}
+
 stopOnSignals();
 main(async () => {
   const { ensureNodeModules } = await import('./lib/provision.mjs');
@@ -71,6 +89,7 @@ main(async () => {
   const selected = (name) => !wanted.length || wanted.some((w) => name.includes(w));
   const layers = [];
   const layer = (name, dir, args, layerEnv = env) => selected(name) && layers.push(runLayer(name, join(ROOT, dir), [...args, ...extra], layerEnv));
+  if (selected('type check')) layers.push(runTypecheck('type check'));
   layer('common unit', 'common', []);
   layer('backend unit', 'backend', ['--project', 'unit']);
   layer('frontend unit', 'frontend', ['--project', 'unit']);

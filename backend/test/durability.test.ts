@@ -84,7 +84,7 @@ describe('durability', () => {
     const em = app.get(EntityManager).fork();
     const rows = await em.getConnection().execute<{ id: string; fields: string }[]>('select id, fields from cell where sheet_id = ?', [sheet.id]);
     for (const [cellId, n] of acknowledged) {
-      const row = rows.find((r) => r.id === cellId)!;
+      const row = rows.find((r: { id: string }) => r.id === cellId)!;
       const fields = typeof row.fields === 'string' ? JSON.parse(row.fields) : row.fields;
       // What is stored is the acknowledged save or a later one (a save may land without its answer arriving).
       const stored = Number(/= (\d+)$/.exec(fields.source)![1]);

@@ -1,5 +1,6 @@
 import type { INestApplication } from '@nestjs/common';
 import { MikroORM } from '@mikro-orm/core';
+import type { EntityManager as SqlEntityManager } from '@mikro-orm/mariadb';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ObjectStoreService } from '../src/files/object-store.service';
@@ -54,7 +55,8 @@ describe('the app against MariaDB and the fakes', () => {
   });
 
   it('has the migrated schema and an idempotent demo seed', async () => {
-    const em = app.get(MikroORM).em.fork();
+    // The app runs the MariaDB driver, whose entity manager is the SQL one the seed takes.
+    const em = app.get(MikroORM).em.fork() as SqlEntityManager;
     await seedDemo(em, 4);
     expect(await seedDemo(em.fork(), 4)).toBe('demo seed: everything already present');
     expect(await em.fork().count(Firm, { name: DEMO_FIRM_NAME })).toBe(1);

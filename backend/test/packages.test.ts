@@ -91,7 +91,7 @@ describe('signed packages, the client portal and verification', () => {
 
   it('carries no link an author wrote through LaTeX in a string', async () => {
     const revision = (await as(app, engineer, 'get', `/api/revisions/${revisionId}`)).body;
-    const hostile = { format: 'ampwright.sheet/1', title: 'Links', cells: [{ kind: 'calc', source: 'x = "\\href{https://evil.example/login}{see datasheet}"\ny = "\\rule{5000em}{5000em}"' }] };
+    const hostile = { format: 'ampwright.sheet/1' as const, title: 'Links', cells: [{ kind: 'calc' as const, source: 'x = "\\href{https://evil.example/login}{see datasheet}"\ny = "\\rule{5000em}{5000em}"' }] };
     const snapshot = { ...revision.snapshot, sheet: hostile, cellIds: ['c-1'], results: evaluateSheet(hostile).cells, queries: [], attachments: [] };
     const made = await buildPackageInWorker({ revisionId, snapshot, history: [revision], attachments: [] });
     const raw = made.toString('latin1');

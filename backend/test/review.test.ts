@@ -196,7 +196,7 @@ describe('checking and revisions', () => {
     const rows = await conn.execute<{ code: string; snapshot: string; snapshot_sha256: string }[]>(
       "select r.code, r.snapshot, r.snapshot_sha256 from revision r join sheet s on s.id = r.sheet_id join project p on p.id = s.project_id where p.job_number = 'NE-2417' and s.number = 'C-106'",
     );
-    expect(rows.map((r) => r.code)).toEqual(['A']);
+    expect(rows.map((r: { code: string }) => r.code)).toEqual(['A']);
     const snapshot = typeof rows[0].snapshot === 'string' ? JSON.parse(rows[0].snapshot) : rows[0].snapshot;
     expect(createHash('sha256').update(canonicalJson(snapshot)).digest('hex')).toBe(rows[0].snapshot_sha256);
     expect(snapshot.people).toEqual({ preparedBy: expect.any(String), checkedBy: 'Priya Okonkwo', approvedBy: 'Hal Vermeulen' });
