@@ -9,14 +9,12 @@ import { readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
-import { calcFigures, sweepChart, transientChart, transientSummary, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
+import { CAUTION_SHORT, CAUTION_TEXT, calcFigures, sweepChart, transientChart, transientSummary, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
 import type { RevisionSnapshot } from '../review/revisions.service';
 import { drawNote } from './note-pdf';
 import { drawTex, texToSvg } from './tex-svg';
 import { woffToSfnt } from './woff';
 
-export const CAUTION_TEXT =
-  'Results are for use by qualified engineers. Check them independently before relying on them; locally adopted electrical codes and licensed practice take precedence, and the engineer of record remains responsible.';
 
 export interface PackageAttachment {
   fileName: string;
@@ -324,7 +322,7 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     doc.font('sans').fontSize(8).fillColor(MUTED);
     doc.text(`${snap.firm} · Job ${snap.project.jobNumber} · Sheet ${snap.sheetNumber} · Revision ${snap.revision.code}`, M, M - 24, { width: width(), lineBreak: false });
     doc.moveTo(M, M - 12).lineTo(M + width(), M - 12).lineWidth(0.5).strokeColor(RULE).stroke();
-    doc.text(`For qualified engineers; check independently; local codes and licensed practice prevail.`, M, doc.page.height - M + 14, { width: width() - 80, lineBreak: false });
+    doc.text(CAUTION_SHORT, M, doc.page.height - M + 14, { width: width() - 80, lineBreak: false });
     doc.text(`Page ${p + 1} of ${range.count}`, M + width() - 80, doc.page.height - M + 14, { width: 80, align: 'right', lineBreak: false });
     doc.page.margins.bottom = keep;
   }

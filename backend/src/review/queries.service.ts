@@ -1,7 +1,7 @@
 /** Queries on cells and the checker's agreement with cells. */
 import { EntityManager, LockMode } from '@mikro-orm/core';
 import { HttpStatus, Injectable } from '@nestjs/common';
-import type { QueryDto } from '@ampwright/common';
+import { isEditable, type QueryDto, type SheetState } from '@ampwright/common';
 import { AuditService } from '../audit/audit.service';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
@@ -101,7 +101,7 @@ export class QueriesService {
     const byPreparer = isUser(auth, sheet.preparer);
     const byChecker = isUser(auth, sheet.checker);
     if (!byPreparer && !byChecker) throw new AppException(ReviewErrorCode.NotYours, 'Only the sheet\'s preparer and its checker take part in a query.', HttpStatus.FORBIDDEN);
-    if (!['being-prepared', 'with-checker'].includes(sheet.state)) throw new AppException(ReviewErrorCode.OutOfTurn, 'The sheet is past checking; its queries can no longer change.', HttpStatus.CONFLICT);
+    if (!isEditable(sheet.state as SheetState)) throw new AppException(ReviewErrorCode.OutOfTurn, 'The sheet is past checking; its queries can no longer change.', HttpStatus.CONFLICT);
     this.em.persist(new QueryMessage(q, this.em.getReference(User, auth.session.user.id), dto.text));
     q.status = byPreparer ? 'answered' : 'open';
     await this.em.flush();

@@ -1,30 +1,31 @@
-/** The rules of who may act on a sheet under review; each refusal says why. */
+/**
+ * The server's side of the workflow rulebook (common/src/review/workflow.ts): the facts of a locked
+ * sheet and the person acting, and a refusal turned into the API's error. Each refusal says why.
+ */
 import { HttpStatus } from '@nestjs/common';
-import type { SheetState } from '@ampwright/common';
+import { STATE_WORDS, WorkflowCode, refusalOf, type SheetFacts, type SheetState, type WorkflowMove } from '@ampwright/common';
 import { AppException } from '../core/errors/app-exception';
+import { actorOf, enforce } from '../core/errors/refusal';
 import type { AuthContext } from '../core/guards/auth.guard';
 import type { Sheet } from '../sheets/entities/sheet.entity';
 
-export enum ReviewErrorCode {
-  OutOfTurn = 'OUT_OF_TURN',
-  NotYours = 'NOT_ASSIGNED',
-  NotIndependent = 'NOT_INDEPENDENT',
-  OpenQueries = 'OPEN_QUERIES',
-  BadAssignee = 'BAD_ASSIGNEE',
-  ResultsChanged = 'RESULTS_CHANGED',
+/** The workflow's error codes under the name the review module has always used. */
+export { WorkflowCode as ReviewErrorCode };
+
+/** The rulebook's facts of a sheet whose preparer, checker and approver are loaded. */
+export function factsOf(sheet: Sheet, authors: ReadonlyMap<string, string>, openQueries = 0): SheetFacts {
+  const person = (u: { id: string; name: string } | undefined) => (u ? { id: u.id, name: u.name } : null);
+  return { state: sheet.state as SheetState, preparer: person(sheet.preparer)!, checker: person(sheet.checker), approver: person(sheet.approver), authors, openQueries };
 }
 
-export const STATE_WORDS: Record<SheetState, string> = {
-  'being-prepared': 'being prepared',
-  'with-checker': 'with the checker',
-  checked: 'checked',
-  approved: 'approved',
-  issued: 'issued',
-};
+/** Refuses a move of the workflow the rulebook does not allow this person now. */
+export function requireMove(move: WorkflowMove, auth: AuthContext, facts: SheetFacts, choice?: { checkerId?: string; approverId?: string }): void {
+  enforce(refusalOf(move, facts, actorOf(auth), choice));
+}
 
 export function requireState(sheet: Sheet, allowed: SheetState[], action: string): void {
-  if (!allowed.includes(sheet.state)) {
-    throw new AppException(ReviewErrorCode.OutOfTurn, `You cannot ${action}: the sheet is ${STATE_WORDS[sheet.state as SheetState]}, and this needs it ${allowed.map((s) => STATE_WORDS[s]).join(' or ')}.`, HttpStatus.CONFLICT);
+  if (!allowed.includes(sheet.state as SheetState)) {
+    throw new AppException(WorkflowCode.OutOfTurn, `You cannot ${action}: the sheet is ${STATE_WORDS[sheet.state as SheetState]}, and this needs it ${allowed.map((s) => STATE_WORDS[s]).join(' or ')}.`, HttpStatus.CONFLICT);
   }
 }
 
@@ -32,33 +33,6 @@ export const isUser = (auth: AuthContext, user: { id: string } | undefined | nul
 
 export function requireChecker(auth: AuthContext, sheet: Sheet, action: string): void {
   if (!isUser(auth, sheet.checker)) {
-    throw new AppException(ReviewErrorCode.NotYours, `Only the sheet's assigned checker${sheet.checker ? ` (${sheet.checker.name})` : ''} can ${action}.`, HttpStatus.FORBIDDEN);
-  }
-}
-
-export function requirePreparer(auth: AuthContext, sheet: Sheet, action: string): void {
-  if (!isUser(auth, sheet.preparer)) throw new AppException(ReviewErrorCode.NotYours, `Only the sheet's preparer (${sheet.preparer.name}) can ${action}.`, HttpStatus.FORBIDDEN);
-}
-
-export function requireNotPreparer(auth: AuthContext, sheet: Sheet, action: string): void {
-  if (isUser(auth, sheet.preparer)) throw new AppException(ReviewErrorCode.NotIndependent, `You prepared this sheet, so you cannot ${action}: checking and approval are done by someone else.`, HttpStatus.FORBIDDEN);
-}
-
-/**
- * Independent checking (common practice): the checker is none of the revision's authors (its preparer,
- * co-preparers and anyone whose save was stored); the approver is none of them and not the checker.
- */
-export function requireIndependent(role: 'checker' | 'approver', person: { id: string; name?: string }, authors: ReadonlyMap<string, string>, checkerId?: string): void {
-  const name = person.name ?? authors.get(person.id) ?? 'This person';
-  if (authors.has(person.id)) {
-    throw new AppException(
-      ReviewErrorCode.NotIndependent,
-      `${name} prepared or edited this revision, so cannot ${role === 'checker' ? 'check' : 'approve'} it: choose someone who had no hand in it.`,
-      HttpStatus.BAD_REQUEST,
-      [{ field: `${role}Id`, message: `${name} prepared or edited this revision` }],
-    );
-  }
-  if (role === 'approver' && person.id === checkerId) {
-    throw new AppException(ReviewErrorCode.NotIndependent, 'The checker cannot also approve it: the approver is a third person.', HttpStatus.BAD_REQUEST, [{ field: 'approverId', message: 'the checker cannot approve the sheet they checked' }]);
+    throw new AppException(WorkflowCode.NotYours, `Only the sheet's assigned checker${sheet.checker ? ` (${sheet.checker.name})` : ''} can ${action}.`, HttpStatus.FORBIDDEN);
   }
 }

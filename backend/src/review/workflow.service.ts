@@ -23,7 +23,7 @@ import { CellQuery } from './entities/cell-query.entity';
 import { Revision } from './entities/revision.entity';
 import { PackageJob } from '../packages/entities/package-job.entity';
 import { notIndependent } from '../sheets/sheet-authors';
-import { isUser, requireChecker, requireIndependent, requireNotPreparer, requirePreparer, requireState, ReviewErrorCode } from './review-access';
+import { factsOf, requireMove, ReviewErrorCode } from './review-access';
 import { RevisionsService } from './revisions.service';
 
 @Injectable()
@@ -72,17 +72,9 @@ export class WorkflowService {
 
   async requestCheck(auth: AuthContext, id: string, dto: RequestCheckDto) {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
-      requireState(s, ['being-prepared'], 'ask for a check');
-      requirePreparer(auth, s, 'ask for a check');
-      const authors = await notIndependent(em, s);
-      // Independence first: whoever prepared or edited the revision hears that, whatever their roles.
-      requireIndependent('checker', { id: dto.checkerId }, authors);
-      if (dto.approverId) requireIndependent('approver', { id: dto.approverId }, authors, dto.checkerId);
-      const checker = await this.member(auth, dto.checkerId, 'checker', 'checker');
-      s.checker = checker;
-      if (dto.approverId) {
-        s.approver = await this.member(auth, dto.approverId, 'approver', 'approver');
-      } else if (s.approver) requireIndependent('approver', s.approver, authors, checker.id);
+      requireMove('request-check', auth, factsOf(s, await notIndependent(em, s)), { checkerId: dto.checkerId, approverId: dto.approverId });
+      s.checker = await this.member(auth, dto.checkerId, 'checker', 'checker');
+      if (dto.approverId) s.approver = await this.member(auth, dto.approverId, 'approver', 'approver');
       s.state = 'with-checker';
       s.checkRequestedAt = new Date();
       s.checkedAt = undefined;
@@ -93,9 +85,8 @@ export class WorkflowService {
   }
 
   async returnToPreparer(auth: AuthContext, id: string, dto: NoteDto) {
-    const { sheet } = await this.locked(auth, id, async (s) => {
-      requireState(s, ['with-checker'], 'return the sheet');
-      requireChecker(auth, s, 'return the sheet');
+    const { sheet } = await this.locked(auth, id, async (s, em) => {
+      requireMove('return', auth, factsOf(s, await notIndependent(em, s)));
       s.state = 'being-prepared';
     });
     await this.record(auth, 'sheet-returned', sheet, { note: dto.note ?? null });
@@ -105,11 +96,8 @@ export class WorkflowService {
 
   async passCheck(auth: AuthContext, id: string) {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
-      requireState(s, ['with-checker'], 'pass the check');
-      requireChecker(auth, s, 'pass the check');
-      requireIndependent('checker', s.checker!, await notIndependent(em, s));
       const open = await em.count(CellQuery, { sheet: s, revisionNumber: s.revisionNumber, status: { $ne: 'closed' } });
-      if (open) throw new AppException(ReviewErrorCode.OpenQueries, `The check cannot pass while ${open} ${open === 1 ? 'query is' : 'queries are'} not closed.`, HttpStatus.CONFLICT);
+      requireMove('pass', auth, factsOf(s, await notIndependent(em, s), open));
       s.state = 'checked';
       s.checkedAt = new Date();
     });
@@ -120,10 +108,7 @@ export class WorkflowService {
 
   async approve(auth: AuthContext, id: string) {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
-      requireState(s, ['checked'], 'approve the sheet');
-      requireNotPreparer(auth, s, 'approve it');
-      if (s.approver && !isUser(auth, s.approver)) throw new AppException(ReviewErrorCode.NotYours, `The sheet is to be approved by ${s.approver.name}.`, HttpStatus.FORBIDDEN);
-      requireIndependent('approver', { id: auth.session.user.id, name: auth.session.user.name }, await notIndependent(em, s), s.checker?.id);
+      requireMove('approve', auth, factsOf(s, await notIndependent(em, s)));
       s.approver = this.em.getReference(User, auth.session.user.id);
       s.state = 'approved';
       s.approvedAt = new Date();
@@ -140,11 +125,7 @@ export class WorkflowService {
    */
   async returnToChecker(auth: AuthContext, id: string, dto: NoteDto) {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
-      requireState(s, ['checked', 'approved'], 'return the sheet to its checker');
-      const isOwner = auth.roles.includes('owner');
-      if (!isOwner && s.approver && !isUser(auth, s.approver)) throw new AppException(ReviewErrorCode.NotYours, `Only the sheet's approver (${s.approver.name}) or an owner can return it to the checker.`, HttpStatus.FORBIDDEN);
-      if (!isOwner && !auth.roles.includes('approver')) throw new AppException(ReviewErrorCode.NotYours, 'Only an approver or an owner can return a checked sheet to its checker.', HttpStatus.FORBIDDEN);
-      requireIndependent('approver', { id: auth.session.user.id, name: auth.session.user.name }, await notIndependent(em, s), s.checker?.id);
+      requireMove('return-to-checker', auth, factsOf(s, await notIndependent(em, s)));
       s.state = 'with-checker';
       s.checkedAt = undefined;
       s.approvedAt = undefined;
@@ -158,10 +139,7 @@ export class WorkflowService {
   /** Freezes the sheet as the next revision: an immutable snapshot with its SHA-256. */
   async issue(auth: AuthContext, id: string) {
     const { sheet, out: revision } = await this.locked(auth, id, async (s, em) => {
-      requireState(s, ['approved'], 'issue a revision');
-      requireNotPreparer(auth, s, 'issue it');
-      if (!isUser(auth, s.approver)) throw new AppException(ReviewErrorCode.NotYours, `Only the approver${s.approver ? ` (${s.approver.name})` : ''} can issue the sheet.`, HttpStatus.FORBIDDEN);
-      requireIndependent('approver', s.approver!, await notIndependent(em, s), s.checker?.id);
+      requireMove('issue', auth, factsOf(s, await notIndependent(em, s)));
       const revision = await this.revisions.freeze(em, s);
       // The signed package is made by a worker, off this request (see PackagesService).
       em.persist(new PackageJob(revision));
@@ -180,7 +158,7 @@ export class WorkflowService {
   /** A new draft after an issue: the cells as in the last issued snapshot, the next revision number. */
   async startRevision(auth: AuthContext, id: string) {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
-      requireState(s, ['issued'], 'start a new revision');
+      requireMove('new-revision', auth, factsOf(s, new Map()));
       const last = await em.findOneOrFail(Revision, { sheet: s }, { orderBy: { number: 'desc' } });
       await this.revisions.restoreCells(em, last, s, em.getReference(User, auth.session.user.id));
       s.revisionNumber = last.number + 1;

@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import { UniqueConstraintViolationException } from '@mikro-orm/core';
 import { EntityManager } from '@mikro-orm/mariadb';
 import { HttpStatus, Injectable } from '@nestjs/common';
-import { cellSchema, parseSheetFile, revisionCode, SHEET_FORMAT, unevaluatedResults, type CellDto, type CellResult, type SaveResultDto, type SheetDto, type SheetFile } from '@ampwright/common';
+import { EDITABLE_STATES, editRefusal, WorkflowCode, cellSchema, parseSheetFile, revisionCode, SHEET_FORMAT, unevaluatedResults, type CellDto, type CellResult, type SaveResultDto, type SheetDto, type SheetFile } from '@ampwright/common';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService, type Reservation } from '../evaluation/evaluation.service';
@@ -13,6 +13,7 @@ import { TemplatesService } from '../templates/templates.service';
 import type { AddCellDto, CoPreparersDto, CreateSheetDto, ImportCsvDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
 import { Cell } from './entities/cell.entity';
 import { Sheet, type SheetState } from './entities/sheet.entity';
+import { actorOf, enforce } from '../core/errors/refusal';
 import { sheetFromFile } from './sheet-file';
 import { User } from '../users/entities/user.entity';
 import { AuditService } from '../audit/audit.service';
@@ -28,7 +29,8 @@ export enum SheetErrorCode {
   HasRevisions = 'SHEET_HAS_REVISIONS',
 }
 
-const EDITABLE: SheetState[] = ['being-prepared', 'with-checker'];
+/** The states in which cells may change, from the workflow rulebook. */
+const EDITABLE: SheetState[] = [...EDITABLE_STATES];
 
 export type CellView = CellDto;
 export type SheetView = SheetDto;
@@ -151,16 +153,15 @@ export class SheetsService {
    */
   async findEditable(auth: AuthContext, id: string): Promise<Sheet> {
     const sheet = await this.find(auth, id);
-    this.assertEditable(sheet.state);
-    const uid = auth.session.user.id;
-    if (sheet.preparer.id === uid) return sheet;
-    if (sheet.checker?.id === uid || sheet.approver?.id === uid) {
-      throw new AppException(SheetErrorCode.NotIndependent, 'You are this sheet\'s checker or approver, so you do not edit it: raise a query for the preparer instead.', HttpStatus.FORBIDDEN);
+    // The rulebook decides; the co-preparers are read only when the caller is not the preparer.
+    const actor = actorOf(auth);
+    const facts = { state: sheet.state as SheetState, preparer: sheet.preparer, checker: sheet.checker, approver: sheet.approver, coPreparerIds: [] as string[] };
+    let refusal = editRefusal(facts, actor);
+    if (refusal?.code === WorkflowCode.NotPreparer) {
+      facts.coPreparerIds = (await authorsOf(this.em, sheet.id, sheet.revisionNumber)).filter((a) => a.named).map((a) => a.userId);
+      refusal = editRefusal(facts, actor);
     }
-    const named = (await authorsOf(this.em, sheet.id, sheet.revisionNumber)).some((a) => a.userId === uid && a.named);
-    if (!named) {
-      throw new AppException(SheetErrorCode.NotPreparer, `Only this sheet's preparers change it: ${sheet.preparer.name}, and the co-preparers ${sheet.preparer.name} names. Ask to be named co-preparer (then you cannot check or approve this revision).`, HttpStatus.FORBIDDEN);
-    }
+    enforce(refusal);
     return sheet;
   }
 

@@ -20,9 +20,9 @@ import { RegisterPage } from '../routes/register';
 import { ConfirmRegistrationPage } from '../routes/confirm-registration';
 import { ResetPasswordPage } from '../routes/reset-password';
 import { RequireAuth } from '../features/auth/components/require-auth';
-import type { Role } from '../features/auth/api/get-me';
+import { MEMBER_ROLES } from '@ampwright/common/review/workflow';
 
-const MEMBERS: Role[] = ['owner', 'engineer', 'checker', 'approver'];
+const MEMBERS = [...MEMBER_ROLES];
 
 export const routes: RouteObject[] = [
   {

@@ -4,10 +4,11 @@ import { useState } from 'react';
 import { FormCard } from '../components/forms/form-card';
 import { useForm } from '../components/forms/use-form';
 import { PageHeading } from '../components/layout/page-heading';
+import { ROLES } from '@ampwright/common/review/workflow';
 import { useMe, type Role } from '../features/auth/api/get-me';
 import { inviteSchema, ROLE_LABELS, useInvitations, useInvite, useMembers, useRemoveMember, useRevokeInvitation, useUpdateRoles, type Member } from '../features/members/api/members';
 
-const ALL_ROLES: Role[] = ['owner', 'engineer', 'checker', 'approver', 'client'];
+const ALL_ROLES: Role[] = [...ROLES];
 
 function RoleBoxes({ value, onChange, disabled }: { value: Role[]; onChange: (roles: Role[]) => void; disabled?: boolean }) {
   return (

@@ -1,10 +1,7 @@
 import { Alert } from '@mui/material';
+import { CAUTION_TEXT } from '@ampwright/common/api/cautions';
 
 /** The notice every calculation view carries (PRODUCT.md, Cautions). */
-export const CAUTION_TEXT =
-  'Results are for use by qualified engineers. Check them independently before relying on them; ' +
-  'locally adopted electrical codes and licensed practice take precedence, and the engineer of record remains responsible.';
-
 export function CautionNotice() {
   return (
     <Alert severity="warning" variant="outlined" sx={{ mt: 3 }} role="note" aria-label="Caution">

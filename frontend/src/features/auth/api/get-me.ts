@@ -2,7 +2,9 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api, ApiError, setCsrfToken } from '../../../lib/api-client';
 import { authKeys } from './auth-keys';
 
-export type Role = 'owner' | 'engineer' | 'checker' | 'approver' | 'client';
+import type { Role } from '@ampwright/common/review/workflow';
+
+export type { Role };
 export interface Me {
   user: { id: string; email: string; name: string };
   firm: { id: string; name: string };

@@ -1,3 +1,4 @@
+import { ROLES } from '@ampwright/common/review/workflow';
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
@@ -31,7 +32,7 @@ export const ROLE_LABELS: Record<Role, string> = { owner: 'Owner', engineer: 'En
 export const inviteSchema = z
   .object({
     email: z.string().trim().min(1, 'Enter an e-mail address').email('Enter a valid e-mail address'),
-    roles: z.array(z.enum(['owner', 'engineer', 'checker', 'approver', 'client'])).min(1, 'Choose at least one role'),
+    roles: z.array(z.enum(ROLES)).min(1, 'Choose at least one role'),
   })
   .refine((v) => !v.roles.includes('client') || v.roles.length === 1, { message: 'A client cannot also hold a role in the firm', path: ['roles'] });
 

@@ -3,6 +3,7 @@ import { Alert, Box, Button, Chip, MenuItem, Paper, Stack, TextField, Typography
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import type { SheetDto } from '@ampwright/common';
+import { allowedMoves, isEditable, refusalOf, WorkflowCode, type Actor, type SheetFacts } from '@ampwright/common/review/workflow';
 import type { Me } from '../../auth/api/get-me';
 import { useMembers } from '../../members/api/members';
 import { STATE_LABELS } from '../../sheets/api/sheets';
@@ -68,12 +69,14 @@ export function WorkflowBar({ sheet, me }: { sheet: SheetDto; me: Me }) {
   const [naming, setNaming] = useState(false);
   const [returning, setReturning] = useState(false);
   const [note, setNote] = useState('');
-  const uid = me.user.id;
-  const has = (r: string) => me.roles.includes(r as never);
-  const isPreparer = sheet.preparer.id === uid;
-  const isChecker = sheet.checker?.id === uid;
-  const mayApprove = has('approver') && !sheet.authorIds.includes(uid) && sheet.checker?.id !== uid && (!sheet.approver || sheet.approver.id === uid);
-  const editable = sheet.state === 'being-prepared' || sheet.state === 'with-checker';
+  // The rulebook the server enforces says which moves to offer (common/src/review/workflow.ts).
+  const facts: SheetFacts = { state: sheet.state, preparer: sheet.preparer, checker: sheet.checker, approver: sheet.approver, authors: new Map(sheet.authorIds.map((id) => [id, ''])), openQueries: sheet.openQueries };
+  const actor: Actor = { id: me.user.id, name: me.user.name, roles: me.roles };
+  const may = new Set(allowedMoves(facts, actor));
+  // Pass is shown to the checker while queries are open, disabled, so they see what stands in the way.
+  const passRefusal = refusalOf('pass', facts, actor);
+  const showPass = !passRefusal || passRefusal.code === WorkflowCode.OpenQueries;
+  const isPreparer = sheet.preparer.id === me.user.id;
   const act = (a: SheetAction, n?: string) => action.mutate({ action: a, note: n });
   const issued = sheet.state === 'issued';
   return (
@@ -87,20 +90,14 @@ export function WorkflowBar({ sheet, me }: { sheet: SheetDto; me: Me }) {
         {sheet.openQueries > 0 && <Chip size="small" color="warning" label={`${sheet.openQueries} open ${sheet.openQueries === 1 ? 'query' : 'queries'}`} data-testid="open-queries" />}
         <Box sx={{ flex: 1 }} />
         <Button size="small" component={Link} to="history">History and revisions</Button>
-        {editable && isPreparer && !naming && <Button size="small" onClick={() => setNaming(true)}>Co-preparers</Button>}
-        {sheet.state === 'being-prepared' && isPreparer && !asking && <Button variant="contained" size="small" onClick={() => setAsking(true)}>Ask for a check</Button>}
-        {sheet.state === 'with-checker' && isChecker && (
-          <>
-            <Button size="small" variant="outlined" onClick={() => setReturning(true)}>Return to the preparer</Button>
-            <Button size="small" variant="contained" color="success" disabled={sheet.openQueries > 0} onClick={() => act('pass')} title={sheet.openQueries > 0 ? 'Close every query first' : undefined}>Pass the check</Button>
-          </>
-        )}
-        {sheet.state === 'checked' && mayApprove && <Button size="small" variant="contained" onClick={() => act('approve')}>Approve</Button>}
-        {(sheet.state === 'checked' || sheet.state === 'approved') && (mayApprove || (has('owner') && !sheet.authorIds.includes(uid) && sheet.checker?.id !== uid)) && (
-          <Button size="small" variant="outlined" onClick={() => act('return-to-checker')}>Return to the checker</Button>
-        )}
-        {sheet.state === 'approved' && sheet.approver?.id === uid && <Button size="small" variant="contained" color="secondary" onClick={() => act('issue')}>Issue revision {sheet.revisionCode}</Button>}
-        {issued && (has('engineer') || has('owner')) && <Button size="small" variant="outlined" onClick={() => act('new-revision')}>Start the next revision</Button>}
+        {isEditable(sheet.state) && isPreparer && !naming && <Button size="small" onClick={() => setNaming(true)}>Co-preparers</Button>}
+        {may.has('request-check') && !asking && <Button variant="contained" size="small" onClick={() => setAsking(true)}>Ask for a check</Button>}
+        {may.has('return') && <Button size="small" variant="outlined" onClick={() => setReturning(true)}>Return to the preparer</Button>}
+        {showPass && <Button size="small" variant="contained" color="success" disabled={!!passRefusal} onClick={() => act('pass')} title={passRefusal?.message}>Pass the check</Button>}
+        {may.has('approve') && <Button size="small" variant="contained" onClick={() => act('approve')}>Approve</Button>}
+        {may.has('return-to-checker') && <Button size="small" variant="outlined" onClick={() => act('return-to-checker')}>Return to the checker</Button>}
+        {may.has('issue') && <Button size="small" variant="contained" color="secondary" onClick={() => act('issue')}>Issue revision {sheet.revisionCode}</Button>}
+        {may.has('new-revision') && <Button size="small" variant="outlined" onClick={() => act('new-revision')}>Start the next revision</Button>}
       </Stack>
       {naming && <CoPreparers sheet={sheet} onDone={() => setNaming(false)} />}
       {asking && <RequestCheck sheet={sheet} onDone={() => setAsking(false)} />}
