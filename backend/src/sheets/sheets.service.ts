@@ -22,10 +22,11 @@ import { CellQuery } from '../review/entities/cell-query.entity';
 export enum SheetErrorCode {
   NumberTaken = 'SHEET_NUMBER_TAKEN',
   StaleVersion = 'STALE_VERSION',
-  ReadOnly = 'SHEET_READ_ONLY',
+  // The workflow rulebook's codes, where a sheet's rules and the workflow's meet.
+  ReadOnly = WorkflowCode.ReadOnly,
   BadCell = 'INVALID_CELL',
-  NotIndependent = 'NOT_INDEPENDENT',
-  NotPreparer = 'NOT_PREPARER',
+  NotIndependent = WorkflowCode.NotIndependent,
+  NotPreparer = WorkflowCode.NotPreparer,
   HasRevisions = 'SHEET_HAS_REVISIONS',
 }
 
