@@ -9,7 +9,7 @@ import { readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
-import { CAUTION_SHORT, CAUTION_TEXT, calcFigures, sweepChart, transientChart, transientSummary, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
+import { CAUTION_SHORT, CAUTION_TEXT, calcFigures, checkPresentation, kindLabel, type Tone, sweepChart, transientChart, transientSummary, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
 import type { RevisionSnapshot } from '../review/revisions.service';
 import { drawNote } from './note-pdf';
 import { drawTex, texToSvg } from './tex-svg';
@@ -41,6 +41,9 @@ const MUTED = '#4f5a62';
 const RULE = '#d9d1c3';
 const PASS = '#2e6b3a';
 const FAIL = '#a3261b';
+const CAUTION = '#8a5a00';
+/** The colour of each tone of common/plot/presentation.ts. */
+const TONE: Record<Tone, string> = { pass: PASS, caution: CAUTION, fail: FAIL, none: MUTED };
 
 const fontDir = (pkg: string) => join(dirname(require.resolve(`${pkg}/package.json`)), 'fonts', 'complete', 'woff');
 const FONT_FILES = {
@@ -156,8 +159,8 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
   doc.moveDown(1.5);
   const cy = doc.y;
   const ch = doc.font('sans').fontSize(10).heightOfString(CAUTION_TEXT, { width: width() - 24 }) + 30;
-  doc.rect(M, cy, width(), ch).lineWidth(1).strokeColor('#8a5a00').stroke();
-  doc.font('bold').fontSize(10).fillColor('#8a5a00').text('Caution', M + 12, cy + 8);
+  doc.rect(M, cy, width(), ch).lineWidth(1).strokeColor(CAUTION).stroke();
+  doc.font('bold').fontSize(10).fillColor(CAUTION).text('Caution', M + 12, cy + 8);
   doc.font('sans').fillColor(TEXT).text(CAUTION_TEXT, M + 12, cy + 22, { width: width() - 24 });
 
   // Revision history and contents.
@@ -181,9 +184,9 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     const cell = fileCell as Record<string, unknown> & { kind: string };
     const result = (snap.results[i] ?? null) as CellResult | null;
     ensure(40);
-    entries.push({ label: `Cell ${i + 1}: ${cell.kind}${cell.kind === 'note' ? ` — ${String(cell.text ?? '').split('\n')[0].replace(/^#+\s*/, '').slice(0, 60)}` : ''}`, page: doc.bufferedPageRange().count });
+    entries.push({ label: `Cell ${i + 1}: ${kindLabel(cell.kind).toLowerCase()}${cell.kind === 'note' ? ` — ${String(cell.text ?? '').split('\n')[0].replace(/^#+\s*/, '').slice(0, 60)}` : ''}`, page: doc.bufferedPageRange().count });
     doc.moveDown(0.5);
-    doc.font('bold').fontSize(8).fillColor(MUTED).text(`${i + 1} · ${cell.kind.toUpperCase()}`, M, doc.y, { characterSpacing: 0.8 });
+    doc.font('bold').fontSize(8).fillColor(MUTED).text(`${i + 1} · ${kindLabel(cell.kind).toUpperCase()}`, M, doc.y, { characterSpacing: 0.8 });
     doc.moveTo(M, doc.y + 1).lineTo(M + width(), doc.y + 1).lineWidth(0.5).strokeColor(RULE).stroke();
     doc.moveDown(0.4);
     if (cell.kind === 'note') {
@@ -245,22 +248,20 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
   function drawCheck(result: CheckResult, cell: Record<string, unknown>) {
     ensure(70);
     const y = doc.y;
-    const ok = result.pass === true;
-    const label = result.pass === null ? 'NOT EVALUATED' : ok ? 'PASS' : 'FAIL';
-    doc.rect(M, y, 64, 16).fillColor(result.pass === null ? MUTED : ok ? PASS : FAIL).fill();
-    doc.font('bold').fontSize(9).fillColor('#ffffff').text(label, M, y + 4, { width: 64, align: 'center' });
+    const p = checkPresentation(result);
+    doc.rect(M, y, 64, 16).fillColor(TONE[p.tone]).fill();
+    doc.font('bold').fontSize(9).fillColor('#ffffff').text(p.outcome.toUpperCase(), M, y + 4, { width: 64, align: 'center' });
     if (result.tex) tex(result.tex.formula, M + 76, y + 1, width() - 76);
     doc.y = y + 22;
     if (result.tex?.working) {
       const w = tex(result.tex.working, M + 14, doc.y, width() - 14, 9);
       doc.y += w.h + 4;
     }
-    if (result.utilization !== null) {
-      const u = result.utilization;
+    if (p.utilisation) {
       const barW = 220;
       doc.rect(M + 14, doc.y, barW, 6).fillColor(RULE).fill();
-      doc.rect(M + 14, doc.y, Math.min(1, Math.max(0, u)) * barW, 6).fillColor(u > 1 ? FAIL : u > 0.9 ? '#8a5a00' : PASS).fill();
-      doc.font('sans').fontSize(9).fillColor(TEXT).text(`Utilisation ${(u * 100).toFixed(1)} %${result.margin !== null ? `, margin ${(result.margin * 100).toFixed(1)} %` : ''}${result.severity === 'advisory' ? ' (advisory)' : ''}`, M + 24 + barW, doc.y - 2);
+      doc.rect(M + 14, doc.y, p.utilisation.fraction * barW, 6).fillColor(TONE[p.utilisation.band]).fill();
+      doc.font('sans').fontSize(9).fillColor(TEXT).text(`${p.utilisation.text}${p.advisory ? ' (advisory)' : ''}`, M + 24 + barW, doc.y - 2);
       doc.moveDown(0.2);
     }
     if (cell.basis) para(`Basis: ${String(cell.basis)}`, { size: 9, colour: MUTED });

@@ -2,7 +2,7 @@
 import { Alert, Box, Chip, LinearProgress, Stack, Table, TableBody, TableCell, TableHead, TableRow, Typography } from '@mui/material';
 import { useMemo } from 'react';
 import type { CalcResult, CellResult, CheckResult, Diagnostic, SweepResult, TransientResult } from '@ampwright/common';
-import { calcFigures, sweepChart, transientChart, transientSummary } from '@ampwright/common/plot/index';
+import { calcFigures, checkPresentation, sweepChart, transientChart, transientSummary } from '@ampwright/common/plot/index';
 import { monoFont, palette } from '../../../app/theme';
 import { SvgFigure } from './svg-figure';
 import { Tex } from './tex';
@@ -57,20 +57,22 @@ function CalcResults({ result }: { result: CalcResult }) {
   );
 }
 
+const TONE_COLOUR = { pass: 'success', caution: 'warning', fail: 'error', none: 'default' } as const;
+
 function CheckResults({ result, basis }: { result: CheckResult; basis?: string }) {
-  const u = result.utilization;
+  const p = checkPresentation(result);
   return (
     <Box>
       <Stack direction="row" spacing={1} sx={{ alignItems: 'center', mb: 1 }}>
-        <Chip size="small" label={result.pass === true ? 'Pass' : result.pass === false ? 'Fail' : 'Not evaluated'} color={result.pass === true ? 'success' : result.pass === false ? 'error' : 'default'} data-testid="check-outcome" />
-        {result.severity === 'advisory' && <Chip size="small" variant="outlined" label="Advisory" />}
+        <Chip size="small" label={p.outcome} color={TONE_COLOUR[p.tone]} data-testid="check-outcome" />
+        {p.advisory && <Chip size="small" variant="outlined" label="Advisory" />}
         {result.tex && <Tex>{result.tex.formula}</Tex>}
       </Stack>
       {result.tex?.working && <Box sx={{ color: 'text.secondary', mb: 1 }}><Tex>{result.tex.working}</Tex></Box>}
-      {u !== null && (
+      {p.utilisation && (
         <Box sx={{ maxWidth: 420 }}>
-          <LinearProgress variant="determinate" value={Math.min(100, Math.max(0, u * 100))} color={u > 1 ? 'error' : u > 0.9 ? 'warning' : 'success'} aria-label="Utilisation" />
-          <Typography variant="caption" data-testid="utilisation">Utilisation {(u * 100).toFixed(1)} %{result.margin !== null ? `, margin ${(result.margin * 100).toFixed(1)} %` : ''}</Typography>
+          <LinearProgress variant="determinate" value={p.utilisation.fraction * 100} color={TONE_COLOUR[p.utilisation.band] as 'success' | 'warning' | 'error'} aria-label="Utilisation" />
+          <Typography variant="caption" data-testid="utilisation">{p.utilisation.text}</Typography>
         </Box>
       )}
       {!!basis && <Typography variant="body2" color="text.secondary">Basis: {basis}</Typography>}
@@ -137,4 +139,3 @@ export function CellResults({ kind, fields, result }: { kind: string; fields: Re
   );
 }
 
-export const KIND_LABELS: Record<string, string> = { note: 'Note', calc: 'Calculation', check: 'Check', sweep: 'Sweep', transient: 'Transient', table: 'Table', figure: 'Figure' };

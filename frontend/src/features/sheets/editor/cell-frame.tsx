@@ -4,7 +4,8 @@ import { memo, useState } from 'react';
 import type { CellDto, QueryDto } from '@ampwright/common';
 import { CellReview, type ReviewContext } from '../../review/components/cell-review';
 import { palette } from '../../../app/theme';
-import { CellResults, KIND_LABELS, SourceText, TableView } from '../components/cell-results';
+import { KIND_LABELS, kindLabel } from '@ampwright/common/plot/index';
+import { CellResults, SourceText, TableView } from '../components/cell-results';
 import { NoteText } from '../components/note-text';
 import { cellBody, type CellBody } from '../api/sheet-editing';
 import { KIND_EDITORS } from './cell-editors';
@@ -89,13 +90,13 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
   return (
     <Paper
       component="section"
-      aria-label={`Cell ${index + 1}: ${KIND_LABELS[cell.kind] ?? cell.kind}`}
+      aria-label={`Cell ${index + 1}: ${kindLabel(cell.kind)}`}
       data-cell-id={cell.id}
       onKeyDown={onKeyDown}
       sx={{ p: 2, borderLeft: `3px solid ${failed || checkFailed ? palette.fail : cell.kind === 'check' ? palette.copper : palette.ink}`, ...(cell.changedAfterAgreement && review.checking ? { bgcolor: '#fff6e5' } : {}), outline: active ? `1px solid ${palette.inkLight}` : undefined, contentVisibility: active ? undefined : 'auto', containIntrinsicSize: 'auto 160px' }}
     >
       <Stack direction="row" spacing={1} sx={{ alignItems: 'center', mb: 1, flexWrap: 'wrap' }}>
-        <Typography variant="overline" color="text.secondary">{index + 1} · {KIND_LABELS[cell.kind] ?? cell.kind}</Typography>
+        <Typography variant="overline" color="text.secondary">{index + 1} · {kindLabel(cell.kind)}</Typography>
         {editable && <Chip size="small" variant="outlined" label={SAVE_LABELS[d.state]} color={d.state === 'saved' ? 'default' : d.state === 'saving' || d.state === 'unsaved' ? 'primary' : 'error'} data-testid="save-state" />}
         <Box sx={{ flex: 1 }} />
         {editable && (
