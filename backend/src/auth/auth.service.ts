@@ -19,14 +19,9 @@ import { PendingRegistration } from './entities/pending-registration.entity';
 import { PasswordService } from './password.service';
 import { SessionsService } from './sessions.service';
 import { SignInThrottle } from './sign-in-throttle.service';
+import { AuthErrorCode } from '@ampwright/common';
 
-export enum AuthErrorCode {
-  EmailTaken = 'EMAIL_TAKEN',
-  BadCredentials = 'BAD_CREDENTIALS',
-  NoMembership = 'NO_MEMBERSHIP',
-  ResetInvalid = 'RESET_INVALID',
-  RegistrationInvalid = 'REGISTRATION_INVALID',
-}
+export { AuthErrorCode };
 
 const RESET_MINUTES = 60;
 

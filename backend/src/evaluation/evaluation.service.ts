@@ -5,15 +5,11 @@ import type { Environment } from '../config/environment';
 import { AppException } from '../core/errors/app-exception';
 import type { CertificateFacts } from '../packages/signing';
 import { EvaluationPool, type PoolFailure, type PoolOutcome, type Reservation } from './evaluation-pool';
+import { EvaluationErrorCode } from '@ampwright/common';
 
 export type { Reservation } from './evaluation-pool';
 
-export enum EvaluationErrorCode {
-  Timeout = 'EVALUATION_TIMEOUT',
-  TooLarge = 'EVALUATION_TOO_LARGE',
-  Failed = 'EVALUATION_FAILED',
-  Busy = 'EVALUATION_BUSY',
-}
+export { EvaluationErrorCode };
 
 /** What evaluating a sheet gave: every cell's results, or why the sheet as a whole could not be evaluated. */
 export type EvaluationOutcome =

@@ -15,12 +15,9 @@ import { mailTemplates } from '../mail/mail-templates';
 import { User } from '../users/entities/user.entity';
 import type { AcceptInvitationDto, CreateInvitationDto, InvitationResponseDto } from './dto/invitation.dto';
 import { Invitation } from './entities/invitation.entity';
+import { InvitationErrorCode } from '@ampwright/common';
 
-export enum InvitationErrorCode {
-  ClientWithOtherRoles = 'CLIENT_WITH_OTHER_ROLES',
-  AlreadyMember = 'ALREADY_MEMBER',
-  Invalid = 'INVITATION_INVALID',
-}
+export { InvitationErrorCode };
 
 const VALID_DAYS = 7;
 const invalid = () => new AppException(InvitationErrorCode.Invalid, 'This invitation has expired, been used or been withdrawn. Ask for a new one.', HttpStatus.BAD_REQUEST);

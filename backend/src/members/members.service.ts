@@ -6,11 +6,9 @@ import type { AuthContext } from '../core/guards/auth.guard';
 import { Session } from '../auth/entities/session.entity';
 import { Membership } from '../firms/entities/membership.entity';
 import type { MemberResponseDto, UpdateRolesDto } from './dto/member.dto';
+import { MemberErrorCode } from '@ampwright/common';
 
-export enum MemberErrorCode {
-  LastOwner = 'LAST_OWNER',
-  ClientWithOtherRoles = 'CLIENT_WITH_OTHER_ROLES',
-}
+export { MemberErrorCode };
 
 const toResponse = (m: Membership): MemberResponseDto => ({
   id: m.id,

@@ -8,10 +8,9 @@ import type { AuthContext } from '../core/guards/auth.guard';
 import { Sheet } from '../sheets/entities/sheet.entity';
 import type { CreateProjectDto, ProjectResponseDto, UpdateProjectDto } from './dto/project.dto';
 import { Project, ProjectClient, ProjectMember } from './entities/project.entity';
+import { ProjectErrorCode } from '@ampwright/common';
 
-export enum ProjectErrorCode {
-  JobNumberTaken = 'JOB_NUMBER_TAKEN',
-}
+export { ProjectErrorCode };
 
 @Injectable()
 export class ProjectsService {

@@ -18,17 +18,9 @@ import { sheetFromFile } from './sheet-file';
 import { User } from '../users/entities/user.entity';
 import { AuditService } from '../audit/audit.service';
 import { CellQuery } from '../review/entities/cell-query.entity';
+import { SheetErrorCode } from '@ampwright/common';
 
-export enum SheetErrorCode {
-  NumberTaken = 'SHEET_NUMBER_TAKEN',
-  StaleVersion = 'STALE_VERSION',
-  // The workflow rulebook's codes, where a sheet's rules and the workflow's meet.
-  ReadOnly = WorkflowCode.ReadOnly,
-  BadCell = 'INVALID_CELL',
-  NotIndependent = WorkflowCode.NotIndependent,
-  NotPreparer = WorkflowCode.NotPreparer,
-  HasRevisions = 'SHEET_HAS_REVISIONS',
-}
+export { SheetErrorCode };
 
 /** The states in which cells may change, from the workflow rulebook. */
 const EDITABLE: SheetState[] = [...EDITABLE_STATES];

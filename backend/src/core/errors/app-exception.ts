@@ -1,19 +1,8 @@
 import { HttpStatus } from '@nestjs/common';
+import { ErrorCode } from '@ampwright/common';
 
 /** Codes of the single JSON error shape; features add theirs here so clients can rely on them. */
-export enum ErrorCode {
-  BadRequest = 'BAD_REQUEST',
-  ValidationFailed = 'VALIDATION_FAILED',
-  Unauthenticated = 'UNAUTHENTICATED',
-  Forbidden = 'FORBIDDEN',
-  NotFound = 'NOT_FOUND',
-  Conflict = 'CONFLICT',
-  PayloadTooLarge = 'PAYLOAD_TOO_LARGE',
-  UnsupportedMediaType = 'UNSUPPORTED_MEDIA_TYPE',
-  TooManyRequests = 'TOO_MANY_REQUESTS',
-  ServiceUnavailable = 'SERVICE_UNAVAILABLE',
-  Internal = 'INTERNAL_ERROR',
-}
+export { ErrorCode };
 
 export interface ErrorDetail {
   field?: string;

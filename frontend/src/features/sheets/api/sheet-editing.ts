@@ -12,6 +12,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { CellDto, SaveResultDto, SheetDto } from '@ampwright/common';
 import { api, ApiError } from '../../../lib/api-client';
 import { sheetKeys } from './sheets';
+import { SheetErrorCode } from '@ampwright/common/api/error-codes';
 
 export type CellBody = Record<string, unknown> & { kind: string };
 
@@ -85,7 +86,7 @@ export function useCellChange(sheetId: string) {
       queryClient.setQueryData<SheetDto>(key, (s) => (s ? mergeSave(s, result) : s));
       return result;
     } catch (err) {
-      if (!(err instanceof ApiError && err.code === 'STALE_VERSION') || attempt >= 5) throw err;
+      if (!(err instanceof ApiError && err.code === SheetErrorCode.StaleVersion) || attempt >= 5) throw err;
       const theirs = (err.body as { current?: SheetDto } | undefined)?.current;
       if (!theirs) throw err;
       queryClient.setQueryData<SheetDto>(key, theirs);
