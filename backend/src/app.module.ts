@@ -1,7 +1,7 @@
 import { existsSync } from 'node:fs';
 import { MariaDbDriver } from '@mikro-orm/mariadb';
 import { MikroOrmModule } from '@mikro-orm/nestjs';
-import { DynamicModule, MiddlewareConsumer, Module, NestModule } from '@nestjs/common';
+import { MiddlewareConsumer, Module, NestModule } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import { APP_FILTER, APP_GUARD } from '@nestjs/core';
 import { ServeStaticModule } from '@nestjs/serve-static';
@@ -32,12 +32,14 @@ import { FilesModule } from './files/files.module';
 import { HealthModule } from './health/health.module';
 import { MailModule } from './mail/mail.module';
 
-/** The built front end, when there is one: client routes fall back to its index.html; /api never does. */
-function staticFrontEnd(): DynamicModule[] {
-  const dir = process.env.STATIC_DIR;
-  if (!dir || !existsSync(dir)) return [];
-  return [ServeStaticModule.forRoot({ rootPath: dir, exclude: ['/api/{*path}'], serveStaticOptions: { index: 'index.html', maxAge: 0 } })];
-}
+/** The built front end, when there is one (STATIC_DIR): client routes fall back to its index.html; /api never does. */
+const staticFrontEnd = ServeStaticModule.forRootAsync({
+  inject: [ConfigService],
+  useFactory: (config: ConfigService<Environment, true>) => {
+    const dir = config.get('STATIC_DIR', { infer: true });
+    return dir && existsSync(dir) ? [{ rootPath: dir, exclude: ['/api/{*path}'], serveStaticOptions: { index: 'index.html', maxAge: 0 } }] : [];
+  },
+});
 
 @Module({
   imports: [
@@ -73,7 +75,7 @@ function staticFrontEnd(): DynamicModule[] {
     FilesModule,
     HealthModule,
     EvaluationModule,
-    ...staticFrontEnd(),
+    staticFrontEnd,
   ],
   providers: [
     // Access first: a caller without the right gets 401/403 and does not use up anyone's allowance.

@@ -1,11 +1,11 @@
 import 'reflect-metadata';
 import { Logger } from '@nestjs/common';
 import { createApp } from './bootstrap';
+import { environment } from './config/environment';
 
 async function main() {
   const app = await createApp();
-  const host = process.env.APP_HOST ?? '127.0.0.1';
-  const port = Number(process.env.APP_PORT ?? 3000);
+  const { APP_HOST: host, APP_PORT: port } = environment();
   await app.listen(port, host);
   new Logger('Ampwright').log(`listening on http://${host}:${port}`);
 }

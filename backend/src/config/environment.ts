@@ -134,6 +134,26 @@ export class Environment {
   /** The built front end to serve; empty serves the API only. */
   @IsOptional() @IsString()
   STATIC_DIR?: string;
+
+  /** The sheet templates' folder (the repository's templates/ by default). */
+  @IsOptional() @IsString()
+  TEMPLATES_DIR?: string;
+
+  /** One log line per request; `false` turns it off (the load script does, so logging does not skew its figures). */
+  @IsIn(['true', 'false'])
+  LOG_REQUESTS: 'true' | 'false' = 'true';
+
+  /** Requests a minute from one client address, on every route. */
+  @Type(() => Number) @IsInt() @Min(1) @Max(10_000_000)
+  THROTTLE_DEFAULT_PER_ADDRESS = 600;
+
+  /** Sign-in, registration, reset and invitation requests a minute from one client address. */
+  @Type(() => Number) @IsInt() @Min(1) @Max(10_000_000)
+  THROTTLE_AUTH_PER_ADDRESS = 5;
+
+  /** Uploads to the public verification page a minute from one client address. */
+  @Type(() => Number) @IsInt() @Min(1) @Max(10_000_000)
+  THROTTLE_VERIFY_PER_ADDRESS = 10;
 }
 
 /**
@@ -157,6 +177,16 @@ export function insecureProductionSettings(env: Environment): string[] {
     problems.push(`COOKIE_SECURE is false while the app is reached at ${isLoopback(env.APP_HOST) ? env.APP_URL : env.APP_HOST}: serve it over HTTPS and set COOKIE_SECURE=true`);
   }
   return problems;
+}
+
+let loaded: Environment | undefined;
+
+/**
+ * This process's validated configuration, for what runs outside Nest's injection (the entry point, and
+ * throttle limits, resolved on the first request). Inside Nest, inject `ConfigService<Environment, true>`.
+ */
+export function environment(): Environment {
+  return (loaded ??= validateEnvironment(process.env));
 }
 
 export function validateEnvironment(raw: Record<string, unknown>): Environment {

@@ -16,6 +16,8 @@ export interface PoolLimits {
   perTenantRunning: number;
   /** Tasks of one tenant running, queued or reserved; beyond it the tenant is told the evaluator is busy. */
   perTenantQueued: number;
+  /** The NODE_ENV the processes run with (the only setting they are given). */
+  nodeEnv?: string;
 }
 
 export type PoolFailure = 'timeout' | 'memory' | 'crash' | 'busy';
@@ -192,7 +194,7 @@ export class EvaluationPool {
       serialization: 'advanced',
       stdio: ['ignore', 'ignore', 'pipe', 'ipc'],
       // No secret of the server reaches the process that runs users' input.
-      env: { NODE_ENV: process.env.NODE_ENV ?? 'production' },
+      env: { NODE_ENV: this.limits.nodeEnv ?? 'production' },
     });
     const child: Child = { proc, ready: false, stderr: '' };
     this.children.add(child);

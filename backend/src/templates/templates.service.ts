@@ -2,7 +2,9 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { EntityManager } from '@mikro-orm/core';
 import { HttpStatus, Injectable } from '@nestjs/common';
+import { ConfigService } from '@nestjs/config';
 import { parseSheetJson, type SheetFile, type TemplateSummaryDto } from '@ampwright/common';
+import type { Environment } from '../config/environment';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { User } from '../users/entities/user.entity';
@@ -20,8 +22,11 @@ const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/;
 export class TemplatesService {
   private readonly builtIn = new Map<string, SheetFile>();
 
-  constructor(private readonly em: EntityManager) {
-    const dir = process.env.TEMPLATES_DIR ?? resolve(__dirname, '..', '..', '..', 'templates');
+  constructor(
+    private readonly em: EntityManager,
+    config: ConfigService<Environment, true>,
+  ) {
+    const dir = config.get('TEMPLATES_DIR', { infer: true }) ?? resolve(__dirname, '..', '..', '..', 'templates');
     for (const file of readdirSync(dir).filter((f) => f.endsWith('.json')).sort()) {
       const parsed = parseSheetJson(readFileSync(join(dir, file), 'utf8'));
       if (!parsed.ok) throw new Error(`template ${file} is not a valid sheet file: ${parsed.problems.map((p) => `${p.path}: ${p.message}`).join('; ')}`);

@@ -1,13 +1,18 @@
 import { Injectable, Logger, NestMiddleware } from '@nestjs/common';
+import { ConfigService } from '@nestjs/config';
 import type { NextFunction, Request, Response } from 'express';
+import type { Environment } from '../../config/environment';
 
 /** One line per request: method, path (no query string, which may carry tokens), status, time. */
 @Injectable()
 export class RequestLoggerMiddleware implements NestMiddleware {
   private readonly logger = new Logger('HTTP');
 
-  /** LOG_REQUESTS=false turns it off (the load script does, so logging does not skew its figures). */
-  private readonly enabled = process.env.LOG_REQUESTS !== 'false';
+  private readonly enabled: boolean;
+
+  constructor(config: ConfigService<Environment, true>) {
+    this.enabled = config.get('LOG_REQUESTS', { infer: true }) !== 'false';
+  }
 
   use(req: Request, res: Response, next: NextFunction): void {
     if (!this.enabled) return next();

@@ -1,4 +1,5 @@
 import type { ThrottlerOptions } from '@nestjs/throttler';
+import { environment } from '../../config/environment';
 
 /**
  * Throttlers: `default` for every route; `address` (per client address) and `account` (per e-mail
@@ -13,18 +14,18 @@ const perAccount = (req: Record<string, unknown>) => {
 export const OFF = 1_000_000_000;
 
 export const THROTTLERS: ThrottlerOptions[] = [
-  { name: 'default', ttl: 60_000, limit: Number(process.env.THROTTLE_DEFAULT_PER_ADDRESS ?? 600) },
+  { name: 'default', ttl: 60_000, limit: () => environment().THROTTLE_DEFAULT_PER_ADDRESS },
   { name: 'address', ttl: 60_000, limit: OFF },
   { name: 'account', ttl: 60_000, limit: OFF, getTracker: perAccount as never },
 ];
 
 /** 5 a minute per account, and (by default) 5 a minute per client address. */
 export const AUTH_THROTTLE = {
-  address: { ttl: 60_000, limit: Number(process.env.THROTTLE_AUTH_PER_ADDRESS ?? 5) },
+  address: { ttl: 60_000, limit: () => environment().THROTTLE_AUTH_PER_ADDRESS },
   account: { ttl: 60_000, limit: 5 },
 };
 
 /** The public verification page: 10 uploads a minute per client address (by default). */
 export const VERIFY_THROTTLE = {
-  address: { ttl: 60_000, limit: Number(process.env.THROTTLE_VERIFY_PER_ADDRESS ?? 10) },
+  address: { ttl: 60_000, limit: () => environment().THROTTLE_VERIFY_PER_ADDRESS },
 };
