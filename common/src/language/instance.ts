@@ -6,7 +6,7 @@
 import type { Unit as MathUnit } from 'mathjs';
 import { circuitFunctions } from '../circuits/functions';
 import { asFrequencyKind, dropRidingAngle, frequencyKind } from '../units/quantities';
-import { checkCombined, disableUnsafeFunctions, math, withValue } from './math';
+import { checkCombined, disableUnsafeFunctions, isUnit, math, operatorRules, withValue } from './math';
 
 const typed = math.typed;
 const ANGLE = 7;
@@ -61,44 +61,26 @@ const isTime = (u: MathUnit) => dims(u).every((x, i) => x === (i === 2 ? 1 : 0))
  * angular frequency in rad/s; an angular frequency (or any s⁻¹) over 2π, or one over 2π times a time
  * (1 / (2 pi sqrt(L C))), is a frequency in Hz.
  */
-const originalMultiply = math.multiply as (a: unknown, b: unknown) => unknown;
-const originalDivide = math.divide as (a: unknown, b: unknown) => unknown;
 /** Marks 2π times a time (2 pi sqrt(L C)): a period, one over which is a frequency in Hz. */
 const PERIOD = Symbol('period');
-const angularProduct = (n: unknown, u: MathUnit) => {
-  const out = originalMultiply(n, u) as MathUnit;
-  if (!isTwoPi(n)) return out;
-  const kind = frequencyKind(u);
-  if (kind === 'cyclic' || kind === 'rate') return asFrequencyKind(out, 'angular');
-  if (isTime(u)) (out as unknown as Record<symbol, boolean>)[PERIOD] = true;
-  return out;
-};
 const overPeriod = (out: unknown, divisor: MathUnit) =>
   (divisor as unknown as Record<symbol, boolean>)[PERIOD] && frequencyKind(out) === 'rate' ? asFrequencyKind(out as MathUnit, 'cyclic') : out;
-math.import(
-  {
-    multiply: typed('multiply', {
-      'number, Unit': (a: number, b: MathUnit) => angularProduct(a, b),
-      'Unit, number': (a: MathUnit, b: number) => angularProduct(b, a),
-      'any, any': (a: unknown, b: unknown) => originalMultiply(a, b),
-      'any, any, ...any': (a: unknown, b: unknown, rest: unknown[]) => rest.reduce((acc, x) => math.multiply(acc as never, x as never), math.multiply(a as never, b as never)),
-    }),
-    divide: typed('divide', {
-      'Unit, number': (a: MathUnit, b: number) => {
-        const out = originalDivide(a, b) as MathUnit;
-        const kind = frequencyKind(a);
-        return isTwoPi(b) && (kind === 'angular' || kind === 'rate') ? asFrequencyKind(out, 'cyclic') : out;
-      },
-      'number, Unit': (a: number, b: MathUnit) => {
-        const out = originalDivide(a, b) as MathUnit;
-        return isTwoPi(a) && isTime(b) ? asFrequencyKind(out, 'angular') : overPeriod(out, b);
-      },
-      'Unit, Unit': (a: MathUnit, b: MathUnit) => overPeriod(originalDivide(a, b), b),
-      'any, any': (a: unknown, b: unknown) => originalDivide(a, b),
-    }),
-  },
-  { override: true },
-);
+operatorRules.multiply = (a, b, out) => {
+  const [n, u] = typeof a === 'number' ? [a, b] : [b, a];
+  if (!isTwoPi(n) || !isUnit(u)) return out;
+  const kind = frequencyKind(u);
+  if (kind === 'cyclic' || kind === 'rate') return asFrequencyKind(out as MathUnit, 'angular');
+  if (isTime(u as MathUnit)) (out as Record<symbol, boolean>)[PERIOD] = true;
+  return out;
+};
+operatorRules.divide = (a, b, out) => {
+  if (!isUnit(b)) {
+    const kind = isUnit(a) && isTwoPi(b) ? frequencyKind(a) : undefined;
+    return kind === 'angular' || kind === 'rate' ? asFrequencyKind(out as MathUnit, 'cyclic') : out;
+  }
+  if (typeof a === 'number' && isTwoPi(a) && isTime(b as MathUnit)) return asFrequencyKind(out as MathUnit, 'angular');
+  return overPeriod(out, b as MathUnit);
+};
 math.import(circuitFunctions, { override: false });
 disableUnsafeFunctions(math);
 

@@ -198,17 +198,25 @@ math.import(
   { override: true },
 );
 
+/**
+ * A rule applied to the result of a binary multiply or divide (the 2π rule of angular frequency, set in
+ * instance.ts), inside the same wrapper as the size check so that it adds no layer to every operation.
+ */
+export const operatorRules: { multiply?: (a: unknown, b: unknown, out: unknown) => unknown; divide?: (a: unknown, b: unknown, out: unknown) => unknown } = {};
+
 // Checked before the operation, whatever the operands' types; everything else passes straight through.
 math.import(
   Object.fromEntries(
     COMBINING.map((name) => {
       const original = math[name] as (...a: unknown[]) => unknown;
+      const rule = name === 'multiply' || name === 'divide' ? name : undefined;
       return [
         name,
         typed(name, {
           'any, any': (a: unknown, b: unknown) => {
             checkCombined([a, b]);
-            return original(a, b);
+            const out = original(a, b);
+            return rule && operatorRules[rule] ? operatorRules[rule](a, b, out) : out;
           },
           'any, any, ...any': (a: unknown, b: unknown, rest: unknown[]) => {
             checkCombined([a, b, ...rest]);
