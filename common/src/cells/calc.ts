@@ -111,7 +111,7 @@ export function evaluateCalcCell(cell: CalcCell, cellIndex: number, scope: Sheet
       const exprSource = code.slice(exprOffset);
       const warnings = checkNames(expression, exprSource, scope, place, exprOffset);
       result.warnings.push(...warnings);
-      for (const message of rmsWarnings(expression)) result.warnings.push({ line: lineNo, column: exprOffset + 1, message });
+      if (code.includes('_power')) for (const message of rmsWarnings(expression)) result.warnings.push({ line: lineNo, column: exprOffset + 1, message });
       let value = evaluateNode(expression, expression.compile(), mathScope, exprSource, lineNo, exprOffset);
       if (typeof value === 'function' || value === undefined) throw new EngineError('this expression has no value', lineNo, exprOffset + 1);
       if (target) {

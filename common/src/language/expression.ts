@@ -26,7 +26,8 @@ export const normalizeSource = (s: string) => s.replace(/[µμ]/g, 'u');
 /** Parses text at a place; `offset` is the column of the text's first character minus one. */
 export function parseExpression(text: string, line: number, offset = 0, isValue: (name: string) => boolean = () => false): MathNode {
   try {
-    return groupTwoPi(callsToProducts(parse(normalizeSource(text)), isValue));
+    const node = callsToProducts(parse(normalizeSource(text)), isValue);
+    return /\bpi\b/.test(text) ? groupTwoPi(node) : node;
   } catch (err) {
     const char = (err as { char?: number }).char;
     const column = typeof char === 'number' ? Math.max(1, Math.min(char, text.length + 1)) + offset : offset + 1;
