@@ -4,14 +4,14 @@ import { useParams } from 'react-router-dom';
 import { CautionNotice } from '../components/layout/caution-notice';
 import { PageHeading } from '../components/layout/page-heading';
 import { useMe } from '../features/auth/api/get-me';
-import { useQueries } from '../features/review/api/review';
-import type { ReviewContext } from '../features/review/components/cell-review';
+import { EDITABLE_STATES, editRefusal, WorkflowCode } from '@ampwright/common/review/workflow';
+import { useSheetQueries } from '../features/review/api/review';
+import { CellReview, type ReviewContext } from '../features/review/components/cell-review';
 import { WorkflowBar } from '../features/review/components/workflow-bar';
 import { STATE_LABELS, useSaveAsTemplate, useSheet } from '../features/sheets/api/sheets';
 import { AttachmentsPanel } from '../features/sheets/components/attachments-panel';
+import type { ReviewSlot } from '../features/sheets/editor/cell-frame';
 import { SheetEditor } from '../features/sheets/editor/sheet-editor';
-
-const EDITABLE_STATES = ['being-prepared', 'with-checker'];
 
 /**
  * A sheet: its review bar, then its cells, edited and evaluated in place by those who may (the
@@ -21,7 +21,7 @@ export function SheetPage() {
   const { sheetId = '' } = useParams();
   const { data: me } = useMe();
   const sheet = useSheet(sheetId);
-  const queries = useQueries(sheetId);
+  const queries = useSheetQueries(sheetId);
   const [openOnly, setOpenOnly] = useState(false);
   const saveTemplate = useSaveAsTemplate();
   const s = sheet.data;
@@ -30,14 +30,17 @@ export function SheetPage() {
     () => ({ sheetId, checking: !!s && s.state === 'with-checker' && s.checker?.id === uid, answering: !!s && EDITABLE_STATES.includes(s.state) && s.preparer.id === uid }),
     [sheetId, s, uid],
   );
+  // The route composes the editor and the review: each cell's queries are drawn beside it.
+  const Review: ReviewSlot = useMemo(() => ({ cell, queries: q }) => <CellReview cell={cell} queries={q} ctx={review} />, [review]);
   if (sheet.isPending) return <CircularProgress aria-label="Loading" />;
   if (sheet.isError) return <Alert severity="error">{sheet.error.message}</Alert>;
   if (!s || !me) return null;
   const mayEdit = me.roles.some((r) => r === 'owner' || r === 'engineer');
   const reviewing = (s.checker?.id === uid || s.approver?.id === uid) && s.preparer.id !== uid;
-  // Only the preparer and the co-preparers the preparer named edit a revision (independent checking).
-  const isPreparer = s.preparer.id === uid || s.coPreparers.some((p) => p.id === uid);
-  const editable = mayEdit && isPreparer && EDITABLE_STATES.includes(s.state) && !reviewing;
+  // Who may change the cells, and why not: the workflow rulebook the server enforces (only the preparer
+  // and the co-preparers the preparer named, never the checker or approver, while the sheet is open).
+  const refusal = editRefusal({ state: s.state, preparer: s.preparer, checker: s.checker, approver: s.approver, coPreparerIds: s.coPreparers.map((p) => p.id) }, { id: me.user.id, name: me.user.name, roles: me.roles });
+  const editable = !refusal;
   return (
     <Stack spacing={2}>
       <PageHeading overline={`Sheet ${s.number}`}>{s.title}</PageHeading>
@@ -50,13 +53,13 @@ export function SheetPage() {
       </Stack>
       {saveTemplate.isSuccess && <Alert severity="success" onClose={() => saveTemplate.reset()}>Saved as the firm template “{saveTemplate.data.title}”: new sheets can start from it.</Alert>}
       {saveTemplate.isError && <Alert severity="error" onClose={() => saveTemplate.reset()}>{saveTemplate.error.message}</Alert>}
-      {mayEdit && !editable && !reviewing && !EDITABLE_STATES.includes(s.state) && <Alert severity="info">This sheet is {STATE_LABELS[s.state].toLowerCase()} and can no longer be edited.</Alert>}
-      {mayEdit && !isPreparer && !reviewing && EDITABLE_STATES.includes(s.state) && <Alert severity="info">{s.preparer.name} prepares this sheet: only they and the co-preparers they name edit it.</Alert>}
+      {mayEdit && !reviewing && refusal?.code === WorkflowCode.ReadOnly && <Alert severity="info">This sheet is {STATE_LABELS[s.state].toLowerCase()} and can no longer be edited.</Alert>}
+      {!reviewing && refusal?.code === WorkflowCode.NotPreparer && <Alert severity="info">{s.preparer.name} prepares this sheet: only they and the co-preparers they name edit it.</Alert>}
       {reviewing && EDITABLE_STATES.includes(s.state) && <Alert severity="info">You review this sheet, so you do not edit it: raise queries on its cells for the preparer.</Alert>}
       {editable && <Typography variant="caption" color="text.secondary">Changes are saved and evaluated as you type. Keys: Ctrl+Enter evaluates now, Alt+Enter adds a cell below, Alt+↑ and Alt+↓ move between cells.</Typography>}
       <CautionNotice />
       {queries.isError && <Alert severity="error">The queries could not be loaded: {queries.error.message}</Alert>}
-      <SheetEditor sheet={s} editable={editable} queries={queries.data ?? []} review={review} openOnly={openOnly} />
+      <SheetEditor sheet={s} editable={editable} queries={queries.data ?? []} Review={Review} checking={review.checking} openOnly={openOnly} />
       <AttachmentsPanel sheetId={s.id} editable={editable} />
     </Stack>
   );

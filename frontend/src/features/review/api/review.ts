@@ -14,7 +14,7 @@ export const reviewKeys = {
   notifications: ['notifications'] as const,
 };
 
-export const useQueries = (sheetId: string) => useQuery(queryOptions({ queryKey: reviewKeys.queries(sheetId), queryFn: ({ signal }) => api.get<QueryDto[]>(`/sheets/${sheetId}/queries`, { signal }) }));
+export const useSheetQueries = (sheetId: string) => useQuery(queryOptions({ queryKey: reviewKeys.queries(sheetId), queryFn: ({ signal }) => api.get<QueryDto[]>(`/sheets/${sheetId}/queries`, { signal }) }));
 export const useRevisions = (sheetId: string) => useQuery(queryOptions({ queryKey: reviewKeys.revisions(sheetId), queryFn: ({ signal }) => api.get<RevisionSummaryDto[]>(`/sheets/${sheetId}/revisions`, { signal }) }));
 export const useHistory = (sheetId: string) => useQuery(queryOptions({ queryKey: reviewKeys.history(sheetId), queryFn: ({ signal }) => api.get<HistoryEventDto[]>(`/sheets/${sheetId}/history`, { signal }) }));
 export const useDiff = (sheetId: string, from: string, to: string) =>

@@ -1,8 +1,7 @@
 /** One cell on the sheet: its header with the save state and tools, its editor or source, and its results. */
 import { Alert, Box, Button, Chip, Menu, MenuItem, Paper, Stack, Tooltip, Typography } from '@mui/material';
-import { memo, useState } from 'react';
+import { memo, useState, type ComponentType } from 'react';
 import type { CellDto, QueryDto } from '@ampwright/common';
-import { CellReview, type ReviewContext } from '../../review/components/cell-review';
 import { palette } from '../../../app/theme';
 import { KIND_LABELS, kindLabel } from '@ampwright/common/plot/index';
 import { CellResults, SourceText, TableView } from '../components/cell-results';
@@ -39,8 +38,14 @@ interface CellFrameProps {
   editable: boolean;
   actions: CellActions;
   queries: QueryDto[];
-  review: ReviewContext;
+  /** What the route puts beside each cell for its review (the queries); stable, so cells stay memoised. */
+  Review?: ReviewSlot;
+  /** Marks a cell changed after the checker agreed it (shown to the checker). */
+  markChangedAfterAgreement: boolean;
 }
+
+/** A component the route gives the editor to draw a cell's review; the editor does not know the review feature. */
+export type ReviewSlot = ComponentType<{ cell: CellDto; queries: QueryDto[] }>;
 
 function sourceOf(value: CellBody): string {
   if (value.kind === 'calc') return String(value.source ?? '');
@@ -65,7 +70,7 @@ export function AddCellMenu({ onAdd, onImportCsv, label = 'Add a cell' }: { onAd
   );
 }
 
-function CellFrameInner({ sheetId, cell, index, count, active, editable, actions, queries, review }: CellFrameProps) {
+function CellFrameInner({ sheetId, cell, index, count, active, editable, actions, queries, Review, markChangedAfterAgreement }: CellFrameProps) {
   const d = useCellDraft(sheetId, cell);
   const r = cell.results;
   const Editor = KIND_EDITORS[cell.kind];
@@ -93,7 +98,7 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
       aria-label={`Cell ${index + 1}: ${kindLabel(cell.kind)}`}
       data-cell-id={cell.id}
       onKeyDown={onKeyDown}
-      sx={{ p: 2, borderLeft: `3px solid ${failed || checkFailed ? palette.fail : cell.kind === 'check' ? palette.copper : palette.ink}`, ...(cell.changedAfterAgreement && review.checking ? { bgcolor: '#fff6e5' } : {}), outline: active ? `1px solid ${palette.inkLight}` : undefined, contentVisibility: active ? undefined : 'auto', containIntrinsicSize: 'auto 160px' }}
+      sx={{ p: 2, borderLeft: `3px solid ${failed || checkFailed ? palette.fail : cell.kind === 'check' ? palette.copper : palette.ink}`, ...(cell.changedAfterAgreement && markChangedAfterAgreement ? { bgcolor: '#fff6e5' } : {}), outline: active ? `1px solid ${palette.inkLight}` : undefined, contentVisibility: active ? undefined : 'auto', containIntrinsicSize: 'auto 160px' }}
     >
       <Stack direction="row" spacing={1} sx={{ alignItems: 'center', mb: 1, flexWrap: 'wrap' }}>
         <Typography variant="overline" color="text.secondary">{index + 1} · {kindLabel(cell.kind)}</Typography>
@@ -136,7 +141,7 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
       <Box sx={{ opacity: stale ? 0.55 : 1, transition: 'opacity 120ms', mt: 1 }} aria-busy={stale} data-testid="cell-results">
         <CellResults kind={cell.kind} fields={cell.fields} result={r} />
       </Box>
-      <CellReview cell={cell} queries={queries} ctx={review} />
+      {Review && <Review cell={cell} queries={queries} />}
     </Paper>
   );
 }

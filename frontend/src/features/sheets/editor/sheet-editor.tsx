@@ -6,9 +6,8 @@
 import { Alert, Box, Button, Snackbar, Stack, Typography } from '@mui/material';
 import { useCallback, useMemo, useRef, useState } from 'react';
 import type { CellDto, QueryDto, SheetDto } from '@ampwright/common';
-import type { ReviewContext } from '../../review/components/cell-review';
 import { cellBody, useCellChange } from '../api/sheet-editing';
-import { AddCellMenu, CellFrame, type CellActions } from './cell-frame';
+import { AddCellMenu, CellFrame, type CellActions, type ReviewSlot } from './cell-frame';
 import { NEW_CELLS } from './cell-editors';
 
 function scopeOf(cells: CellDto[], position: number) {
@@ -22,7 +21,8 @@ function scopeOf(cells: CellDto[], position: number) {
 
 const NO_QUERIES: QueryDto[] = [];
 
-export function SheetEditor({ sheet, editable, queries, review, openOnly = false }: { sheet: SheetDto; editable: boolean; queries: QueryDto[]; review: ReviewContext; openOnly?: boolean }) {
+/** `Review` draws a cell's review beside it (given by the route); `checking` marks cells changed after the checker agreed them. */
+export function SheetEditor({ sheet, editable, queries, Review, checking, openOnly = false }: { sheet: SheetDto; editable: boolean; queries: QueryDto[]; Review?: ReviewSlot; checking: boolean; openOnly?: boolean }) {
   const byCell = useMemo(() => {
     const m = new Map<string, QueryDto[]>();
     for (const q of queries) if (q.cellId) m.set(q.cellId, [...(m.get(q.cellId) ?? []), q]);
@@ -94,7 +94,7 @@ export function SheetEditor({ sheet, editable, queries, review, openOnly = false
   return (
     <Stack spacing={2} data-testid="sheet-editor">
       {shown.map((cell) => (
-        <CellFrame key={cell.id} sheetId={sheet.id} cell={cell} index={cell.position} count={sheet.cells.length} active={activeId === cell.id} editable={editable} actions={actions} queries={byCell.get(cell.id) ?? NO_QUERIES} review={review} />
+        <CellFrame key={cell.id} sheetId={sheet.id} cell={cell} index={cell.position} count={sheet.cells.length} active={activeId === cell.id} editable={editable} actions={actions} queries={byCell.get(cell.id) ?? NO_QUERIES} Review={Review} markChangedAfterAgreement={checking} />
       ))}
       {openOnly && shown.length === 0 && <Typography color="text.secondary">No cell has an open query.</Typography>}
       {sheet.cells.length === 0 && <Typography color="text.secondary">This sheet has no cells yet.</Typography>}
