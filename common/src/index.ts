@@ -10,6 +10,7 @@ export { toContractJson, type ContractOutput } from './cells/contract';
 export { csvToTableCell, type CsvTableResult } from './sheet/csv-table';
 export type { AttachmentDto, CoPreparersBody, ProjectPeopleDto, CellDto, ProjectDto, SaveResultDto, SheetDto, SheetState, SheetSummaryDto, TemplateSummaryDto } from './api/projects';
 export { MAX_PASSWORD_BYTES, MIN_PASSWORD_LENGTH } from './api/accounts';
+export { PALETTE } from './plot/palette';
 export { sweepChart, transientChart, calcFigures, transientSummary, KIND_LABELS, kindLabel, checkPresentation, type CalcFigure, type SummaryRow, type Tone } from './plot/index';
 export type { QueryDto, QueryMessageDto, QueryStatus, RevisionSummaryDto, DiffDto, HistoryEventDto, NotificationDto } from './api/review';
 export { diffCells, type CellDiff, type SnapshotCell } from './review/diff';

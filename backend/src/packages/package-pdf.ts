@@ -9,7 +9,7 @@ import { readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
-import { CAUTION_SHORT, CAUTION_TEXT, calcFigures, checkPresentation, kindLabel, type Tone, sweepChart, transientChart, transientSummary, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
+import { CAUTION_SHORT, CAUTION_TEXT, PALETTE, calcFigures, checkPresentation, kindLabel, type Tone, sweepChart, transientChart, transientSummary, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
 import type { RevisionSnapshot } from '../review/revisions.service';
 import { drawNote } from './note-pdf';
 import { drawTex, texToSvg } from './tex-svg';
@@ -34,14 +34,7 @@ export interface PackageInput {
   onProgress?: (fraction: number) => void;
 }
 
-const INK = '#16324a';
-const COPPER = '#b5561c';
-const TEXT = '#1c2328';
-const MUTED = '#4f5a62';
-const RULE = '#d9d1c3';
-const PASS = '#2e6b3a';
-const FAIL = '#a3261b';
-const CAUTION = '#8a5a00';
+const { ink: INK, copper: COPPER, text: TEXT, muted: MUTED, rule: RULE, pass: PASS, fail: FAIL, caution: CAUTION } = PALETTE;
 /** The colour of each tone of common/plot/presentation.ts. */
 const TONE: Record<Tone, string> = { pass: PASS, caution: CAUTION, fail: FAIL, none: MUTED };
 

@@ -2,11 +2,12 @@
  * A small SVG writer: elements as strings with every attribute and text escaped, so the same
  * markup can be put into the page and drawn into the PDF. No DOM is needed (the engine stays pure).
  */
+import { PALETTE } from './palette';
 
 export const PLOT_FONT = "'IBM Plex Sans', system-ui, sans-serif";
 
 /** The plot colours: ink for the main trace, copper for the second, a muted grey for guides. */
-export const PLOT_COLOURS = { ink: '#16324a', copper: '#b5561c', green: '#2e6b3a', grey: '#8c857a', rule: '#d9d1c3', text: '#1c2328' };
+export const PLOT_COLOURS = { ink: PALETTE.ink, copper: PALETTE.copper, green: PALETTE.pass, grey: PALETTE.grey, rule: PALETTE.rule, text: PALETTE.text };
 
 const ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };
 export const escapeXml = (s: string): string => s.replace(/[&<>"']/g, (c) => ESCAPES[c]);

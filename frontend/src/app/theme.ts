@@ -1,22 +1,12 @@
 import { createTheme } from '@mui/material/styles';
+import { PALETTE } from '@ampwright/common/plot/palette';
 
 /**
  * Ampwright's look: ink-blue structure on a warm drafting-paper ground, with copper for actions and
  * emphasis. Corners are nearly square (drawings, not bubbles); type is IBM Plex Sans, and expressions
  * are set in IBM Plex Mono.
  */
-export const palette = {
-  ink: '#16324a',
-  inkLight: '#3c5b74',
-  copper: '#b5561c',
-  copperLight: '#e08a3c',
-  paper: '#f4efe6',
-  sheet: '#fffdf8',
-  rule: '#d9d1c3',
-  pass: '#2e6b3a',
-  fail: '#a3261b',
-  caution: '#8a5a00',
-};
+export const palette = PALETTE;
 
 export const monoFont = '"IBM Plex Mono", ui-monospace, monospace';
 

@@ -11,6 +11,7 @@ import { tags } from '@lezer/highlight';
 import type { Diagnostic } from '@ampwright/common';
 import { LANGUAGE_CONSTANTS, LANGUAGE_FUNCTIONS, LANGUAGE_KEYWORDS, LANGUAGE_UNITS, namesDefinedIn } from '@ampwright/common/language/vocabulary';
 import { palette } from '../../../app/theme';
+import { PALETTE } from '@ampwright/common/plot/palette';
 
 const FUNCTIONS = new Set(LANGUAGE_FUNCTIONS.map((f) => f.label));
 const UNITS = new Set(LANGUAGE_UNITS.map((u) => u.label));
@@ -50,7 +51,7 @@ export const calcHighlighting = syntaxHighlighting(
   HighlightStyle.define([
     { tag: tags.comment, color: '#6b6f5a', fontStyle: 'italic' },
     { tag: tags.number, color: palette.copper },
-    { tag: tags.unit, color: '#2e6b3a' },
+    { tag: tags.unit, color: PALETTE.pass },
     { tag: tags.keyword, color: palette.ink, fontWeight: '600' },
     { tag: tags.function(tags.variableName), color: '#5b3a8a' },
     { tag: tags.variableName, color: palette.ink },
