@@ -9,7 +9,7 @@ import { readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
-import { CAUTION_SHORT, CAUTION_TEXT, PALETTE, calcFigures, checkPresentation, kindLabel, type Tone, sweepChart, transientChart, transientSummary, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
+import { CAUTION_SHORT, CAUTION_TEXT, PALETTE, calcFigures, type CellKind, checkPresentation, kindLabel, type Tone, sweepChart, transientChart, transientSummary, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
 import type { RevisionSnapshot } from '../review/revisions.service';
 import { drawNote } from './note-pdf';
 import { drawTex, texToSvg } from './tex-svg';
@@ -171,6 +171,30 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
   doc.y += (cells.length + 3) * 13;
   if (doc.y > bottom()) doc.addPage();
 
+  type Cell = Record<string, unknown> & { kind: string };
+  /** How each kind of cell is drawn: a new kind does not compile until it is drawn here. */
+  const DRAW: Record<CellKind, (cell: Cell, result: CellResult | null) => void> = {
+    note: (cell) => drawNote({ doc, left: M, width: width(), ensure, colours: { text: TEXT, muted: MUTED, heading: INK, rule: RULE } }, String(cell.text ?? '')),
+    calc: (_cell, result) => result?.kind === 'calc' && drawCalc(result),
+    check: (cell, result) => result?.kind === 'check' && drawCheck(result, cell),
+    sweep: (cell, result) => {
+      if (result?.kind !== 'sweep') return;
+      para(`${cell.variable} from ${cell.from} to ${cell.to}, ${cell.points} points (${cell.spacing ?? 'linear'}); outputs: ${((cell.outputs as string[]) ?? []).join('; ')}`, { size: 9, colour: MUTED });
+      const svg = sweepChart(result as SweepResult, { logX: cell.spacing === 'log' });
+      if (svg) svgFigure(svg, width());
+    },
+    transient: (cell, result) => {
+      if (result?.kind !== 'transient') return;
+      const t = result as TransientResult;
+      para(`R = ${cell.R}, L = ${cell.L}, C = ${cell.C}, E(t) = ${cell.source}, from q0 = ${cell.q0 || '0'}, i0 = ${cell.i0 || '0'}, over ${cell.span}.`, { size: 9 });
+      for (const row of transientSummary(t)) para(`${row.label}: ${row.text}`, { size: 9 });
+      const svg = transientChart(t);
+      if (svg) svgFigure(svg, width());
+    },
+    table: (cell) => drawTable(cell),
+    figure: (cell) => para(String(cell.caption ?? ''), { font: 'italic' }),
+  };
+
   // The cells.
   doc.addPage();
   cells.forEach((fileCell, i) => {
@@ -182,27 +206,7 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     doc.font('bold').fontSize(8).fillColor(MUTED).text(`${i + 1} · ${kindLabel(cell.kind).toUpperCase()}`, M, doc.y, { characterSpacing: 0.8 });
     doc.moveTo(M, doc.y + 1).lineTo(M + width(), doc.y + 1).lineWidth(0.5).strokeColor(RULE).stroke();
     doc.moveDown(0.4);
-    if (cell.kind === 'note') {
-      drawNote({ doc, left: M, width: width(), ensure, colours: { text: TEXT, muted: MUTED, heading: INK, rule: RULE } }, String(cell.text ?? ''));
-    } else if (cell.kind === 'calc' && result?.kind === 'calc') {
-      drawCalc(result);
-    } else if (cell.kind === 'check' && result?.kind === 'check') {
-      drawCheck(result, cell);
-    } else if (cell.kind === 'sweep' && result?.kind === 'sweep') {
-      para(`${cell.variable} from ${cell.from} to ${cell.to}, ${cell.points} points (${cell.spacing ?? 'linear'}); outputs: ${((cell.outputs as string[]) ?? []).join('; ')}`, { size: 9, colour: MUTED });
-      const svg = sweepChart(result as SweepResult, { logX: cell.spacing === 'log' });
-      if (svg) svgFigure(svg, width());
-    } else if (cell.kind === 'transient' && result?.kind === 'transient') {
-      const t = result as TransientResult;
-      para(`R = ${cell.R}, L = ${cell.L}, C = ${cell.C}, E(t) = ${cell.source}, from q0 = ${cell.q0 || '0'}, i0 = ${cell.i0 || '0'}, over ${cell.span}.`, { size: 9 });
-      for (const row of transientSummary(t)) para(`${row.label}: ${row.text}`, { size: 9 });
-      const svg = transientChart(t);
-      if (svg) svgFigure(svg, width());
-    } else if (cell.kind === 'table') {
-      drawTable(cell);
-    } else if (cell.kind === 'figure') {
-      para(String(cell.caption ?? ''), { font: 'italic' });
-    }
+    DRAW[cell.kind as CellKind]?.(cell, result);
     if (result && result.errors.length) for (const e of result.errors) para(`Error, line ${e.line}, column ${e.column}: ${e.message}`, { colour: FAIL, size: 9 });
     input.onProgress?.((i + 1) / cells.length * 0.9);
   });

@@ -1,7 +1,7 @@
 /** What the server computed for a cell: typeset lines, check outcomes, charts and tables. */
 import { Alert, Box, Chip, LinearProgress, Stack, Table, TableBody, TableCell, TableHead, TableRow, Typography } from '@mui/material';
-import { useMemo } from 'react';
-import type { CalcResult, CellResult, CheckResult, Diagnostic, SweepResult, TransientResult } from '@ampwright/common';
+import { useMemo, type ReactNode } from 'react';
+import type { CalcResult, CellKind, CellResult, CheckResult, Diagnostic, SweepResult, TransientResult } from '@ampwright/common';
 import { calcFigures, checkPresentation, sweepChart, transientChart, transientSummary } from '@ampwright/common/plot/index';
 import { monoFont, palette } from '../../../app/theme';
 import { SvgFigure } from './svg-figure';
@@ -126,14 +126,22 @@ function TransientResults({ result }: { result: TransientResult }) {
 }
 
 /** The results of one cell, as stored by the server. */
+/** What each kind of cell shows of its results (notes, tables and figures show their fields instead): a new kind does not compile until it is here. */
+const RESULT_VIEWS: Record<CellKind, (fields: Record<string, unknown>, result: CellResult) => ReactNode> = {
+  calc: (_f, r) => r.kind === 'calc' && <CalcResults result={r} />,
+  check: (f, r) => r.kind === 'check' && <CheckResults result={r} basis={f.basis as string | undefined} />,
+  sweep: (f, r) => r.kind === 'sweep' && <SweepResults result={r} logX={f.spacing === 'log'} />,
+  transient: (_f, r) => r.kind === 'transient' && <TransientResults result={r} />,
+  note: () => null,
+  table: () => null,
+  figure: () => null,
+};
+
 export function CellResults({ kind, fields, result }: { kind: string; fields: Record<string, unknown>; result: CellResult | null }) {
   if (!result) return null;
   return (
     <Box>
-      {kind === 'calc' && result.kind === 'calc' && <CalcResults result={result} />}
-      {kind === 'check' && result.kind === 'check' && <CheckResults result={result} basis={fields.basis as string | undefined} />}
-      {kind === 'sweep' && result.kind === 'sweep' && <SweepResults result={result} logX={fields.spacing === 'log'} />}
-      {kind === 'transient' && result.kind === 'transient' && <TransientResults result={result} />}
+      {RESULT_VIEWS[kind as CellKind]?.(fields, result)}
       <Problems errors={result.errors} warnings={result.warnings} />
     </Box>
   );

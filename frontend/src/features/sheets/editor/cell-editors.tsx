@@ -1,6 +1,6 @@
 /** The editors of each kind of cell. Each edits a whole cell body and hands it to `onChange`. */
 import { Box, Button, IconButton, MenuItem, Stack, TextField, Tooltip } from '@mui/material';
-import type { Diagnostic } from '@ampwright/common';
+import type { CellKind, Diagnostic } from '@ampwright/common';
 import { monoFont } from '../../../app/theme';
 import type { CellBody } from '../api/sheet-editing';
 import { CodeEditor, type EditorKeys } from './code-editor';
@@ -130,7 +130,8 @@ export function TableEditor(p: KindEditorProps) {
   );
 }
 
-export const KIND_EDITORS: Partial<Record<string, (p: KindEditorProps) => React.ReactElement>> = {
+/** Each kind's editor: a new kind does not compile until it has one. */
+export const KIND_EDITORS: Record<CellKind, (p: KindEditorProps) => React.ReactElement> = {
   calc: CalcEditor,
   note: NoteEditor,
   check: CheckEditor,
@@ -141,7 +142,7 @@ export const KIND_EDITORS: Partial<Record<string, (p: KindEditorProps) => React.
 };
 
 /** What a new cell of each kind starts with. */
-export const NEW_CELLS: Record<string, CellBody> = {
+export const NEW_CELLS: Record<CellKind, CellBody> = {
   calc: { kind: 'calc', source: '' },
   note: { kind: 'note', text: '' },
   check: { kind: 'check', condition: '', basis: '', severity: 'mandatory' },

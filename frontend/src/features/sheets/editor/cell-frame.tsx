@@ -1,7 +1,7 @@
 /** One cell on the sheet: its header with the save state and tools, its editor or source, and its results. */
 import { Alert, Box, Button, Chip, Menu, MenuItem, Paper, Stack, Tooltip, Typography } from '@mui/material';
 import { memo, useState, type ComponentType } from 'react';
-import type { CellDto, QueryDto } from '@ampwright/common';
+import type { CellDto, CellKind, QueryDto } from '@ampwright/common';
 import { palette } from '../../../app/theme';
 import { KIND_LABELS, kindLabel } from '@ampwright/common/plot/index';
 import { CellResults, SourceText, TableView } from '../components/cell-results';
@@ -73,7 +73,7 @@ export function AddCellMenu({ onAdd, onImportCsv, label = 'Add a cell' }: { onAd
 function CellFrameInner({ sheetId, cell, index, count, active, editable, actions, queries, Review, markChangedAfterAgreement }: CellFrameProps) {
   const d = useCellDraft(sheetId, cell);
   const r = cell.results;
-  const Editor = KIND_EDITORS[cell.kind];
+  const Editor = KIND_EDITORS[cell.kind as CellKind] as (typeof KIND_EDITORS)[CellKind] | undefined;
   const editing = editable && active && !!Editor;
   const stale = d.dirty || d.state === 'saving';
   const source = sourceOf(d.value);

@@ -5,7 +5,7 @@
  */
 import { Alert, Box, Button, Snackbar, Stack, Typography } from '@mui/material';
 import { useCallback, useMemo, useRef, useState } from 'react';
-import type { CellDto, QueryDto, SheetDto } from '@ampwright/common';
+import type { CellDto, CellKind, QueryDto, SheetDto } from '@ampwright/common';
 import { cellBody, useCellChange } from '../api/sheet-editing';
 import { AddCellMenu, CellFrame, type CellActions, type ReviewSlot } from './cell-frame';
 import { NEW_CELLS } from './cell-editors';
@@ -55,7 +55,7 @@ export function SheetEditor({ sheet, editable, queries, Review, checking, openOn
       add: (position, kind) => {
         const before = new Set(cellsRef.current.map((c) => c.id));
         // Open the new cell (the one cell of the answer that was not there before) for editing.
-        change.mutate({ type: 'add', position, cell: NEW_CELLS[kind] ?? NEW_CELLS.calc }, { onSuccess: (result) => setActiveId(result.changed.find((c) => !before.has(c.id))?.id ?? null), onError: report });
+        change.mutate({ type: 'add', position, cell: NEW_CELLS[kind as CellKind] ?? NEW_CELLS.calc }, { onSuccess: (result) => setActiveId(result.changed.find((c) => !before.has(c.id))?.id ?? null), onError: report });
       },
       importCsv: (position) => {
         csvPosition.current = position;
