@@ -18,6 +18,6 @@ export { revisionCode, canonicalJson } from './review/revision-code';
 export type { PackageStatusDto, PortalRevisionDto, VerdictDto, CertificateDto, PackageSettingsDto } from './api/packages';
 export { runWithDeadline } from './language/deadline';
 export { parseNote, linkText, type NoteBlock, type NoteInline } from './notes/markdown';
-export { ROLES, MEMBER_ROLES, SHEET_EDITORS, STATE_WORDS, EDITABLE_STATES, MOVES, WorkflowCode, allowedMoves, editRefusal, independenceRefusal, isEditable, mayEdit, refusalOf, type Actor, type Person, type Refusal, type Role, type SheetFacts, type WorkflowMove } from './review/workflow';
+export { ROLES, MEMBER_ROLES, SHEET_EDITORS, STATE_WORDS, EDITABLE_STATES, MOVES, WorkflowCode, factsOfSheet, allowedMoves, checkerRefusal, editRefusal, independenceRefusal, stateRefusal, isEditable, mayEdit, refusalOf, type Actor, type Person, type Refusal, type Role, type SheetFacts, type WorkflowMove } from './review/workflow';
 export { CAUTION_TEXT, CAUTION_SHORT } from './api/cautions';
 export { ErrorCode, AuthErrorCode, MemberErrorCode, InvitationErrorCode, ProjectErrorCode, SheetErrorCode, EvaluationErrorCode } from './api/error-codes';

@@ -266,9 +266,9 @@ export class EvaluationPool {
     if (at < 0) return;
     // While no evaluator has started yet (the server or a seed just booted, on a loaded machine), the
     // wait has not really begun: it is counted again, up to STARTING_GRACE_MS from when the task came.
-    const job0 = this.queue[at];
-    if (![...this.children].some((c) => c.ready) && Date.now() - job0.queuedAt < STARTING_GRACE_MS) {
-      job0.expiry = setTimeout(() => this.expire(id), this.limits.waitMs);
+    const waiting = this.queue[at];
+    if (![...this.children].some((c) => c.ready) && Date.now() - waiting.queuedAt < STARTING_GRACE_MS) {
+      waiting.expiry = setTimeout(() => this.expire(id), this.limits.waitMs);
       return;
     }
     const [job] = this.queue.splice(at, 1);

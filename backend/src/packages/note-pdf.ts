@@ -22,6 +22,15 @@ type Piece = { kind: 'word'; text: string; font: Font; space: boolean } | { kind
 
 const fontOf = (r: Extract<NoteInline, { kind: 'text' }>): Font => (r.code ? 'mono' : r.strong ? 'bold' : r.emphasis ? 'italic' : 'sans');
 
+/** A formula as MathJax vector paths, or undefined when its LaTeX cannot be typeset (it is then shown as source). */
+function typeset(tex: string, size: number, style: 'display' | 'text'): TexSvg | undefined {
+  try {
+    return texToSvg(tex, size, style);
+  } catch {
+    return undefined;
+  }
+}
+
 /** Inline runs as words (each knowing whether a space comes before it) and maths boxes. */
 function pieces(inlines: NoteInline[], size: number, base: Font): Piece[] {
   const out: Piece[] = [];
@@ -43,12 +52,7 @@ function pieces(inlines: NoteInline[], size: number, base: Font): Piece[] {
       out.push({ kind: 'break' });
       pendingSpace = false;
     } else {
-      let t: TexSvg | undefined;
-      try {
-        t = texToSvg(r.tex, size, r.display ? 'display' : 'text');
-      } catch {
-        t = undefined;
-      }
+      const t = typeset(r.tex, size, r.display ? 'display' : 'text');
       if (t) out.push({ kind: 'maths', t, space: pendingSpace });
       else words(`$${r.tex}$`, 'mono');
       pendingSpace = false;
@@ -124,12 +128,7 @@ export function drawNote(layout: NoteLayout, source: string): void {
         block.items.forEach((item, k) => flow(layout, item, { size: 10, font: 'sans', colour: colours.text, indent: 16, marker: block.ordered ? `${block.start + k}.` : '•' }));
         break;
       case 'maths': {
-        let t: TexSvg | undefined;
-        try {
-          t = texToSvg(block.tex, 11);
-        } catch {
-          t = undefined;
-        }
+        const t = typeset(block.tex, 11, 'display');
         if (!t) {
           flow(layout, [{ kind: 'text', text: `$$${block.tex}$$`, code: true }], { size: 9, font: 'mono', colour: colours.text });
           break;

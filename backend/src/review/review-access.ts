@@ -2,9 +2,7 @@
  * The server's side of the workflow rulebook (common/src/review/workflow.ts): the facts of a locked
  * sheet and the person acting, and a refusal turned into the API's error. Each refusal says why.
  */
-import { HttpStatus } from '@nestjs/common';
-import { STATE_WORDS, WorkflowCode, refusalOf, type SheetFacts, type SheetState, type WorkflowMove } from '@ampwright/common';
-import { AppException } from '../core/errors/app-exception';
+import { WorkflowCode, checkerRefusal, refusalOf, stateRefusal, type SheetFacts, type SheetState, type WorkflowMove } from '@ampwright/common';
 import { actorOf, enforce } from '../core/errors/refusal';
 import type { AuthContext } from '../core/guards/auth.guard';
 import type { Sheet } from '../sheets/entities/sheet.entity';
@@ -24,15 +22,11 @@ export function requireMove(move: WorkflowMove, auth: AuthContext, facts: SheetF
 }
 
 export function requireState(sheet: Sheet, allowed: SheetState[], action: string): void {
-  if (!allowed.includes(sheet.state as SheetState)) {
-    throw new AppException(WorkflowCode.OutOfTurn, `You cannot ${action}: the sheet is ${STATE_WORDS[sheet.state as SheetState]}, and this needs it ${allowed.map((s) => STATE_WORDS[s]).join(' or ')}.`, HttpStatus.CONFLICT);
-  }
+  enforce(stateRefusal(sheet.state as SheetState, allowed, action));
 }
 
 export const isUser = (auth: AuthContext, user: { id: string } | undefined | null) => !!user && user.id === auth.session.user.id;
 
 export function requireChecker(auth: AuthContext, sheet: Sheet, action: string): void {
-  if (!isUser(auth, sheet.checker)) {
-    throw new AppException(WorkflowCode.NotYours, `Only the sheet's assigned checker${sheet.checker ? ` (${sheet.checker.name})` : ''} can ${action}.`, HttpStatus.FORBIDDEN);
-  }
+  enforce(checkerRefusal(sheet, actorOf(auth), action));
 }

@@ -12,8 +12,7 @@ import { formatValue, type DisplayOptions } from '../units/display';
 import { asFrequencyKind, frequencyKind } from '../units/quantities';
 import { convertTo } from './convert';
 import { calledFunction, RESULT_CONVENTIONS, rmsWarnings } from '../circuits/conventions';
-import { powerFactorSense } from '../circuits/functions';
-import { isUnit } from '../language/instance';
+import { circuitFunctions } from '../circuits/functions';
 import { describePlace, type SheetScope } from './scope';
 import type { CalcResult } from './types';
 
@@ -151,9 +150,7 @@ function conventionOf(expression: MathNode, mathScope: Map<string, unknown>): { 
   if (call.name === 'power_factor' && call.args.length === 1) {
     let sense: string;
     try {
-      const x = call.args[0].compile().evaluate(mathScope) as unknown;
-      const v = isUnit(x) ? (x as unknown as { value: unknown }).value : x;
-      sense = powerFactorSense(typeof v === 'number' ? 0 : (v as { im: number }).im);
+      sense = circuitFunctions.power_factor_sense(call.args[0].compile().evaluate(mathScope));
     } catch {
       return { convention };
     }

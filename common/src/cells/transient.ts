@@ -8,7 +8,7 @@ import type { TransientCell } from '../sheet/sheet-format';
 import { EngineError } from '../language/errors';
 import { checkNames, evaluateNode, parseExpression, valueNames } from '../language/expression';
 import { isUnit, math } from '../language/instance';
-import { analyticSolution, dampingOf, extremaOnGrid, numericSolution, summarise, type Extrema, type SourceForm } from '../circuits/transient';
+import { analyticSolution, dampingOf, extremaOnGrid, numericSolution, summarise, type Extremum, type SourceForm } from '../circuits/transient';
 import { formatValue, type DisplayOptions } from '../units/display';
 import { angleValue } from '../circuits/functions';
 import { real, type Dimension } from '../units/quantities';
@@ -122,20 +122,21 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
       ...(omega0 > alpha ? { omega_d: formatValue(math.unit(Math.sqrt(omega0 ** 2 - alpha ** 2), 'rad/s'), display) } : {}),
     };
 
-    const numeric = numericSolution({ R, L, C, q0, i0 }, E, span, points, { deadline: Date.now() + 5000 });
-    result.solver = { name: 'odex', version: ODEX_VERSION, steps: numeric.steps, evaluations: numeric.evaluations };
-    result.time = { name: 't', unit: 's', values: numeric.t };
-    result.charge = { name: 'q', unit: 'C', values: numeric.q };
-    result.current = { name: 'i', unit: 'A', values: numeric.i };
-
     let form: SourceForm | undefined;
     try {
       form = zeroSource ? { kind: 'constant', E0: 0 } : sourceForm(sourceNode, scalarAt);
     } catch {
       form = undefined;
     }
-    let currentExtrema = numeric.currentExtrema;
-    let chargeExtrema = numeric.chargeExtrema;
+    // The extrema come from the closed form where there is one, else from the solver's dense output.
+    const numeric = numericSolution({ R, L, C, q0, i0 }, E, span, points, { deadline: Date.now() + 5000, extrema: !form });
+    result.solver = { name: 'odex', version: ODEX_VERSION, steps: numeric.steps, evaluations: numeric.evaluations };
+    result.time = { name: 't', unit: 's', values: numeric.t };
+    result.charge = { name: 'q', unit: 'C', values: numeric.q };
+    result.current = { name: 'i', unit: 'A', values: numeric.i };
+
+    let currentExtrema: Extremum[];
+    let chargeExtrema: Extremum[];
     if (form) {
       const a = analyticSolution({ R, L, C, q0, i0 }, form, span);
       const Ea = form.kind === 'constant' ? () => form.E0 : (t: number) => form.E0 * Math.sin(form.omega * t + form.theta);
@@ -153,7 +154,7 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
       currentExtrema = extremaOnGrid(numeric.grid, a.i, (t) => Ea(t) - R * a.i(t) - a.q(t) / C);
       chargeExtrema = extremaOnGrid(numeric.grid, a.q, a.i);
       if (!a.resonant) result.steady = steadyState(form, { R, L, C }, display);
-      if (a.resonant) {
+      else {
         result.warnings.push({
           line: 1,
           column: 1,
@@ -162,16 +163,18 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
       }
     } else {
       result.analytic = { available: false, reason: 'the source is not a constant or a single sinusoid, so only the numeric solution is given' };
+      currentExtrema = numeric.currentExtrema!;
+      chargeExtrema = numeric.chargeExtrema!;
     }
+    const current = summarise(currentExtrema);
     result.peaks = {
       from: form ? 'analytic' : 'numeric',
-      current: extremaResult(currentExtrema, 'A', 1, display),
-      capacitorVoltage: extremaResult(chargeExtrema, 'V', 1 / C, display),
+      current: extremaResult(current, 'A', 1, display),
+      capacitorVoltage: extremaResult(summarise(chargeExtrema), 'V', 1 / C, display),
     };
     result.peakCurrent = result.peaks.current.peak.value;
     result.peakTime = result.peaks.current.peak.time;
-    const peakAtEnd = summarise(currentExtrema).peak.t === span;
-    if (peakAtEnd && span > 0) {
+    if (current.peak.t === span) {
       result.warnings.push({ line: 1, column: 1, message: 'the largest current is at the end of the span, so it may be larger later: lengthen the span to find the peak' });
     }
   } catch (err) {
@@ -182,8 +185,7 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
 }
 
 /** The largest value, the smallest and the largest magnitude, each with its time, in `unit` (value × factor). */
-function extremaResult(extrema: Extrema, unit: string, factor: number, display: DisplayOptions): ExtremaResult {
-  const { max, min, peak } = summarise(extrema);
+function extremaResult({ max, min, peak }: ReturnType<typeof summarise>, unit: string, factor: number, display: DisplayOptions): ExtremaResult {
   const shown = (p: { t: number; value: number }) => ({ value: formatValue(math.unit(p.value * factor, unit), display), time: formatValue(math.unit(p.t, 's'), display) });
   return { peak: shown(peak), max: shown(max), min: shown(min) };
 }

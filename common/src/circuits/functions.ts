@@ -154,7 +154,7 @@ export const circuitFunctions = {
   },
   power_factor: (...args: unknown[]) => {
     if (args.length === 1) {
-      const z = c(math.isUnit(args[0]) ? ((args[0] as unknown as { value: Scalar }).value as Scalar) : (args[0] as Scalar));
+      const z = complexOf(args[0]);
       if (cabs(z) === 0) throw new Error('power_factor of a zero quantity is undefined');
       return z.re / cabs(z);
     }
@@ -164,8 +164,8 @@ export const circuitFunctions = {
     return p / positive(s, 'S');
   },
   power_factor_sense: (x: unknown) => {
-    const z = c(math.isUnit(x) ? ((x as unknown as { value: Scalar }).value as Scalar) : (x as Scalar));
-    return powerFactorSense(z.im);
+    const im = complexOf(x).im;
+    return im > 0 ? 'lagging' : im < 0 ? 'leading' : 'unity';
   },
 
   // Three-phase relations (balanced)
@@ -222,29 +222,28 @@ export const circuitFunctions = {
   rms: (peakValue: unknown) => sinusoid(peakValue, 'rms', (x) => math.divide(x as number, Math.SQRT2)),
   peak: (rmsValue: unknown) => markPeak(sinusoid(rmsValue, 'peak', (x) => math.multiply(x as number, Math.SQRT2))),
   total_rms: (spectrum: unknown) => {
-    const h = harmonics(spectrum, 'total_rms');
-    return likeScalar(spectrum, Math.sqrt(h.reduce((acc, x) => acc + x * x, 0)));
+    const { first, magnitudes } = harmonics(spectrum, 'total_rms');
+    return like(first, { re: rootSumSquare(magnitudes), im: 0 });
   },
   thd: (spectrum: unknown) => {
-    const h = harmonics(spectrum, 'thd');
+    const { magnitudes: h } = harmonics(spectrum, 'thd', 50);
     if (h.length < 2) throw new Error('thd needs the fundamental and at least one harmonic: [V_1, V_2, V_3, …]');
-    if (h.length > 50) throw new Error('thd counts harmonics up to the 50th (IEEE Std 519-2014, 3.1): give at most 50 values');
     if (h[0] === 0) throw new Error('thd is relative to the fundamental, which is zero here');
-    return Math.sqrt(h.slice(1).reduce((acc, x) => acc + x * x, 0)) / h[0];
+    return rootSumSquare(h.slice(1)) / h[0];
   },
   tdd: (spectrum: unknown, IL: unknown) => {
-    const h = harmonics(spectrum, 'tdd');
-    if (h.length > 50) throw new Error('tdd counts harmonics up to the 50th (IEEE Std 519-2014, 3.1): give at most 50 values');
-    real(math.abs(spectrumValues(spectrum)[0] as never), 'current', 'the spectrum of tdd');
-    const il = positive(real(IL, 'current', 'I_L'), 'I_L');
-    return Math.sqrt(h.slice(1).reduce((acc, x) => acc + x * x, 0)) / il;
+    const { first, magnitudes: h } = harmonics(spectrum, 'tdd', 50);
+    real(math.abs(first as never), 'current', 'the spectrum of tdd');
+    return rootSumSquare(h.slice(1)) / positive(real(IL, 'current', 'I_L'), 'I_L');
   },
 };
 
-/** Leading or lagging from the sign of X or Q (S = V·I*): lagging when the current lags, Q > 0. */
-export function powerFactorSense(imaginary: number): string {
-  return imaginary > 0 ? 'lagging' : imaginary < 0 ? 'leading' : 'unity';
+/** A complex power or impedance (or a real one) as a complex number in SI. */
+function complexOf(x: unknown): C {
+  return c(math.isUnit(x) ? ((x as unknown as { value: Scalar }).value as Scalar) : (x as Scalar));
 }
+
+const rootSumSquare = (xs: number[]) => Math.sqrt(xs.reduce((acc, x) => acc + x * x, 0));
 
 /** A real magnitude where a complex value would be ambiguous (|S| of a complex power must be asked for). */
 function magnitudeOnly(x: unknown, what: string): number {
@@ -261,29 +260,23 @@ function sinusoid(x: unknown, fn: string, convert: (x: unknown) => unknown): unk
   return convert(x);
 }
 
-/** The elements of a vector or matrix, flattened. */
-function spectrumValues(spectrum: unknown): unknown[] {
-  return ((math.isMatrix(spectrum) ? (spectrum as { toArray(): unknown[] }).toArray() : spectrum) as unknown[]).flat(Infinity) as unknown[];
-}
-
-/** The magnitudes of a spectrum [X_1, X_2, …] (rms, order h at position h), all of one kind, as SI numbers. */
-function harmonics(spectrum: unknown, fn: string): number[] {
+/**
+ * The magnitudes of a spectrum [X_1, X_2, …] (rms, order h at position h), all of one kind, as SI numbers,
+ * with its first element (for its unit); at most `maxOrder` orders where a definition counts only those.
+ */
+function harmonics(spectrum: unknown, fn: string, maxOrder = Infinity): { first: unknown; magnitudes: number[] } {
   if (!(math.isMatrix(spectrum) || Array.isArray(spectrum))) throw new Error(`${fn} takes a spectrum: the rms values [X_1, X_2, X_3, …] of the fundamental and each harmonic`);
-  const values = spectrumValues(spectrum);
+  const values = ((math.isMatrix(spectrum) ? (spectrum as { toArray(): unknown[] }).toArray() : spectrum) as unknown[]).flat(Infinity) as unknown[];
   if (values.length === 0) throw new Error(`${fn} needs at least one value`);
+  if (values.length > maxOrder) throw new Error(`${fn} counts harmonics up to the ${maxOrder}th (IEEE Std 519-2014, 3.1): give at most ${maxOrder} values`);
   const first = values[0];
-  return values.map((x) => {
+  const magnitudes = values.map((x) => {
     if (math.isUnit(first) !== math.isUnit(x) || (math.isUnit(first) && !(first as { equalBase(u: unknown): boolean }).equalBase(x))) {
       throw new Error(`${fn} needs a spectrum of one kind (all voltages or all currents)`);
     }
-    const v = math.isUnit(x) ? ((x as unknown as { value: Scalar }).value as Scalar) : (x as Scalar);
-    return cabs(c(v));
+    return cabs(complexOf(x));
   });
-}
-
-/** A number with the unit of a spectrum's first element. */
-function likeScalar(spectrum: unknown, value: number): unknown {
-  return like(spectrumValues(spectrum)[0], { re: value, im: 0 });
+  return { first, magnitudes };
 }
 
 /** A value made by peak() is marked, so that a function taking rms values can refuse it. */

@@ -118,11 +118,6 @@ export interface Extremum {
   value: number;
 }
 
-export interface Extrema {
-  /** Local extrema inside the span and the values at its two ends, in time order. */
-  points: Extremum[];
-}
-
 export interface NumericSolution {
   t: number[];
   q: number[];
@@ -131,9 +126,12 @@ export interface NumericSolution {
   evaluations: number;
   /** The ends of the solver's steps, from 0 to the span: a grid fine enough to bracket every extremum. */
   grid: number[];
-  /** Extrema of i (di/dt = (E − R i − q/C)/L = 0) and of q (dq/dt = i = 0), from the dense output. */
-  currentExtrema: Extrema;
-  chargeExtrema: Extrema;
+  /**
+   * Extrema of i (di/dt = (E − R i − q/C)/L = 0) and of q (dq/dt = i = 0) from the dense output, with the
+   * values at the two ends of the span, in time order; only when asked for (`extrema`).
+   */
+  currentExtrema?: Extremum[];
+  chargeExtrema?: Extremum[];
 }
 
 const SUBDIVISIONS = 16;
@@ -177,20 +175,18 @@ export function extremaIn(a: number, b: number, value: (t: number) => number, sl
 }
 
 /** Extrema over the whole span on a grid of step ends, with the values at the two ends of the span. */
-export function extremaOnGrid(grid: number[], value: (t: number) => number, slope: (t: number) => number): Extrema {
+export function extremaOnGrid(grid: number[], value: (t: number) => number, slope: (t: number) => number): Extremum[] {
   const points: Extremum[] = [{ t: grid[0], value: value(grid[0]) }];
   for (let k = 1; k < grid.length; k++) extremaIn(grid[k - 1], grid[k], value, slope, points);
   const end = grid[grid.length - 1];
   points.push({ t: end, value: value(end) });
-  return { points };
+  return points;
 }
 
 /** The largest value, the smallest value, and the largest magnitude (with its sign) among extrema. */
-export function summarise(extrema: Extrema): { max: Extremum; min: Extremum; peak: Extremum } {
-  let max = extrema.points[0];
-  let min = extrema.points[0];
-  let peak = extrema.points[0];
-  for (const p of extrema.points) {
+export function summarise(points: Extremum[]): { max: Extremum; min: Extremum; peak: Extremum } {
+  let [max, min, peak] = [points[0], points[0], points[0]];
+  for (const p of points) {
     if (p.value > max.value) max = p;
     if (p.value < min.value) min = p;
     if (Math.abs(p.value) > Math.abs(peak.value)) peak = p;
@@ -199,11 +195,11 @@ export function summarise(extrema: Extrema): { max: Extremum; min: Extremum; pea
 }
 
 /**
- * Solves the circuit numerically at `points` evenly spaced times over [0, span], and finds the extrema
- * of i and q inside every step from the solver's dense output. The solver's steps do not depend on
- * `points`, so neither do the extrema.
+ * Solves the circuit numerically at `points` evenly spaced times over [0, span], recording the ends of
+ * its steps; with `extrema`, also finds the extrema of i and q inside every step from the dense output
+ * (where no closed form gives them). The solver's steps do not depend on `points`, so neither do the extrema.
  */
-export function numericSolution(p: RlcParameters, E: (t: number) => number, span: number, points: number, options: { tolerance?: number; deadline?: number } = {}): NumericSolution {
+export function numericSolution(p: RlcParameters, E: (t: number) => number, span: number, points: number, options: { tolerance?: number; deadline?: number; extrema?: boolean } = {}): NumericSolution {
   const { R, L, C } = p;
   // Scale charge so the solver's absolute tolerance means the same for µC and kC circuits.
   let Emax = 0;
@@ -231,10 +227,12 @@ export function numericSolution(p: RlcParameters, E: (t: number) => number, span
   let last = { q: p.q0, i: p.i0 };
   const out = solver.solve(f, 0, [p.q0 / scale, p.i0 / scale], span, (_n: number, x0: number, x1: number, y: number[], dense?: (c: number, x: number) => number) => {
     if (dense && x1 > x0) {
-      const qAt = (x: number) => dense(0, x) * scale;
-      const iAt = (x: number) => dense(1, x) * scale;
-      extremaIn(x0, x1, iAt, (x) => E(x) - R * iAt(x) - qAt(x) / C, iPoints);
-      extremaIn(x0, x1, qAt, iAt, qPoints);
+      if (options.extrema) {
+        const qAt = (x: number) => dense(0, x) * scale;
+        const iAt = (x: number) => dense(1, x) * scale;
+        extremaIn(x0, x1, iAt, (x) => E(x) - R * iAt(x) - qAt(x) / C, iPoints);
+        extremaIn(x0, x1, qAt, iAt, qPoints);
+      }
       grid.push(x1);
     }
     while (next < points && t[next] <= x1 + 1e-15 * span) {
@@ -254,5 +252,5 @@ export function numericSolution(p: RlcParameters, E: (t: number) => number, span
   if (out.outcome !== 0) throw new Error('the numeric solver did not reach the end of the time span (the circuit may be too stiff for this span)');
   iPoints.push({ t: span, value: last.i });
   qPoints.push({ t: span, value: last.q });
-  return { t, q, i, steps: out.nStep, evaluations: out.nEval, grid, currentExtrema: { points: iPoints }, chargeExtrema: { points: qPoints } };
+  return { t, q, i, steps: out.nStep, evaluations: out.nEval, grid, ...(options.extrema ? { currentExtrema: iPoints, chargeExtrema: qPoints } : {}) };
 }

@@ -5,7 +5,7 @@
  */
 import type { Unit as MathUnit } from 'mathjs';
 import { circuitFunctions } from '../circuits/functions';
-import { asFrequencyKind, dropRidingAngle, frequencyKind } from '../units/quantities';
+import { asFrequencyKind, dropRidingAngle, frequencyKind, isAnglePower } from '../units/quantities';
 import { checkCombined, disableUnsafeFunctions, isUnit, math, operatorRules, withValue } from './math';
 
 const typed = math.typed;
@@ -13,8 +13,6 @@ const ANGLE = 7;
 const dims = (u: MathUnit) => (u as unknown as { dimensions: number[] }).dimensions;
 const isPureAngle = (u: MathUnit) => dims(u).every((x, i) => x === (i === ANGLE ? 1 : 0));
 const isDimensionless = (u: MathUnit) => dims(u).every((x) => x === 0);
-/** Only the angle, to a power other than 0 and 1. */
-const isAnglePower = (u: MathUnit) => dims(u).every((x, i) => (i === ANGLE ? x !== 0 && x !== 1 : x === 0));
 const asRadians = (value: unknown) => withValue(math.unit('rad') as MathUnit, value);
 
 /** Operators that treat the radian as 1 (SI Brochure): rad·Ω meets Ω, and a plain number meets an angle. */
@@ -56,11 +54,12 @@ const TWO_PI = 2 * Math.PI;
 const isTwoPi = (x: unknown) => typeof x === 'number' && Math.abs(x - TWO_PI) <= 4 * Number.EPSILON * TWO_PI;
 const isTime = (u: MathUnit) => dims(u).every((x, i) => x === (i === 2 ? 1 : 0));
 
-/**
- * 2π keeps angular frequency apart from frequency: 2π times a frequency (or 2π over a time) is an
- * angular frequency in rad/s; an angular frequency (or any s⁻¹) over 2π, or one over 2π times a time
- * (1 / (2 pi sqrt(L C))), is a frequency in Hz.
+/*
+ * 2π keeps angular frequency apart from frequency (operatorRules, applied in math.ts's wrappers):
+ * 2π times a frequency (or 2π over a time) is an angular frequency in rad/s; an angular frequency (or
+ * any s⁻¹) over 2π, or one over 2π times a time (1 / (2 pi sqrt(L C))), is a frequency in Hz.
  */
+
 /** Marks 2π times a time (2 pi sqrt(L C)): a period, one over which is a frequency in Hz. */
 const PERIOD = Symbol('period');
 const overPeriod = (out: unknown, divisor: MathUnit) =>

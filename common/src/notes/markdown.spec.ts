@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { linkText, parseNote } from './markdown';
+import { linkText, MAX_NOTE_MATHS, parseNote } from './markdown';
 
 describe('notes as Markdown with maths (markdown-it 14.3.3, CommonMark)', () => {
   it('reads inline and display maths between dollars, and leaves prices alone (pandoc rule, from memory)', () => {
@@ -35,5 +35,12 @@ describe('notes as Markdown with maths (markdown-it 14.3.3, CommonMark)', () => 
 
   it('keeps an escaped dollar as a dollar', () => {
     expect(parseNote('A \\$5 fee and $x$.')[0]).toMatchObject({ inlines: [{ text: 'A $5 fee and ' }, { kind: 'maths', tex: 'x' }, { text: '.' }] });
+  });
+
+  it('typesets at most MAX_NOTE_MATHS formulas in a note and shows the rest as their source', () => {
+    const [p] = parseNote(Array.from({ length: MAX_NOTE_MATHS + 3 }, (_, k) => `$x_${k}$`).join(' '));
+    const inlines = p.kind === 'paragraph' ? p.inlines : [];
+    expect(inlines.filter((r) => r.kind === 'maths')).toHaveLength(MAX_NOTE_MATHS);
+    expect(inlines.at(-1)).toEqual({ kind: 'text', text: `$x_${MAX_NOTE_MATHS + 2}$`, code: true });
   });
 });

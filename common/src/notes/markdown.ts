@@ -92,8 +92,14 @@ const md = new MarkdownIt('commonmark', { html: false, linkify: false, typograph
 md.inline.ruler.after('escape', 'math_inline', inlineMaths);
 md.block.ruler.before('fence', 'math_block', blockMaths, { alt: ['paragraph', 'reference', 'blockquote', 'list'] });
 
-/** The inline children of one block, as runs with their emphasis. */
-function inlinesOf(tokens: Token[] | null): NoteInline[] {
+/**
+ * Formulas typeset in one note; past this, formulas are shown as their LaTeX source, so a hostile note
+ * cannot make the screen or the package typeset without bound (each formula costs about a millisecond).
+ */
+export const MAX_NOTE_MATHS = 500;
+
+/** The inline children of one block, as runs with their emphasis; `budget` counts the formulas left. */
+function inlinesOf(tokens: Token[] | null, budget: { maths: number }): NoteInline[] {
   const out: NoteInline[] = [];
   let strong = 0;
   let emphasis = 0;
@@ -140,7 +146,8 @@ function inlinesOf(tokens: Token[] | null): NoteInline[] {
         break;
       case 'math_inline':
         if (link) link.text += t.content;
-        else out.push({ kind: 'maths', tex: t.content, ...(t.markup === '$$' ? { display: true } : {}) });
+        else if (budget.maths-- > 0) out.push({ kind: 'maths', tex: t.content, ...(t.markup === '$$' ? { display: true } : {}) });
+        else text(`${t.markup}${t.content}${t.markup}`, true);
         break;
       default:
         text(t.content ?? '');
@@ -156,15 +163,16 @@ export function parseNote(source: string): NoteBlock[] {
   let list: Extract<NoteBlock, { kind: 'list' }> | undefined;
   let quote = 0;
   let item: NoteInline[] | undefined;
+  const budget = { maths: MAX_NOTE_MATHS };
   for (let k = 0; k < tokens.length; k++) {
     const t = tokens[k];
     switch (t.type) {
       case 'heading_open':
-        blocks.push({ kind: 'heading', level: Number(t.tag.slice(1)), inlines: inlinesOf(tokens[k + 1].children) });
+        blocks.push({ kind: 'heading', level: Number(t.tag.slice(1)), inlines: inlinesOf(tokens[k + 1].children, budget) });
         k += 2;
         break;
       case 'paragraph_open': {
-        const inlines = inlinesOf(tokens[k + 1].children);
+        const inlines = inlinesOf(tokens[k + 1].children, budget);
         if (item) item.push(...(item.length ? [{ kind: 'break' } as const] : []), ...inlines);
         else blocks.push({ kind: 'paragraph', inlines, ...(quote ? { quote: true } : {}) });
         k += 2;
@@ -195,7 +203,7 @@ export function parseNote(source: string): NoteBlock[] {
         quote--;
         break;
       case 'math_block':
-        blocks.push({ kind: 'maths', tex: t.content });
+        blocks.push(budget.maths-- > 0 ? { kind: 'maths', tex: t.content } : { kind: 'code', text: `$$\n${t.content}\n$$` });
         break;
       case 'fence':
       case 'code_block':

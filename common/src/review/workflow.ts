@@ -9,7 +9,7 @@
  *        ▲                                                                                                  │
  *        └──────────────────────────────────────start-revision─────────────────────────────────────────────┘
  */
-import type { SheetState } from '../api/projects';
+import type { SheetDto, SheetState } from '../api/projects';
 
 /** The roles of PRODUCT.md. A member may hold several; a client holds only `client`. */
 export const ROLES = ['owner', 'engineer', 'checker', 'approver', 'client'] as const;
@@ -60,6 +60,12 @@ export interface SheetFacts {
   openQueries: number;
 }
 
+/** The rulebook's facts of a sheet as the API gives it (the app's view), with its named co-preparers. */
+export function factsOfSheet(sheet: SheetDto): SheetFacts & { coPreparerIds: string[] } {
+  const { state, preparer, checker, approver, openQueries } = sheet;
+  return { state, preparer, checker, approver, openQueries, authors: new Map(sheet.authorIds.map((id) => [id, ''])), coPreparerIds: sheet.coPreparers.map((p) => p.id) };
+}
+
 /** Who wants to act. */
 export interface Actor {
   id: string;
@@ -88,6 +94,8 @@ export interface Refusal {
 }
 
 const is = (actor: Actor, person: Person | null | undefined) => !!person && person.id === actor.id;
+const notYours = (message: string): Refusal => ({ code: WorkflowCode.NotYours, kind: 'forbidden', message });
+const preparedIt = (doing: string): Refusal => ({ code: WorkflowCode.NotIndependent, kind: 'forbidden', message: `You prepared this sheet, so you cannot ${doing}: checking and approval are done by someone else.` });
 
 /**
  * Independent checking (common practice): the checker is none of the revision's authors; the approver is
@@ -109,14 +117,17 @@ export function independenceRefusal(role: 'checker' | 'approver', person: { id: 
   return undefined;
 }
 
-function stateRefusal(move: WorkflowMove, sheet: SheetFacts): Refusal | undefined {
-  const { from, doing } = MOVES[move];
-  if (from.includes(sheet.state)) return undefined;
-  return { code: WorkflowCode.OutOfTurn, kind: 'conflict', message: `You cannot ${doing}: the sheet is ${STATE_WORDS[sheet.state]}, and this needs it ${from.map((s) => STATE_WORDS[s]).join(' or ')}.` };
+/** Refuses `doing` unless the sheet is in one of the states `from` (moves, and the checker's work on queries). */
+export function stateRefusal(state: SheetState, from: readonly SheetState[], doing: string): Refusal | undefined {
+  if (from.includes(state)) return undefined;
+  return { code: WorkflowCode.OutOfTurn, kind: 'conflict', message: `You cannot ${doing}: the sheet is ${STATE_WORDS[state]}, and this needs it ${from.map((s) => STATE_WORDS[s]).join(' or ')}.` };
 }
 
-const notYours = (message: string): Refusal => ({ code: WorkflowCode.NotYours, kind: 'forbidden', message });
-const preparedIt = (doing: string): Refusal => ({ code: WorkflowCode.NotIndependent, kind: 'forbidden', message: `You prepared this sheet, so you cannot ${doing}: checking and approval are done by someone else.` });
+/** Refuses `doing` to anyone but the sheet's assigned checker. */
+export function checkerRefusal(sheet: Pick<SheetFacts, 'checker'>, actor: Actor, doing: string): Refusal | undefined {
+  return is(actor, sheet.checker) ? undefined : notYours(`Only the sheet's assigned checker${sheet.checker ? ` (${sheet.checker.name})` : ''} can ${doing}.`);
+}
+
 
 /**
  * Whether `actor` may make `move` on a sheet now, and if not, why (the first rule that fails, in the
@@ -125,7 +136,7 @@ const preparedIt = (doing: string): Refusal => ({ code: WorkflowCode.NotIndepend
 export function refusalOf(move: WorkflowMove, sheet: SheetFacts, actor: Actor, choice: { checkerId?: string; approverId?: string } = {}): Refusal | undefined {
   const roles = MOVES[move].roles;
   if (!roles.some((r) => actor.roles.includes(r))) return notYours(`Only ${roles.map((r) => `an ${r}`.replace(/^an ([^aeiou])/, 'a $1')).join(' or ')} can ${MOVES[move].doing}.`);
-  const state = stateRefusal(move, sheet);
+  const state = stateRefusal(sheet.state, MOVES[move].from, MOVES[move].doing);
   if (state) return state;
   switch (move) {
     case 'request-check': {
@@ -141,8 +152,8 @@ export function refusalOf(move: WorkflowMove, sheet: SheetFacts, actor: Actor, c
     }
     case 'return':
     case 'pass': {
-      if (!is(actor, sheet.checker)) return notYours(`Only the sheet's assigned checker${sheet.checker ? ` (${sheet.checker.name})` : ''} can ${MOVES[move].doing}.`);
-      if (move === 'return') return undefined;
+      const notChecker = checkerRefusal(sheet, actor, MOVES[move].doing);
+      if (notChecker || move === 'return') return notChecker;
       const independent = independenceRefusal('checker', sheet.checker!, sheet.authors);
       if (independent) return independent;
       if (sheet.openQueries > 0) {

@@ -5,7 +5,7 @@
  */
 import type { Unit as MathUnit } from 'mathjs';
 import { isComplex, isUnit, math } from '../language/math';
-import { frequencyKind } from './quantities';
+import { frequencyKind, isAnglePower } from './quantities';
 
 export type SiValue = number | boolean | string | { re: number; im: number } | SiValue[];
 
@@ -161,8 +161,7 @@ export function formatValue(value: unknown, options: DisplayOptions = DEFAULT_DI
     const u = value as MathUnit;
     const raw = unitValue(u);
     // rad², rad⁻¹, ... alone is a plain number (the radian is 1 in SI).
-    const d = dims(u);
-    if (!target && d[ANGLE] !== 0 && d[ANGLE] !== 1 && d.every((x, i) => i === ANGLE || x === 0)) return formatValue(raw, options);
+    if (!target && isAnglePower(u)) return formatValue(raw, options);
     const baseName = siUnitName(u) ?? '';
     let shownUnit: string;
     let factor: number;

@@ -122,7 +122,14 @@ export function frequencyKind(x: unknown): FrequencyKind | undefined {
   return parts.length === 1 && parts[0].power === 1 && parts[0].unit.name === 'Hz' ? 'cyclic' : 'rate';
 }
 
+const FREQUENCY_UNITS = { angular: math.unit('rad/s') as MathUnit, cyclic: math.unit('Hz') as MathUnit };
+
 /** The same SI value as an angular frequency (rad/s) or a frequency (Hz). */
 export function asFrequencyKind(x: MathUnit, kind: 'angular' | 'cyclic'): MathUnit {
-  return withValue(math.unit(kind === 'angular' ? 'rad/s' : 'Hz') as MathUnit, (x as unknown as { value: unknown }).value);
+  return withValue(FREQUENCY_UNITS[kind], (x as unknown as { value: unknown }).value);
+}
+
+/** Only the angle, to a power other than 0 and 1 (rad², rad⁻¹): a plain number, the radian being 1. */
+export function isAnglePower(u: MathUnit): boolean {
+  return dimensionsOf(u).every((x, i) => (i === ANGLE ? x !== 0 && x !== 1 : x === 0));
 }

@@ -3,8 +3,8 @@ import { useMemo, useState } from 'react';
 import { useParams } from 'react-router-dom';
 import { CautionNotice } from '../components/layout/caution-notice';
 import { PageHeading } from '../components/layout/page-heading';
-import { useMe } from '../features/auth/api/get-me';
-import { EDITABLE_STATES, editRefusal, WorkflowCode } from '@ampwright/common/review/workflow';
+import { actorOf, useMe } from '../features/auth/api/get-me';
+import { EDITABLE_STATES, editRefusal, factsOfSheet, WorkflowCode } from '@ampwright/common/review/workflow';
 import { useSheetQueries } from '../features/review/api/review';
 import { CellReview, type ReviewContext } from '../features/review/components/cell-review';
 import { WorkflowBar } from '../features/review/components/workflow-bar';
@@ -39,7 +39,7 @@ export function SheetPage() {
   const reviewing = (s.checker?.id === uid || s.approver?.id === uid) && s.preparer.id !== uid;
   // Who may change the cells, and why not: the workflow rulebook the server enforces (only the preparer
   // and the co-preparers the preparer named, never the checker or approver, while the sheet is open).
-  const refusal = editRefusal({ state: s.state, preparer: s.preparer, checker: s.checker, approver: s.approver, coPreparerIds: s.coPreparers.map((p) => p.id) }, { id: me.user.id, name: me.user.name, roles: me.roles });
+  const refusal = editRefusal(factsOfSheet(s), actorOf(me));
   const editable = !refusal;
   return (
     <Stack spacing={2}>

@@ -2,7 +2,7 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api, ApiError, setCsrfToken } from '../../../lib/api-client';
 import { authKeys } from './auth-keys';
 
-import type { Role } from '@ampwright/common/review/workflow';
+import type { Actor, Role } from '@ampwright/common/review/workflow';
 
 export type { Role };
 export interface Me {
@@ -11,6 +11,9 @@ export interface Me {
   roles: Role[];
   csrfToken: string;
 }
+
+/** The signed-in person as the workflow rulebook sees them. */
+export const actorOf = (me: Me): Actor => ({ id: me.user.id, name: me.user.name, roles: me.roles });
 
 /** The signed-in user, or null when signed out (a 401 is an answer here, not an error). */
 export async function getMe(signal?: AbortSignal): Promise<Me | null> {

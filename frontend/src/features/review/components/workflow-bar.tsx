@@ -3,8 +3,8 @@ import { Alert, Box, Button, Chip, MenuItem, Paper, Stack, TextField, Typography
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import type { SheetDto } from '@ampwright/common';
-import { allowedMoves, isEditable, refusalOf, WorkflowCode, type Actor, type SheetFacts } from '@ampwright/common/review/workflow';
-import type { Me } from '../../auth/api/get-me';
+import { allowedMoves, factsOfSheet, isEditable, refusalOf, WorkflowCode } from '@ampwright/common/review/workflow';
+import { actorOf, type Me } from '../../auth/api/get-me';
 import { useMembers } from '../../members/api/members';
 import { STATE_LABELS } from '../../sheets/api/sheets';
 import { useCoPreparers, useRequestCheck, useSheetAction, type SheetAction } from '../api/review';
@@ -70,8 +70,8 @@ export function WorkflowBar({ sheet, me }: { sheet: SheetDto; me: Me }) {
   const [returning, setReturning] = useState(false);
   const [note, setNote] = useState('');
   // The rulebook the server enforces says which moves to offer (common/src/review/workflow.ts).
-  const facts: SheetFacts = { state: sheet.state, preparer: sheet.preparer, checker: sheet.checker, approver: sheet.approver, authors: new Map(sheet.authorIds.map((id) => [id, ''])), openQueries: sheet.openQueries };
-  const actor: Actor = { id: me.user.id, name: me.user.name, roles: me.roles };
+  const facts = factsOfSheet(sheet);
+  const actor = actorOf(me);
   const may = new Set(allowedMoves(facts, actor));
   // Pass is shown to the checker while queries are open, disabled, so they see what stands in the way.
   const passRefusal = refusalOf('pass', facts, actor);
