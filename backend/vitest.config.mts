@@ -8,7 +8,8 @@ export default defineConfig({
   resolve: { alias: { '@ampwright/common': fileURLToPath(new URL('../common/src/index.ts', import.meta.url)) } },
   test: {
     projects: [
-      { extends: true, test: { name: 'unit', include: ['src/**/*.spec.ts'] } },
+      // Some specs load MathJax, run poppler or start evaluation processes: a bound for a slow machine, not a speed test.
+      { extends: true, test: { name: 'unit', include: ['src/**/*.spec.ts'], testTimeout: 30000 } },
       {
         extends: true,
         test: { name: 'integration', include: ['test/**/*.test.ts'], fileParallelism: false, testTimeout: 30000, hookTimeout: 60000 },

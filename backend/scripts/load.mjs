@@ -8,6 +8,8 @@
 //    < 250 ms for saves. autocannon corrects the latencies for coordinated omission at a fixed rate.
 // 2. Saturated, for LOAD_SATURATED_SECONDS (15): the same 50 users with no pause at all, to show the
 //    capacity of this machine; printed for information, not judged.
+// For each phase it also prints where a save's time goes on the server (its Server-Timing header):
+// database, evaluation (with the engine's own time inside it) and everything else.
 import autocannon from 'autocannon';
 import { rmSync } from 'node:fs';
 import { createRequire } from 'node:module';
@@ -25,6 +27,8 @@ const SECONDS = Number(process.env.LOAD_SECONDS ?? 60);
 const RATE = Number(process.env.LOAD_RATE ?? 1);
 const READERS = 35;
 const statuses = new Map();
+/** The saves' Server-Timing figures (db, eval, engine, total in ms), summed for the phase running. */
+let saveTimings = { n: 0, db: 0, eval: 0, engine: 0, total: 0 };
 const WRITERS = 15;
 const NOISY_SECONDS = Number(process.env.LOAD_NOISY_SECONDS ?? 20);
 const NOISY_CONNECTIONS = 12;
@@ -67,11 +71,34 @@ function saveRequest(w) {
         body: JSON.stringify({ version: w.version, cell: { kind: 'calc', source: `R_0 = ${1 + (w.n % 50)} ohm\nX_0 = 1 ohm\nZ_0 = sqrt(R_0^2 + X_0^2)\nI_0 = 230 V / Z_0 to A` } }),
       };
     },
-    onResponse: (status, body) => {
-      if (status === 200) w.version = JSON.parse(body).version;
-      else statuses.set(status, (statuses.get(status) ?? 0) + 1);
+    onResponse: (status, body, _context, headers) => {
+      if (status === 200) {
+        w.version = JSON.parse(body).version;
+        addTimings(headers);
+      } else statuses.set(status, (statuses.get(status) ?? 0) + 1);
     },
   };
+}
+
+/** Adds a save's Server-Timing header (`db;dur=1.2, eval;dur=3.4, …`) to the phase's sums. */
+function addTimings(headers) {
+  const raw = Object.entries(headers ?? {}).find(([k]) => k.toLowerCase() === 'server-timing')?.[1];
+  if (!raw) return;
+  saveTimings.n += 1;
+  for (const part of String(raw).split(',')) {
+    const [name, dur] = part.trim().split(';dur=');
+    if (name in saveTimings && name !== 'n') saveTimings[name] += Number(dur) || 0;
+  }
+}
+
+/** Where a save's time went on the server, on average, from the phase's Server-Timing sums. */
+function reportTimings(t) {
+  if (!t.n) return;
+  const mean = (x) => (x / t.n).toFixed(1);
+  const rest = t.total - t.db - t.eval;
+  process.stdout.write(
+    `a save on the server, mean of ${t.n}: ${mean(t.total)} ms = database ${mean(t.db)} ms + evaluation ${mean(t.eval)} ms (the engine's own ${mean(t.engine)} ms) + everything else ${mean(rest)} ms (HTTP, validation, serialisation)\n`,
+  );
 }
 
 /** One figure for a group of users: their latency histograms merged. */
@@ -111,7 +138,7 @@ main(async () => {
   buildAll();
   const env = {
     ...appEnvironment({ dbName: 'ampwright_load', appPort: PORT, smtpPort: 2625, s3Port: 4670 }),
-    THROTTLE_DEFAULT_PER_ADDRESS: '100000000',
+    THROTTLE_DEFAULT_PER_ADDRESS: '10000000',
     LOG_REQUESTS: 'false',
   };
   migrateAndSeed(env);
@@ -135,6 +162,7 @@ main(async () => {
    * bursts. The latency histograms of all users are merged for the figures.
    */
   async function phase(seconds, rate) {
+    saveTimings = { n: 0, db: 0, eval: 0, engine: 0, total: 0 };
     // The last save of a previous phase may have been cut off before its answer: start from the truth.
     for (const w of writers) w.version = (await json(`/sheets/${w.sheetId}`, { session: w.session })).data.version;
     const pause = (k, n) => new Promise((r) => setTimeout(r, rate > 0 ? (k * 1000) / (n * rate) : 0));
@@ -150,7 +178,8 @@ main(async () => {
       await pause(k, WRITERS);
       return user([saveRequest(w)]);
     });
-    return [summarise(await Promise.all(readers), seconds), summarise(await Promise.all(savers), seconds)];
+    const figures = [summarise(await Promise.all(readers), seconds), summarise(await Promise.all(savers), seconds)];
+    return [...figures, saveTimings];
   }
 
   /**
@@ -200,7 +229,7 @@ main(async () => {
 
   const saturatedSeconds = Number(process.env.LOAD_SATURATED_SECONDS ?? 15);
   log(`paced: ${READERS} readers and ${WRITERS} writers, each ${RATE} request(s) a second, for ${SECONDS} s against ${BASE}`);
-  const [r, w] = await phase(SECONDS, RATE);
+  const [r, w, pacedTimings] = await phase(SECONDS, RATE);
   const pacedStatuses = new Map(statuses);
   statuses.clear();
   let saturated = [];
@@ -218,11 +247,13 @@ main(async () => {
   process.stdout.write(`\nLoad, paced: ${READERS + WRITERS} users, each ${RATE} request(s) a second, for ${SECONDS} s on ${BASE} (${day}, ${cpus().length} cores)\n`);
   report('reads', r, 100);
   report('saves', w, 250);
+  reportTimings(pacedTimings);
   if (pacedStatuses.size) process.stdout.write(`saves answered other than 200: ${[...pacedStatuses].map(([k, v]) => `${v} × ${k}`).join(', ')}\n`);
   if (saturated.length) {
     process.stdout.write(`\nLoad, saturated (for information): the same users with no pause, for ${saturatedSeconds} s\n`);
     report('reads', saturated[0]);
     report('saves', saturated[1]);
+    reportTimings(saturated[2]);
     if (statuses.size) process.stdout.write(`saves answered other than 200: ${[...statuses].map(([k, v]) => `${v} × ${k}`).join(', ')}\n`);
   }
   if (noisy) {

@@ -4,7 +4,7 @@
 // For local work only: TEST_LAYERS=api,e2e runs the layers whose names contain those words, and
 // arguments after `--` go to vitest (`npm test -- attachments` runs matching files).
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
-import { join } from 'node:path';
+import { join, relative } from 'node:path';
 import { DATA, ROOT, appEnvironment, settings } from './lib/env.mjs';
 import { log, main, run, stopOnSignals } from './lib/proc.mjs';
 
@@ -35,7 +35,23 @@ function runLayer(name, cwd, args, env) {
   const failed = (json.numFailedTests ?? 0) + (json.numFailedTestSuites && !json.numFailedTests ? json.numFailedTestSuites : 0);
   const skipped = (json.numPendingTests ?? 0) + (json.numTodoTests ?? 0);
   const ok = exitCode === 0 && failed === 0 && passed > 0;
-  return { name, passed, failed, skipped, ok, note: passed === 0 ? 'no test ran' : '' };
+  return { name, passed, failed, skipped, ok, note: passed === 0 ? 'no test ran' : '', failures: failuresOf(json) };
+}
+
+/** Each failed test (or file that failed to load) with the first lines of its message, for the summary at the end. */
+function failuresOf(json) {
+  const out = [];
+  for (const file of json.testResults ?? []) {
+    const path = relative(ROOT, file.name ?? '');
+    const failedTests = (file.assertionResults ?? []).filter((t) => t.status === 'failed');
+    for (const t of failedTests) out.push({ where: `${path} > ${t.fullName ?? t.title}`, message: firstLines(t.failureMessages?.[0]) });
+    if (!failedTests.length && file.status === 'failed') out.push({ where: path, message: firstLines(file.message) });
+  }
+  return out;
+}
+
+function firstLines(text) {
+  return String(text ?? '').replace(/\u001b\[[0-9;]*m/g, '').split('\n').filter((l) => l.trim()).slice(0, 3).join(' | ').slice(0, 400);
 }
 
 /** Type-checks every project, tests included (the same as `npm run typecheck`); one count per project. */
@@ -107,5 +123,10 @@ main(async () => {
     process.stdout.write(`  ${l.ok ? 'PASS' : 'FAIL'}  ${l.name.padEnd(18)} ${l.passed} passed, ${l.failed} failed${l.skipped ? `, ${l.skipped} skipped` : ''}${l.note ? `  (${l.note})` : ''}\n`);
   }
   process.stdout.write(`${total.passed} passed, ${total.failed} failed${total.skipped ? `, ${total.skipped} skipped` : ''}\n`);
+  const failures = layers.flatMap((l) => (l.failures ?? []).map((f) => ({ layer: l.name, ...f })));
+  if (failures.length) {
+    process.stdout.write('\nFailed\n');
+    for (const f of failures.slice(0, 20)) process.stdout.write(`  [${f.layer}] ${f.where}\n      ${f.message}\n`);
+  }
   return layers.every((l) => l.ok) ? 0 : 1;
 });

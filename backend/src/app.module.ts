@@ -25,6 +25,7 @@ import { TemplatesModule } from './templates/templates.module';
 import type { Environment } from './config/environment';
 import { AllExceptionsFilter } from './core/filters/all-exceptions.filter';
 import { RequestLoggerMiddleware } from './core/middleware/request-logger.middleware';
+import { ServerTimingMiddleware } from './core/timing/server-timing';
 import { ormConfig } from './database/mikro-orm.config';
 import { EvaluationModule } from './evaluation/evaluation.module';
 import { DemoAccountsCheck } from './database/demo-accounts.check';
@@ -87,6 +88,6 @@ const staticFrontEnd = ServeStaticModule.forRootAsync({
 })
 export class AppModule implements NestModule {
   configure(consumer: MiddlewareConsumer): void {
-    consumer.apply(RequestLoggerMiddleware).forRoutes('*');
+    consumer.apply(RequestLoggerMiddleware, ServerTimingMiddleware).forRoutes('*');
   }
 }

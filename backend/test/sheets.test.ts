@@ -1,6 +1,7 @@
 import type { INestApplication } from '@nestjs/common';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { as, makeCaller, type Caller } from './support/sessions';
+import { expectStoredAsFresh } from './support/stored-results';
 import { createTestApp } from './support/test-app';
 
 describe('projects and sheets', () => {
@@ -108,7 +109,7 @@ describe('projects and sheets', () => {
     expect(sheet.body.cells).toHaveLength(1);
   });
 
-  it('refuses a stale save with 409 and the current sheet, and of two saves at once exactly one wins', async () => {
+  it('refuses a stale save with 409 and what the editor needs to merge, and of two saves at once exactly one wins', async () => {
     const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-105', title: 'Race' }).expect(201);
     const id = created.body.id;
     const first = await as(app, engineer, 'post', `/api/sheets/${id}/cells`).send({ version: 1, position: 0, cell: { kind: 'calc', source: 'x = 1' } }).expect(201);
@@ -123,6 +124,9 @@ describe('projects and sheets', () => {
     expect(loser.body.current.version).toBe(3);
     const now = await as(app, engineer, 'get', `/api/sheets/${id}`).expect(200);
     expect(loser.body.current.cells[0].fields.source).toBe(now.body.cells[0].fields.source);
+    // The cells' content, order and state: not the whole sheet, and no results.
+    expect(Object.keys(loser.body.current).sort()).toEqual(['cells', 'state', 'version']);
+    expect(loser.body.current.cells[0]).toMatchObject({ id: cellId, position: 0, results: null });
     expect(['x = 2', 'x = 3']).toContain(now.body.cells[0].fields.source);
   });
 
@@ -161,6 +165,29 @@ describe('projects and sheets', () => {
     const now = (await as(app, engineer, 'get', `/api/sheets/${id}`).expect(200)).body;
     expect(now.cells[0].fields.source).toBe('a = 6');
     expect(now.cells[0].results.values).toEqual({ a: expect.objectContaining({ si: 6 }) });
+  });
+
+  it('stores, after every kind of change, exactly the results a fresh evaluation gives', async () => {
+    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({
+      number: 'C-110',
+      sheet: { format: 'ampwright.sheet/1', title: 'Incremental', cells: [{ kind: 'calc', source: 'a = 1 A' }, { kind: 'calc', source: 'b = a * 2 ohm' }, { kind: 'check', condition: 'b <= 3 V', basis: 'probe' }] },
+    }).expect(201);
+    const id = created.body.id;
+    let version = created.body.version;
+    const [a, b] = created.body.cells;
+    const save = async (req: Promise<{ body: { version: number } }>) => {
+      version = (await req).body.version;
+      return expectStoredAsFresh(app, engineer, id);
+    };
+    // A cell with the same content as the one after it, at that one's place: the cache's entry for the
+    // place matches it, so only what the change touched tells which cell's results to write.
+    await save(as(app, engineer, 'post', `/api/sheets/${id}/cells`).send({ version, position: 1, cell: { kind: 'calc', source: 'b = a * 2 ohm' } }).expect(201));
+    await save(as(app, engineer, 'patch', `/api/sheets/${id}/cells/${a.id}`).send({ version, cell: { kind: 'calc', source: 'a = 2 A' } }).expect(200));
+    await save(as(app, engineer, 'post', `/api/sheets/${id}/cells/${b.id}/move`).send({ version, position: 0 }).expect(200));
+    await save(as(app, engineer, 'delete', `/api/sheets/${id}/cells/${b.id}?version=${version}`).expect(200));
+    await save(as(app, engineer, 'patch', `/api/sheets/${id}`).send({ version, settings: { significantDigits: 6 } }).expect(200));
+    const last = await save(as(app, engineer, 'patch', `/api/sheets/${id}/cells/${a.id}`).send({ version, cell: { kind: 'calc', source: 'a = 1 A' } }).expect(200));
+    expect(last.cells.at(-1).results).toMatchObject({ kind: 'check', pass: true });
   });
 
   it('turns a CSV upload into a table cell, and stores nothing when a row is bad or the file is not text', async () => {

@@ -8,7 +8,7 @@ export { CIRCUIT_FUNCTION_NAMES } from './circuits/functions';
 export { analyticSolution, numericSolution, dampingOf } from './circuits/transient';
 export { toContractJson, type ContractOutput } from './cells/contract';
 export { csvToTableCell, type CsvTableResult } from './sheet/csv-table';
-export type { AttachmentDto, CoPreparersBody, ProjectPeopleDto, CellDto, ProjectDto, SaveResultDto, SheetDto, SheetState, SheetSummaryDto, TemplateSummaryDto } from './api/projects';
+export type { AttachmentDto, CoPreparersBody, ProjectPeopleDto, CellDto, ProjectDto, SaveResultDto, SheetContentsDto, SheetDto, SheetState, SheetSummaryDto, TemplateSummaryDto } from './api/projects';
 export { MAX_PASSWORD_BYTES, MIN_PASSWORD_LENGTH } from './api/accounts';
 export { PALETTE } from './plot/palette';
 export { sweepChart, transientChart, calcFigures, transientSummary, KIND_LABELS, kindLabel, checkPresentation, type CalcFigure, type SummaryRow, type Tone } from './plot/index';

@@ -4,6 +4,7 @@ import { EvaluationPool } from './evaluation-pool';
 
 const sheet = (source: string, more: SheetFile['cells'] = []): SheetFile => ({ format: 'ampwright.sheet/1', title: 'Pool', cells: [{ kind: 'calc', source }, ...more] });
 const RUNAWAY = sheet('M = ones(316, 316)\nP = M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M');
+const MANY: SheetFile = { format: 'ampwright.sheet/1', title: 'Many', cells: Array.from({ length: 2000 }, (_, k) => ({ kind: 'calc' as const, source: `M_${k} = ones(120, 120) * ones(120, 120)` })) };
 const HOG = sheet(Array.from({ length: 600 }, (_, k) => `a_${k} = ones(100000)`).join('\n'));
 
 describe('EvaluationPool (child processes from dist/)', () => {
@@ -15,15 +16,22 @@ describe('EvaluationPool (child processes from dist/)', () => {
   afterAll(() => pool.close());
 
   it('evaluates a sheet and keeps its cache in the process that evaluated it', async () => {
-    const first = await pool.run({ kind: 'evaluate', sheet: sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 2 ohm' }]), key: 's1' }, { tenant: 'a', key: 's1' });
+    const first = await pool.run({ kind: 'evaluate', sheet: sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 2 ohm' }]), key: 's1', version: 7 }, { tenant: 'a', key: 's1' });
     expect(first.ok && first.value.evaluated).toEqual([0, 1]);
-    const second = await pool.run({ kind: 'evaluate', sheet: sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 4 ohm' }]), key: 's1' }, { tenant: 'a', key: 's1' });
+    expect(first.ok && first.value.reusedFrom).toBeNull();
+    const second = await pool.run({ kind: 'evaluate', sheet: sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 4 ohm' }]), key: 's1', version: 8 }, { tenant: 'a', key: 's1' });
     expect(second.ok && second.value.evaluated).toEqual([1]);
+    // The version whose cache was reused, for the server to tell which stored results it may keep.
+    expect(second.ok && second.value.reusedFrom).toBe(7);
     expect(second.ok && (second.value.cells[1] as { values: Record<string, { si: number }> }).values.y.si).toBe(0.5);
   });
 
   it('stops a task at its deadline (the process lives on) or past its memory cap (the process is replaced), and carries on', async () => {
     expect(await pool.run({ kind: 'evaluate', sheet: RUNAWAY }, { tenant: 'a' })).toMatchObject({ ok: false, reason: 'timeout' });
+    // Many cells, each quick: the evaluation stops itself between them and says at which.
+    const many = await pool.run({ kind: 'evaluate', sheet: MANY }, { tenant: 'b' });
+    expect(many).toMatchObject({ ok: false, reason: 'timeout' });
+    expect(!many.ok && many.cell).toBeGreaterThan(0);
     expect(await pool.run({ kind: 'evaluate', sheet: HOG }, { tenant: 'a' })).toMatchObject({ ok: false, reason: 'memory' });
     const after = await pool.run({ kind: 'evaluate', sheet: sheet('x = 1 + 1') }, { tenant: 'a' });
     expect(after.ok && after.value.cells[0].status).toBe('ok');

@@ -21,7 +21,8 @@ export interface PoolLimits {
 }
 
 export type PoolFailure = 'timeout' | 'memory' | 'crash' | 'busy';
-export type PoolOutcome<T> = { ok: true; value: T } | { ok: false; reason: PoolFailure; message: string };
+/** `cell`: for a task stopped at its deadline, the index of the cell it was evaluating, when known. */
+export type PoolOutcome<T> = { ok: true; value: T } | { ok: false; reason: PoolFailure; message: string; cell?: number };
 
 /** A place in a tenant's queue held before the work that needs it (a save reserves before it writes). */
 export interface Reservation {
@@ -215,7 +216,7 @@ export class EvaluationPool {
       if (msg.ok) job.resolve({ ok: true, value: msg.value });
       else if (msg.timeout) {
         this.penalised.set(job.tenant, Date.now() + PENALTY_MS);
-        job.resolve({ ok: false, reason: 'timeout', message: this.tookTooLong() });
+        job.resolve({ ok: false, reason: 'timeout', message: this.tookTooLong(), cell: msg.cell });
       } else job.resolve({ ok: false, reason: 'crash', message: msg.message });
       this.dispatch();
     });

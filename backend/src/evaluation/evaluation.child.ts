@@ -11,21 +11,30 @@ import { isPlainText } from '../files/plain-text';
 import type { SandboxReply, SandboxRequest, SandboxTask, TaskResults } from './sandbox-protocol';
 
 const KEPT = 64;
-const caches = new Map<string, EvaluationCache>();
+/** By sheet id: the cache of the last evaluation of that sheet, and the version it evaluated (null: unknown). */
+const caches = new Map<string, { version: number | null; cache: EvaluationCache }>();
 
-class Stopped extends Error {}
+/** The evaluation stopped at its deadline while evaluating cell `cell` (an index). */
+class Stopped extends Error {
+  constructor(readonly cell: number | undefined) {
+    super('stopped at its deadline');
+  }
+}
 
 function evaluate(task: Extract<SandboxTask, { kind: 'evaluate' }>, timeoutMs: number): TaskResults['evaluate'] {
-  const previous = task.key ? caches.get(task.key) : undefined;
+  const kept = task.key ? caches.get(task.key) : undefined;
   if (task.key) caches.delete(task.key); // kept again only if this evaluation finishes
-  const outcome = runWithDeadline(Date.now() + timeoutMs, () => evaluateSheet(task.sheet, previous));
-  if (outcome.passed) throw new Stopped();
+  let at: number | undefined;
+  const started = performance.now();
+  const outcome = runWithDeadline(Date.now() + timeoutMs, () => evaluateSheet(task.sheet, kept?.cache, (index) => (at = index)));
+  if (outcome.passed) throw new Stopped(at);
+  const engineMs = performance.now() - started;
   const evaluation = outcome.value;
   if (task.key) {
-    caches.set(task.key, evaluation.cache);
+    caches.set(task.key, { version: task.version ?? null, cache: evaluation.cache });
     if (caches.size > KEPT) caches.delete(caches.keys().next().value as string);
   }
-  return { cells: evaluation.cells, engineVersion: ENGINE_VERSION, evaluated: evaluation.evaluated };
+  return { cells: evaluation.cells, engineVersion: ENGINE_VERSION, evaluated: evaluation.evaluated, reusedFrom: kept ? kept.version : null, engineMs };
 }
 
 async function certificate(task: Extract<SandboxTask, { kind: 'certificate' }>): Promise<TaskResults['certificate']> {
@@ -54,7 +63,7 @@ const reply = (message: SandboxReply) => process.send?.(message);
 process.on('message', (message: SandboxRequest) => {
   run(message.task, message.timeoutMs).then(
     (value) => reply({ id: message.id, ok: true, value }),
-    (err: Error) => reply(err instanceof Stopped ? { id: message.id, ok: false, message: 'stopped at its deadline', timeout: true } : { id: message.id, ok: false, message: err.message }),
+    (err: Error) => reply(err instanceof Stopped ? { id: message.id, ok: false, message: err.message, timeout: true, cell: err.cell } : { id: message.id, ok: false, message: err.message }),
   );
 });
 // The server went away (or was killed): nothing is left running.

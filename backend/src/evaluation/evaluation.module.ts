@@ -1,6 +1,7 @@
 import { Module } from '@nestjs/common';
 import { EvaluationController } from './evaluation.controller';
 import { EvaluationService } from './evaluation.service';
+import { SheetEvaluator } from './sheet-evaluator';
 
-@Module({ controllers: [EvaluationController], providers: [EvaluationService], exports: [EvaluationService] })
+@Module({ controllers: [EvaluationController], providers: [EvaluationService, SheetEvaluator], exports: [EvaluationService, SheetEvaluator] })
 export class EvaluationModule {}

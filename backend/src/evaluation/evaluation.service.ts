@@ -1,20 +1,16 @@
 import { HttpStatus, Injectable, OnModuleDestroy } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
-import type { CellResult, CsvTableResult, SheetFile } from '@ampwright/common';
+import type { CsvTableResult } from '@ampwright/common';
 import type { Environment } from '../config/environment';
 import { AppException } from '../core/errors/app-exception';
 import type { CertificateFacts } from '../packages/signing';
 import { EvaluationPool, type PoolFailure, type PoolOutcome, type Reservation } from './evaluation-pool';
+import type { TaskKind, TaskOf, TaskResults } from './sandbox-protocol';
 import { EvaluationErrorCode } from '@ampwright/common';
 
 export type { Reservation } from './evaluation-pool';
 
 export { EvaluationErrorCode };
-
-/** What evaluating a sheet gave: every cell's results, or why the sheet as a whole could not be evaluated. */
-export type EvaluationOutcome =
-  | { ok: true; cells: CellResult[]; engineVersion: string; evaluated: number[] }
-  | { ok: false; reason: PoolFailure; message: string };
 
 const CODES: Record<PoolFailure, EvaluationErrorCode> = {
   timeout: EvaluationErrorCode.Timeout,
@@ -71,18 +67,9 @@ export class EvaluationService implements OnModuleDestroy {
     }
   }
 
-  /** Evaluates a sheet for a firm; `key` (a stored sheet's id) lets a process reuse what it kept of that sheet. */
-  async evaluate(sheet: SheetFile, options: { firm: string; key?: string; reservation?: Reservation }): Promise<EvaluationOutcome> {
-    const outcome = await this.pool.run({ kind: 'evaluate', sheet, key: options.key }, { tenant: options.firm, key: options.key, reservation: options.reservation });
-    if (outcome.ok) return { ok: true, ...outcome.value };
-    return { ok: false, reason: outcome.reason, message: this.sentence(outcome.reason, outcome.message) };
-  }
-
-  /** As evaluate, for callers that answer HTTP: a sheet that cannot be evaluated is 422 (429 when busy). */
-  async evaluateOrThrow(sheet: SheetFile, options: { firm: string }): Promise<{ engineVersion: string; cells: CellResult[] }> {
-    const outcome = await this.evaluate(sheet, options);
-    if (!outcome.ok) throw this.failure(outcome.reason, outcome.message, true);
-    return { engineVersion: outcome.engineVersion, cells: outcome.cells };
+  /** Runs a task in an evaluation process (sheets go through SheetEvaluator, which says what came of them). */
+  run<K extends TaskKind>(task: TaskOf<K>, options: { tenant: string; key?: string; reservation?: Reservation }): Promise<PoolOutcome<TaskResults[K]>> {
+    return this.pool.run(task, options);
   }
 
   /** Parses an uploaded CSV off the main thread (common/src/sheet/csv-table.ts). */
@@ -100,7 +87,8 @@ export class EvaluationService implements OnModuleDestroy {
     return outcome.value;
   }
 
-  private failure(reason: PoolFailure, detail: string, worded = false): AppException {
+  /** The HTTP error for work that could not be done: 429 when busy, 422 otherwise. */
+  failure(reason: PoolFailure, detail: string, worded = false): AppException {
     const message = worded ? detail : this.sentence(reason, detail, 'upload');
     return new AppException(CODES[reason], message, reason === 'busy' ? HttpStatus.TOO_MANY_REQUESTS : HttpStatus.UNPROCESSABLE_ENTITY);
   }

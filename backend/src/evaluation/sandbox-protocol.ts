@@ -6,9 +6,21 @@
 import type { CellResult, CsvTableResult, SheetFile } from '@ampwright/common';
 import type { CertificateFacts } from '../packages/signing';
 
+/** What evaluating a sheet gave, as the process knows it. */
+export interface SheetEvaluated {
+  cells: CellResult[];
+  engineVersion: string;
+  /** Indexes of the cells evaluated afresh; the others' results came from the kept cache. */
+  evaluated: number[];
+  /** The `version` of the evaluation whose cache was reused (null: none was, every cell was evaluated). */
+  reusedFrom: number | null;
+  /** The engine's own time on the sheet, in ms (without the messages to and from the process). */
+  engineMs: number;
+}
+
 export interface TaskResults {
   /** Evaluates a sheet; `key` (a stored sheet's id) lets the process reuse what it kept of that sheet. */
-  evaluate: { cells: CellResult[]; engineVersion: string; evaluated: number[] };
+  evaluate: SheetEvaluated;
   /** Parses an uploaded CSV as a table cell; `binary` when the bytes are not UTF-8 text. */
   csv: CsvTableResult | { ok: false; binary: true };
   /** Opens an uploaded PKCS#12 file and describes its certificate. */
@@ -16,7 +28,8 @@ export interface TaskResults {
 }
 
 export type SandboxTask =
-  | { kind: 'evaluate'; sheet: SheetFile; key?: string }
+  /** `version`: the stored sheet's version being evaluated, kept with the cache and reported back as `reusedFrom`. */
+  | { kind: 'evaluate'; sheet: SheetFile; key?: string; version?: number }
   | { kind: 'csv'; bytes: Uint8Array }
   | { kind: 'certificate'; p12: Uint8Array; password: string };
 
@@ -33,5 +46,5 @@ export interface SandboxRequest {
 export type SandboxReply =
   | { ready: true }
   | { id: number; ok: true; value: TaskResults[TaskKind] }
-  /** `timeout`: the evaluation stopped itself at its soft deadline. */
-  | { id: number; ok: false; message: string; timeout?: true };
+  /** `timeout`: the evaluation stopped itself at its soft deadline; `cell`: the index of the cell it was evaluating. */
+  | { id: number; ok: false; message: string; timeout?: true; cell?: number };

@@ -7,6 +7,8 @@ import { AuditEvent } from '../audit/entities/audit-event.entity';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService } from '../evaluation/evaluation.service';
+import { SheetEvaluator } from '../evaluation/sheet-evaluator';
+import { SheetErrorCode } from '@ampwright/common';
 import { Cell } from '../sheets/entities/cell.entity';
 import { Sheet } from '../sheets/entities/sheet.entity';
 import { SheetsService } from '../sheets/sheets.service';
@@ -37,6 +39,13 @@ export interface RevisionSnapshot {
   packageOptions?: { queryRegister: boolean };
 }
 
+/** A sheet evaluated afresh for its issue, at `version`. */
+export interface FreshEvaluation {
+  version: number;
+  engineVersion: string;
+  cells: CellResult[];
+}
+
 export const sha256Of = (value: unknown) => createHash('sha256').update(canonicalJson(value)).digest('hex');
 
 const iso = (d?: Date) => d?.toISOString() ?? null;
@@ -47,6 +56,7 @@ export class RevisionsService {
     private readonly em: EntityManager,
     private readonly sheets: SheetsService,
     private readonly evaluation: EvaluationService,
+    private readonly evaluator: SheetEvaluator,
   ) {}
 
   /** The firm's choice, read from its row (the request's firm entity may be partly loaded). */
@@ -55,12 +65,32 @@ export class RevisionsService {
     return !!row?.package_query_register;
   }
 
-  /** Builds and stores the snapshot of a sheet (locked by the caller) as its next revision. */
-  async freeze(em: EntityManager, sheet: Sheet): Promise<Revision> {
+  /**
+   * Evaluates a sheet afresh (never from a cache) for its issue, outside any lock: what this engine gives
+   * for the sheet as it stands at the version returned. freeze() then checks, under the lock, that the
+   * sheet is still at that version.
+   */
+  async evaluateForIssue(auth: AuthContext, id: string): Promise<FreshEvaluation> {
+    const em = this.em.fork();
+    const sheet = await em.findOneOrFail(Sheet, { id, project: { firm: auth.session.firm.id } });
+    const cells = await em.find(Cell, { sheet }, { orderBy: { position: 'asc' }, exclude: ['results'] });
+    const outcome = await this.evaluator.evaluate(this.sheets.toFile(sheet, cells), { firm: auth.session.firm.id });
+    if (!outcome.ok) throw this.evaluation.failure(outcome.reason, outcome.message, true);
+    return { version: sheet.version, engineVersion: outcome.engineVersion, cells: outcome.results };
+  }
+
+  /**
+   * Builds and stores the snapshot of a sheet (locked by the caller) as its next revision, with the results
+   * of `fresh` (evaluateForIssue, run before the lock was taken). Refused when the sheet moved on since.
+   */
+  async freeze(em: EntityManager, sheet: Sheet, fresh: FreshEvaluation): Promise<Revision> {
+    if (sheet.version !== fresh.version) {
+      throw new AppException(SheetErrorCode.StaleVersion, 'The sheet changed while it was being evaluated for issue, so nothing was issued. Issue it again.', HttpStatus.CONFLICT);
+    }
     const cells = await em.find(Cell, { sheet }, { orderBy: { position: 'asc' } });
     const file = this.sheets.toFile(sheet, cells);
     // Evaluated afresh, so the snapshot's results are exactly what this engine gives for this sheet.
-    const outcome = await this.evaluation.evaluateOrThrow(file, { firm: sheet.project.firm.id });
+    const outcome = fresh;
     // What was checked is what is issued: the fresh results must be the ones stored, which the checker saw.
     const stable = (v: unknown) => canonicalJson(JSON.parse(JSON.stringify(v ?? null)));
     const drifted = cells.map((c, k) => ({ position: k + 1, same: stable(c.results) === stable(outcome.cells[k]) })).filter((c) => !c.same);
@@ -128,6 +158,8 @@ export class RevisionsService {
       Object.assign(cell, { position, kind, fields, results: snap.results[position] ?? undefined, agreedBy: undefined, agreedAt: undefined, changedAfterAgreement: false });
     });
     for (const extra of existing.values()) em.remove(extra);
+    // The stored results are now the snapshot's, not those of an evaluation of a version.
+    sheet.resultsVersion = null;
   }
 
   toSummary(r: Revision): RevisionSummaryDto {

@@ -37,14 +37,15 @@ export class WorkflowService {
   ) {}
 
   /** Runs `act` on the sheet locked for update, then records the event and tells people. */
-  private async locked<T>(auth: AuthContext, id: string, act: (sheet: Sheet, em: EntityManager) => Promise<T>): Promise<{ sheet: Sheet; out: T }> {
+  private async locked<T>(auth: AuthContext, id: string, act: (sheet: Sheet, em: EntityManager) => Promise<T>, options: { readOnly?: boolean } = {}): Promise<{ sheet: Sheet; out: T }> {
     await this.sheets.findReadable(auth, id);
     let sheet!: Sheet;
     let out!: T;
     await this.em.transactional(async (em) => {
-      sheet = await em.findOneOrFail(Sheet, { id }, { lockMode: LockMode.PESSIMISTIC_WRITE });
+      sheet = await em.findOneOrFail(Sheet, { id }, { lockMode: options.readOnly ? undefined : LockMode.PESSIMISTIC_WRITE });
       await em.populate(sheet, ['preparer', 'checker', 'approver', 'project', 'project.firm']);
       out = await act(sheet, em);
+      if (options.readOnly) return;
       sheet.version += 1;
       await em.flush();
     });
@@ -136,11 +137,17 @@ export class WorkflowService {
     return this.sheets.get(auth, id);
   }
 
-  /** Freezes the sheet as the next revision: an immutable snapshot with its SHA-256. */
+  /**
+   * Freezes the sheet as the next revision: an immutable snapshot with its SHA-256. The sheet is evaluated
+   * afresh before its row is locked (nothing slow runs inside the lock); the lock then checks the move
+   * and that the sheet is still at the version evaluated.
+   */
   async issue(auth: AuthContext, id: string) {
+    await this.locked(auth, id, async (s, em) => requireMove('issue', auth, factsOf(s, await notIndependent(em, s))), { readOnly: true });
+    const fresh = await this.revisions.evaluateForIssue(auth, id);
     const { sheet, out: revision } = await this.locked(auth, id, async (s, em) => {
       requireMove('issue', auth, factsOf(s, await notIndependent(em, s)));
-      const revision = await this.revisions.freeze(em, s);
+      const revision = await this.revisions.freeze(em, s, fresh);
       // The signed package is made by a worker, off this request (see PackagesService).
       em.persist(new PackageJob(revision));
       s.state = 'issued';

@@ -1,11 +1,14 @@
-import { createHash } from 'node:crypto';
+import { randomUUID } from 'node:crypto';
 import { UniqueConstraintViolationException } from '@mikro-orm/core';
 import { EntityManager } from '@mikro-orm/mariadb';
 import { HttpStatus, Injectable } from '@nestjs/common';
-import { EDITABLE_STATES, editRefusal, WorkflowCode, cellSchema, parseSheetFile, revisionCode, SHEET_FORMAT, unevaluatedResults, type CellDto, type CellResult, type SaveResultDto, type SheetDto, type SheetFile } from '@ampwright/common';
+import { EDITABLE_STATES, editRefusal, WorkflowCode, cellSchema, parseSheetFile, SHEET_FORMAT, unevaluatedResults, type CellDto, type CellResult, type SaveResultDto, type SheetDto, type SheetFile } from '@ampwright/common';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService, type Reservation } from '../evaluation/evaluation.service';
+import { SheetEvaluator } from '../evaluation/sheet-evaluator';
+import { addTiming, timed } from '../core/timing/server-timing';
+import { SheetRepository, type CellRecord } from './sheet.repository';
 import { Membership } from '../firms/entities/membership.entity';
 import { authorsOf, nameCoPreparers, recordEdit } from './sheet-authors';
 import { ProjectsService } from '../projects/projects.service';
@@ -15,9 +18,7 @@ import { Cell } from './entities/cell.entity';
 import { Sheet, type SheetState } from './entities/sheet.entity';
 import { actorOf, enforce } from '../core/errors/refusal';
 import { sheetFromFile } from './sheet-file';
-import { User } from '../users/entities/user.entity';
 import { AuditService } from '../audit/audit.service';
-import { CellQuery } from '../review/entities/cell-query.entity';
 import { SheetErrorCode } from '@ampwright/common';
 
 export { SheetErrorCode };
@@ -29,84 +30,29 @@ export type CellView = CellDto;
 export type SheetView = SheetDto;
 export type SaveResult = SaveResultDto;
 
-/** A cell row as read for a sheet's view, without loading entities (reads are the hot path). */
-interface CellRow {
-  id: string;
-  position: number;
-  kind: string;
-  fields: unknown;
-  results: unknown;
-  changed_at: Date | string;
-  changed_after_agreement: number | boolean;
-  changed_by: string | null;
-  agreed_by: string | null;
-}
-
-const parsedJson = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);
-const sha1 = (text: string) => createHash('sha1').update(text, 'utf8').digest('hex');
-
-const rowView = (r: CellRow): CellView => ({
-  id: r.id,
-  position: r.position,
-  kind: r.kind,
-  fields: parsedJson(r.fields) as Record<string, unknown>,
-  results: (parsedJson(r.results) as CellResult | null) ?? null,
-  changedBy: r.changed_by,
-  changedAt: new Date(r.changed_at).toISOString(),
-  agreedBy: r.agreed_by,
-  changedAfterAgreement: !!r.changed_after_agreement,
-});
-
-interface SheetRow {
-  id: string;
-  project_id: string;
-  number: string;
-  title: string;
-  settings: unknown;
-  state: SheetState;
-  version: number;
-  engine_version: string | null;
-  revision_number: number;
-  preparer_id: string;
-  preparer_name: string;
-  checker_id: string | null;
-  checker_name: string | null;
-  approver_id: string | null;
-  approver_name: string | null;
-  open_queries: number | bigint | string;
-  /** JSON array of {id, name, named} from sheet_author, or null. */
-  authors: unknown;
-}
-
-/** A sheet's cells in order, as stored (their content, not their results). */
-async function cellContents(em: EntityManager, sheetId: string): Promise<CellContent[]> {
-  const rows = await em.execute<{ id: string; kind: string; fields: unknown }[]>('select id, kind, fields from cell where sheet_id = ? order by position', [sheetId]);
-  return rows.map((r) => ({ id: r.id, kind: r.kind, fields: parsedJson(r.fields) as Record<string, unknown> }));
-}
-
-/** The co-preparers, and everyone who may not check or approve the revision (preparer, co-preparers, editors). */
-function authorFields(preparerId: string, raw: unknown): Pick<SheetView, 'coPreparers' | 'authorIds'> {
-  const authors = ((raw === null || raw === undefined ? [] : parsedJson(raw)) ?? []) as { id: string; name: string; named: number | boolean }[];
-  return {
-    coPreparers: authors.filter((a) => a.named).map((a) => ({ id: a.id, name: a.name })).sort((a, b) => a.name.localeCompare(b.name)),
-    authorIds: [preparerId, ...authors.map((a) => a.id)],
-  };
-}
-
-/** What a change did: the ids of the cells it touched, and of those it removed. */
+/**
+ * What a change did: the ids of the cells it touched (their content, place or results may differ), those
+ * whose content or people it edited, the cells it added, and the ids it removed.
+ */
 interface Applied {
   touched: Set<string>;
+  edited?: Set<string>;
+  inserted?: CellRecord[];
   removed?: string[];
 }
 
-/** A cell as the engine needs it. */
-type CellContent = Pick<Cell, 'id' | 'kind' | 'fields'>;
+/** The sheet's title and settings, which a change may set. */
+interface Heading {
+  title: string;
+  settings: Record<string, unknown>;
+}
+
 
 /**
- * A change to a sheet, run in the saving transaction. `cells` loads all the sheet's cells as entities
- * (without their results) for changes that need them; a cell edit, the common case, loads just its own.
+ * A change to a sheet, run in the saving transaction on the sheet's heading and cells as read (in order,
+ * without their results): it changes them in place and says what it did; the repository writes it.
  */
-type Change = (sheet: Sheet, em: EntityManager, cells: () => Promise<Cell[]>) => Promise<Applied> | Applied;
+type Change = (heading: Heading, cells: CellRecord[]) => Applied;
 
 function splitCell(cell: unknown): { kind: string; fields: Record<string, unknown> } {
   const parsed = cellSchema.safeParse(cell);
@@ -125,12 +71,14 @@ export class SheetsService {
     private readonly projects: ProjectsService,
     private readonly templates: TemplatesService,
     private readonly evaluation: EvaluationService,
+    private readonly evaluator: SheetEvaluator,
+    private readonly repository: SheetRepository,
     private readonly audit: AuditService,
   ) {}
 
   /** A sheet of the caller's firm (members only); another firm's id is 404. */
   private async find(auth: AuthContext, id: string): Promise<Sheet> {
-    const sheet = await this.em.findOne(Sheet, { id, project: { firm: auth.session.firm } }, { populate: ['project', 'preparer', 'checker', 'approver'] });
+    const sheet = await this.repository.findInFirm(auth.session.firm.id, id);
     if (!sheet) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
     return sheet;
   }
@@ -185,78 +133,22 @@ export class SheetsService {
     return this.em.find(Cell, { sheet }, { orderBy: { position: 'asc' }, populate: ['changedBy', 'agreedBy'] });
   }
 
-  /** The cells of a sheet as the API shows them, read in one query. */
-  private async cellViews(sheetId: string, only?: string[]): Promise<CellView[]> {
-    if (only && !only.length) return [];
-    const rows = await this.em.execute<CellRow[]>(
-      `select c.id, c.position, c.kind, c.fields, c.results, c.changed_at, c.changed_after_agreement, cu.name as changed_by, au.name as agreed_by
-         from cell c left join app_user cu on cu.id = c.changed_by_id left join app_user au on au.id = c.agreed_by_id
-        where c.sheet_id = ?${only ? ` and c.id in (${only.map(() => '?').join(', ')})` : ''} order by c.position`,
-      [sheetId, ...(only ?? [])],
-    );
-    return rows.map(rowView);
-  }
-
-  /**
-   * A sheet of the caller's firm as the API shows it (another firm's id is 404), in two queries:
-   * the sheet with its people and open-query count, then its cells. Reading a sheet is the hot path.
-   */
+  /** A sheet of the caller's firm as the API shows it; another firm's id is 404. */
   private async view(auth: AuthContext, id: string): Promise<SheetView> {
-    const [s] = await this.em.execute<SheetRow[]>(
-      `select s.id, s.project_id, s.number, s.title, s.settings, s.state, s.version, s.engine_version, s.revision_number,
-              s.preparer_id, pu.name as preparer_name, s.checker_id, cu.name as checker_name, s.approver_id, au.name as approver_name,
-              (select count(*) from cell_query q where q.sheet_id = s.id and q.revision_number = s.revision_number and q.status <> 'closed') as open_queries,
-              (select json_arrayagg(json_object('id', a.user_id, 'name', au2.name, 'named', a.named)) from sheet_author a join app_user au2 on au2.id = a.user_id
-                where a.sheet_id = s.id and a.revision_number = s.revision_number) as authors
-         from sheet s
-         join project p on p.id = s.project_id
-         join app_user pu on pu.id = s.preparer_id
-         left join app_user cu on cu.id = s.checker_id
-         left join app_user au on au.id = s.approver_id
-        where s.id = ? and p.firm_id = ?`,
-      [id, auth.session.firm.id],
-    );
-    if (!s) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
-    const who = (personId: string | null, name: string | null) => (personId ? { id: personId, name: name ?? '' } : null);
-    return {
-      id: s.id,
-      projectId: s.project_id,
-      number: s.number,
-      title: s.title,
-      settings: parsedJson(s.settings) as Record<string, unknown>,
-      state: s.state,
-      version: s.version,
-      engineVersion: s.engine_version ?? null,
-      preparer: { id: s.preparer_id, name: s.preparer_name },
-      checker: who(s.checker_id, s.checker_name),
-      approver: who(s.approver_id, s.approver_name),
-      revisionNumber: s.revision_number,
-      revisionCode: revisionCode(s.revision_number),
-      openQueries: Number(s.open_queries),
-      ...authorFields(s.preparer_id, s.authors),
-      cells: await this.cellViews(s.id),
-    };
+    const view = await this.repository.view(auth.session.firm.id, id);
+    if (!view) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
+    return view;
   }
 
-  toFile(sheet: Sheet, cells: readonly Pick<Cell, 'kind' | 'fields'>[]): SheetFile {
+  toFile(sheet: Pick<Sheet, 'extra' | 'title' | 'settings'>, cells: readonly Pick<Cell, 'kind' | 'fields'>[]): SheetFile {
     return { ...sheet.extra, format: SHEET_FORMAT, title: sheet.title, settings: sheet.settings, cells: cells.map((c) => ({ kind: c.kind, ...c.fields }) as SheetFile['cells'][number]) };
   }
 
   async list(auth: AuthContext, projectId: string) {
     const project = await this.projects.find(auth, projectId);
     const sheets = await this.em.find(Sheet, { project }, { orderBy: { number: 'asc' }, populate: ['preparer'] });
-    const open = await this.openQueryCounts(sheets);
+    const open = await this.repository.openQueryCounts(sheets.map((s) => s.id));
     return sheets.map((s) => ({ id: s.id, number: s.number, title: s.title, state: s.state, version: s.version, preparer: s.preparer.name, openQueries: open.get(s.id) ?? 0, updatedAt: s.updatedAt.toISOString() }));
-  }
-
-  /** Queries not closed, by sheet, for the revision each sheet is being prepared as. */
-  async openQueryCounts(sheets: Sheet[]): Promise<Map<string, number>> {
-    const counts = new Map<string, number>();
-    if (!sheets.length) return counts;
-    const rows = await this.em.find(CellQuery, { sheet: { $in: sheets.map((s) => s.id) }, status: { $ne: 'closed' } }, { fields: ['sheet', 'revisionNumber'] });
-    const current = new Map(sheets.map((s) => [s.id, s.revisionNumber]));
-    for (const q of rows) if (current.get(q.sheet.id) === q.revisionNumber) counts.set(q.sheet.id, (counts.get(q.sheet.id) ?? 0) + 1);
-    return counts;
   }
 
   async get(auth: AuthContext, id: string): Promise<SheetView> {
@@ -293,7 +185,7 @@ export class SheetsService {
         }
         throw err;
       }
-      await this.evaluateAndStore(sheet, cells, sheet.version, { firm: auth.session.firm.id, reservation });
+      await this.evaluateAndStore(sheet.id, this.toFile(sheet, cells), cells, sheet.version, { firm: auth.session.firm.id, reservation });
     });
     return this.view(auth, sheet.id);
   }
@@ -305,46 +197,75 @@ export class SheetsService {
   }
 
   /**
-   * Applies a change made against `version`: in one transaction, the version is raised only if it is
-   * still the one the change was based on, so of two concurrent saves exactly one wins; the other gets
-   * 409 with the current sheet. Then the cells as they now stand are evaluated and their results stored.
+   * The path of every save (DEVELOPERS.md, "The path of a save"): the sheet read once (with the rulebook's
+   * say on who may edit it); one transaction that raises the version only if it is still the one the
+   * change was made to — so of two concurrent saves exactly one wins, the other gets 409 with what its
+   * editor needs to merge — and applies the change to the cells read once; one evaluation, outside any
+   * lock; and the results of the cells it re-evaluated stored while the sheet is still at that version.
    */
   private async change(auth: AuthContext, id: string, version: number, apply: Change): Promise<SaveResult> {
-    const sheet = await this.findEditable(auth, id);
+    const sheet = await timed('db', () => this.findEditable(auth, id));
     // A place in the firm's evaluation queue is held before anything is written: a firm whose queue is
     // full is told so (429) and its change is not saved, rather than saved and left unevaluated.
-    return this.evaluation.holding(auth.session.firm.id, (reservation) => this.changeHolding(sheet, auth, id, version, apply, reservation));
+    return this.evaluation.holding(auth.session.firm.id, (reservation) => this.changeHolding(sheet, auth, version, apply, reservation));
   }
 
-  private async changeHolding(sheet: Sheet, auth: AuthContext, id: string, version: number, apply: Change, reservation: Reservation): Promise<SaveResult> {
-    let applied: Applied = { touched: new Set() };
-    let contents: CellContent[] = [];
-    let current = sheet;
-    await this.em.transactional(async (em) => {
-      // The state check and the version bump in one statement: a save cannot land on a sheet that has
-      // just been passed or approved.
-      const raised = await em.nativeUpdate(Sheet, { id: sheet.id, version, state: { $in: EDITABLE } }, { version: version + 1 });
-      if (raised === 0) {
-        const [now] = await em.execute<{ state: SheetState }[]>('select state from sheet where id = ?', [sheet.id]);
-        if (now) this.assertEditable(now.state);
-        throw new AppException(SheetErrorCode.StaleVersion, 'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.', HttpStatus.CONFLICT, undefined);
-      }
-      current = await em.findOneOrFail(Sheet, sheet.id);
-      if (auth.session.user.id !== current.preparer.id) await recordEdit(em, sheet.id, current.revisionNumber, auth.session.user.id);
-      // Results are not loaded: they are computed afresh below, and stored apart from the change.
-      applied = await apply(current, em, () => em.find(Cell, { sheet }, { orderBy: { position: 'asc' }, exclude: ['results'] }));
-      await em.flush();
-      contents = await cellContents(em, sheet.id);
-    }).catch(async (err) => {
-      if (err instanceof AppException && err.code === SheetErrorCode.StaleVersion) {
-        throw new AppException(SheetErrorCode.StaleVersion, err.message, HttpStatus.CONFLICT, undefined, await this.view(auth, id));
-      }
-      throw err;
-    });
-    const { results, changed } = await this.evaluateAndStore(current, contents, version + 1, { firm: auth.session.firm.id, reservation });
-    const shown = new Set(contents.filter((c) => applied.touched.has(c.id) || changed.has(c.id)).map((c) => c.id));
-    const views = await this.cellViews(sheet.id, [...shown]);
-    return { version: version + 1, changed: views.map((v) => ({ ...v, results: results.get(v.id) ?? v.results })), removed: applied.removed ?? [] };
+  private async changeHolding(found: Sheet, auth: AuthContext, version: number, apply: Change, reservation: Reservation): Promise<SaveResult> {
+    const actor = auth.session.user;
+    const saved = await timed('db', () =>
+      this.em
+        .transactional(async (em) => {
+          if (!(await this.repository.raiseVersion(found.id, version, EDITABLE))) {
+            const state = await this.repository.stateOf(found.id);
+            if (state) this.assertEditable(state);
+            throw new AppException(SheetErrorCode.StaleVersion, 'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.', HttpStatus.CONFLICT);
+          }
+          // Read in the transaction, after the row lock: the revision, title and settings as they now stand.
+          const sheet = await em.findOneOrFail(Sheet, found.id, { refresh: true });
+          if (actor.id !== sheet.preparer.id) await recordEdit(em, sheet.id, sheet.revisionNumber, actor.id);
+          const cells = await this.repository.cellRecords(sheet.id);
+          const placed = new Map(cells.map((c) => [c.id, c.position]));
+          const heading: Heading = { title: sheet.title, settings: sheet.settings };
+          const applied = apply(heading, cells);
+          const removed = new Set(applied.removed ?? []);
+          const inserted = applied.inserted ?? [];
+          const kept = cells.filter((c) => !removed.has(c.id));
+          await this.repository.writeCells(sheet.id, {
+            inserted,
+            edited: kept.filter((c) => applied.edited?.has(c.id)),
+            moved: kept.filter((c) => placed.get(c.id) !== c.position),
+            removed: [...removed],
+          });
+          if (heading.title !== sheet.title || heading.settings !== sheet.settings) await this.repository.writeHeading(sheet.id, heading);
+          const now = [...kept, ...inserted].sort((a, b) => a.position - b.position);
+          return { file: this.toFile({ extra: sheet.extra, ...heading }, now), applied, cells: now };
+        })
+        .catch(async (err) => {
+          if (err instanceof AppException && err.code === SheetErrorCode.StaleVersion) {
+            throw new AppException(SheetErrorCode.StaleVersion, err.message, HttpStatus.CONFLICT, undefined, await this.repository.contents(found.id));
+          }
+          throw err;
+        }),
+    );
+    const { file, applied, cells } = saved;
+    const { results, written } = await this.evaluateAndStore(found.id, file, cells, version + 1, { firm: auth.session.firm.id, reservation, basedOn: version, touched: applied.touched });
+    // The answer: each cell the change touched or whose results were written, built from what is in hand.
+    const shown = cells.filter((c) => applied.touched.has(c.id) || written.has(c.id));
+    return {
+      version: version + 1,
+      changed: shown.map((c) => ({
+        id: c.id,
+        position: c.position,
+        kind: c.kind,
+        fields: c.fields,
+        results: results.get(c.id) ?? null,
+        changedBy: c.changedBy,
+        changedAt: c.changedAt.toISOString(),
+        agreedBy: c.agreedBy,
+        changedAfterAgreement: c.changedAfterAgreement,
+      })),
+      removed: applied.removed ?? [],
+    };
   }
 
   /**
@@ -354,69 +275,58 @@ export class SheetsService {
   async refreshResults(sheetId: string, firmId: string): Promise<void> {
     const em = this.em.fork();
     const sheet = await em.findOneOrFail(Sheet, sheetId);
-    const contents = await cellContents(em, sheetId);
-    await this.evaluation.holding(firmId, (reservation) => this.evaluateAndStore(sheet, contents, sheet.version, { firm: firmId, reservation }));
+    const cells = await em.find(Cell, { sheet }, { orderBy: { position: 'asc' }, exclude: ['results'] });
+    await this.evaluation.holding(firmId, (reservation) => this.evaluateAndStore(sheet.id, this.toFile(sheet, cells), cells, sheet.version, { firm: firmId, reservation }));
   }
 
   /**
-   * Evaluates the cells of a sheet as they stand at `version` and stores each result that differs
-   * from the stored one. The results are stored only while the sheet is still at that version (its row
-   * locked): a later save evaluates a later state and stores that, so older results never overwrite
-   * newer ones. A sheet that cannot be evaluated at all (deadline, memory) gets, in every cell, the
-   * reason instead of a number: no result of an older state stays on screen. The change itself is saved.
-   * Returns the results by cell id and the ids whose stored results changed.
+   * Evaluates the cells of a sheet as they stand at `version` and stores their results while the sheet is
+   * still at that version (SheetRepository.storeResults). The evaluation process keeps each sheet's cache
+   * with the version it evaluated: when it reused the cache of `basedOn` (the version this save changed)
+   * and the stored results are those of `basedOn`, only the cells it re-evaluated and those the change
+   * touched (added, moved, edited) can differ, and only they are written. A sheet that cannot be evaluated
+   * at all (deadline, memory) gets, in every cell, the reason instead of a number: no result of an older
+   * state stays on screen. The change itself is saved.
    */
-  private async evaluateAndStore(sheet: Sheet, cells: readonly CellContent[], version: number, options: { firm: string; reservation: Reservation }): Promise<{ results: Map<string, CellResult>; changed: Set<string> }> {
-    const outcome = await this.evaluation.evaluate(this.toFile(sheet, cells), { ...options, key: sheet.id });
-    const results = outcome.ok ? outcome.cells : unevaluatedResults(cells.length, outcome.message);
-    const engineVersion = outcome.ok ? outcome.engineVersion : null;
-    const byId = new Map(cells.map((c, i) => [c.id, results[i]]));
-    const changed = new Set<string>();
-    await this.em.transactional(async (em) => {
-      const [row] = await em.execute<{ version: number }[]>('select version from sheet where id = ? for update', [sheet.id]);
-      if (row?.version !== version) return;
-      const stored = await em.execute<{ id: string; digest: string | null }[]>('select id, sha1(results) as digest from cell where sheet_id = ?', [sheet.id]);
-      const digests = new Map(stored.map((r) => [r.id, r.digest]));
-      const writes: [string, string][] = [];
-      for (const cell of cells) {
-        const json = JSON.stringify(byId.get(cell.id) ?? null);
-        if (digests.get(cell.id) !== sha1(json)) writes.push([cell.id, json]);
-      }
-      for (let k = 0; k < writes.length; k += 200) {
-        const batch = writes.slice(k, k + 200);
-        await em.execute(
-          `update cell set results = case id ${batch.map(() => 'when ? then ?').join(' ')} end where id in (${batch.map(() => '?').join(', ')})`,
-          [...batch.flat(), ...batch.map(([cellId]) => cellId)],
-          'run',
-        );
-      }
-      for (const [cellId] of writes) changed.add(cellId);
-      if (engineVersion && engineVersion !== sheet.engineVersion) await em.execute('update sheet set engine_version = ? where id = ?', [engineVersion, sheet.id], 'run');
-    });
-    return { results: byId, changed };
+  private async evaluateAndStore(
+    sheetId: string,
+    file: SheetFile,
+    cells: readonly { id: string }[],
+    version: number,
+    options: { firm: string; reservation: Reservation; basedOn?: number; touched?: ReadonlySet<string> },
+  ): Promise<{ results: Map<string, CellResult>; written: ReadonlySet<string> }> {
+    const outcome = await this.evaluator.evaluate(file, { firm: options.firm, key: sheetId, version, reservation: options.reservation });
+    addTiming('eval', outcome.totalMs);
+    if (outcome.ok) addTiming('engine', outcome.engineMs);
+    const list = outcome.ok ? outcome.results : unevaluatedResults(cells.length, outcome.message);
+    const results = new Map(cells.map((c, i) => [c.id, list[i]]));
+    const incremental = outcome.ok && options.basedOn !== undefined && outcome.reusedFrom === options.basedOn;
+    const only = incremental ? { ids: new Set([...outcome.evaluated.map((i) => cells[i].id), ...(options.touched ?? [])]), basedOn: options.basedOn! } : undefined;
+    const written = await timed('db', () => this.repository.storeResults(sheetId, { version, results, only, engineVersion: outcome.ok ? outcome.engineVersion : null }));
+    return { results, written: written ?? new Set() };
   }
 
   update(auth: AuthContext, id: string, dto: UpdateSheetDto): Promise<SaveResult> {
-    return this.change(auth, id, dto.version, async (s, _em, all) => {
-      if (dto.title !== undefined) s.title = dto.title;
+    return this.change(auth, id, dto.version, (heading, cells) => {
+      if (dto.title !== undefined) heading.title = dto.title;
       if (dto.settings !== undefined) {
-        const parsed = parseSheetFile({ format: SHEET_FORMAT, title: s.title, settings: dto.settings, cells: [] });
+        const parsed = parseSheetFile({ format: SHEET_FORMAT, title: heading.title, settings: dto.settings, cells: [] });
         if (!parsed.ok) throw new AppException(ErrorCode.ValidationFailed, parsed.problems.map((p) => `${p.path}: ${p.message}`).join('; '), HttpStatus.BAD_REQUEST);
-        s.settings = dto.settings;
+        heading.settings = dto.settings;
       }
-      return { touched: new Set(dto.settings !== undefined ? (await all()).map((c) => c.id) : []) };
+      return { touched: new Set(dto.settings !== undefined ? cells.map((c) => c.id) : []) };
     });
   }
 
   addCell(auth: AuthContext, id: string, dto: AddCellDto): Promise<SaveResult> {
     const { kind, fields } = splitCell(dto.cell);
-    return this.change(auth, id, dto.version, async (sheet, em, all) => {
-      const cells = await all();
+    const actor = auth.session.user;
+    return this.change(auth, id, dto.version, (_heading, cells) => {
       const position = Math.min(dto.position, cells.length);
-      for (const c of cells) if (c.position >= position) c.position += 1;
-      const cell = new Cell(sheet, position, kind, fields, em.getReference(User, auth.session.user.id));
-      em.persist(cell);
-      return { touched: new Set([cell.id, ...cells.filter((c) => c.position > position).map((c) => c.id)]) };
+      const shifted = cells.filter((c) => c.position >= position);
+      for (const c of shifted) c.position += 1;
+      const cell: CellRecord = { id: randomUUID(), position, kind, fields, changedById: actor.id, changedBy: actor.name, changedAt: new Date(), agreedById: null, agreedBy: null, agreedAt: null, changedAfterAgreement: false };
+      return { touched: new Set([cell.id, ...shifted.map((c) => c.id)]), inserted: [cell] };
     });
   }
 
@@ -438,23 +348,19 @@ export class SheetsService {
 
   async updateCell(auth: AuthContext, id: string, cellId: string, dto: UpdateCellDto): Promise<SaveResult> {
     const { kind, fields } = splitCell(dto.cell);
+    const actor = auth.session.user;
     const withdrawn: string[] = [];
-    const result = await this.change(auth, id, dto.version, async (sheet, em) => {
-      const cell = await em.findOne(Cell, { id: cellId, sheet }, { exclude: ['results'] });
+    const result = await this.change(auth, id, dto.version, (_heading, cells) => {
+      const cell = cells.find((c) => c.id === cellId);
       if (!cell) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
       const changed = cell.kind !== kind || JSON.stringify(cell.fields) !== JSON.stringify(fields);
-      cell.kind = kind;
-      cell.fields = fields;
-      cell.changedBy = em.getReference(User, auth.session.user.id);
-      cell.changedAt = new Date();
+      Object.assign(cell, { kind, fields, changedById: actor.id, changedBy: actor.name, changedAt: new Date() });
       // An edit withdraws the checker's agreement, and marks the cell for the checker to look at again.
-      if (changed && cell.agreedBy) {
-        cell.agreedBy = undefined;
-        cell.agreedAt = undefined;
-        cell.changedAfterAgreement = true;
+      if (changed && cell.agreedById) {
+        Object.assign(cell, { agreedById: null, agreedBy: null, agreedAt: null, changedAfterAgreement: true });
         withdrawn.push(cell.id);
       }
-      return { touched: new Set([cell.id]) };
+      return { touched: new Set([cell.id]), edited: new Set([cell.id]) };
     });
     for (const cell of withdrawn) {
       await this.audit.record('agreement-withdrawn', { firmId: auth.session.firm.id, userId: auth.session.user.id, subjectId: id, detail: { cell, reason: 'edited after the checker agreed it' } });
@@ -463,34 +369,31 @@ export class SheetsService {
   }
 
   moveCell(auth: AuthContext, id: string, cellId: string, dto: MoveCellDto): Promise<SaveResult> {
-    return this.change(auth, id, dto.version, async (_sheet, _em, all) => {
-      const cells = await all();
+    return this.change(auth, id, dto.version, (_heading, all) => {
+      const cells = [...all];
       const from = cells.findIndex((c) => c.id === cellId);
       if (from < 0) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
       const [cell] = cells.splice(from, 1);
       cells.splice(Math.min(dto.position, cells.length), 0, cell);
-      const moved = new Set<string>();
-      cells.forEach((c, i) => {
-        if (c.position !== i) moved.add(c.id);
-        c.position = i;
-      });
-      return { touched: moved };
+      return { touched: renumber(cells) };
     });
   }
 
   deleteCell(auth: AuthContext, id: string, cellId: string, version: number): Promise<SaveResult> {
-    return this.change(auth, id, version, async (_sheet, em, all) => {
-      const cells = await all();
+    return this.change(auth, id, version, (_heading, cells) => {
       const cell = cells.find((c) => c.id === cellId);
       if (!cell) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
-      em.remove(cell);
-      const rest = cells.filter((c) => c !== cell);
-      const moved = new Set<string>();
-      rest.forEach((c, i) => {
-        if (c.position !== i) moved.add(c.id);
-        c.position = i;
-      });
-      return { touched: moved, removed: [cell.id] };
+      return { touched: renumber(cells.filter((c) => c !== cell)), removed: [cell.id] };
     });
   }
+}
+
+/** Numbers cells 0, 1, 2… in the order given; returns the ids whose position changed. */
+function renumber(cells: CellRecord[]): Set<string> {
+  const moved = new Set<string>();
+  cells.forEach((c, i) => {
+    if (c.position !== i) moved.add(c.id);
+    c.position = i;
+  });
+  return moved;
 }

@@ -31,8 +31,11 @@ const mailApi = () => {
   return url;
 };
 
-/** Waits for the SMTP sink to hold a message for this address (delivery is asynchronous). */
-export async function waitForMail(to: string, match: (m: SinkMessage) => boolean = () => true, timeoutMs = 5000): Promise<SinkMessage> {
+/**
+ * Waits for the SMTP sink to hold a message for this address (delivery is asynchronous: the worker looks
+ * every 500 ms). The bound is generous for a slow CI machine; a message that arrives returns at once.
+ */
+export async function waitForMail(to: string, match: (m: SinkMessage) => boolean = () => true, timeoutMs = 15_000): Promise<SinkMessage> {
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
     const res = await fetch(`${mailApi()}/messages?to=${encodeURIComponent(to)}`);

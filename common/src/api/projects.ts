@@ -75,11 +75,26 @@ export interface CoPreparersBody {
   userIds: string[];
 }
 
-/** The answer to a saved change: the sheet's new version and the cells whose content or results changed. */
+/**
+ * The answer to a saved change: the sheet's new version, every cell the change touched or whose results
+ * were evaluated afresh (with their results), and the ids of cells removed.
+ */
 export interface SaveResultDto {
   version: number;
   changed: CellDto[];
   removed: string[];
+}
+
+/**
+ * What a save refused as stale (409, code STALE_VERSION) carries in `current`: what the editor
+ * needs to merge — the version and state now, and every cell's content in order. Results are not
+ * included (`results: null`): the editor keeps those of the cells whose content it already has, and
+ * reads the sheet again once its own change is saved.
+ */
+export interface SheetContentsDto {
+  version: number;
+  state: SheetState;
+  cells: CellDto[];
 }
 
 export interface TemplateSummaryDto {

@@ -108,7 +108,11 @@ export function unevaluatedResults(count: number, reason: string): CellResult[] 
   return Array.from({ length: count }, () => ({ kind: 'unevaluated' as const, status: 'error' as const, errors: [{ line: 1, column: 1, message: `Not evaluated: ${reason}` }], warnings: [] }));
 }
 
-export function evaluateSheet(sheet: Pick<SheetFile, 'cells' | 'settings'>, previous?: EvaluationCache): SheetEvaluation {
+/**
+ * `onCell` is told the index of each cell before it is evaluated afresh, so a caller stopped at a
+ * deadline can say where the sheet was.
+ */
+export function evaluateSheet(sheet: Pick<SheetFile, 'cells' | 'settings'>, previous?: EvaluationCache, onCell?: (index: number) => void): SheetEvaluation {
   const display = displayOptionsOf(sheet);
   const scope = new SheetScope(definitionsOf(sheet.cells));
   const entries: CacheEntry[] = [];
@@ -130,6 +134,7 @@ export function evaluateSheet(sheet: Pick<SheetFile, 'cells' | 'settings'>, prev
       results.push(cached.result);
       return;
     }
+    onCell?.(index);
     const before = new Map(scope.values);
     const beforeOrigin = new Map(scope.origin);
     const beforeFailed = new Map(scope.failed);

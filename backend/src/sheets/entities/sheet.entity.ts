@@ -1,15 +1,18 @@
 import { randomUUID } from 'node:crypto';
-import { Entity, ManyToOne, Opt, PrimaryKey, Property, Unique } from '@mikro-orm/core';
+import { Entity, EntityRepositoryType, ManyToOne, Opt, PrimaryKey, Property, Unique } from '@mikro-orm/core';
 import type { SheetState } from '@ampwright/common';
 import { Project } from '../../projects/entities/project.entity';
 import { User } from '../../users/entities/user.entity';
+import { SheetRepository } from '../sheet.repository';
 
 /** Where a sheet is in its life (see README, "Sheet states"). */
 export type { SheetState };
 
-@Entity({ tableName: 'sheet' })
+@Entity({ tableName: 'sheet', repository: () => SheetRepository })
 @Unique({ properties: ['project', 'number'] })
 export class Sheet {
+  [EntityRepositoryType]?: SheetRepository;
+
   @PrimaryKey({ type: 'uuid' })
   id: string & Opt = randomUUID();
 
@@ -61,6 +64,14 @@ export class Sheet {
 
   @Property({ length: 20, nullable: true })
   engineVersion?: string;
+
+  /**
+   * The version whose evaluation the cells' stored results are (null when not known: restored from a
+   * revision, or seeded). A save writes only the cells it re-evaluated when this is the version it
+   * changed (SheetRepository.storeResults).
+   */
+  @Property({ type: 'integer', nullable: true })
+  resultsVersion?: number | null;
 
   @Property({ type: 'datetime' })
   createdAt: Date & Opt = new Date();

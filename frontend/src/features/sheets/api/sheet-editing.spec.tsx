@@ -1,10 +1,10 @@
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { act, renderHook, waitFor } from '@testing-library/react';
-import type { CellDto, SheetDto } from '@ampwright/common';
+import type { CellDto, CellResult, SheetContentsDto, SheetDto } from '@ampwright/common';
 import type { ReactNode } from 'react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { sheetKeys } from './sheets';
-import { EditConflict, mergeSave, sameCell, useCellChange } from './sheet-editing';
+import { EditConflict, mergeContents, mergeSave, sameCell, useCellChange } from './sheet-editing';
 
 const cell = (id: string, position: number, source: string, changedBy = 'A'): CellDto => ({ id, position, kind: 'calc', fields: { source }, results: null, changedBy, changedAt: '2026-01-01T00:00:00.000Z', agreedBy: null, changedAfterAgreement: false });
 const sheet = (version: number, cells: CellDto[]): SheetDto => ({ id: 's1', projectId: 'p1', number: 'C-1', title: 'T', settings: {}, state: 'being-prepared', version, engineVersion: null, preparer: { id: 'u', name: 'A' }, checker: null, approver: null, revisionCode: 'A', revisionNumber: 1, openQueries: 0, coPreparers: [], authorIds: ['u'], cells });
@@ -17,6 +17,20 @@ describe('mergeSave', () => {
     expect(after.cells.map((c) => [c.id, c.position])).toEqual([['b', 0], ['n', 1], ['c', 2]]);
     expect(after.cells[0].fields.source).toBe('y = 5');
     expect(after.cells[2]).toBe(before.cells[2]); // untouched cells keep their identity, so they do not re-render
+  });
+});
+
+/** What a stale save's 409 carries: the version, the state and the cells' content without results. */
+const contents = (version: number, cells: CellDto[]): SheetContentsDto => ({ version, state: 'being-prepared', cells });
+
+describe('mergeContents', () => {
+  it('takes the order and content of a stale answer, keeping the results of cells whose content is unchanged', () => {
+    const result = { kind: 'calc', status: 'ok', errors: [], warnings: [] } as unknown as CellResult;
+    const before = sheet(3, [{ ...cell('a', 0, 'x = 1'), results: result }, { ...cell('b', 1, 'y = 2'), results: result }]);
+    const after = mergeContents(before, contents(5, [cell('b', 0, 'y = 2'), cell('a', 1, 'x = 8', 'B'), cell('n', 2, 'n = 1', 'B')]));
+    expect(after.version).toBe(5);
+    expect(after.cells.map((c) => [c.id, c.fields.source, c.results])).toEqual([['b', 'y = 2', result], ['a', 'x = 8', null], ['n', 'n = 1', null]]);
+    expect(after.title).toBe('T');
   });
 });
 
@@ -50,7 +64,7 @@ describe('useCellChange after someone else saved', () => {
   afterEach(() => vi.unstubAllGlobals());
 
   it('sends a change to a cell nobody else touched again on the new version', async () => {
-    const theirs = sheet(5, [cell('a', 0, 'x = 1'), cell('b', 1, 'y = 9', 'B')]);
+    const theirs = contents(5, [cell('a', 0, 'x = 1'), cell('b', 1, 'y = 9', 'B')]);
     const sent = serverAnswers(
       { status: 409, body: { code: 'STALE_VERSION', message: 'stale', current: theirs } },
       { status: 200, body: { version: 6, changed: [cell('a', 0, 'x = 2')], removed: [] } },
@@ -64,7 +78,7 @@ describe('useCellChange after someone else saved', () => {
   });
 
   it('refuses, as a conflict with their text, a change to a cell someone else also changed, and sends nothing more', async () => {
-    const theirs = sheet(5, [cell('a', 0, 'x = 7', 'B')]);
+    const theirs = contents(5, [cell('a', 0, 'x = 7', 'B')]);
     const sent = serverAnswers({ status: 409, body: { code: 'STALE_VERSION', message: 'stale', current: theirs } });
     const { result } = setup(sheet(4, [cell('a', 0, 'x = 1')]));
     act(() => result.current.mutate({ type: 'update', cellId: 'a', cell: { kind: 'calc', source: 'x = 2' }, base: { kind: 'calc', source: 'x = 1' } }));

@@ -4,12 +4,13 @@
  * with the new version and every cell whose content or results changed; those are merged into the
  * cached sheet, so the page shows the server's numbers.
  *
- * When someone else saved in between (409 with the current sheet), nothing is lost: a change to a cell
- * that nobody else touched is sent again on the new version; a change to a cell that someone else also
- * changed is refused as a conflict, with both texts, for the user to settle.
+ * When someone else saved in between (409 with the sheet's cells as they now stand, without results),
+ * nothing is lost: a change to a cell that nobody else touched is sent again on the new version, and the
+ * sheet is read again afterwards for the results of the others' change; a change to a cell that someone
+ * else also changed is refused as a conflict, with both texts, for the user to settle.
  */
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import type { CellDto, SaveResultDto, SheetDto } from '@ampwright/common';
+import type { CellDto, SaveResultDto, SheetContentsDto, SheetDto } from '@ampwright/common';
 import { api, ApiError } from '../../../lib/api-client';
 import { sheetKeys } from './sheets';
 import { SheetErrorCode } from '@ampwright/common/api/error-codes';
@@ -51,6 +52,19 @@ export function mergeSave(sheet: SheetDto, result: SaveResultDto): SheetDto {
   return { ...sheet, version: Math.max(sheet.version, result.version), cells };
 }
 
+/**
+ * The cached sheet brought to the cells of a stale save's answer: their order and content; the cached
+ * results kept for cells whose content is unchanged, none (until the sheet is read again) for the others.
+ */
+export function mergeContents(sheet: SheetDto, theirs: SheetContentsDto): SheetDto {
+  const mine = new Map(sheet.cells.map((c) => [c.id, c]));
+  const cells = theirs.cells.map((c) => {
+    const known = mine.get(c.id);
+    return known && sameCell(cellBody(known), cellBody(c)) ? { ...c, results: known.results } : c;
+  });
+  return { ...sheet, version: theirs.version, state: theirs.state, cells };
+}
+
 function send(sheetId: string, change: CellChange, version: number): Promise<SaveResultDto> {
   switch (change.type) {
     case 'update':
@@ -84,15 +98,20 @@ export function useCellChange(sheetId: string) {
     try {
       const result = await send(sheetId, change, sheet.version);
       queryClient.setQueryData<SheetDto>(key, (s) => (s ? mergeSave(s, result) : s));
+      // Saved after a stale attempt: the others' cells get their results from a fresh read.
+      if (attempt > 0) void queryClient.invalidateQueries({ queryKey: key });
       return result;
     } catch (err) {
       if (!(err instanceof ApiError && err.code === SheetErrorCode.StaleVersion) || attempt >= 5) throw err;
-      const theirs = (err.body as { current?: SheetDto } | undefined)?.current;
+      const theirs = (err.body as { current?: SheetContentsDto } | undefined)?.current;
       if (!theirs) throw err;
-      queryClient.setQueryData<SheetDto>(key, theirs);
+      queryClient.setQueryData<SheetDto>(key, (s) => (s ? mergeContents(s, theirs) : s));
       const target = 'cellId' in change ? theirs.cells.find((c) => c.id === change.cellId) ?? null : null;
       if (change.type === 'update' && (!target || !sameCell(cellBody(target), change.base))) throw new EditConflict(target);
-      if (change.type === 'delete' && !target) return { version: theirs.version, changed: [], removed: [change.cellId] };
+      if (change.type === 'delete' && !target) {
+        void queryClient.invalidateQueries({ queryKey: key });
+        return { version: theirs.version, changed: [], removed: [change.cellId] };
+      }
       if (change.type === 'move' && !target) throw new EditConflict(null);
       return apply(change, attempt + 1);
     }

@@ -1,0 +1,291 @@
+/**
+ * The SQL of sheets and their cells: reading a sheet as the API shows it, the steps of a save (raise the
+ * version, read the cells, store the results) and the open-query counts of a list. Methods run in the
+ * caller's transaction when there is one (MikroORM's transaction context).
+ */
+import { EntityRepository } from '@mikro-orm/mariadb';
+import { revisionCode, type CellDto, type CellResult, type SheetContentsDto, type SheetDto, type SheetState } from '@ampwright/common';
+import { Sheet } from './entities/sheet.entity';
+
+/** A cell row as read for a sheet's view, without loading entities (reads are the hot path). */
+interface CellRow {
+  id: string;
+  position: number;
+  kind: string;
+  fields: unknown;
+  results?: unknown;
+  changed_at: Date | string;
+  changed_after_agreement: number | boolean;
+  changed_by: string | null;
+  agreed_by: string | null;
+}
+
+interface SheetRow {
+  id: string;
+  project_id: string;
+  number: string;
+  title: string;
+  settings: unknown;
+  state: SheetState;
+  version: number;
+  engine_version: string | null;
+  revision_number: number;
+  preparer_id: string;
+  preparer_name: string;
+  checker_id: string | null;
+  checker_name: string | null;
+  approver_id: string | null;
+  approver_name: string | null;
+  open_queries: number | bigint | string;
+  /** JSON array of {id, name, named} from sheet_author, or null. */
+  authors: unknown;
+}
+
+/** Which results a save stores: the cells it re-evaluated (and those it touched), or all of them. */
+export interface ResultsToStore {
+  /** The version that was evaluated: results are stored only while the sheet is still at it. */
+  version: number;
+  /** Every cell's results, by id. */
+  results: ReadonlyMap<string, CellResult>;
+  /**
+   * The ids whose results may differ from those stored, valid only if the stored results are those of
+   * `basedOn` (the version the change was made to); otherwise every cell's results are written.
+   */
+  only?: { ids: ReadonlySet<string>; basedOn: number };
+  engineVersion: string | null;
+}
+
+const parsedJson = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);
+
+const rowView = (r: CellRow): CellDto => ({
+  id: r.id,
+  position: r.position,
+  kind: r.kind,
+  fields: parsedJson(r.fields) as Record<string, unknown>,
+  results: (parsedJson(r.results ?? null) as CellResult | null) ?? null,
+  changedBy: r.changed_by,
+  changedAt: new Date(r.changed_at).toISOString(),
+  agreedBy: r.agreed_by,
+  changedAfterAgreement: !!r.changed_after_agreement,
+});
+
+/** The co-preparers, and everyone who may not check or approve the revision (preparer, co-preparers, editors). */
+function authorFields(preparerId: string, raw: unknown): Pick<SheetDto, 'coPreparers' | 'authorIds'> {
+  const authors = ((raw === null || raw === undefined ? [] : parsedJson(raw)) ?? []) as { id: string; name: string; named: number | boolean }[];
+  return {
+    coPreparers: authors
+      .filter((a) => a.named)
+      .map((a) => ({ id: a.id, name: a.name }))
+      .sort((a, b) => a.name.localeCompare(b.name)),
+    authorIds: [preparerId, ...authors.map((a) => a.id)],
+  };
+}
+
+const BATCH = 200;
+
+/** A cell as a save reads and changes it: its content, place and people, without its results. */
+export interface CellRecord {
+  id: string;
+  position: number;
+  kind: string;
+  fields: Record<string, unknown>;
+  changedById: string | null;
+  changedBy: string | null;
+  changedAt: Date;
+  agreedById: string | null;
+  agreedBy: string | null;
+  agreedAt: Date | null;
+  changedAfterAgreement: boolean;
+}
+
+/** What a save writes of its cells: new ones, those whose content or people changed, moved ones, removed ids. */
+export interface CellWrites {
+  inserted: CellRecord[];
+  edited: CellRecord[];
+  moved: CellRecord[];
+  removed: string[];
+}
+
+const placeholders = (n: number) => Array.from({ length: n }, () => '?').join(', ');
+
+export class SheetRepository extends EntityRepository<Sheet> {
+  /** A sheet of a firm with its people loaded, or null (another firm's sheet is not found). */
+  findInFirm(firmId: string, id: string): Promise<Sheet | null> {
+    return this.findOne({ id, project: { firm: firmId } }, { populate: ['project', 'preparer', 'checker', 'approver'] });
+  }
+
+  /**
+   * A sheet of a firm as the API shows it, in two queries: the sheet with its people and open-query
+   * count, then its cells. Reading a sheet is the hot path.
+   */
+  async view(firmId: string, id: string): Promise<SheetDto | null> {
+    const [s] = await this.em.execute<SheetRow[]>(
+      `select s.id, s.project_id, s.number, s.title, s.settings, s.state, s.version, s.engine_version, s.revision_number,
+              s.preparer_id, pu.name as preparer_name, s.checker_id, cu.name as checker_name, s.approver_id, au.name as approver_name,
+              (select count(*) from cell_query q where q.sheet_id = s.id and q.revision_number = s.revision_number and q.status <> 'closed') as open_queries,
+              (select json_arrayagg(json_object('id', a.user_id, 'name', au2.name, 'named', a.named)) from sheet_author a join app_user au2 on au2.id = a.user_id
+                where a.sheet_id = s.id and a.revision_number = s.revision_number) as authors
+         from sheet s
+         join project p on p.id = s.project_id
+         join app_user pu on pu.id = s.preparer_id
+         left join app_user cu on cu.id = s.checker_id
+         left join app_user au on au.id = s.approver_id
+        where s.id = ? and p.firm_id = ?`,
+      [id, firmId],
+    );
+    if (!s) return null;
+    const who = (personId: string | null, name: string | null) => (personId ? { id: personId, name: name ?? '' } : null);
+    return {
+      id: s.id,
+      projectId: s.project_id,
+      number: s.number,
+      title: s.title,
+      settings: parsedJson(s.settings) as Record<string, unknown>,
+      state: s.state,
+      version: s.version,
+      engineVersion: s.engine_version ?? null,
+      preparer: { id: s.preparer_id, name: s.preparer_name },
+      checker: who(s.checker_id, s.checker_name),
+      approver: who(s.approver_id, s.approver_name),
+      revisionNumber: s.revision_number,
+      revisionCode: revisionCode(s.revision_number),
+      openQueries: Number(s.open_queries),
+      ...authorFields(s.preparer_id, s.authors),
+      cells: await this.cellViews(s.id),
+    };
+  }
+
+  /** The cells of a sheet as the API shows them, in order, read in one query; without results if asked. */
+  async cellViews(sheetId: string, options: { results?: boolean } = {}): Promise<CellDto[]> {
+    const rows = await this.em.execute<CellRow[]>(
+      `select c.id, c.position, c.kind, c.fields, ${options.results === false ? '' : 'c.results, '}c.changed_at, c.changed_after_agreement, cu.name as changed_by, au.name as agreed_by
+         from cell c left join app_user cu on cu.id = c.changed_by_id left join app_user au on au.id = c.agreed_by_id
+        where c.sheet_id = ? order by c.position`,
+      [sheetId],
+    );
+    return rows.map(rowView);
+  }
+
+  /** What an editor needs to merge after its save was refused as stale: the version and the cells' content now. */
+  async contents(sheetId: string): Promise<SheetContentsDto | null> {
+    const [row] = await this.em.execute<{ version: number; state: SheetState }[]>('select version, state from sheet where id = ?', [sheetId]);
+    if (!row) return null;
+    return { version: row.version, state: row.state, cells: await this.cellViews(sheetId, { results: false }) };
+  }
+
+  /**
+   * Raises the version of a sheet still at `version` and in one of `states`, in one statement (so a save
+   * cannot land on a sheet that has just been passed or approved), and locks its row for the caller's
+   * transaction. False when the sheet has moved on.
+   */
+  async raiseVersion(sheetId: string, version: number, states: readonly SheetState[]): Promise<boolean> {
+    const raised = await this.nativeUpdate({ id: sheetId, version, state: { $in: [...states] } }, { version: version + 1 });
+    return raised > 0;
+  }
+
+  async stateOf(sheetId: string): Promise<SheetState | undefined> {
+    const [row] = await this.em.execute<{ state: SheetState }[]>('select state from sheet where id = ?', [sheetId]);
+    return row?.state;
+  }
+
+  /** A sheet's cells in order as a save changes them, without their results, in one query. */
+  async cellRecords(sheetId: string): Promise<CellRecord[]> {
+    const rows = await this.em.execute<(CellRow & { changed_by_id: string | null; agreed_by_id: string | null; agreed_at: Date | string | null })[]>(
+      `select c.id, c.position, c.kind, c.fields, c.changed_at, c.changed_after_agreement, c.changed_by_id, cu.name as changed_by, c.agreed_by_id, au.name as agreed_by, c.agreed_at
+         from cell c left join app_user cu on cu.id = c.changed_by_id left join app_user au on au.id = c.agreed_by_id
+        where c.sheet_id = ? order by c.position`,
+      [sheetId],
+    );
+    return rows.map((r) => ({
+      id: r.id,
+      position: r.position,
+      kind: r.kind,
+      fields: parsedJson(r.fields) as Record<string, unknown>,
+      changedById: r.changed_by_id,
+      changedBy: r.changed_by,
+      changedAt: new Date(r.changed_at),
+      agreedById: r.agreed_by_id,
+      agreedBy: r.agreed_by,
+      agreedAt: r.agreed_at ? new Date(r.agreed_at) : null,
+      changedAfterAgreement: !!r.changed_after_agreement,
+    }));
+  }
+
+  /** Writes what a save changed of a sheet's cells (in the caller's transaction). */
+  async writeCells(sheetId: string, writes: CellWrites): Promise<void> {
+    const run = (sql: string, params: unknown[]) => this.em.execute(sql, params, 'run');
+    if (writes.removed.length) await run(`delete from cell where sheet_id = ? and id in (${placeholders(writes.removed.length)})`, [sheetId, ...writes.removed]);
+    for (const c of writes.edited) {
+      await run(
+        'update cell set kind = ?, fields = ?, changed_by_id = ?, changed_at = ?, agreed_by_id = ?, agreed_at = ?, changed_after_agreement = ? where sheet_id = ? and id = ?',
+        [c.kind, JSON.stringify(c.fields), c.changedById, c.changedAt, c.agreedById, c.agreedAt, c.changedAfterAgreement, sheetId, c.id],
+      );
+    }
+    for (let k = 0; k < writes.moved.length; k += BATCH) {
+      const batch = writes.moved.slice(k, k + BATCH);
+      await run(`update cell set position = case id ${batch.map(() => 'when ? then ?').join(' ')} end where sheet_id = ? and id in (${placeholders(batch.length)})`, [
+        ...batch.flatMap((c) => [c.id, c.position]),
+        sheetId,
+        ...batch.map((c) => c.id),
+      ]);
+    }
+    for (const c of writes.inserted) {
+      await run('insert into cell (id, sheet_id, position, kind, fields, changed_by_id, changed_at, changed_after_agreement) values (?, ?, ?, ?, ?, ?, ?, ?)', [
+        c.id,
+        sheetId,
+        c.position,
+        c.kind,
+        JSON.stringify(c.fields),
+        c.changedById,
+        c.changedAt,
+        c.changedAfterAgreement,
+      ]);
+    }
+  }
+
+  /** A sheet's title and settings, as a save changed them (in the caller's transaction). */
+  async writeHeading(sheetId: string, heading: { title: string; settings: Record<string, unknown> }): Promise<void> {
+    await this.em.execute('update sheet set title = ?, settings = ? where id = ?', [heading.title, JSON.stringify(heading.settings), sheetId], 'run');
+  }
+
+  /**
+   * Stores the results of an evaluation, only while the sheet is still at the version evaluated (its row
+   * locked): a later save evaluates a later state and stores that, so older results never overwrite
+   * newer ones. Writes only `only.ids` when the stored results are those of `only.basedOn`; every cell
+   * otherwise. Returns the ids written, or null when a later save had moved the sheet on.
+   */
+  async storeResults(sheetId: string, store: ResultsToStore): Promise<ReadonlySet<string> | null> {
+    return this.em.transactional(async (em) => {
+      const [row] = await em.execute<{ version: number; results_version: number | null; engine_version: string | null }[]>(
+        'select version, results_version, engine_version from sheet where id = ? for update',
+        [sheetId],
+      );
+      if (row?.version !== store.version) return null;
+      const subset = store.only && row.results_version === store.only.basedOn;
+      const ids = subset ? [...store.only!.ids].filter((id) => store.results.has(id)) : [...store.results.keys()];
+      for (let k = 0; k < ids.length; k += BATCH) {
+        const batch = ids.slice(k, k + BATCH);
+        await em.execute(
+          `update cell set results = case id ${batch.map(() => 'when ? then ?').join(' ')} end where sheet_id = ? and id in (${batch.map(() => '?').join(', ')})`,
+          [...batch.flatMap((id) => [id, JSON.stringify(store.results.get(id) ?? null)]), sheetId, ...batch],
+          'run',
+        );
+      }
+      await em.execute('update sheet set results_version = ?, engine_version = coalesce(?, engine_version) where id = ?', [store.version, store.engineVersion, sheetId], 'run');
+      return new Set(ids);
+    });
+  }
+
+  /** Queries not closed, by sheet, for the revision each sheet is being prepared as. */
+  async openQueryCounts(sheetIds: readonly string[]): Promise<Map<string, number>> {
+    const counts = new Map<string, number>();
+    if (!sheetIds.length) return counts;
+    const rows = await this.em.execute<{ sheet_id: string; open: number | string }[]>(
+      `select q.sheet_id, count(*) as open from cell_query q join sheet s on s.id = q.sheet_id and s.revision_number = q.revision_number
+        where q.sheet_id in (${sheetIds.map(() => '?').join(', ')}) and q.status <> 'closed' group by q.sheet_id`,
+      [...sheetIds],
+    );
+    for (const r of rows) counts.set(r.sheet_id, Number(r.open));
+    return counts;
+  }
+}
