@@ -27,7 +27,10 @@ export default defineConfig({
     projects: [
       { extends: true, test: { name: 'unit', include: ['src/**/*.spec.{ts,tsx}'], environment: 'jsdom', setupFiles: ['src/test-setup.ts'] } },
       // End-to-end: Debian's Chromium through playwright-core against the built app that scripts/test.mjs starts.
-      { extends: true, test: { name: 'e2e', include: ['e2e/**/*.e2e.ts'], environment: 'node', fileParallelism: false, testTimeout: 60000, hookTimeout: 60000 } },
+      {
+        extends: true,
+        test: { name: 'e2e', include: ['e2e/**/*.e2e.ts'], environment: 'node', fileParallelism: false, testTimeout: 60000, hookTimeout: 60000 },
+      },
     ],
   },
 });

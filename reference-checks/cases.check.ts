@@ -42,7 +42,10 @@ describe('reference cases', () => {
     const result = evaluateSheet(parsed.sheet);
     result.cells.forEach((cell, k) => {
       const wanted = (c.expectErrors ?? []).filter((e) => e.cell === k);
-      expect(cell.errors.map((e) => e.line), `${c.id}: ${JSON.stringify(cell.errors)}`).toEqual(wanted.map((e) => e.line));
+      expect(
+        cell.errors.map((e) => e.line),
+        `${c.id}: ${JSON.stringify(cell.errors)}`,
+      ).toEqual(wanted.map((e) => e.line));
       wanted.forEach((e, n) => expect(cell.errors[n].message).toMatch(new RegExp(e.match)));
     });
     for (const e of c.expect) {

@@ -6,7 +6,8 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 
 const root = join(__dirname, '..');
-const calc = (file: string, env: Record<string, string> = {}) => spawnSync('npm', ['run', '-s', 'calc', '--', file], { cwd: root, encoding: 'utf8', env: { ...process.env, ...env } });
+const calc = (file: string, env: Record<string, string> = {}) =>
+  spawnSync('npm', ['run', '-s', 'calc', '--', file], { cwd: root, encoding: 'utf8', env: { ...process.env, ...env } });
 const dir = mkdtempSync(join(tmpdir(), 'ampwright-calc-'));
 const write = (name: string, content: unknown) => {
   const file = join(dir, name);
@@ -17,7 +18,15 @@ const sheet = (cells: unknown[]) => ({ format: 'ampwright.sheet/1', title: 'Cont
 
 describe('npm run calc', () => {
   it('prints SI values, {re, im} for complex ones, and exits 0 when all passes', () => {
-    const out = calc(write('ok.json', sheet([{ kind: 'calc', source: 'Z = (3 + 4j) kohm\nI = 10 V / Z to mA\nk = 2' }, { kind: 'check', condition: 'abs(I) <= 3 mA', basis: 'probe' }])));
+    const out = calc(
+      write(
+        'ok.json',
+        sheet([
+          { kind: 'calc', source: 'Z = (3 + 4j) kohm\nI = 10 V / Z to mA\nk = 2' },
+          { kind: 'check', condition: 'abs(I) <= 3 mA', basis: 'probe' },
+        ]),
+      ),
+    );
     expect(out.status).toBe(0);
     const json = JSON.parse(out.stdout);
     expect(json.cells[0].values.Z).toEqual({ si: { re: 3000, im: 4000 }, display: '5.000 kΩ ∠ 53.1°' });
@@ -27,7 +36,15 @@ describe('npm run calc', () => {
   });
 
   it('exits 1 when a check does not pass', () => {
-    const out = calc(write('fail.json', sheet([{ kind: 'calc', source: 'I = 5 A' }, { kind: 'check', condition: 'I <= 4 A' }])));
+    const out = calc(
+      write(
+        'fail.json',
+        sheet([
+          { kind: 'calc', source: 'I = 5 A' },
+          { kind: 'check', condition: 'I <= 4 A' },
+        ]),
+      ),
+    );
     expect(out.status).toBe(1);
     expect(JSON.parse(out.stdout).cells[1].pass).toBe(false);
   });
@@ -35,12 +52,23 @@ describe('npm run calc', () => {
   it('exits 1 with 1-based positions when a cell fails', () => {
     const out = calc(write('err.json', sheet([{ kind: 'calc', source: 'V = 1 V\nx = V + 2 A' }])));
     expect(out.status).toBe(1);
-    expect(JSON.parse(out.stdout).cells[0].errors).toEqual([{ line: 2, column: 7, message: 'cannot add a voltage and a current: the two sides have different dimensions' }]);
+    expect(JSON.parse(out.stdout).cells[0].errors).toEqual([
+      { line: 2, column: 7, message: 'cannot add a voltage and a current: the two sides have different dimensions' },
+    ]);
   });
 
   it('stops a sheet at its deadline or memory cap, says why in every cell, and exits 1 (common practice: a bounded batch job)', () => {
     const runaway = 'M = ones(316, 316)\nP = M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M';
-    const slow = calc(write('slow.json', sheet([{ kind: 'calc', source: runaway }, { kind: 'note', text: 'after' }])), { CALC_TIMEOUT_MS: '1500' });
+    const slow = calc(
+      write(
+        'slow.json',
+        sheet([
+          { kind: 'calc', source: runaway },
+          { kind: 'note', text: 'after' },
+        ]),
+      ),
+      { CALC_TIMEOUT_MS: '1500' },
+    );
     expect(slow.status).toBe(1);
     const cells = JSON.parse(slow.stdout).cells;
     expect(cells.map((c: { kind: string }) => c.kind)).toEqual(['calc', 'note']);

@@ -57,7 +57,8 @@ describe('RLC transient against numeric.dopri (numeric 1.2.6)', () => {
     const Rv = Number(R.split(' ')[0]);
     const L = 0.02;
     const C = 50e-6;
-    const E = (t: number) => (source.startsWith('48') ? 48 : source.startsWith('0') ? 0 : source.includes('cos') ? 100 * Math.cos(2 * Math.PI * 60 * t) : (100 * t) / 0.01);
+    const E = (t: number) =>
+      source.startsWith('48') ? 48 : source.startsWith('0') ? 0 : source.includes('cos') ? 100 * Math.cos(2 * Math.PI * 60 * t) : (100 * t) / 0.01;
     const y0 = [source === '0 V' ? 2e-3 : 0, i0 === '1 A' ? 1 : 0];
     const sol = numeric.dopri(0, 0.06, y0, (t: number, y: number[]) => [y[1], (E(t) - Rv * y[1] - y[0] / C) / L], 1e-12, 100000);
     const peak = Math.max(...r.current!.values.map(Math.abs));

@@ -11,7 +11,14 @@ import { join } from 'node:path';
 import { evaluateSheet, parseSheetFile, type CalcResult, type TransientResult } from '../common/src/index';
 
 const positive = (min: number, max: number) => fc.double({ min, max, noNaN: true, noDefaultInfinity: true });
-const circuit = fc.record({ R: positive(0.01, 1000), L: positive(1e-6, 10), C: positive(1e-9, 1e-2), w: positive(1, 1e5), E0: positive(1, 1e5), t: positive(0, 1) });
+const circuit = fc.record({
+  R: positive(0.01, 1000),
+  L: positive(1e-6, 10),
+  C: positive(1e-9, 1e-2),
+  w: positive(1, 1e5),
+  E0: positive(1, 1e5),
+  t: positive(0, 1),
+});
 
 function run(p: { R: number; L: number; C: number; w: number; E0: number; t: number }, source: string) {
   const head = `R = ${p.R} ohm\nL = ${p.L} H\nC = ${p.C} F\nw = ${p.w} rad/s\nE0 = ${p.E0} V\nt = ${p.t} s\n`;
@@ -58,7 +65,10 @@ describe('series RLC identities', () => {
   it('the delay angle and the phase of the cosine form differ by π/2', () => {
     fc.assert(
       fc.property(circuit, (p) => {
-        const v = run(p, 'i_t = rlc_current(t, E0, R, L, C, w)\nI0 = rlc_amplitude(E0, R, L, C, w)\nphi = delay_angle(R, L, C, w)\nalpha = phi + pi / 2\ni_cos = I0 * cos(w t - alpha)');
+        const v = run(
+          p,
+          'i_t = rlc_current(t, E0, R, L, C, w)\nI0 = rlc_amplitude(E0, R, L, C, w)\nphi = delay_angle(R, L, C, w)\nalpha = phi + pi / 2\ni_cos = I0 * cos(w t - alpha)',
+        );
         expect(Math.abs(v('i_t') - v('i_cos'))).toBeLessThan(1e-9 * v('I0'));
       }),
       { numRuns: 200, seed: 20261204 },
@@ -115,19 +125,27 @@ describe('angular frequency and frequency, as shown', () => {
 
   it('converts back to the SI value, in rad/s for angular frequencies and never in Hz', () => {
     fc.assert(
-      fc.property(fc.constantFrom(...forms), positive(0.5, 1e6), positive(1e-6, 1), positive(1e-9, 1e-2), positive(0.01, 100), fc.integer({ min: 3, max: 8 }), ([line, kind, expected], f, L, C, R, digits) => {
-        const source = `f = ${f} Hz\nL = ${L} H\nC = ${C} F\nR = ${R} ohm\n${line}`;
-        const r = evaluateSheet({ settings: { significantDigits: digits }, cells: [{ kind: 'calc', source }] } as never).cells[0] as CalcResult;
-        expect(r.errors).toEqual([]);
-        const name = line.split(' =')[0];
-        const shown = r.values[name];
-        const back = readBack(shown.display);
-        expect(SHOWN[kind], `${line}: ${shown.display}`).toContain(back.unit);
-        const truth = expected({ f, L, C, R });
-        expect(rel(shown.si as number, truth)).toBeLessThan(1e-12);
-        // The digits shown are the SI value rounded to `digits` significant digits.
-        expect(rel(back.si, truth), `${line}: ${shown.display}`).toBeLessThanOrEqual(0.5 * 10 ** (1 - digits) * 1.0000001);
-      }),
+      fc.property(
+        fc.constantFrom(...forms),
+        positive(0.5, 1e6),
+        positive(1e-6, 1),
+        positive(1e-9, 1e-2),
+        positive(0.01, 100),
+        fc.integer({ min: 3, max: 8 }),
+        ([line, kind, expected], f, L, C, R, digits) => {
+          const source = `f = ${f} Hz\nL = ${L} H\nC = ${C} F\nR = ${R} ohm\n${line}`;
+          const r = evaluateSheet({ settings: { significantDigits: digits }, cells: [{ kind: 'calc', source }] } as never).cells[0] as CalcResult;
+          expect(r.errors).toEqual([]);
+          const name = line.split(' =')[0];
+          const shown = r.values[name];
+          const back = readBack(shown.display);
+          expect(SHOWN[kind], `${line}: ${shown.display}`).toContain(back.unit);
+          const truth = expected({ f, L, C, R });
+          expect(rel(shown.si as number, truth)).toBeLessThan(1e-12);
+          // The digits shown are the SI value rounded to `digits` significant digits.
+          expect(rel(back.si, truth), `${line}: ${shown.display}`).toBeLessThanOrEqual(0.5 * 10 ** (1 - digits) * 1.0000001);
+        },
+      ),
       { numRuns: 500, seed: 20261202 },
     );
   });

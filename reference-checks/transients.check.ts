@@ -13,10 +13,7 @@ const rel = (a: number, b: number) => Math.abs(a - b) / Math.max(Math.abs(b), 1e
 
 function transient(R: string, source: string, extra: Record<string, string | number> = {}, L = '20 mH', C = '50 uF'): TransientResult {
   const r = evaluateSheet({
-    cells: [
-      { kind: 'calc', source: `L = ${L}\nC = ${C}` },
-      { kind: 'transient', R, L: 'L', C: 'C', source, span: '60 ms', points: 601, ...extra } as never,
-    ],
+    cells: [{ kind: 'calc', source: `L = ${L}\nC = ${C}` }, { kind: 'transient', R, L: 'L', C: 'C', source, span: '60 ms', points: 601, ...extra } as never],
   }).cells[1] as TransientResult;
   expect(r.errors).toEqual([]);
   return r;

@@ -13,6 +13,16 @@ declare module 'numeric' {
     y: number[][];
     at(x: number): number[];
   }
-  const numeric: { dopri(x0: number, x1: number, y0: number[], f: (t: number, y: number[]) => number[], tol?: number, maxit?: number, event?: (t: number, y: number[]) => number[]): DopriSolution };
+  const numeric: {
+    dopri(
+      x0: number,
+      x1: number,
+      y0: number[],
+      f: (t: number, y: number[]) => number[],
+      tol?: number,
+      maxit?: number,
+      event?: (t: number, y: number[]) => number[],
+    ): DopriSolution;
+  };
   export default numeric;
 }

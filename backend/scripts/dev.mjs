@@ -21,7 +21,18 @@ main(async () => {
   migrateAndSeed(env);
   startChild(process.execPath, [tsc, '-p', join(ROOT, 'common', 'tsconfig.build.json'), '--watch', '--preserveWatchOutput'], { cwd: ROOT });
   startChild(process.execPath, [tsc, '-p', join(ROOT, 'backend', 'tsconfig.build.json'), '--watch', '--preserveWatchOutput'], { cwd: ROOT });
-  startChild(process.execPath, ['--watch-path', join(ROOT, 'backend', 'dist'), '--watch-path', join(ROOT, 'common', 'dist'), '--enable-source-maps', join(ROOT, 'backend', 'dist', 'main.js')], { env });
+  startChild(
+    process.execPath,
+    [
+      '--watch-path',
+      join(ROOT, 'backend', 'dist'),
+      '--watch-path',
+      join(ROOT, 'common', 'dist'),
+      '--enable-source-maps',
+      join(ROOT, 'backend', 'dist', 'main.js'),
+    ],
+    { env },
+  );
   const vite = startChild(process.execPath, [join(ROOT, 'node_modules', 'vite', 'bin', 'vite.js')], { cwd: join(ROOT, 'frontend') });
   log('dev servers starting: open http://127.0.0.1:5173 (Ctrl-C stops everything)');
   return new Promise((resolve) => vite.once('exit', (code) => resolve(code ?? 0)));

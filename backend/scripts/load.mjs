@@ -68,7 +68,10 @@ function saveRequest(w) {
         ...req,
         path: `/api/sheets/${w.sheetId}/cells/${w.cellId}`,
         headers: { cookie: w.session.cookie, 'x-ampwright-csrf': w.session.csrf, 'content-type': 'application/json' },
-        body: JSON.stringify({ version: w.version, cell: { kind: 'calc', source: `R_0 = ${1 + (w.n % 50)} ohm\nX_0 = 1 ohm\nZ_0 = sqrt(R_0^2 + X_0^2)\nI_0 = 230 V / Z_0 to A` } }),
+        body: JSON.stringify({
+          version: w.version,
+          cell: { kind: 'calc', source: `R_0 = ${1 + (w.n % 50)} ohm\nX_0 = 1 ohm\nZ_0 = sqrt(R_0^2 + X_0^2)\nI_0 = 230 V / Z_0 to A` },
+        }),
       };
     },
     onResponse: (status, body, _context, headers) => {
@@ -166,11 +169,21 @@ main(async () => {
     // The last save of a previous phase may have been cut off before its answer: start from the truth.
     for (const w of writers) w.version = (await json(`/sheets/${w.sheetId}`, { session: w.session })).data.version;
     const pause = (k, n) => new Promise((r) => setTimeout(r, rate > 0 ? (k * 1000) / (n * rate) : 0));
-    const user = (requests) => autocannon({ url: BASE, connections: 1, duration: seconds, skipAggregateResult: true, ...(rate > 0 ? { connectionRate: rate } : {}), requests });
+    const user = (requests) =>
+      autocannon({ url: BASE, connections: 1, duration: seconds, skipAggregateResult: true, ...(rate > 0 ? { connectionRate: rate } : {}), requests });
     let readerIndex = 0;
     const readers = Array.from({ length: READERS }, async (_, k) => {
       await pause(k, READERS);
-      return user([{ method: 'GET', setupRequest: (req) => ({ ...req, path: `/api/sheets/${readSheets[readerIndex++ % readSheets.length]}`, headers: { cookie: sessions[k % 2].cookie } }) }]);
+      return user([
+        {
+          method: 'GET',
+          setupRequest: (req) => ({
+            ...req,
+            path: `/api/sheets/${readSheets[readerIndex++ % readSheets.length]}`,
+            headers: { cookie: sessions[k % 2].cookie },
+          }),
+        },
+      ]);
     });
     // Each writer saves its own sheet, one request at a time, based on the version it last saw: a 409
     // would be a real conflict.
@@ -200,7 +213,11 @@ main(async () => {
     }
     const registered = await json('/auth/register/confirm', { method: 'POST', body: { token } });
     const noisy = { cookie: registered.res.headers.get('set-cookie').split(';')[0], csrf: registered.data.csrfToken };
-    const runaway = { format: 'ampwright.sheet/1', title: 'Runaway', cells: [{ kind: 'calc', source: `M = ones(316, 316)\nP = ${Array.from({ length: 20 }, () => 'M').join(' * ')}` }] };
+    const runaway = {
+      format: 'ampwright.sheet/1',
+      title: 'Runaway',
+      cells: [{ kind: 'calc', source: `M = ones(316, 316)\nP = ${Array.from({ length: 20 }, () => 'M').join(' * ')}` }],
+    };
     const noisyStatuses = new Map();
     const flood = autocannon({
       url: BASE,
@@ -244,7 +261,9 @@ main(async () => {
     noisy = await noisyPhase(NOISY_SECONDS);
   }
   const day = new Date().toISOString().slice(0, 10);
-  process.stdout.write(`\nLoad, paced: ${READERS + WRITERS} users, each ${RATE} request(s) a second, for ${SECONDS} s on ${BASE} (${day}, ${cpus().length} cores)\n`);
+  process.stdout.write(
+    `\nLoad, paced: ${READERS + WRITERS} users, each ${RATE} request(s) a second, for ${SECONDS} s on ${BASE} (${day}, ${cpus().length} cores)\n`,
+  );
   report('reads', r, 100);
   report('saves', w, 250);
   reportTimings(pacedTimings);
@@ -257,9 +276,16 @@ main(async () => {
     if (statuses.size) process.stdout.write(`saves answered other than 200: ${[...statuses].map(([k, v]) => `${v} × ${k}`).join(', ')}\n`);
   }
   if (noisy) {
-    process.stdout.write(`\nLoad, noisy neighbour: another firm sends runaway evaluations on ${NOISY_CONNECTIONS} connections with no pause, for ${NOISY_SECONDS} s\n`);
+    process.stdout.write(
+      `\nLoad, noisy neighbour: another firm sends runaway evaluations on ${NOISY_CONNECTIONS} connections with no pause, for ${NOISY_SECONDS} s\n`,
+    );
     report('saves', noisy.saves, 500);
-    process.stdout.write(`noisy firm's evaluations answered: ${[...noisy.noisyStatuses].sort().map(([k, v]) => `${v} × ${k}`).join(', ')}\n`);
+    process.stdout.write(
+      `noisy firm's evaluations answered: ${[...noisy.noisyStatuses]
+        .sort()
+        .map(([k, v]) => `${v} × ${k}`)
+        .join(', ')}\n`,
+    );
     if (statuses.size) process.stdout.write(`saves answered other than 200: ${[...statuses].map(([k, v]) => `${v} × ${k}`).join(', ')}\n`);
   }
   return 0;

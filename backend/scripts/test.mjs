@@ -51,7 +51,33 @@ function failuresOf(json) {
 }
 
 function firstLines(text) {
-  return String(text ?? '').replace(/\u001b\[[0-9;]*m/g, '').split('\n').filter((l) => l.trim()).slice(0, 3).join(' | ').slice(0, 400);
+  return String(text ?? '')
+    .replace(/\u001b\[[0-9;]*m/g, '')
+    .split('\n')
+    .filter((l) => l.trim())
+    .slice(0, 3)
+    .join(' | ')
+    .slice(0, 400);
+}
+
+/** ESLint (eslint.config.mjs) and Prettier's check (.prettierrc.json) over the repository: one count each. */
+function runLint(name) {
+  log(`layer: ${name}`);
+  const tools = [
+    [join(ROOT, 'node_modules', 'eslint', 'bin', 'eslint.js'), ['.']],
+    [join(ROOT, 'node_modules', 'prettier', 'bin', 'prettier.cjs'), ['--check', '.']],
+  ];
+  let passed = 0;
+  let failed = 0;
+  for (const [bin, args] of tools) {
+    try {
+      run(process.execPath, [bin, ...args], { cwd: ROOT });
+      passed++;
+    } catch {
+      failed++;
+    }
+  }
+  return { name, passed, failed, skipped: 0, ok: failed === 0, note: failed ? 'run `npm run lint`; `npm run format` fixes the formatting' : '' };
 }
 
 /** Type-checks every project, tests included (the same as `npm run typecheck`); one count per project. */
@@ -100,12 +126,16 @@ main(async () => {
   };
   migrateAndSeed(env);
 
-  const wanted = (process.env.TEST_LAYERS ?? '').split(',').map((w) => w.trim()).filter(Boolean);
+  const wanted = (process.env.TEST_LAYERS ?? '')
+    .split(',')
+    .map((w) => w.trim())
+    .filter(Boolean);
   const extra = process.argv.slice(2);
   const selected = (name) => !wanted.length || wanted.some((w) => name.includes(w));
   const layers = [];
   const layer = (name, dir, args, layerEnv = env) => selected(name) && layers.push(runLayer(name, join(ROOT, dir), [...args, ...extra], layerEnv));
   if (selected('type check')) layers.push(runTypecheck('type check'));
+  if (selected('lint')) layers.push(runLint('lint'));
   layer('common unit', 'common', []);
   layer('backend unit', 'backend', ['--project', 'unit']);
   layer('frontend unit', 'frontend', ['--project', 'unit']);
@@ -117,10 +147,16 @@ main(async () => {
     layer('end-to-end', 'frontend', ['--project', 'e2e'], { ...env, E2E_BASE_URL: `http://127.0.0.1:${TEST.appPort}` });
   }
 
-  const total = layers.reduce((acc, l) => ({ passed: acc.passed + l.passed, failed: acc.failed + l.failed, skipped: acc.skipped + l.skipped }), { passed: 0, failed: 0, skipped: 0 });
+  const total = layers.reduce((acc, l) => ({ passed: acc.passed + l.passed, failed: acc.failed + l.failed, skipped: acc.skipped + l.skipped }), {
+    passed: 0,
+    failed: 0,
+    skipped: 0,
+  });
   process.stdout.write('\nTest layers\n');
   for (const l of layers) {
-    process.stdout.write(`  ${l.ok ? 'PASS' : 'FAIL'}  ${l.name.padEnd(18)} ${l.passed} passed, ${l.failed} failed${l.skipped ? `, ${l.skipped} skipped` : ''}${l.note ? `  (${l.note})` : ''}\n`);
+    process.stdout.write(
+      `  ${l.ok ? 'PASS' : 'FAIL'}  ${l.name.padEnd(18)} ${l.passed} passed, ${l.failed} failed${l.skipped ? `, ${l.skipped} skipped` : ''}${l.note ? `  (${l.note})` : ''}\n`,
+    );
   }
   process.stdout.write(`${total.passed} passed, ${total.failed} failed${total.skipped ? `, ${total.skipped} skipped` : ''}\n`);
   const failures = layers.flatMap((l) => (l.failures ?? []).map((f) => ({ layer: l.name, ...f })));

@@ -59,7 +59,11 @@ const staticFrontEnd = ServeStaticModule.forRootAsync({
     }),
     ThrottlerModule.forRootAsync({
       inject: [MikroORM],
-      useFactory: (orm: MikroORM) => ({ throttlers: THROTTLERS, storage: new SharedThrottlerStorage(orm), errorMessage: 'Too many attempts: wait a minute and try again.' }),
+      useFactory: (orm: MikroORM) => ({
+        throttlers: THROTTLERS,
+        storage: new SharedThrottlerStorage(orm),
+        errorMessage: 'Too many attempts: wait a minute and try again.',
+      }),
     }),
     AuditModule,
     AuthModule,

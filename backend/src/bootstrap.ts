@@ -22,7 +22,13 @@ export function configureApp(app: INestApplication): INestApplication {
     const length = Number(req.get('content-length') ?? 0);
     const hasBody = length > 0 || req.get('transfer-encoding') !== undefined;
     if (hasBody && !req.is(['application/json', 'application/*+json', 'multipart/form-data'])) {
-      return next(new AppException(ErrorCode.UnsupportedMediaType, `The request body is ${req.get('content-type') ?? 'of no stated type'}; send it as application/json (or multipart/form-data with a file).`, HttpStatus.UNSUPPORTED_MEDIA_TYPE));
+      return next(
+        new AppException(
+          ErrorCode.UnsupportedMediaType,
+          `The request body is ${req.get('content-type') ?? 'of no stated type'}; send it as application/json (or multipart/form-data with a file).`,
+          HttpStatus.UNSUPPORTED_MEDIA_TYPE,
+        ),
+      );
     }
     next();
   });

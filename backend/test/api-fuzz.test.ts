@@ -25,7 +25,31 @@ const ZIP = Buffer.from('504b030414000000000000000000000000000000000000000000000
 
 /** Hostile values for one field. */
 const hostileValue = fc.oneof(
-  fc.constantFrom(null, true, false, 0, -1, 1e308, -1e308, 2 ** 53 + 1, 0.5, '', ' ', 'x'.repeat(100_000), '\u0000', '\u202e', '🙂', '../../etc/passwd', '<script>alert(1)</script>', "' OR 1=1 --", '${7*7}', '00000000-0000-4000-8000-000000000000', [], {}, [[[[[]]]]]),
+  fc.constantFrom(
+    null,
+    true,
+    false,
+    0,
+    -1,
+    1e308,
+    -1e308,
+    2 ** 53 + 1,
+    0.5,
+    '',
+    ' ',
+    'x'.repeat(100_000),
+    '\u0000',
+    '\u202e',
+    '🙂',
+    '../../etc/passwd',
+    '<script>alert(1)</script>',
+    "' OR 1=1 --",
+    '${7*7}',
+    '00000000-0000-4000-8000-000000000000',
+    [],
+    {},
+    [[[[[]]]]],
+  ),
   fc.jsonValue({ maxDepth: 3 }),
   fc.string({ unit: 'binary', maxLength: 50 }),
 );
@@ -33,7 +57,13 @@ const hostileValue = fc.oneof(
 /** A body as JSON text: anything at all, a valid body with one field spoiled, or a pollution attempt. */
 function hostileBodies(valid: Record<string, unknown> | undefined): fc.Arbitrary<{ text: string }> {
   const anything = fc.jsonValue({ maxDepth: 4 }).map((v) => ({ text: JSON.stringify(v) }));
-  const pollution = fc.constantFrom('{"__proto__": {"polluted": "yes"}}', '{"constructor": {"prototype": {"polluted": "yes"}}}', '{"__proto__": {"isAdmin": true}, "roles": ["owner"]}').map((text) => ({ text }));
+  const pollution = fc
+    .constantFrom(
+      '{"__proto__": {"polluted": "yes"}}',
+      '{"constructor": {"prototype": {"polluted": "yes"}}}',
+      '{"__proto__": {"isAdmin": true}, "roles": ["owner"]}',
+    )
+    .map((text) => ({ text }));
   const deep = fc.integer({ min: 1000, max: 20_000 }).map((n) => ({ text: `${'{"a":'.repeat(n)}1${'}'.repeat(n)}` }));
   const keys = Object.keys(valid ?? {});
   if (!keys.length) return fc.oneof(anything, pollution, deep);
@@ -73,17 +103,23 @@ describe('fuzzing the API', () => {
   // Signing out would end the session the other cases use; it takes no body anyway.
   const withBodies = Object.keys(MATRIX).filter((r) => /^(POST|PUT|PATCH) /.test(r) && r !== 'POST /api/auth/logout');
 
-  it.each(withBodies)(`%s: ${PER_ROUTE} hostile bodies, each answered clearly`, async (route) => {
-    const [method, path] = route.split(' ');
-    const cases = fc.sample(hostileBodies(bodies[route] as Record<string, unknown> | undefined), { numRuns: PER_ROUTE, seed: SEED });
-    for (const { text } of cases) {
-      const res = await as(app, me, method.toLowerCase() as 'post', fillIds(path, ids)).set('content-type', 'application/json').send(text);
-      expectClearAnswer(res, `${route} with ${text.slice(0, 120)}`);
-    }
-    // Nothing sent reached the server's objects.
-    expect(({} as Record<string, unknown>).polluted).toBeUndefined();
-    expect(({} as Record<string, unknown>).isAdmin).toBeUndefined();
-  }, 120_000);
+  it.each(withBodies)(
+    `%s: ${PER_ROUTE} hostile bodies, each answered clearly`,
+    async (route) => {
+      const [method, path] = route.split(' ');
+      const cases = fc.sample(hostileBodies(bodies[route] as Record<string, unknown> | undefined), { numRuns: PER_ROUTE, seed: SEED });
+      for (const { text } of cases) {
+        const res = await as(app, me, method.toLowerCase() as 'post', fillIds(path, ids))
+          .set('content-type', 'application/json')
+          .send(text);
+        expectClearAnswer(res, `${route} with ${text.slice(0, 120)}`);
+      }
+      // Nothing sent reached the server's objects.
+      expect(({} as Record<string, unknown>).polluted).toBeUndefined();
+      expect(({} as Record<string, unknown>).isAdmin).toBeUndefined();
+    },
+    120_000,
+  );
 
   // A spoiled required field is refused (the value is the wrong type, out of range, or not an id);
   // CELL stands for the id of a cell of the sheet.
@@ -102,19 +138,40 @@ describe('fuzzing the API', () => {
     ['PATCH /api/members/:id', { roles: 'owner' }],
     ['POST /api/invitations', { email: 'not an address', roles: ['engineer'] }],
     ['PUT /api/projects/:id/members', { userIds: ['not-a-uuid'] }],
-    ['POST /api/evaluate', { format: 'ampwright.sheet/1', title: 'x', cells: [{ kind: 'calc', source: 'x = 1' }], extra: { deep: 1 }, settings: { significantDigits: 99 } }],
+    [
+      'POST /api/evaluate',
+      { format: 'ampwright.sheet/1', title: 'x', cells: [{ kind: 'calc', source: 'x = 1' }], extra: { deep: 1 }, settings: { significantDigits: 99 } },
+    ],
   ] as const;
 
-  it.each(spoiledRefused.map(([route, body]) => [route, JSON.stringify(body).slice(0, 80), body] as const))('%s refuses %s with 400 naming the problem', async (route, _label, body) => {
-    const [method, path] = route.split(' ');
-    const fixed = JSON.parse(JSON.stringify(body).replace('"CELL"', `"${ids.cell}"`));
-    const who = path.includes('/queries') ? checker : me;
-    const res = await as(app, who, method.toLowerCase() as 'post', fillIds(path, ids)).send(fixed);
-    expect(res.status, `${route}: ${JSON.stringify(res.body)}`).toBe(400);
-    expect(res.body.message.length).toBeGreaterThan(10);
-  });
+  it.each(spoiledRefused.map(([route, body]) => [route, JSON.stringify(body).slice(0, 80), body] as const))(
+    '%s refuses %s with 400 naming the problem',
+    async (route, _label, body) => {
+      const [method, path] = route.split(' ');
+      const fixed = JSON.parse(JSON.stringify(body).replace('"CELL"', `"${ids.cell}"`));
+      const who = path.includes('/queries') ? checker : me;
+      const res = await as(app, who, method.toLowerCase() as 'post', fillIds(path, ids)).send(fixed);
+      expect(res.status, `${route}: ${JSON.stringify(res.body)}`).toBe(400);
+      expect(res.body.message.length).toBeGreaterThan(10);
+    },
+  );
 
-  const HOSTILE_QUERIES = ['?version=abc', '?version=1&version=2', '?version[]=1', '?version=1e400', '?from=../etc&to=draft', '?from[$ne]=x', '?to=%00', '?all=banana', '?all[]=true', '?token[$gt]=', `?token=${'x'.repeat(10_000)}`, '?__proto__[polluted]=yes', '?constructor[prototype][polluted]=yes', '?%ff=%fe'];
+  const HOSTILE_QUERIES = [
+    '?version=abc',
+    '?version=1&version=2',
+    '?version[]=1',
+    '?version=1e400',
+    '?from=../etc&to=draft',
+    '?from[$ne]=x',
+    '?to=%00',
+    '?all=banana',
+    '?all[]=true',
+    '?token[$gt]=',
+    `?token=${'x'.repeat(10_000)}`,
+    '?__proto__[polluted]=yes',
+    '?constructor[prototype][polluted]=yes',
+    '?%ff=%fe',
+  ];
   const gets = Object.keys(MATRIX).filter((r) => r.startsWith('GET ') || r.startsWith('DELETE '));
 
   it.each(gets)('%s: hostile query strings answered clearly', async (route) => {
@@ -131,7 +188,14 @@ describe('fuzzing the API', () => {
 
   it('validates the query of every route that reads one', async () => {
     const sheet = `/api/sheets/${ids.sheet}`;
-    for (const url of [`${sheet}/cells/${ids.cell}?version=abc`, `${sheet}/cells/${ids.cell}?version=1e400`, `${sheet}/cells/${ids.cell}`, `${sheet}/queries?all=banana`, `/api/sheets/${ids.issuedSheet}/diff?from=../etc&to=draft`, `/api/sheets/${ids.issuedSheet}/diff?from=${ids.revision}&to=nowhere`]) {
+    for (const url of [
+      `${sheet}/cells/${ids.cell}?version=abc`,
+      `${sheet}/cells/${ids.cell}?version=1e400`,
+      `${sheet}/cells/${ids.cell}`,
+      `${sheet}/queries?all=banana`,
+      `/api/sheets/${ids.issuedSheet}/diff?from=../etc&to=draft`,
+      `/api/sheets/${ids.issuedSheet}/diff?from=${ids.revision}&to=nowhere`,
+    ]) {
       const method = url.includes('/cells/') ? 'delete' : 'get';
       const res = await as(app, me, method, url);
       expect(res.status, `${method} ${url}: ${JSON.stringify(res.body)}`).toBe(400);
@@ -143,9 +207,20 @@ describe('fuzzing the API', () => {
 
   it('answers path tricks with 400 or 404, and never a file from outside the app', async () => {
     const tricks = [
-      '/api/sheets/..%2F..%2F..%2Fetc%2Fpasswd', '/api/sheets/%2e%2e%2f%2e%2e%2fetc%2fpasswd', '/api/sheets/00000000-0000-4000-8000-000000000000%00', "/api/sheets/'%20OR%201=1%20--",
-      `/api/attachments/${ids.attachment}%2F..%2F..%2Fdownload`, '/api/attachments/../../../etc/passwd/download', '/api/..%2f..%2fpackage.json', '/api/%2e%2e/%2e%2e/.env', '/..%2f..%2f..%2fetc%2fpasswd',
-      '/assets/..%2f..%2f..%2fpackage.json', '/%252e%252e/%252e%252e/package.json', '/api/sheets/%ff%fe', `/api/${'a'.repeat(8000)}`, '/api/sheets/' + '%2e'.repeat(3000),
+      '/api/sheets/..%2F..%2F..%2Fetc%2Fpasswd',
+      '/api/sheets/%2e%2e%2f%2e%2e%2fetc%2fpasswd',
+      '/api/sheets/00000000-0000-4000-8000-000000000000%00',
+      "/api/sheets/'%20OR%201=1%20--",
+      `/api/attachments/${ids.attachment}%2F..%2F..%2Fdownload`,
+      '/api/attachments/../../../etc/passwd/download',
+      '/api/..%2f..%2fpackage.json',
+      '/api/%2e%2e/%2e%2e/.env',
+      '/..%2f..%2f..%2fetc%2fpasswd',
+      '/assets/..%2f..%2f..%2fpackage.json',
+      '/%252e%252e/%252e%252e/package.json',
+      '/api/sheets/%ff%fe',
+      `/api/${'a'.repeat(8000)}`,
+      '/api/sheets/' + '%2e'.repeat(3000),
     ];
     for (const path of tricks) {
       const res = await as(app, me, 'get', path);
@@ -154,7 +229,7 @@ describe('fuzzing the API', () => {
     }
   });
 
-  it('refuses a JSON route\'s body in any other content type with 415, and malformed JSON with 400', async () => {
+  it("refuses a JSON route's body in any other content type with 415, and malformed JSON with 400", async () => {
     const route = 'PATCH /api/sheets/:id/cells/:cellId';
     const url = fillIds(route.split(' ')[1], ids);
     const body = JSON.stringify(bodies[route]);
@@ -175,21 +250,34 @@ describe('fuzzing the API', () => {
     // Every JSON route answers the same way: never a success or a 5xx for a body it cannot read.
     for (const r of Object.keys(bodies)) {
       const [method, path] = r.split(' ');
-      const res = await as(app, me, method.toLowerCase() as 'post', fillIds(path, ids)).set('content-type', 'text/plain').send(JSON.stringify(bodies[r]));
+      const res = await as(app, me, method.toLowerCase() as 'post', fillIds(path, ids))
+        .set('content-type', 'text/plain')
+        .send(JSON.stringify(bodies[r]));
       expect(res.status, r).toBe(415);
     }
   });
 
   it('refuses a body over the JSON limit with 413 on a route that saves cells', async () => {
-    const res = await as(app, me, 'patch', `/api/sheets/${ids.sheet}/cells/${ids.cell}`).send({ version: 1, cell: { kind: 'calc', source: 'x'.repeat(3 * 1024 * 1024) } });
+    const res = await as(app, me, 'patch', `/api/sheets/${ids.sheet}/cells/${ids.cell}`).send({
+      version: 1,
+      cell: { kind: 'calc', source: 'x'.repeat(3 * 1024 * 1024) },
+    });
     expect(res.status).toBe(413);
     expect(res.body.code).toBe('PAYLOAD_TOO_LARGE');
   });
 
   it('refuses uploads whose name lies about their content, on every upload route', async () => {
     const lies: [Buffer, string][] = [
-      [PNG, 'drawing.pdf'], [PDF, 'photo.png'], [ELF, 'readings.csv'], [ELF, 'photo.png'], [ZIP, 'notes.txt'], [PNG, 'photo.png.exe'],
-      [Buffer.from('<html><script>alert(1)</script></html>'), 'page.png'], [Buffer.from('MZ\x90\x00'), 'report.pdf'], [PNG, 'photo'], [PNG, 'photo.\u202egnp'],
+      [PNG, 'drawing.pdf'],
+      [PDF, 'photo.png'],
+      [ELF, 'readings.csv'],
+      [ELF, 'photo.png'],
+      [ZIP, 'notes.txt'],
+      [PNG, 'photo.png.exe'],
+      [Buffer.from('<html><script>alert(1)</script></html>'), 'page.png'],
+      [Buffer.from('MZ\x90\x00'), 'report.pdf'],
+      [PNG, 'photo'],
+      [PNG, 'photo.\u202egnp'],
     ];
     const sheet = `/api/sheets/${ids.sheet}`;
     for (const [content, name] of lies) {
@@ -198,7 +286,11 @@ describe('fuzzing the API', () => {
       expect(res.body.message, name).toMatch(/its (name|content)|not a kind of file|it is text/);
     }
     // A CSV import takes text only, whatever the name.
-    for (const [content, name] of [[PNG, 'harmonics.csv'], [ZIP, 'harmonics.csv'], [ELF, 'harmonics.csv']] as const) {
+    for (const [content, name] of [
+      [PNG, 'harmonics.csv'],
+      [ZIP, 'harmonics.csv'],
+      [ELF, 'harmonics.csv'],
+    ] as const) {
       const res = await as(app, me, 'post', `${sheet}/cells/import-csv`).field('version', '1').field('position', '0').attach('file', content, name);
       expect(res.status, `csv ${name}`).toBe(415);
     }

@@ -7,7 +7,10 @@ import { createTestApp } from './support/test-app';
 // The smallest well-formed files of each kind, by their published signatures (PDF 1.4 header, PNG
 // signature per RFC 2083 section 3.1, JPEG SOI/JFIF): enough for the content to say what it is.
 const PDF = Buffer.from('%PDF-1.4\n1 0 obj<<>>endobj\ntrailer<<>>\n%%EOF\n');
-const PNG = Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), Buffer.from('0000000d49484452000000010000000108060000001f15c489', 'hex')]);
+const PNG = Buffer.concat([
+  Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
+  Buffer.from('0000000d49484452000000010000000108060000001f15c489', 'hex'),
+]);
 const ELF = Buffer.concat([Buffer.from([0x7f, 0x45, 0x4c, 0x46, 2, 1, 1, 0]), Buffer.alloc(56)]);
 
 describe('attachments', () => {
@@ -22,7 +25,9 @@ describe('attachments', () => {
     engineer = await makeCaller(app, ['engineer']);
     checker = await makeCaller(app, ['checker'], engineer.firm);
     outsider = await makeCaller(app, ['owner', 'engineer']);
-    const project = await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'A-1', title: 'Attachments', clientOrganisation: 'Client', site: 'Site' }).expect(201);
+    const project = await as(app, engineer, 'post', '/api/projects')
+      .send({ jobNumber: 'A-1', title: 'Attachments', clientOrganisation: 'Client', site: 'Site' })
+      .expect(201);
     const sheet = await as(app, engineer, 'post', `/api/projects/${project.body.id}/sheets`).send({ number: 'C-1', title: 'With files' }).expect(201);
     sheetId = sheet.body.id;
   });
@@ -34,7 +39,12 @@ describe('attachments', () => {
 
   it('stores a PDF in the object store with its SHA-256, and gives the same bytes back through the API', async () => {
     const res = await upload(engineer, PDF, 'datasheet.pdf').expect(201);
-    expect(res.body).toMatchObject({ fileName: 'datasheet.pdf', mediaType: 'application/pdf', size: PDF.length, sha256: createHash('sha256').update(PDF).digest('hex') });
+    expect(res.body).toMatchObject({
+      fileName: 'datasheet.pdf',
+      mediaType: 'application/pdf',
+      size: PDF.length,
+      sha256: createHash('sha256').update(PDF).digest('hex'),
+    });
     const list = await as(app, checker, 'get', `/api/sheets/${sheetId}/attachments`).expect(200);
     expect(list.body.map((a: { id: string }) => a.id)).toContain(res.body.id);
     const down = await binary(as(app, checker, 'get', `/api/attachments/${res.body.id}/download`)).expect(200);

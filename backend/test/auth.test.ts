@@ -18,7 +18,11 @@ const PASSWORD = 'correct horse battery';
 describe('accounts: register, sign in, sessions, reset, invitations, members', () => {
   let app: INestApplication;
   const http = () => request(app.getHttpServer());
-  const audit = (email: string) => app.get(EntityManager).fork().find(AuditEvent, { email }, { orderBy: { createdAt: 'asc' } });
+  const audit = (email: string) =>
+    app
+      .get(EntityManager)
+      .fork()
+      .find(AuditEvent, { email }, { orderBy: { createdAt: 'asc' } });
 
   beforeAll(async () => {
     app = await createTestApp();
@@ -31,7 +35,11 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
 
   /** Registers a firm the way a person does: the form, then the link e-mailed to the address. */
   async function register(email = uniqueEmail('owner')) {
-    const asked = await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Probe Consulting', name: 'Olu Owner', email, password: PASSWORD }).expect(202);
+    const asked = await http()
+      .post('/api/auth/register')
+      .set(CSRF_HEADER, '1')
+      .send({ firmName: 'Probe Consulting', name: 'Olu Owner', email, password: PASSWORD })
+      .expect(202);
     expect(asked.body).toEqual({ message: REGISTERED });
     const mail = await waitForMail(email, (m) => m.subject === 'Confirm your Ampwright registration');
     const token = /token=([\w-]+)/.exec(mail.text)![1];
@@ -53,14 +61,22 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
   });
 
   it('refuses a short password and a taken address with clear messages', async () => {
-    const short = await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'X Ltd', name: 'X', email: uniqueEmail('x'), password: 'short' }).expect(400);
+    const short = await http()
+      .post('/api/auth/register')
+      .set(CSRF_HEADER, '1')
+      .send({ firmName: 'X Ltd', name: 'X', email: uniqueEmail('x'), password: 'short' })
+      .expect(400);
     expect(short.body.details).toEqual([{ field: 'password', message: 'password must be at least 12 characters' }]);
   });
 
   it('answers a registration alike whether or not the address has an account, and tells the address by e-mail', async () => {
     const { email } = await register();
     const known = await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Y Ltd', name: 'Y', email, password: PASSWORD }).expect(202);
-    const unknown = await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Y Ltd', name: 'Y', email: uniqueEmail('fresh'), password: PASSWORD }).expect(202);
+    const unknown = await http()
+      .post('/api/auth/register')
+      .set(CSRF_HEADER, '1')
+      .send({ firmName: 'Y Ltd', name: 'Y', email: uniqueEmail('fresh'), password: PASSWORD })
+      .expect(202);
     expect(known.body).toEqual(unknown.body);
     expect((await waitForMail(email, (m) => m.subject === 'Your Ampwright account')).text).toMatch(/has an account already/);
   });
@@ -77,7 +93,11 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
   });
 
   it('answers an unknown address exactly as a wrong password', async () => {
-    const res = await http().post('/api/auth/login').set(CSRF_HEADER, '1').send({ email: uniqueEmail('nobody'), password: PASSWORD }).expect(401);
+    const res = await http()
+      .post('/api/auth/login')
+      .set(CSRF_HEADER, '1')
+      .send({ email: uniqueEmail('nobody'), password: PASSWORD })
+      .expect(401);
     expect(res.body.message).toBe('The e-mail address or the password is not right.');
   });
 
@@ -101,7 +121,8 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     const other = await createTestApp();
     try {
       const email = uniqueEmail('shared-throttle');
-      const attempt = (server: INestApplication) => request(server.getHttpServer()).post('/api/auth/login').set(CSRF_HEADER, '1').send({ email, password: 'wrong password!!' });
+      const attempt = (server: INestApplication) =>
+        request(server.getHttpServer()).post('/api/auth/login').set(CSRF_HEADER, '1').send({ email, password: 'wrong password!!' });
       for (let k = 0; k < 3; k++) expect((await attempt(app)).status).toBe(401);
       for (let k = 0; k < 2; k++) expect((await attempt(other)).status).toBe(401);
       expect((await attempt(app)).status).toBe(429);
@@ -130,7 +151,9 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     const { cookie, email } = await register();
     const sql = <T>(q: string, p: unknown[] = []) => app.get(EntityManager).fork().getConnection().execute<T>(q, p);
     const sessionOf = `select s.token_hash from session s join app_user u on u.id = s.user_id where u.email = '${email}'`;
-    const left = async () => (await sql<{ minutes: number }[]>(`select timestampdiff(second, now(3), expires_at) / 60 as minutes from session where token_hash = (${sessionOf})`))[0].minutes;
+    const left = async () =>
+      (await sql<{ minutes: number }[]>(`select timestampdiff(second, now(3), expires_at) / 60 as minutes from session where token_hash = (${sessionOf})`))[0]
+        .minutes;
     // Signed in: it ends after 120 idle minutes, not after 12 hours.
     expect(Number(await left())).toBeGreaterThan(118);
     expect(Number(await left())).toBeLessThanOrEqual(120);
@@ -139,7 +162,9 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     await http().get('/api/auth/me').set('cookie', cookie).expect(200);
     expect(Number(await left())).toBeGreaterThan(118);
     // Signed in nearly 12 hours ago: used now, it still ends 12 hours after sign-in.
-    await sql(`update session set created_at = now() - interval 12 hour + interval 10 minute, expires_at = now(3) + interval 30 second where token_hash = (${sessionOf})`);
+    await sql(
+      `update session set created_at = now() - interval 12 hour + interval 10 minute, expires_at = now(3) + interval 30 second where token_hash = (${sessionOf})`,
+    );
     await http().get('/api/auth/me').set('cookie', cookie).expect(200);
     expect(Number(await left())).toBeLessThanOrEqual(10.1);
     // Idle past its end: signed out.
@@ -152,14 +177,17 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     const firm = await register();
     const hash = await app.get(PasswordService).hash(PASSWORD);
     const emails = Array.from({ length: 20 }, () => uniqueEmail('office'));
-    const [{ id: firmId }] = await em.getConnection().execute<{ id: string }[]>('select firm_id as id from membership m join app_user u on u.id = m.user_id where u.email = ?', [firm.email]);
+    const [{ id: firmId }] = await em
+      .getConnection()
+      .execute<{ id: string }[]>('select firm_id as id from membership m join app_user u on u.id = m.user_id where u.email = ?', [firm.email]);
     for (const email of emails) {
       const user = new User(email, 'Office person', hash);
       em.persist([user, new Membership(em.getReference(Firm, firmId), user, ['engineer'])]);
     }
     await em.flush();
     // Everyone arrives at nine, twice over (a second tab), from the office's one address.
-    for (const email of [...emails, ...emails]) await http().post('/api/auth/login').set(CSRF_HEADER, '1').set('x-forwarded-for', '198.51.100.20').send({ email, password: PASSWORD }).expect(200);
+    for (const email of [...emails, ...emails])
+      await http().post('/api/auth/login').set(CSRF_HEADER, '1').set('x-forwarded-for', '198.51.100.20').send({ email, password: PASSWORD }).expect(200);
   });
 
   it('slows guessing one account from one address without locking its owner out from elsewhere, and limits failures per address', async () => {
@@ -176,40 +204,74 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     await from(office, PASSWORD).expect(200);
     // Failures per address (30 a minute by default), whatever the accounts tried.
     const spray = '203.0.113.99';
-    for (let k = 0; k < 30; k++) await http().post('/api/auth/login').set(CSRF_HEADER, '1').set('x-forwarded-for', spray).send({ email: uniqueEmail('sprayed'), password: 'spray-and-pray!' }).expect(401);
+    for (let k = 0; k < 30; k++)
+      await http()
+        .post('/api/auth/login')
+        .set(CSRF_HEADER, '1')
+        .set('x-forwarded-for', spray)
+        .send({ email: uniqueEmail('sprayed'), password: 'spray-and-pray!' })
+        .expect(401);
     const refused = await http().post('/api/auth/login').set(CSRF_HEADER, '1').set('x-forwarded-for', spray).send({ email, password: PASSWORD }).expect(429);
     expect(refused.body.message).toMatch(/Too many failed sign-ins/);
   });
 
   it('refuses a new password longer than bcrypt reads (72 bytes of UTF-8), with the reason', async () => {
     const tooLong = 'ü'.repeat(37); // 37 characters, 74 bytes
-    const res = await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Long Pass Ltd', name: 'Lena Long', email: uniqueEmail('long'), password: tooLong }).expect(400);
+    const res = await http()
+      .post('/api/auth/register')
+      .set(CSRF_HEADER, '1')
+      .send({ firmName: 'Long Pass Ltd', name: 'Lena Long', email: uniqueEmail('long'), password: tooLong })
+      .expect(400);
     expect(res.body.message).toMatch(/password must be at most 72 bytes/);
-    await http().post('/api/auth/register').set(CSRF_HEADER, '1').send({ firmName: 'Long Pass Ltd', name: 'Lena Long', email: uniqueEmail('long'), password: 'ü'.repeat(36) }).expect(202);
+    await http()
+      .post('/api/auth/register')
+      .set(CSRF_HEADER, '1')
+      .send({ firmName: 'Long Pass Ltd', name: 'Lena Long', email: uniqueEmail('long'), password: 'ü'.repeat(36) })
+      .expect(202);
   });
 
-  it('takes a reset link once when it is used twice at the same moment, and revokes the account\'s other links', async () => {
+  it("takes a reset link once when it is used twice at the same moment, and revokes the account's other links", async () => {
     const { email } = await register();
     for (let k = 0; k < 2; k++) await http().post('/api/auth/forgot-password').set(CSRF_HEADER, '1').send({ email }).expect(202);
     const em = app.get(EntityManager).fork();
     const deadline = Date.now() + 5000;
     let mails: SinkMessage[] = [];
     while (mails.length < 2 && Date.now() < deadline) {
-      mails = ((await (await fetch(`${process.env.MAIL_API_URL}/messages?to=${encodeURIComponent(email)}`)).json()) as SinkMessage[]).filter((m) => m.subject.includes('Reset'));
+      mails = ((await (await fetch(`${process.env.MAIL_API_URL}/messages?to=${encodeURIComponent(email)}`)).json()) as SinkMessage[]).filter((m) =>
+        m.subject.includes('Reset'),
+      );
       if (mails.length < 2) await new Promise((r) => setTimeout(r, 100));
     }
     const [first, second] = mails.map((m) => /token=([\w-]+)/.exec(m.text)![1]);
-    const both = await Promise.all([1, 2].map((k) => http().post('/api/auth/reset-password').set(CSRF_HEADER, '1').send({ token: first, password: `simultaneous passphrase ${k}` })));
+    const both = await Promise.all(
+      [1, 2].map((k) =>
+        http()
+          .post('/api/auth/reset-password')
+          .set(CSRF_HEADER, '1')
+          .send({ token: first, password: `simultaneous passphrase ${k}` }),
+      ),
+    );
     expect(both.map((r) => r.status).sort()).toEqual([204, 400]);
     // The other link of the same account no longer works.
-    expect((await http().post('/api/auth/reset-password').set(CSRF_HEADER, '1').send({ token: second, password: 'a third passphrase' }).expect(400)).body.code).toBe('RESET_INVALID');
-    const rows = await em.getConnection().execute<{ open: number }[]>('select count(*) as open from password_reset r join app_user u on u.id = r.user_id where u.email = ? and r.used_at is null', [email]);
+    expect(
+      (await http().post('/api/auth/reset-password').set(CSRF_HEADER, '1').send({ token: second, password: 'a third passphrase' }).expect(400)).body.code,
+    ).toBe('RESET_INVALID');
+    const rows = await em
+      .getConnection()
+      .execute<{ open: number }[]>(
+        'select count(*) as open from password_reset r join app_user u on u.id = r.user_id where u.email = ? and r.used_at is null',
+        [email],
+      );
     expect(Number(rows[0].open)).toBe(0);
   });
 
   it('resets a password by an e-mailed single-use link, answering the same for unknown addresses', async () => {
     const { email, cookie } = await register();
-    const unknown = await http().post('/api/auth/forgot-password').set(CSRF_HEADER, '1').send({ email: uniqueEmail('nobody') }).expect(202);
+    const unknown = await http()
+      .post('/api/auth/forgot-password')
+      .set(CSRF_HEADER, '1')
+      .send({ email: uniqueEmail('nobody') })
+      .expect(202);
     const known = await http().post('/api/auth/forgot-password').set(CSRF_HEADER, '1').send({ email }).expect(202);
     expect(known.body).toEqual(unknown.body);
     const mail = await waitForMail(email, (m) => m.subject.includes('Reset'));
@@ -225,7 +287,12 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
   it('invites a member by e-mail; accepting sets the password and signs in with the roles given', async () => {
     const owner = await register();
     const invitee = uniqueEmail('checker');
-    const sent = await http().post('/api/invitations').set('cookie', owner.cookie).set(CSRF_HEADER, owner.csrf).send({ email: invitee, roles: ['engineer', 'checker'] }).expect(201);
+    const sent = await http()
+      .post('/api/invitations')
+      .set('cookie', owner.cookie)
+      .set(CSRF_HEADER, owner.csrf)
+      .send({ email: invitee, roles: ['engineer', 'checker'] })
+      .expect(201);
     expect(sent.body).toMatchObject({ email: invitee, roles: ['engineer', 'checker'], acceptedAt: null });
     const mail = await waitForMail(invitee, (m) => m.subject.includes('invites you'));
     expect(mail.subject).toBe('Probe Consulting invites you to Ampwright');
@@ -245,7 +312,12 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
   it('lets the owner withdraw an invitation, whose link then no longer works', async () => {
     const owner = await register();
     const invitee = uniqueEmail('withdrawn');
-    const sent = await http().post('/api/invitations').set('cookie', owner.cookie).set(CSRF_HEADER, owner.csrf).send({ email: invitee, roles: ['engineer'] }).expect(201);
+    const sent = await http()
+      .post('/api/invitations')
+      .set('cookie', owner.cookie)
+      .set(CSRF_HEADER, owner.csrf)
+      .send({ email: invitee, roles: ['engineer'] })
+      .expect(201);
     const token = /token=([\w-]+)/.exec((await waitForMail(invitee, (m) => m.subject.includes('invites you'))).text)![1];
     const withdrawn = await http().delete(`/api/invitations/${sent.body.id}`).set('cookie', owner.cookie).set(CSRF_HEADER, owner.csrf).expect(200);
     expect(withdrawn.body.revokedAt).toEqual(expect.any(String));
@@ -263,19 +335,25 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     const list = await as(app, owner, 'get', '/api/members').expect(200);
     const memberRow = list.body.find((m: { user: { email: string } }) => m.user.email === member.user.email);
     const ownerRow = list.body.find((m: { user: { email: string } }) => m.user.email === owner.user.email);
-    await as(app, owner, 'patch', `/api/members/${memberRow.id}`).send({ roles: ['engineer', 'approver'] }).expect(200);
+    await as(app, owner, 'patch', `/api/members/${memberRow.id}`)
+      .send({ roles: ['engineer', 'approver'] })
+      .expect(200);
     expect((await audit(member.user.email)).map((e) => e.type)).toContain('role-changed');
-    const last = await as(app, owner, 'patch', `/api/members/${ownerRow.id}`).send({ roles: ['engineer'] }).expect(409);
+    const last = await as(app, owner, 'patch', `/api/members/${ownerRow.id}`)
+      .send({ roles: ['engineer'] })
+      .expect(409);
     expect(last.body.code).toBe('LAST_OWNER');
     await as(app, owner, 'delete', `/api/members/${memberRow.id}`).expect(204);
     await as(app, member, 'get', '/api/auth/me').expect(401);
   });
 
-  it('shows another firm\'s member ids as not found', async () => {
+  it("shows another firm's member ids as not found", async () => {
     const a = await makeCaller(app, ['owner']);
     const b = await makeCaller(app, ['engineer']);
     const bRow = (await as(app, b, 'get', '/api/members').expect(200)).body[0];
-    await as(app, a, 'patch', `/api/members/${bRow.id}`).send({ roles: ['engineer'] }).expect(404);
+    await as(app, a, 'patch', `/api/members/${bRow.id}`)
+      .send({ roles: ['engineer'] })
+      .expect(404);
     await as(app, a, 'delete', `/api/members/${bRow.id}`).expect(404);
   });
 

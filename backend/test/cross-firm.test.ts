@@ -15,7 +15,7 @@ import { buildFirm } from './support/firm';
 
 const SECRET = 'Kestrel-secret-feeder';
 
-describe('another firm\'s ids', () => {
+describe("another firm's ids", () => {
   let app: INestApplication;
   let aEngineer: Caller;
   let aChecker: Caller;
@@ -67,12 +67,13 @@ describe('another firm\'s ids', () => {
     expect(routes.length).toBeGreaterThanOrEqual(40);
   });
 
-  it.each(routes)('%s with firm A\'s ids: 404 to firm B, and nothing of A in the answer', async (route) => {
+  it.each(routes)("%s with firm A's ids: 404 to firm B, and nothing of A in the answer", async (route) => {
     const [method, path] = route.split(' ');
     const url = fillIds(path, ids) + (QUERIES[route]?.() ?? '');
     expect(url, 'every parameter is filled').not.toMatch(/:\w+/);
     let req = as(app, bAll, method.toLowerCase() as 'get', url);
-    if (route.endsWith('/import-csv')) req = req.field('version', '1').field('position', '0').attach('file', Buffer.from('h, I_h [A]\n1, 10\n'), 'harmonics.csv');
+    if (route.endsWith('/import-csv'))
+      req = req.field('version', '1').field('position', '0').attach('file', Buffer.from('h, I_h [A]\n1, 10\n'), 'harmonics.csv');
     else if (route.endsWith('/attachments') && method === 'POST') req = req.attach('file', PNG, 'intruder.png');
     else if (body(route)) req = req.send(body(route)!);
     const res = await req;
@@ -87,15 +88,21 @@ describe('another firm\'s ids', () => {
     }
   });
 
-  it('refuses A\'s ids inside firm B\'s own requests', async () => {
-    const bProject = (await as(app, bAll, 'post', '/api/projects').send({ jobNumber: 'B-1', title: 'B project', clientOrganisation: 'B client', site: 'B site' }).expect(201)).body;
+  it("refuses A's ids inside firm B's own requests", async () => {
+    const bProject = (
+      await as(app, bAll, 'post', '/api/projects').send({ jobNumber: 'B-1', title: 'B project', clientOrganisation: 'B client', site: 'B site' }).expect(201)
+    ).body;
     const bSheet = (await as(app, bAll, 'post', `/api/projects/${bProject.id}/sheets`).send({ number: 'B-1', title: 'B sheet' }).expect(201)).body;
     const template = await as(app, bAll, 'post', '/api/templates').send({ sheetId: ids.sheet, title: 'Copied' }).expect(404);
     expect(JSON.stringify(template.body)).not.toContain(SECRET);
     await as(app, bAll, 'post', `/api/projects/${bProject.id}/sheets`).send({ number: 'B-2', templateId: ids.template }).expect(404);
     await as(app, bAll, 'get', `/api/sheets/${bSheet.id}/diff?from=${ids.revision}&to=draft`).expect(404);
-    await as(app, bAll, 'patch', `/api/sheets/${bSheet.id}/cells/${ids.cell}`).send({ version: bSheet.version, cell: { kind: 'calc', source: 'x = 1' } }).expect(404);
-    const team = await as(app, bAll, 'put', `/api/projects/${bProject.id}/members`).send({ userIds: [aEngineer.user.id] }).expect(400);
+    await as(app, bAll, 'patch', `/api/sheets/${bSheet.id}/cells/${ids.cell}`)
+      .send({ version: bSheet.version, cell: { kind: 'calc', source: 'x = 1' } })
+      .expect(404);
+    const team = await as(app, bAll, 'put', `/api/projects/${bProject.id}/members`)
+      .send({ userIds: [aEngineer.user.id] })
+      .expect(400);
     expect(team.body.message).toMatch(/not a member of the firm/);
     const check = await as(app, bAll, 'post', `/api/sheets/${bSheet.id}/request-check`).send({ checkerId: aChecker.user.id }).expect(400);
     expect(JSON.stringify(check.body)).not.toContain(aChecker.user.email);
@@ -106,7 +113,7 @@ describe('another firm\'s ids', () => {
     expect(JSON.stringify((await as(app, bClient, 'get', '/api/portal/revisions').expect(200)).body)).not.toContain(SECRET);
   });
 
-  it('leaves A\'s work exactly as it was', async () => {
+  it("leaves A's work exactly as it was", async () => {
     const before = await snapshot();
     // Run every attempt once more, then compare what A sees with what it saw before them.
     for (const route of routes) {

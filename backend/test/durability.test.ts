@@ -44,14 +44,20 @@ describe('durability', () => {
   });
 
   const call = (path: string, method: string, body?: unknown) =>
-    fetch(`${BASE}/api${path}`, { method, headers: { cookie: engineer.cookie, 'x-ampwright-csrf': engineer.csrf, 'content-type': 'application/json' }, body: body ? JSON.stringify(body) : undefined });
+    fetch(`${BASE}/api${path}`, {
+      method,
+      headers: { cookie: engineer.cookie, 'x-ampwright-csrf': engineer.csrf, 'content-type': 'application/json' },
+      body: body ? JSON.stringify(body) : undefined,
+    });
 
   it('keeps every acknowledged save when the app is killed -9 during a burst of saves', async () => {
     child = startApp();
     await ready();
     const project = await (await call('/projects', 'POST', { jobNumber: 'D-1', title: 'Durability', clientOrganisation: 'C', site: 'S' })).json();
     const cells = Array.from({ length: 8 }, (_, k) => ({ kind: 'calc', source: `x_${k} = 0` }));
-    const sheet = await (await call(`/projects/${project.id}/sheets`, 'POST', { number: 'D-1', sheet: { format: 'ampwright.sheet/1', title: 'Burst', cells } })).json();
+    const sheet = await (
+      await call(`/projects/${project.id}/sheets`, 'POST', { number: 'D-1', sheet: { format: 'ampwright.sheet/1', title: 'Burst', cells } })
+    ).json();
     // Eight writers, one per cell, each saving as fast as it can; the app is killed part-way.
     const acknowledged = new Map<string, number>();
     let version = sheet.version as number;
@@ -99,7 +105,12 @@ describe('durability', () => {
     child = startApp();
     await ready();
     const project = await (await call('/projects', 'POST', { jobNumber: 'D-2', title: 'Outage', clientOrganisation: 'C', site: 'S' })).json();
-    const sheet = await (await call(`/projects/${project.id}/sheets`, 'POST', { number: 'D-2', sheet: { format: 'ampwright.sheet/1', title: 'Outage', cells: [{ kind: 'calc', source: 'x = 1' }] } })).json();
+    const sheet = await (
+      await call(`/projects/${project.id}/sheets`, 'POST', {
+        number: 'D-2',
+        sheet: { format: 'ampwright.sheet/1', title: 'Outage', cells: [{ kind: 'calc', source: 'x = 1' }] },
+      })
+    ).json();
     const saved = await call(`/sheets/${sheet.id}/cells/${sheet.cells[0].id}`, 'PATCH', { version: sheet.version, cell: { kind: 'calc', source: 'x = 2' } });
     expect(saved.status).toBe(200);
     const version = (await saved.json()).version;
@@ -137,12 +148,23 @@ describe('durability', () => {
       const checker = await makeCaller(app, ['checker'], engineer.firm);
       const approver = await makeCaller(app, ['approver'], engineer.firm);
       const on = (port: number, who: Caller, path: string, method = 'GET', body?: unknown) =>
-        fetch(`http://127.0.0.1:${port}/api${path}`, { method, headers: { cookie: who.cookie, 'x-ampwright-csrf': who.csrf, 'content-type': 'application/json' }, body: body ? JSON.stringify(body) : undefined });
+        fetch(`http://127.0.0.1:${port}/api${path}`, {
+          method,
+          headers: { cookie: who.cookie, 'x-ampwright-csrf': who.csrf, 'content-type': 'application/json' },
+          body: body ? JSON.stringify(body) : undefined,
+        });
       // The same session cookie works on both instances (sessions live in MariaDB).
       for (const port of [3391, 3392]) expect((await (await on(port, engineer, '/auth/me')).json()).user.id).toBe(engineer.user.id);
       // A sheet issued through A; its package is made by B's worker (A runs none) and read through A.
-      const project = await (await on(3391, engineer, '/projects', 'POST', { jobNumber: 'D-3', title: 'Two instances', clientOrganisation: 'C', site: 'S' })).json();
-      const sheet = await (await on(3392, engineer, `/projects/${project.id}/sheets`, 'POST', { number: 'D-3', sheet: { format: 'ampwright.sheet/1', title: 'Shared', cells: [{ kind: 'calc', source: 'x = 1 V' }] } })).json();
+      const project = await (
+        await on(3391, engineer, '/projects', 'POST', { jobNumber: 'D-3', title: 'Two instances', clientOrganisation: 'C', site: 'S' })
+      ).json();
+      const sheet = await (
+        await on(3392, engineer, `/projects/${project.id}/sheets`, 'POST', {
+          number: 'D-3',
+          sheet: { format: 'ampwright.sheet/1', title: 'Shared', cells: [{ kind: 'calc', source: 'x = 1 V' }] },
+        })
+      ).json();
       expect((await on(3391, engineer, `/sheets/${sheet.id}/request-check`, 'POST', { checkerId: checker.user.id })).status).toBe(200);
       expect((await on(3392, checker, `/sheets/${sheet.id}/pass`, 'POST')).status).toBe(200);
       expect((await on(3391, approver, `/sheets/${sheet.id}/approve`, 'POST')).status).toBe(200);
@@ -156,7 +178,11 @@ describe('durability', () => {
       expect(status.status).toBe('done');
       const pdf = await on(3391, approver, `/revisions/${revision.id}/package`);
       expect(pdf.status).toBe(200);
-      expect(Buffer.from(await pdf.arrayBuffer()).subarray(0, 5).toString()).toBe('%PDF-');
+      expect(
+        Buffer.from(await pdf.arrayBuffer())
+          .subarray(0, 5)
+          .toString(),
+      ).toBe('%PDF-');
     } finally {
       a.kill('SIGKILL');
       b.kill('SIGKILL');

@@ -19,7 +19,12 @@ describe('POST /api/evaluate', () => {
 
   it('evaluates a sheet and returns values, LaTeX and checks', async () => {
     const res = await post()
-      .send(sheet([{ kind: 'calc', source: 'V = 230 V\nR = 46 ohm\nI = V / R' }, { kind: 'check', condition: 'I <= 10 A', basis: 'probe' }]))
+      .send(
+        sheet([
+          { kind: 'calc', source: 'V = 230 V\nR = 46 ohm\nI = V / R' },
+          { kind: 'check', condition: 'I <= 10 A', basis: 'probe' },
+        ]),
+      )
       .expect(200);
     expect(res.body.engineVersion).toMatch(/^\d+\.\d+\.\d+$/);
     expect(res.body.cells[0]).toMatchObject({ kind: 'calc', status: 'ok', values: { I: { si: 5, display: '5.000 A' } } });
@@ -36,15 +41,21 @@ describe('POST /api/evaluate', () => {
   it('stops a runaway evaluation at its deadline and stays healthy', async () => {
     const started = Date.now();
     // Under the size limit (316² < 100 000 elements) but some 20 matrix products: far past the 2 s deadline.
-    const res = await post().send(sheet([{ kind: 'calc', source: 'M = ones(316, 316)\nP = M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M' }])).expect(422);
+    const res = await post()
+      .send(sheet([{ kind: 'calc', source: 'M = ones(316, 316)\nP = M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M' }]))
+      .expect(422);
     expect(res.body.code).toBe('EVALUATION_TIMEOUT');
     expect(Date.now() - started).toBeLessThan(5000);
-    const after = await post().send(sheet([{ kind: 'calc', source: 'x = 1 + 1' }])).expect(200);
+    const after = await post()
+      .send(sheet([{ kind: 'calc', source: 'x = 1 + 1' }]))
+      .expect(200);
     expect(after.body.cells[0].values.x.si).toBe(2);
   });
 
   it('answers an oversized matrix with a sentence, not a crash', async () => {
-    const res = await post().send(sheet([{ kind: 'calc', source: 'x = zeros(100000, 100000)' }])).expect(200);
+    const res = await post()
+      .send(sheet([{ kind: 'calc', source: 'x = zeros(100000, 100000)' }]))
+      .expect(200);
     expect(res.body.cells[0].errors[0].message).toMatch(/larger than the limit/);
   });
 });

@@ -83,7 +83,11 @@ describe('hostile requests against the running app', () => {
   const headers = (who: Caller) => ({ cookie: who.cookie, 'x-ampwright-csrf': who.csrf });
   async function post(who: Caller, path: string, body: unknown): Promise<{ status: number; body: any; ms: number }> {
     const started = Date.now();
-    const res = await fetch(`${BASE}/api${path}`, { method: 'POST', headers: { ...headers(who), 'content-type': 'application/json' }, body: JSON.stringify(body) });
+    const res = await fetch(`${BASE}/api${path}`, {
+      method: 'POST',
+      headers: { ...headers(who), 'content-type': 'application/json' },
+      body: JSON.stringify(body),
+    });
     return { status: res.status, body: await res.json(), ms: Date.now() - started };
   }
   async function upload(who: Caller | undefined, path: string, form: FormData): Promise<{ status: number; body: any; ms: number }> {
@@ -102,7 +106,12 @@ describe('hostile requests against the running app', () => {
   }
 
   it('answers allocation bombs with a sentence in the cell, before allocating', async () => {
-    const probes = ['y = size(resize([1], [100000000]))', 'y = resize(sparse([1]), [1, 100000000])', 'y = ones(50000, 1) .* ones(1, 50000)', 'y = size(1:1000000000)'];
+    const probes = [
+      'y = size(resize([1], [100000000]))',
+      'y = resize(sparse([1]), [1, 100000000])',
+      'y = ones(50000, 1) .* ones(1, 50000)',
+      'y = size(1:1000000000)',
+    ];
     for (const source of probes) {
       const res = await post(engineer, '/evaluate', calc(source));
       expect(res.status, source).toBe(200);
@@ -118,7 +127,10 @@ describe('hostile requests against the running app', () => {
   it('stops a sheet that needs too much memory or time in its own process, keeps the save, and tells every cell why', async () => {
     const hog = await post(engineer, '/evaluate', calc(MEMORY_HOG));
     expect(hog.status).toBe(422);
-    expect(hog.body).toMatchObject({ code: 'EVALUATION_TOO_LARGE', message: expect.stringMatching(/^This sheet needs more memory than a sheet may use \(256 MB\)/) });
+    expect(hog.body).toMatchObject({
+      code: 'EVALUATION_TOO_LARGE',
+      message: expect.stringMatching(/^This sheet needs more memory than a sheet may use \(256 MB\)/),
+    });
     expect(hog.ms).toBeLessThan(TIMEOUT_MS);
     const runaway = await post(engineer, '/evaluate', calc(RUNAWAY));
     expect(runaway.status).toBe(422);
@@ -126,7 +138,15 @@ describe('hostile requests against the running app', () => {
 
     // Saved into a sheet: the change is kept, and each cell carries the sentence instead of numbers.
     const project = (await post(engineer, '/projects', { jobNumber: 'H-1', title: 'Hostile', clientOrganisation: 'C', site: 'S' })).body;
-    const created = (await post(engineer, `/projects/${project.id}/sheets`, { number: 'H-1', sheet: sheet([{ kind: 'calc', source: 'x = 1' }, { kind: 'note', text: 'below' }]) })).body;
+    const created = (
+      await post(engineer, `/projects/${project.id}/sheets`, {
+        number: 'H-1',
+        sheet: sheet([
+          { kind: 'calc', source: 'x = 1' },
+          { kind: 'note', text: 'below' },
+        ]),
+      })
+    ).body;
     const saved = await fetch(`${BASE}/api/sheets/${created.id}/cells/${created.cells[0].id}`, {
       method: 'PATCH',
       headers: { ...headers(engineer), 'content-type': 'application/json' },
@@ -140,7 +160,14 @@ describe('hostile requests against the running app', () => {
   }, 60_000);
 
   it('refuses method calls that would mutate a value, and keeps LaTeX from strings inert', async () => {
-    const res = await post(engineer, '/evaluate', sheet([{ kind: 'calc', source: 'a = [1, 2, 3]\nn = size(a.resize([1]))' }, { kind: 'calc', source: 's = sum(a)' }]));
+    const res = await post(
+      engineer,
+      '/evaluate',
+      sheet([
+        { kind: 'calc', source: 'a = [1, 2, 3]\nn = size(a.resize([1]))' },
+        { kind: 'calc', source: 's = sum(a)' },
+      ]),
+    );
     expect(cellErrors(res.body)[0]).toMatch(/calling a method on a value/);
     expect(res.body.cells[1].values.s.si).toBe(6);
     const tex = await post(engineer, '/evaluate', calc('x = "\\\\href{https://evil.example/login}{see datasheet}"\ny = "\\\\rule{5000em}{5000em}"'));

@@ -27,13 +27,20 @@ describe('independent checking', () => {
     checker = await makeCaller(app, ['checker'], preparer.firm);
     checkerApprover = await makeCaller(app, ['checker', 'approver'], preparer.firm);
     approver = await makeCaller(app, ['approver'], preparer.firm);
-    projectId = (await as(app, preparer, 'post', '/api/projects').send({ jobNumber: 'I-1', title: 'Independence', clientOrganisation: 'C', site: 'S' }).expect(201)).body.id;
+    projectId = (
+      await as(app, preparer, 'post', '/api/projects').send({ jobNumber: 'I-1', title: 'Independence', clientOrganisation: 'C', site: 'S' }).expect(201)
+    ).body.id;
   });
   afterAll(async () => {
     await app?.close();
   });
 
-  const newSheet = async () => (await as(app, preparer, 'post', `/api/projects/${projectId}/sheets`).send({ number: `I-${++n}`, sheet: { format: 'ampwright.sheet/1', title: 'Branch', cells: [{ kind: 'calc', source: 'x = 1' }] } }).expect(201)).body;
+  const newSheet = async () =>
+    (
+      await as(app, preparer, 'post', `/api/projects/${projectId}/sheets`)
+        .send({ number: `I-${++n}`, sheet: { format: 'ampwright.sheet/1', title: 'Branch', cells: [{ kind: 'calc', source: 'x = 1' }] } })
+        .expect(201)
+    ).body;
   const edit = (who: Caller, sheet: { id: string; cells: { id: string }[] }, version: number, source: string) =>
     as(app, who, 'patch', `/api/sheets/${sheet.id}/cells/${sheet.cells[0].id}`).send({ version, cell: { kind: 'calc', source } });
 
@@ -42,22 +49,32 @@ describe('independent checking', () => {
     const refused = await edit(colleague, sheet, sheet.version, 'x = 2').expect(403);
     expect(refused.body).toMatchObject({ code: 'NOT_PREPARER', message: expect.stringMatching(/^Only this sheet's preparers change it/) });
     // Only the preparer names co-preparers.
-    await as(app, colleague, 'put', `/api/sheets/${sheet.id}/co-preparers`).send({ userIds: [colleague.user.id] }).expect(403);
-    const named = await as(app, preparer, 'put', `/api/sheets/${sheet.id}/co-preparers`).send({ userIds: [colleague.user.id] }).expect(200);
+    await as(app, colleague, 'put', `/api/sheets/${sheet.id}/co-preparers`)
+      .send({ userIds: [colleague.user.id] })
+      .expect(403);
+    const named = await as(app, preparer, 'put', `/api/sheets/${sheet.id}/co-preparers`)
+      .send({ userIds: [colleague.user.id] })
+      .expect(200);
     expect(named.body.coPreparers).toEqual([{ id: colleague.user.id, name: 'Test person' }]);
     await edit(colleague, sheet, named.body.version, 'x = 2').expect(200);
     // A co-preparer must be an engineer of the firm.
-    const notEngineer = await as(app, preparer, 'put', `/api/sheets/${sheet.id}/co-preparers`).send({ userIds: [checker.user.id] }).expect(400);
+    const notEngineer = await as(app, preparer, 'put', `/api/sheets/${sheet.id}/co-preparers`)
+      .send({ userIds: [checker.user.id] })
+      .expect(400);
     expect(notEngineer.body.details[0].field).toBe('userIds');
   });
 
   it('refuses as checker or approver anyone who prepared or edited the revision, even after they leave the list', async () => {
     const sheet = await newSheet();
-    const named = await as(app, preparer, 'put', `/api/sheets/${sheet.id}/co-preparers`).send({ userIds: [colleague.user.id] }).expect(200);
+    const named = await as(app, preparer, 'put', `/api/sheets/${sheet.id}/co-preparers`)
+      .send({ userIds: [colleague.user.id] })
+      .expect(200);
     const saved = await edit(colleague, sheet, named.body.version, 'x = 3').expect(200);
     const asChecker = await as(app, preparer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: colleague.user.id }).expect(400);
     expect(asChecker.body).toMatchObject({ code: 'NOT_INDEPENDENT', details: [{ field: 'checkerId' }] });
-    const asApprover = await as(app, preparer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checker.user.id, approverId: colleague.user.id }).expect(400);
+    const asApprover = await as(app, preparer, 'post', `/api/sheets/${sheet.id}/request-check`)
+      .send({ checkerId: checker.user.id, approverId: colleague.user.id })
+      .expect(400);
     expect(asApprover.body).toMatchObject({ code: 'NOT_INDEPENDENT', details: [{ field: 'approverId' }] });
     // Taken off the list, the colleague still edited this revision.
     const cleared = await as(app, preparer, 'put', `/api/sheets/${sheet.id}/co-preparers`).send({ userIds: [] }).expect(200);
@@ -70,7 +87,9 @@ describe('independent checking', () => {
 
   it('refuses one person as both checker and approver, at the request and at approval', async () => {
     const sheet = await newSheet();
-    const both = await as(app, preparer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checkerApprover.user.id, approverId: checkerApprover.user.id }).expect(400);
+    const both = await as(app, preparer, 'post', `/api/sheets/${sheet.id}/request-check`)
+      .send({ checkerId: checkerApprover.user.id, approverId: checkerApprover.user.id })
+      .expect(400);
     expect(both.body).toMatchObject({ code: 'NOT_INDEPENDENT', message: expect.stringMatching(/cannot also approve it/) });
     await as(app, preparer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checkerApprover.user.id }).expect(200);
     await as(app, checkerApprover, 'post', `/api/sheets/${sheet.id}/pass`).expect(200);
@@ -85,10 +104,17 @@ describe('independent checking', () => {
     for (let round = 0; round < 4; round++) {
       const sheet = await newSheet();
       const asked = await as(app, preparer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checker.user.id }).expect(200);
-      const [save, pass] = await Promise.all([edit(preparer, sheet, asked.body.version, `x = ${round + 10}`), as(app, checker, 'post', `/api/sheets/${sheet.id}/pass`)]);
+      const [save, pass] = await Promise.all([
+        edit(preparer, sheet, asked.body.version, `x = ${round + 10}`),
+        as(app, checker, 'post', `/api/sheets/${sheet.id}/pass`),
+      ]);
       expect(pass.status).toBe(200);
       const em = app.get(EntityManager).fork();
-      const [row] = await em.getConnection().execute<{ checked_at: Date; changed_at: Date }[]>('select s.checked_at, c.changed_at from sheet s join cell c on c.sheet_id = s.id where s.id = ?', [sheet.id]);
+      const [row] = await em
+        .getConnection()
+        .execute<{ checked_at: Date; changed_at: Date }[]>('select s.checked_at, c.changed_at from sheet s join cell c on c.sheet_id = s.id where s.id = ?', [
+          sheet.id,
+        ]);
       if (save.status === 200) expect(new Date(row.changed_at).getTime()).toBeLessThanOrEqual(new Date(row.checked_at).getTime());
       else expect([409]).toContain(save.status);
       const now = (await as(app, preparer, 'get', `/api/sheets/${sheet.id}`).expect(200)).body;
@@ -110,7 +136,11 @@ describe('independent checking', () => {
     results.values.x.si = 2;
     await em.getConnection().execute('update cell set results = ? where id = ?', [JSON.stringify(results), cellId]);
     const refused = await as(app, approver, 'post', `/api/sheets/${sheet.id}/issue`).expect(409);
-    expect(refused.body).toMatchObject({ code: 'RESULTS_CHANGED', message: expect.stringMatching(/^The sheet cannot be issued: evaluated afresh, cell 1 gives results other than those the checker saw/), details: [{ field: 'cells[0]' }] });
+    expect(refused.body).toMatchObject({
+      code: 'RESULTS_CHANGED',
+      message: expect.stringMatching(/^The sheet cannot be issued: evaluated afresh, cell 1 gives results other than those the checker saw/),
+      details: [{ field: 'cells[0]' }],
+    });
     expect((await as(app, approver, 'get', `/api/sheets/${sheet.id}`).expect(200)).body.state).toBe('approved');
     // The way out: back to the checker, evaluated afresh; checked and approved again, it is issued.
     await as(app, checker, 'post', `/api/sheets/${sheet.id}/return-to-checker`).send({}).expect(403);

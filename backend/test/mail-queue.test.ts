@@ -20,7 +20,10 @@ describe('the mail queue', () => {
   /** A worker of our own, with the app's settings but another SMTP port. */
   const worker = (port?: number) => {
     const config = app.get(ConfigService) as ConfigService<Environment, true>;
-    const settings = { get: (key: keyof Environment) => (key === 'SMTP_PORT' && port ? port : config.get(key, { infer: true })) } as unknown as ConfigService<Environment, true>;
+    const settings = { get: (key: keyof Environment) => (key === 'SMTP_PORT' && port ? port : config.get(key, { infer: true })) } as unknown as ConfigService<
+      Environment,
+      true
+    >;
     return new MailService(settings, app.get(MikroORM));
   };
 
@@ -39,8 +42,12 @@ describe('the mail queue', () => {
 
   it('queues the e-mail of an action instead of sending it, then sends it', async () => {
     const owner = await makeCaller(app, ['owner']);
-    await as(app, owner, 'post', '/api/invitations').send({ email: 'queued-invitee@invited.example', roles: ['engineer'] }).expect(201);
-    const [row] = await sql<{ status: string; attempts: number }[]>("select status, attempts from mail_job where json_contains(recipients, '\"queued-invitee@invited.example\"')");
+    await as(app, owner, 'post', '/api/invitations')
+      .send({ email: 'queued-invitee@invited.example', roles: ['engineer'] })
+      .expect(201);
+    const [row] = await sql<{ status: string; attempts: number }[]>(
+      'select status, attempts from mail_job where json_contains(recipients, \'"queued-invitee@invited.example"\')',
+    );
     expect(row).toEqual({ status: 'queued', attempts: 0 });
     expect(await up.tick()).toBeGreaterThan(0);
     expect((await waitForMail('queued-invitee@invited.example')).subject).toMatch(/invit/i);

@@ -36,7 +36,8 @@ describe('package jobs', () => {
     engineer = await makeCaller(app, ['engineer']);
     checker = await makeCaller(app, ['checker'], engineer.firm);
     approver = await makeCaller(app, ['approver'], engineer.firm);
-    projectId = (await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'J-1', title: 'Jobs', clientOrganisation: 'C', site: 'S' }).expect(201)).body.id;
+    projectId = (await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'J-1', title: 'Jobs', clientOrganisation: 'C', site: 'S' }).expect(201))
+      .body.id;
   });
   afterAll(async () => {
     await app?.close();
@@ -45,13 +46,25 @@ describe('package jobs', () => {
   });
 
   const issue = async (): Promise<string> => {
-    const sheet = (await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: `J-${++n}`, sheet: { format: 'ampwright.sheet/1', title: 'Job', cells: [{ kind: 'calc', source: 'V = 230 V\nI = V / 46 ohm' }] } }).expect(201)).body;
+    const sheet = (
+      await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)
+        .send({ number: `J-${++n}`, sheet: { format: 'ampwright.sheet/1', title: 'Job', cells: [{ kind: 'calc', source: 'V = 230 V\nI = V / 46 ohm' }] } })
+        .expect(201)
+    ).body;
     await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checker.user.id }).expect(200);
     await as(app, checker, 'post', `/api/sheets/${sheet.id}/pass`).expect(200);
     await as(app, approver, 'post', `/api/sheets/${sheet.id}/approve`).expect(200);
     return (await as(app, approver, 'post', `/api/sheets/${sheet.id}/issue`).expect(200)).body.id;
   };
-  const worker = () => new PackagesService(app.get(MikroORM), app.get(EntityManager), app.get(ObjectStoreService), app.get(CertificatesService), app.get(RevisionsService), app.get(ConfigService));
+  const worker = () =>
+    new PackagesService(
+      app.get(MikroORM),
+      app.get(EntityManager),
+      app.get(ObjectStoreService),
+      app.get(CertificatesService),
+      app.get(RevisionsService),
+      app.get(ConfigService),
+    );
   const sql = <T>(query: string, params: unknown[] = []) => app.get(EntityManager).fork().getConnection().execute<T>(query, params);
 
   it('keeps the recorded SHA-256 equal to the stored file when a second worker takes over a running job', async () => {
@@ -81,7 +94,10 @@ describe('package jobs', () => {
     release();
     expect(await first).toBe(true);
 
-    const [job] = await sql<{ status: string; attempts: number; claim_token: string | null }[]>('select status, attempts, claim_token from package_job where revision_id = ?', [revisionId]);
+    const [job] = await sql<{ status: string; attempts: number; claim_token: string | null }[]>(
+      'select status, attempts, claim_token from package_job where revision_id = ?',
+      [revisionId],
+    );
     expect(job).toMatchObject({ status: 'done', attempts: 2, claim_token: null });
     const [rev] = await sql<{ pdf_sha256: string; pdf_object_key: string }[]>('select pdf_sha256, pdf_object_key from revision where id = ?', [revisionId]);
     // The file recorded is the second run's (its key carries its claim), and it is exactly the stored one.
@@ -100,7 +116,9 @@ describe('package jobs', () => {
     // Queued: not retried.
     expect((await retry().expect(409)).body.message).toMatch(/only a failed one is tried again/);
     // Three runs whose instances died: the next look fails it with the reason instead of running it again.
-    await sql("update package_job set status = 'running', attempts = 3, heartbeat_at = now(3) - interval 1 hour, claim_token = 'gone' where revision_id = ?", [revisionId]);
+    await sql("update package_job set status = 'running', attempts = 3, heartbeat_at = now(3) - interval 1 hour, claim_token = 'gone' where revision_id = ?", [
+      revisionId,
+    ]);
     expect(await worker().tick(revisionId)).toBe(false);
     const failed = (await as(app, approver, 'get', `/api/revisions/${revisionId}/package/status`).expect(200)).body;
     expect(failed).toMatchObject({ status: 'failed', error: 'stopped after 3 attempts: the instance making it stopped answering' });

@@ -45,12 +45,21 @@ describe('signed packages, the client portal and verification', () => {
     approver = await makeCaller(app, ['approver'], owner.firm);
     client = await makeCaller(app, ['client'], owner.firm);
     otherClient = await makeCaller(app, ['client'], owner.firm);
-    const project = (await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'P-1', title: 'Packages', clientOrganisation: 'Client', site: 'Site' }).expect(201)).body;
-    const other = (await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'P-2', title: 'Other', clientOrganisation: 'Other client', site: 'Site' }).expect(201)).body;
+    const project = (
+      await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'P-1', title: 'Packages', clientOrganisation: 'Client', site: 'Site' }).expect(201)
+    ).body;
+    const other = (
+      await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'P-2', title: 'Other', clientOrganisation: 'Other client', site: 'Site' }).expect(201)
+    ).body;
     const em = app.get(EntityManager).fork();
-    em.persist([new ProjectClient(em.getReference('Project', project.id) as never, em.getReference('User', client.user.id) as never), new ProjectClient(em.getReference('Project', other.id) as never, em.getReference('User', otherClient.user.id) as never)]);
+    em.persist([
+      new ProjectClient(em.getReference('Project', project.id) as never, em.getReference('User', client.user.id) as never),
+      new ProjectClient(em.getReference('Project', other.id) as never, em.getReference('User', otherClient.user.id) as never),
+    ]);
     await em.flush();
-    const sheet = (await as(app, engineer, 'post', `/api/projects/${project.id}/sheets`).send({ number: 'C-1', templateId: 'series-rlc-steady-state' }).expect(201)).body;
+    const sheet = (
+      await as(app, engineer, 'post', `/api/projects/${project.id}/sheets`).send({ number: 'C-1', templateId: 'series-rlc-steady-state' }).expect(201)
+    ).body;
     await as(app, engineer, 'post', `/api/sheets/${sheet.id}/attachments`).attach('file', Buffer.from('site reading 1\n'), 'site.txt').expect(201);
     // A draft on the other project that must never reach anyone outside the firm.
     await as(app, engineer, 'post', `/api/projects/${other.id}/sheets`).send({ number: 'C-9', title: 'Draft only' }).expect(201);
@@ -83,7 +92,12 @@ describe('signed packages, the client portal and verification', () => {
 
   it('lays out the same document from the same snapshot every time (only the signature differs)', async () => {
     const revision = (await as(app, engineer, 'get', `/api/revisions/${revisionId}`)).body;
-    const input = { revisionId, snapshot: revision.snapshot, history: [revision], attachments: [{ ...revision.snapshot.attachments[0], body: Buffer.from('site reading 1\n') }] };
+    const input = {
+      revisionId,
+      snapshot: revision.snapshot,
+      history: [revision],
+      attachments: [{ ...revision.snapshot.attachments[0], body: Buffer.from('site reading 1\n') }],
+    };
     const [a, b] = await Promise.all([buildPackageInWorker(input), buildPackageInWorker(input)]);
     expect(a.length).toBeGreaterThan(10_000);
     expect(Buffer.compare(a, b)).toBe(0);
@@ -91,7 +105,11 @@ describe('signed packages, the client portal and verification', () => {
 
   it('carries no link an author wrote through LaTeX in a string', async () => {
     const revision = (await as(app, engineer, 'get', `/api/revisions/${revisionId}`)).body;
-    const hostile = { format: 'ampwright.sheet/1' as const, title: 'Links', cells: [{ kind: 'calc' as const, source: 'x = "\\href{https://evil.example/login}{see datasheet}"\ny = "\\rule{5000em}{5000em}"' }] };
+    const hostile = {
+      format: 'ampwright.sheet/1' as const,
+      title: 'Links',
+      cells: [{ kind: 'calc' as const, source: 'x = "\\href{https://evil.example/login}{see datasheet}"\ny = "\\rule{5000em}{5000em}"' }],
+    };
     const snapshot = { ...revision.snapshot, sheet: hostile, cellIds: ['c-1'], results: evaluateSheet(hostile).cells, queries: [], attachments: [] };
     const made = await buildPackageInWorker({ revisionId, snapshot, history: [revision], attachments: [] });
     const raw = made.toString('latin1');
@@ -108,7 +126,8 @@ describe('signed packages, the client portal and verification', () => {
   it('renders as real pages: the text of the cover, the cells, the caution and the page numbers', () => {
     const file = toFile(pdf);
     const text = execFileSync('pdftotext', ['-layout', file, '-']).toString();
-    for (const words of ['Calculation package', 'Job number', 'P-1', 'Revision', 'Checked by', 'qualified engineers', 'Attachments', 'site.txt']) expect(text).toContain(words);
+    for (const words of ['Calculation package', 'Job number', 'P-1', 'Revision', 'Checked by', 'qualified engineers', 'Attachments', 'site.txt'])
+      expect(text).toContain(words);
     // The firm's internal query register stays out unless the firm chose to include it.
     expect(text).not.toContain('Appendix: query register');
     const pages = Number(/Pages:\s+(\d+)/.exec(execFileSync('pdfinfo', [file]).toString())![1]);
@@ -129,7 +148,13 @@ describe('signed packages, the client portal and verification', () => {
     const pages = boxes.split('<page ').slice(1);
     const pageIndex = pages.findIndex((p) => /<word[^>]*>amplitude<\/word>/.test(p) && />where</.test(p));
     expect(pageIndex).toBeGreaterThanOrEqual(0);
-    const words = [...pages[pageIndex].matchAll(/<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">([^<]*)<\/word>/g)].map((m) => ({ x0: +m[1], y0: +m[2], x1: +m[3], y1: +m[4], w: m[5] }));
+    const words = [...pages[pageIndex].matchAll(/<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">([^<]*)<\/word>/g)].map((m) => ({
+      x0: +m[1],
+      y0: +m[2],
+      x1: +m[3],
+      y1: +m[4],
+      w: m[5],
+    }));
     const k = words.findIndex((w, i) => w.w === 'is' && words[i - 1]?.w === 'current');
     const before = words[k];
     const after = words.slice(k + 1).find((w) => w.w === 'where')!;
@@ -138,7 +163,12 @@ describe('signed packages, the client portal and verification', () => {
     // A picture of that page at 144 dpi (2 pixels a point): the gap between the words holds ink.
     const dir = mkdtempSync(join(tmpdir(), 'aw-page-'));
     execFileSync('pdftoppm', ['-r', '144', '-gray', '-f', String(pageIndex + 1), '-l', String(pageIndex + 1), file, join(dir, 'p')]);
-    const pgm = readFileSync(join(dir, readdirSync(dir).find((f) => f.endsWith('.pgm'))!));
+    const pgm = readFileSync(
+      join(
+        dir,
+        readdirSync(dir).find((f) => f.endsWith('.pgm'))!,
+      ),
+    );
     const header = /^P5\s+(\d+)\s+(\d+)\s+255\s/.exec(pgm.subarray(0, 40).toString('latin1'))!;
     const width = Number(header[1]);
     const pixels = pgm.subarray(header[0].length);
@@ -165,20 +195,32 @@ describe('signed packages, the client portal and verification', () => {
     const notPdf = await as(app, undefined, 'post', '/api/verify').attach('file', Buffer.from('hello'), 'x.pdf').expect(415);
     expect(notPdf.body.message).toMatch(/not a PDF/);
     await as(app, undefined, 'post', '/api/verify').attach('file', Buffer.alloc(0), 'x.pdf').expect(400);
-    const foreign = await as(app, undefined, 'post', '/api/verify').attach('file', Buffer.from('%PDF-1.4\n1 0 obj<<>>endobj\ntrailer<<>>\n%%EOF\n'), 'x.pdf').expect(200);
+    const foreign = await as(app, undefined, 'post', '/api/verify')
+      .attach('file', Buffer.from('%PDF-1.4\n1 0 obj<<>>endobj\ntrailer<<>>\n%%EOF\n'), 'x.pdf')
+      .expect(200);
     expect(foreign.body).toEqual({ verdict: 'unknown', message: 'This PDF is not a package issued by this service.' });
-    const big = await as(app, undefined, 'post', '/api/verify').attach('file', Buffer.concat([Buffer.from('%PDF-1.4\n'), Buffer.alloc(25 * 1024 * 1024)]), 'big.pdf').expect(413);
+    const big = await as(app, undefined, 'post', '/api/verify')
+      .attach('file', Buffer.concat([Buffer.from('%PDF-1.4\n'), Buffer.alloc(25 * 1024 * 1024)]), 'big.pdf')
+      .expect(413);
     expect(big.body.message).toMatch(/25 MB/);
   });
 
   it('includes the query register in packages issued after the owner turns it on', async () => {
     expect((await as(app, owner, 'get', '/api/firm/package-settings').expect(200)).body).toEqual({ queryRegister: false });
     await as(app, engineer, 'put', '/api/firm/package-settings').send({ queryRegister: true }).expect(403);
-    expect((await as(app, owner, 'put', '/api/firm/package-settings').send({ queryRegister: 'yes' }).expect(400)).body.message).toMatch(/queryRegister must be true or false/);
+    expect((await as(app, owner, 'put', '/api/firm/package-settings').send({ queryRegister: 'yes' }).expect(400)).body.message).toMatch(
+      /queryRegister must be true or false/,
+    );
     expect((await as(app, owner, 'put', '/api/firm/package-settings').send({ queryRegister: true }).expect(200)).body).toEqual({ queryRegister: true });
     try {
-      const project = (await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'P-3', title: 'Register', clientOrganisation: 'Client', site: 'Site' }).expect(201)).body;
-      const sheet = (await as(app, engineer, 'post', `/api/projects/${project.id}/sheets`).send({ number: 'C-2', sheet: { format: 'ampwright.sheet/1', title: 'Register', cells: [{ kind: 'calc', source: 'x = 1' }] } }).expect(201)).body;
+      const project = (
+        await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'P-3', title: 'Register', clientOrganisation: 'Client', site: 'Site' }).expect(201)
+      ).body;
+      const sheet = (
+        await as(app, engineer, 'post', `/api/projects/${project.id}/sheets`)
+          .send({ number: 'C-2', sheet: { format: 'ampwright.sheet/1', title: 'Register', cells: [{ kind: 'calc', source: 'x = 1' }] } })
+          .expect(201)
+      ).body;
       await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checker.user.id }).expect(200);
       await as(app, checker, 'post', `/api/sheets/${sheet.id}/pass`).expect(200);
       await as(app, approver, 'post', `/api/sheets/${sheet.id}/approve`).expect(200);
@@ -192,17 +234,21 @@ describe('signed packages, the client portal and verification', () => {
     }
   }, 60_000);
 
-  it('tells a client nothing of the firm\'s internal work: no counts on projects, no error text on a package', async () => {
+  it("tells a client nothing of the firm's internal work: no counts on projects, no error text on a package", async () => {
     const projects = (await as(app, client, 'get', '/api/projects').expect(200)).body;
     expect(projects).toHaveLength(1);
     expect(projects[0]).not.toHaveProperty('sheetCount');
     expect(projects[0]).not.toHaveProperty('openQueries');
     expect((await as(app, engineer, 'get', '/api/projects').expect(200)).body[0]).toHaveProperty('openQueries');
     const em = app.get(EntityManager).fork();
-    const [job] = await em.getConnection().execute<{ id: string; status: string; error: string | null }[]>('select id, status, error from package_job where revision_id = ?', [revisionId]);
+    const [job] = await em
+      .getConnection()
+      .execute<{ id: string; status: string; error: string | null }[]>('select id, status, error from package_job where revision_id = ?', [revisionId]);
     await em.getConnection().execute("update package_job set error = 'ECONNREFUSED 10.0.0.7:9000 (internal store)' where id = ?", [job.id]);
     try {
-      expect((await as(app, client, 'get', `/api/revisions/${revisionId}/package/status`).expect(200)).body.error).toBe('The package could not be made yet; the issuing firm has been told.');
+      expect((await as(app, client, 'get', `/api/revisions/${revisionId}/package/status`).expect(200)).body.error).toBe(
+        'The package could not be made yet; the issuing firm has been told.',
+      );
       expect((await as(app, approver, 'get', `/api/revisions/${revisionId}/package/status`).expect(200)).body.error).toMatch(/ECONNREFUSED/);
     } finally {
       await em.getConnection().execute('update package_job set error = ? where id = ?', [job.error, job.id]);
@@ -221,20 +267,26 @@ describe('signed packages, the client portal and verification', () => {
     for (const p of sheets.body as { id: string }[]) await as(app, client, 'get', `/api/projects/${p.id}/sheets`).expect(403);
   });
 
-  it('takes the owner\'s PKCS#12 certificate, and refuses a wrong password or an expired certificate with the reason', async () => {
+  it("takes the owner's PKCS#12 certificate, and refuses a wrong password or an expired certificate with the reason", async () => {
     const p12 = makeSelfSignedP12('Upload Test Firm', 'right-password');
     const wrong = await as(app, owner, 'post', '/api/firm/certificate').field('password', 'wrong-password').attach('file', p12, 'firm.p12').expect(400);
     expect(wrong.body.message).toBe('The certificate was refused: The password does not open this certificate file.');
     const expired = makeSelfSignedP12('Old Firm', 'pw', 1, new Date(Date.now() - 3 * 365 * 86400_000));
     const old = await as(app, owner, 'post', '/api/firm/certificate').field('password', 'pw').attach('file', expired, 'old.p12').expect(400);
     expect(old.body.message).toMatch(/The certificate expired on \d{4}-\d{2}-\d{2}\./);
-    const junk = await as(app, owner, 'post', '/api/firm/certificate').field('password', 'x').attach('file', Buffer.from('not a certificate'), 'x.p12').expect(400);
+    const junk = await as(app, owner, 'post', '/api/firm/certificate')
+      .field('password', 'x')
+      .attach('file', Buffer.from('not a certificate'), 'x.p12')
+      .expect(400);
     expect(junk.body.message).toMatch(/not a PKCS#12/);
     const ok = await as(app, owner, 'post', '/api/firm/certificate').field('password', 'right-password').attach('file', p12, 'firm.p12').expect(201);
     expect(ok.body).toMatchObject({ subject: expect.stringContaining('Upload Test Firm'), selfSigned: false });
     expect((await as(app, owner, 'get', '/api/firm/certificate').expect(200)).body.fingerprint).toBe(ok.body.fingerprint);
     // The password is sealed at rest, never stored as given.
-    const rows = await app.get(EntityManager).getConnection().execute<{ password_sealed: string }[]>('select password_sealed from firm_certificate where fingerprint = ?', [ok.body.fingerprint]);
+    const rows = await app
+      .get(EntityManager)
+      .getConnection()
+      .execute<{ password_sealed: string }[]>('select password_sealed from firm_certificate where fingerprint = ?', [ok.body.fingerprint]);
     expect(rows[0].password_sealed).not.toContain('right-password');
   });
 });

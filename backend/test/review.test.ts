@@ -22,7 +22,9 @@ describe('checking and revisions', () => {
     checker2 = await makeCaller(app, ['checker'], engineer.firm);
     approver = await makeCaller(app, ['approver'], engineer.firm);
     engineerChecker = await makeCaller(app, ['engineer', 'checker', 'approver'], engineer.firm);
-    const res = await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'R-1', title: 'Review', clientOrganisation: 'Client', site: 'Site' }).expect(201);
+    const res = await as(app, engineer, 'post', '/api/projects')
+      .send({ jobNumber: 'R-1', title: 'Review', clientOrganisation: 'Client', site: 'Site' })
+      .expect(201);
     projectId = res.body.id;
   });
   afterAll(async () => {
@@ -30,10 +32,20 @@ describe('checking and revisions', () => {
   });
 
   async function newSheet(number: string) {
-    const res = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({
-      number,
-      sheet: { format: 'ampwright.sheet/1', title: `Sheet ${number}`, cells: [{ kind: 'calc', source: 'R = 10 ohm\nX = 5 ohm\nZ = sqrt(R^2 + X^2)' }, { kind: 'calc', source: 'I = 100 V / Z to A' }, { kind: 'check', condition: 'I <= 10 A' }] },
-    }).expect(201);
+    const res = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)
+      .send({
+        number,
+        sheet: {
+          format: 'ampwright.sheet/1',
+          title: `Sheet ${number}`,
+          cells: [
+            { kind: 'calc', source: 'R = 10 ohm\nX = 5 ohm\nZ = sqrt(R^2 + X^2)' },
+            { kind: 'calc', source: 'I = 100 V / Z to A' },
+            { kind: 'check', condition: 'I <= 10 A' },
+          ],
+        },
+      })
+      .expect(201);
     return res.body as { id: string; cells: { id: string }[] };
   }
 
@@ -47,7 +59,9 @@ describe('checking and revisions', () => {
     const notChecker = await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: approver.user.id }).expect(400);
     expect(notChecker.body.details[0].field).toBe('checkerId');
 
-    const asked = await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checker.user.id, approverId: approver.user.id }).expect(200);
+    const asked = await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`)
+      .send({ checkerId: checker.user.id, approverId: approver.user.id })
+      .expect(200);
     expect(asked.body).toMatchObject({ state: 'with-checker', checker: { id: checker.user.id }, approver: { id: approver.user.id }, revisionCode: 'A' });
     const mail = await waitForMail(checker.user.email, (m) => m.subject.startsWith('Check requested'));
     expect(mail.text).toContain(engineer.firm.name);
@@ -57,7 +71,8 @@ describe('checking and revisions', () => {
     expect(other.body.message).toMatch(/Only the sheet's assigned checker/);
     await as(app, checker2, 'post', `/api/sheets/${sheet.id}/queries`).send({ cellId: c1, text: 'x' }).expect(403);
 
-    const q1 = (await as(app, checker, 'post', `/api/sheets/${sheet.id}/queries`).send({ cellId: c1, line: 2, text: 'Where does X come from?' }).expect(201)).body;
+    const q1 = (await as(app, checker, 'post', `/api/sheets/${sheet.id}/queries`).send({ cellId: c1, line: 2, text: 'Where does X come from?' }).expect(201))
+      .body;
     const q2 = (await as(app, checker, 'post', `/api/sheets/${sheet.id}/queries`).send({ cellId: c2, text: 'Is 100 V the right source?' }).expect(201)).body;
     expect(q1).toMatchObject({ status: 'open', line: 2, cellId: c1, revisionNumber: 1 });
     const badLine = await as(app, checker, 'post', `/api/sheets/${sheet.id}/queries`).send({ cellId: c1, line: 9, text: 'x' }).expect(400);
@@ -77,7 +92,9 @@ describe('checking and revisions', () => {
     const answered = await as(app, engineer, 'post', `/api/queries/${q1.id}/replies`).send({ text: 'From the cable datasheet; now noted.' }).expect(201);
     expect(answered.body.status).toBe('answered');
     const v = (await as(app, engineer, 'get', `/api/sheets/${sheet.id}`)).body.version;
-    await as(app, engineer, 'patch', `/api/sheets/${sheet.id}/cells/${c1}`).send({ version: v, cell: { kind: 'calc', source: 'R = 10 ohm\nX = 5 ohm   # cable datasheet\nZ = sqrt(R^2 + X^2)' } }).expect(200);
+    await as(app, engineer, 'patch', `/api/sheets/${sheet.id}/cells/${c1}`)
+      .send({ version: v, cell: { kind: 'calc', source: 'R = 10 ohm\nX = 5 ohm   # cable datasheet\nZ = sqrt(R^2 + X^2)' } })
+      .expect(200);
     const afterEdit = (await as(app, checker, 'get', `/api/sheets/${sheet.id}`)).body;
     expect(afterEdit.cells[0]).toMatchObject({ agreedBy: null, changedAfterAgreement: true });
 
@@ -96,7 +113,9 @@ describe('checking and revisions', () => {
     await waitForMail(engineer.user.email, (m) => m.subject.startsWith('Check passed'));
     await as(app, approver, 'post', `/api/sheets/${sheet.id}/approve`).expect(200);
     // From approval on the sheet is read-only.
-    const ro = await as(app, engineer, 'patch', `/api/sheets/${sheet.id}/cells/${c1}`).send({ version: 99, cell: { kind: 'calc', source: 'R = 1 ohm' } }).expect(409);
+    const ro = await as(app, engineer, 'patch', `/api/sheets/${sheet.id}/cells/${c1}`)
+      .send({ version: 99, cell: { kind: 'calc', source: 'R = 1 ohm' } })
+      .expect(409);
     expect(ro.body.message).toMatch(/approved and can no longer be edited/);
 
     const issued = (await as(app, approver, 'post', `/api/sheets/${sheet.id}/issue`).expect(200)).body;
@@ -108,12 +127,29 @@ describe('checking and revisions', () => {
     expect(full.snapshot.sheet.cells).toHaveLength(3);
     expect(full.snapshot.results[0].values.Z.si).toBeCloseTo(Math.sqrt(125), 10);
     expect(full.snapshot.queries.map((q: { status: string }) => q.status)).toEqual(['closed', 'closed']);
-    expect(full.snapshot.queries[0].messages.map((m: { text: string }) => m.text)).toEqual(['Where does X come from?', 'From the cable datasheet; now noted.', 'Agreed.']);
+    expect(full.snapshot.queries[0].messages.map((m: { text: string }) => m.text)).toEqual([
+      'Where does X come from?',
+      'From the cable datasheet; now noted.',
+      'Agreed.',
+    ]);
     expect(createHash('sha256').update(canonicalJson(full.snapshot)).digest('hex')).toBe(issued.snapshotSha256);
 
     // The history lists every state change and query with who and when.
     const history = (await as(app, engineer, 'get', `/api/sheets/${sheet.id}/history`).expect(200)).body as { type: string }[];
-    expect(history.map((h) => h.type)).toEqual(['check-requested', 'query-raised', 'query-raised', 'cell-agreed', 'query-replied', 'agreement-withdrawn', 'query-replied', 'query-closed', 'query-closed', 'check-passed', 'sheet-approved', 'revision-issued']);
+    expect(history.map((h) => h.type)).toEqual([
+      'check-requested',
+      'query-raised',
+      'query-raised',
+      'cell-agreed',
+      'query-replied',
+      'agreement-withdrawn',
+      'query-replied',
+      'query-closed',
+      'query-closed',
+      'check-passed',
+      'sheet-approved',
+      'revision-issued',
+    ]);
 
     // In-app notifications went to the people concerned.
     const notes = (await as(app, engineer, 'get', '/api/notifications').expect(200)).body as { kind: string }[];
@@ -123,7 +159,9 @@ describe('checking and revisions', () => {
     const draft = (await as(app, engineer, 'post', `/api/sheets/${sheet.id}/new-revision`).expect(200)).body;
     expect(draft).toMatchObject({ state: 'being-prepared', revisionCode: 'B', openQueries: 0 });
     expect(draft.cells.map((c: { id: string }) => c.id)).toEqual(sheet.cells.map((c) => c.id));
-    await as(app, engineer, 'patch', `/api/sheets/${sheet.id}/cells/${c1}`).send({ version: draft.version, cell: { kind: 'calc', source: 'R = 20 ohm\nX = 5 ohm   # cable datasheet\nZ = sqrt(R^2 + X^2)' } }).expect(200);
+    await as(app, engineer, 'patch', `/api/sheets/${sheet.id}/cells/${c1}`)
+      .send({ version: draft.version, cell: { kind: 'calc', source: 'R = 20 ohm\nX = 5 ohm   # cable datasheet\nZ = sqrt(R^2 + X^2)' } })
+      .expect(200);
     const diff = (await as(app, engineer, 'get', `/api/sheets/${sheet.id}/diff?from=${issued.id}&to=draft`).expect(200)).body;
     expect(diff.from).toBe('A');
     expect(diff.cells.map((c: { status: string }) => c.status)).toEqual(['changed', 'changed', 'changed']);
@@ -154,7 +192,7 @@ describe('checking and revisions', () => {
     expect(del.body.message).toMatch(/issued revisions/);
   });
 
-  it('refuses out-of-turn actions with the reason, and the sheet\'s checker editing it', async () => {
+  it("refuses out-of-turn actions with the reason, and the sheet's checker editing it", async () => {
     const sheet = await newSheet('C-3');
     const notYet = await as(app, checker, 'post', `/api/sheets/${sheet.id}/pass`).expect(409);
     expect(notYet.body.message).toMatch(/the sheet is being prepared/);
@@ -163,17 +201,24 @@ describe('checking and revisions', () => {
     expect(notPreparer.body.message).toMatch(/Only the sheet's preparer/);
     await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: engineerChecker.user.id }).expect(200);
     const v = (await as(app, engineer, 'get', `/api/sheets/${sheet.id}`)).body.version;
-    const edit = await as(app, engineerChecker, 'patch', `/api/sheets/${sheet.id}/cells/${sheet.cells[0].id}`).send({ version: v, cell: { kind: 'calc', source: 'R = 1 ohm' } }).expect(403);
+    const edit = await as(app, engineerChecker, 'patch', `/api/sheets/${sheet.id}/cells/${sheet.cells[0].id}`)
+      .send({ version: v, cell: { kind: 'calc', source: 'R = 1 ohm' } })
+      .expect(403);
     expect(edit.body.message).toMatch(/checker or approver, so you do not edit it/);
     // The preparer may still edit while the sheet is with the checker.
-    await as(app, engineer, 'patch', `/api/sheets/${sheet.id}/cells/${sheet.cells[0].id}`).send({ version: v, cell: { kind: 'calc', source: 'R = 11 ohm\nX = 5 ohm\nZ = sqrt(R^2 + X^2)' } }).expect(200);
+    await as(app, engineer, 'patch', `/api/sheets/${sheet.id}/cells/${sheet.cells[0].id}`)
+      .send({ version: v, cell: { kind: 'calc', source: 'R = 11 ohm\nX = 5 ohm\nZ = sqrt(R^2 + X^2)' } })
+      .expect(200);
   });
 
   it('lets exactly one of two simultaneous moves of a sheet happen, leaving a consistent state', async () => {
     for (let round = 0; round < 3; round++) {
       const sheet = await newSheet(`C-4${round}`);
       await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checker.user.id }).expect(200);
-      const [pass, back] = await Promise.all([as(app, checker, 'post', `/api/sheets/${sheet.id}/pass`), as(app, checker, 'post', `/api/sheets/${sheet.id}/return`).send({})]);
+      const [pass, back] = await Promise.all([
+        as(app, checker, 'post', `/api/sheets/${sheet.id}/pass`),
+        as(app, checker, 'post', `/api/sheets/${sheet.id}/return`).send({}),
+      ]);
       expect([pass.status, back.status].sort()).toEqual([200, 409]);
       const state = (await as(app, engineer, 'get', `/api/sheets/${sheet.id}`)).body.state;
       expect(state).toBe(pass.status === 200 ? 'checked' : 'being-prepared');

@@ -15,7 +15,11 @@ function registeredRoutes(app: INestApplication): string[] {
   const express = app.getHttpAdapter().getInstance() as { router: { stack: { route?: { path: string; methods: Record<string, boolean> } }[] } };
   return express.router.stack
     .filter((layer) => layer.route && layer.route.path.startsWith('/api/') && !layer.route.path.includes('{*'))
-    .flatMap((layer) => Object.keys(layer.route!.methods).filter((m) => m !== '_all').map((m) => `${m.toUpperCase()} ${layer.route!.path}`));
+    .flatMap((layer) =>
+      Object.keys(layer.route!.methods)
+        .filter((m) => m !== '_all')
+        .map((m) => `${m.toUpperCase()} ${layer.route!.path}`),
+    );
 }
 
 function mayCall(allowed: Allowed, caller: Role | 'signed-out'): boolean {

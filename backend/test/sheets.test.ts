@@ -16,7 +16,9 @@ describe('projects and sheets', () => {
     engineer = await makeCaller(app, ['engineer']);
     checker = await makeCaller(app, ['checker'], engineer.firm);
     outsider = await makeCaller(app, ['owner', 'engineer']);
-    const res = await as(app, engineer, 'post', '/api/projects').send({ jobNumber: 'J-1001', title: 'Test project', clientOrganisation: 'Test client', site: 'Test site' }).expect(201);
+    const res = await as(app, engineer, 'post', '/api/projects')
+      .send({ jobNumber: 'J-1001', title: 'Test project', clientOrganisation: 'Test client', site: 'Test site' })
+      .expect(201);
     projectId = res.body.id;
   });
   afterAll(async () => {
@@ -33,13 +35,21 @@ describe('projects and sheets', () => {
     const people = (await as(app, checker, 'get', `/api/projects/${projectId}/people`).expect(200)).body;
     expect(people.members.map((m: { id: string }) => m.id)).toEqual([engineer.user.id]);
     expect(people.clients).toEqual([]);
-    const set = (await as(app, engineer, 'put', `/api/projects/${projectId}/members`).send({ userIds: [engineer.user.id, checker.user.id] }).expect(200)).body;
+    const set = (
+      await as(app, engineer, 'put', `/api/projects/${projectId}/members`)
+        .send({ userIds: [engineer.user.id, checker.user.id] })
+        .expect(200)
+    ).body;
     expect(set.members.map((m: { id: string }) => m.id).sort()).toEqual([engineer.user.id, checker.user.id].sort());
     expect(set.members.find((m: { id: string }) => m.id === checker.user.id).roles).toEqual(['checker']);
     // Someone of another firm cannot be put on the team, and nothing changes.
-    const bad = await as(app, engineer, 'put', `/api/projects/${projectId}/members`).send({ userIds: [outsider.user.id] }).expect(400);
+    const bad = await as(app, engineer, 'put', `/api/projects/${projectId}/members`)
+      .send({ userIds: [outsider.user.id] })
+      .expect(400);
     expect(bad.body.message).toMatch(/not a member of the firm/);
-    await as(app, engineer, 'put', `/api/projects/${projectId}/members`).send({ userIds: ['x'] }).expect(400);
+    await as(app, engineer, 'put', `/api/projects/${projectId}/members`)
+      .send({ userIds: ['x'] })
+      .expect(400);
     expect((await as(app, engineer, 'get', `/api/projects/${projectId}/people`)).body.members).toHaveLength(2);
     await as(app, outsider, 'get', `/api/projects/${projectId}/people`).expect(404);
   });
@@ -50,7 +60,9 @@ describe('projects and sheets', () => {
   });
 
   it('creates a sheet from a template, evaluated and stored, and exports it in the sheet format', async () => {
-    const res = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-101', templateId: 'series-rlc-steady-state' }).expect(201);
+    const res = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)
+      .send({ number: 'C-101', templateId: 'series-rlc-steady-state' })
+      .expect(201);
     expect(res.body).toMatchObject({ number: 'C-101', state: 'being-prepared', version: 1 });
     const calc = res.body.cells.find((c: { kind: string; results: { values?: Record<string, unknown> } }) => c.kind === 'calc' && c.results?.values?.Z);
     expect(calc.results.values.Z.si).toBeCloseTo(13.0456, 3);
@@ -62,7 +74,14 @@ describe('projects and sheets', () => {
   });
 
   it('saves a sheet as a firm template, offers it beside the built-in ones, and starts new sheets from it', async () => {
-    const from = (await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'T-1', sheet: { format: 'ampwright.sheet/1', title: 'Our branch check', cells: [{ kind: 'calc', source: 'R = 3 ohm\nX = 4 ohm\nZ = sqrt(R^2 + X^2)' }] } }).expect(201)).body;
+    const from = (
+      await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)
+        .send({
+          number: 'T-1',
+          sheet: { format: 'ampwright.sheet/1', title: 'Our branch check', cells: [{ kind: 'calc', source: 'R = 3 ohm\nX = 4 ohm\nZ = sqrt(R^2 + X^2)' }] },
+        })
+        .expect(201)
+    ).body;
     const saved = (await as(app, engineer, 'post', '/api/templates').send({ sheetId: from.id, title: 'Firm branch check' }).expect(201)).body;
     expect(saved).toMatchObject({ title: 'Firm branch check', cellCount: 1, source: 'firm' });
     const list = (await as(app, checker, 'get', '/api/templates').expect(200)).body as { id: string; source: string }[];
@@ -85,19 +104,27 @@ describe('projects and sheets', () => {
     const res = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-102', sheet }).expect(201);
     const exported = await as(app, engineer, 'get', `/api/sheets/${res.body.id}/export`).expect(200);
     expect(exported.body).toMatchObject({ reviewNote: 'keep me', cells: [{ kind: 'note', text: 'hello', colour: 'teal' }] });
-    const bad = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-103', sheet: { format: 'nope' } }).expect(400);
+    const bad = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)
+      .send({ number: 'C-103', sheet: { format: 'nope' } })
+      .expect(400);
     expect(bad.body.details[0].field).toBe('sheet.format');
   });
 
   it('re-evaluates after each saved change and returns the cells whose results changed', async () => {
     const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-104', title: 'Edits' }).expect(201);
     const id = created.body.id;
-    const a = await as(app, engineer, 'post', `/api/sheets/${id}/cells`).send({ version: 1, position: 0, cell: { kind: 'calc', source: 'R = 10 ohm' } }).expect(201);
-    const b = await as(app, engineer, 'post', `/api/sheets/${id}/cells`).send({ version: 2, position: 1, cell: { kind: 'calc', source: 'P = R * (2 A)^2' } }).expect(201);
+    const a = await as(app, engineer, 'post', `/api/sheets/${id}/cells`)
+      .send({ version: 1, position: 0, cell: { kind: 'calc', source: 'R = 10 ohm' } })
+      .expect(201);
+    const b = await as(app, engineer, 'post', `/api/sheets/${id}/cells`)
+      .send({ version: 2, position: 1, cell: { kind: 'calc', source: 'P = R * (2 A)^2' } })
+      .expect(201);
     expect(b.body.version).toBe(3);
     expect(b.body.changed[0].results.values.P.si).toBe(40);
     const rId = a.body.changed[0].id;
-    const edit = await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${rId}`).send({ version: 3, cell: { kind: 'calc', source: 'R = 12 ohm' } }).expect(200);
+    const edit = await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${rId}`)
+      .send({ version: 3, cell: { kind: 'calc', source: 'R = 12 ohm' } })
+      .expect(200);
     const p = edit.body.changed.find((c: { id: string }) => c.id !== rId);
     expect(p.results.values.P.si).toBe(48);
     const moved = await as(app, engineer, 'post', `/api/sheets/${id}/cells/${rId}/move`).send({ version: 4, position: 1 }).expect(200);
@@ -112,7 +139,9 @@ describe('projects and sheets', () => {
   it('refuses a stale save with 409 and what the editor needs to merge, and of two saves at once exactly one wins', async () => {
     const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-105', title: 'Race' }).expect(201);
     const id = created.body.id;
-    const first = await as(app, engineer, 'post', `/api/sheets/${id}/cells`).send({ version: 1, position: 0, cell: { kind: 'calc', source: 'x = 1' } }).expect(201);
+    const first = await as(app, engineer, 'post', `/api/sheets/${id}/cells`)
+      .send({ version: 1, position: 0, cell: { kind: 'calc', source: 'x = 1' } })
+      .expect(201);
     const cellId = first.body.changed[0].id;
     const [r1, r2] = await Promise.all([
       as(app, engineer, 'patch', `/api/sheets/${id}/cells/${cellId}`).send({ version: 2, cell: { kind: 'calc', source: 'x = 2' } }),
@@ -131,12 +160,26 @@ describe('projects and sheets', () => {
   });
 
   it('saves a change whose evaluation is stopped, and shows the reason in every cell instead of older numbers', async () => {
-    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-108', sheet: { format: 'ampwright.sheet/1', title: 'Runaway', cells: [{ kind: 'calc', source: 'x = 1' }, { kind: 'check', condition: 'x <= 2', basis: 'probe' }] } }).expect(201);
+    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)
+      .send({
+        number: 'C-108',
+        sheet: {
+          format: 'ampwright.sheet/1',
+          title: 'Runaway',
+          cells: [
+            { kind: 'calc', source: 'x = 1' },
+            { kind: 'check', condition: 'x <= 2', basis: 'probe' },
+          ],
+        },
+      })
+      .expect(201);
     const [calc, check] = created.body.cells;
     expect(check.results.pass).toBe(true);
     // Some 20 products of a 316 × 316 matrix: far past the 2 s deadline (see evaluation.test.ts).
     const runaway = 'x = 1\nM = ones(316, 316)\nP = M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M * M';
-    const saved = await as(app, engineer, 'patch', `/api/sheets/${created.body.id}/cells/${calc.id}`).send({ version: created.body.version, cell: { kind: 'calc', source: runaway } }).expect(200);
+    const saved = await as(app, engineer, 'patch', `/api/sheets/${created.body.id}/cells/${calc.id}`)
+      .send({ version: created.body.version, cell: { kind: 'calc', source: runaway } })
+      .expect(200);
     expect(saved.body.version).toBe(created.body.version + 1);
     const now = (await as(app, engineer, 'get', `/api/sheets/${created.body.id}`).expect(200)).body;
     expect(now.cells[0].fields.source).toBe(runaway);
@@ -145,21 +188,29 @@ describe('projects and sheets', () => {
       expect(cell.results.errors[0].message).toMatch(/^Not evaluated: This sheet takes longer than a sheet may take \(2 s\)/);
       expect(cell.results.pass).toBeUndefined();
     }
-    const fixed = await as(app, engineer, 'patch', `/api/sheets/${created.body.id}/cells/${calc.id}`).send({ version: saved.body.version, cell: { kind: 'calc', source: 'x = 3' } }).expect(200);
+    const fixed = await as(app, engineer, 'patch', `/api/sheets/${created.body.id}/cells/${calc.id}`)
+      .send({ version: saved.body.version, cell: { kind: 'calc', source: 'x = 3' } })
+      .expect(200);
     expect(fixed.body.changed.find((c: { id: string }) => c.id === check.id).results).toMatchObject({ kind: 'check', pass: false });
   });
 
   it('never lets the results of an older save overwrite those of a newer one', async () => {
-    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-109', sheet: { format: 'ampwright.sheet/1', title: 'Order', cells: [{ kind: 'calc', source: 'a = 1' }] } }).expect(201);
+    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)
+      .send({ number: 'C-109', sheet: { format: 'ampwright.sheet/1', title: 'Order', cells: [{ kind: 'calc', source: 'a = 1' }] } })
+      .expect(201);
     const id = created.body.id;
     const cellId = created.body.cells[0].id;
     // The first save evaluates for well under a second (six 316 × 316 products); the second, based on
     // it, removes the slow part and is evaluated at once, so its results are stored first.
-    const slow = as(app, engineer, 'patch', `/api/sheets/${id}/cells/${cellId}`).send({ version: 1, cell: { kind: 'calc', source: 'a = 5\nM = ones(316, 316)\nP = M * M * M * M * M * M' } }).then((r) => r);
+    const slow = as(app, engineer, 'patch', `/api/sheets/${id}/cells/${cellId}`)
+      .send({ version: 1, cell: { kind: 'calc', source: 'a = 5\nM = ones(316, 316)\nP = M * M * M * M * M * M' } })
+      .then((r) => r);
     let seen = 1;
     for (let k = 0; k < 100 && seen < 2; k++) seen = (await as(app, engineer, 'get', `/api/sheets/${id}`).expect(200)).body.version;
     expect(seen).toBe(2);
-    const fast = await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${cellId}`).send({ version: 2, cell: { kind: 'calc', source: 'a = 6' } }).expect(200);
+    const fast = await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${cellId}`)
+      .send({ version: 2, cell: { kind: 'calc', source: 'a = 6' } })
+      .expect(200);
     expect(fast.body.changed[0].results.values.a.si).toBe(6);
     expect((await slow).status).toBe(200);
     const now = (await as(app, engineer, 'get', `/api/sheets/${id}`).expect(200)).body;
@@ -168,10 +219,20 @@ describe('projects and sheets', () => {
   });
 
   it('stores, after every kind of change, exactly the results a fresh evaluation gives', async () => {
-    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({
-      number: 'C-110',
-      sheet: { format: 'ampwright.sheet/1', title: 'Incremental', cells: [{ kind: 'calc', source: 'a = 1 A' }, { kind: 'calc', source: 'b = a * 2 ohm' }, { kind: 'check', condition: 'b <= 3 V', basis: 'probe' }] },
-    }).expect(201);
+    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)
+      .send({
+        number: 'C-110',
+        sheet: {
+          format: 'ampwright.sheet/1',
+          title: 'Incremental',
+          cells: [
+            { kind: 'calc', source: 'a = 1 A' },
+            { kind: 'calc', source: 'b = a * 2 ohm' },
+            { kind: 'check', condition: 'b <= 3 V', basis: 'probe' },
+          ],
+        },
+      })
+      .expect(201);
     const id = created.body.id;
     let version = created.body.version;
     const [a, b] = created.body.cells;
@@ -181,12 +242,28 @@ describe('projects and sheets', () => {
     };
     // A cell with the same content as the one after it, at that one's place: the cache's entry for the
     // place matches it, so only what the change touched tells which cell's results to write.
-    await save(as(app, engineer, 'post', `/api/sheets/${id}/cells`).send({ version, position: 1, cell: { kind: 'calc', source: 'b = a * 2 ohm' } }).expect(201));
-    await save(as(app, engineer, 'patch', `/api/sheets/${id}/cells/${a.id}`).send({ version, cell: { kind: 'calc', source: 'a = 2 A' } }).expect(200));
+    await save(
+      as(app, engineer, 'post', `/api/sheets/${id}/cells`)
+        .send({ version, position: 1, cell: { kind: 'calc', source: 'b = a * 2 ohm' } })
+        .expect(201),
+    );
+    await save(
+      as(app, engineer, 'patch', `/api/sheets/${id}/cells/${a.id}`)
+        .send({ version, cell: { kind: 'calc', source: 'a = 2 A' } })
+        .expect(200),
+    );
     await save(as(app, engineer, 'post', `/api/sheets/${id}/cells/${b.id}/move`).send({ version, position: 0 }).expect(200));
     await save(as(app, engineer, 'delete', `/api/sheets/${id}/cells/${b.id}?version=${version}`).expect(200));
-    await save(as(app, engineer, 'patch', `/api/sheets/${id}`).send({ version, settings: { significantDigits: 6 } }).expect(200));
-    const last = await save(as(app, engineer, 'patch', `/api/sheets/${id}/cells/${a.id}`).send({ version, cell: { kind: 'calc', source: 'a = 1 A' } }).expect(200));
+    await save(
+      as(app, engineer, 'patch', `/api/sheets/${id}`)
+        .send({ version, settings: { significantDigits: 6 } })
+        .expect(200),
+    );
+    const last = await save(
+      as(app, engineer, 'patch', `/api/sheets/${id}/cells/${a.id}`)
+        .send({ version, cell: { kind: 'calc', source: 'a = 1 A' } })
+        .expect(200),
+    );
     expect(last.cells.at(-1).results).toMatchObject({ kind: 'check', pass: true });
   });
 
@@ -198,7 +275,16 @@ describe('projects and sheets', () => {
       .field('position', '0')
       .attach('file', Buffer.from('h, V_h [V]\n1, 230\n5, 9.2\n'), { filename: 'spectrum.csv', contentType: 'text/csv' })
       .expect(201);
-    expect(ok.body.changed[0]).toMatchObject({ kind: 'table', fields: { columns: [{ name: 'h' }, { name: 'V_h', unit: 'V' }], rows: [[1, 230], [5, 9.2]] } });
+    expect(ok.body.changed[0]).toMatchObject({
+      kind: 'table',
+      fields: {
+        columns: [{ name: 'h' }, { name: 'V_h', unit: 'V' }],
+        rows: [
+          [1, 230],
+          [5, 9.2],
+        ],
+      },
+    });
     const bad = await as(app, engineer, 'post', `/api/sheets/${id}/cells/import-csv`)
       .field('version', '2')
       .field('position', '1')
@@ -218,7 +304,9 @@ describe('projects and sheets', () => {
 
   it('refuses a cell that is not in the format, naming the field', async () => {
     const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-106', title: 'Bad' }).expect(201);
-    const res = await as(app, engineer, 'post', `/api/sheets/${created.body.id}/cells`).send({ version: 1, position: 0, cell: { kind: 'calc', source: 5 } }).expect(400);
+    const res = await as(app, engineer, 'post', `/api/sheets/${created.body.id}/cells`)
+      .send({ version: 1, position: 0, cell: { kind: 'calc', source: 5 } })
+      .expect(400);
     expect(res.body).toMatchObject({ code: 'INVALID_CELL', details: [{ field: 'cell.source' }] });
   });
 
@@ -240,17 +328,25 @@ describe('clients and their projects', () => {
     await app?.close();
   });
 
-  it('gives an invited client exactly the projects named in the invitation, and nothing of the firm\'s work', async () => {
+  it("gives an invited client exactly the projects named in the invitation, and nothing of the firm's work", async () => {
     const { waitForMail } = await import('./support/test-app');
     const { uniqueEmail, cookieFrom } = await import('./support/sessions');
     const owner = await makeCaller(app, ['owner', 'engineer']);
-    const mine = await as(app, owner, 'post', '/api/projects').send({ jobNumber: 'K-1', title: 'Client sees this', clientOrganisation: 'C', site: 'S' }).expect(201);
+    const mine = await as(app, owner, 'post', '/api/projects')
+      .send({ jobNumber: 'K-1', title: 'Client sees this', clientOrganisation: 'C', site: 'S' })
+      .expect(201);
     await as(app, owner, 'post', '/api/projects').send({ jobNumber: 'K-2', title: 'Client does not see this', clientOrganisation: 'C', site: 'S' }).expect(201);
     const email = uniqueEmail('client');
-    await as(app, owner, 'post', '/api/invitations').send({ email, roles: ['engineer'], projectIds: [mine.body.id] }).expect(400);
-    await as(app, owner, 'post', '/api/invitations').send({ email, roles: ['client'], projectIds: [mine.body.id] }).expect(201);
+    await as(app, owner, 'post', '/api/invitations')
+      .send({ email, roles: ['engineer'], projectIds: [mine.body.id] })
+      .expect(400);
+    await as(app, owner, 'post', '/api/invitations')
+      .send({ email, roles: ['client'], projectIds: [mine.body.id] })
+      .expect(201);
     const token = /token=([\w-]+)/.exec((await waitForMail(email)).text)![1];
-    const accepted = await as(app, undefined, 'post', '/api/invitations/accept').send({ token, name: 'Cleo Client', password: 'a long client passphrase' }).expect(200);
+    const accepted = await as(app, undefined, 'post', '/api/invitations/accept')
+      .send({ token, name: 'Cleo Client', password: 'a long client passphrase' })
+      .expect(200);
     const cookie = cookieFrom(accepted);
     const request = (await import('supertest')).default;
     const list = await request(app.getHttpServer()).get('/api/projects').set('cookie', cookie).expect(200);

@@ -32,14 +32,24 @@ function compare(fn, ref, rounds = 4) {
 
 const row = (name, ms, refName, refMs, target) => {
   const ratio = ms / refMs;
-  console.log(`${name.padEnd(44)} ${ms.toFixed(2).padStart(9)} ms   ${refName.padEnd(26)} ${refMs.toFixed(2).padStart(9)} ms   ratio ${ratio.toFixed(2).padStart(6)}  (target ≤ ${target})`);
+  console.log(
+    `${name.padEnd(44)} ${ms.toFixed(2).padStart(9)} ms   ${refName.padEnd(26)} ${refMs.toFixed(2).padStart(9)} ms   ratio ${ratio.toFixed(2).padStart(6)}  (target ≤ ${target})`,
+  );
 };
 
 // 1. A 300-line sheet: 30 cells of 10 lines of series-RLC working.
-const block = (k) =>
-  [`R_${k} = ${10 + k} ohm`, `L_${k} = ${20 + k} mH`, `C_${k} = ${100 + k} uF`, `f_${k} = 50 Hz`, `w_${k} = 2 pi f_${k}`,
-   `S_${k} = w_${k} L_${k} - 1 / (w_${k} C_${k})`, `Z_${k} = sqrt(R_${k}^2 + S_${k}^2)`, `I_${k} = 230 V / Z_${k} to mA`,
-   `phi_${k} = atan(S_${k} / R_${k})`, `P_${k} = (I_${k})^2 R_${k} to W`];
+const block = (k) => [
+  `R_${k} = ${10 + k} ohm`,
+  `L_${k} = ${20 + k} mH`,
+  `C_${k} = ${100 + k} uF`,
+  `f_${k} = 50 Hz`,
+  `w_${k} = 2 pi f_${k}`,
+  `S_${k} = w_${k} L_${k} - 1 / (w_${k} C_${k})`,
+  `Z_${k} = sqrt(R_${k}^2 + S_${k}^2)`,
+  `I_${k} = 230 V / Z_${k} to mA`,
+  `phi_${k} = atan(S_${k} / R_${k})`,
+  `P_${k} = (I_${k})^2 R_${k} to W`,
+];
 const cells = Array.from({ length: 30 }, (_, k) => ({ kind: 'calc', source: block(k).join('\n') }));
 const statements = cells.flatMap((c) => c.source.split('\n'));
 const bare = create(all);
@@ -59,17 +69,20 @@ const sweepSheet = {
     { kind: 'sweep', variable: 'f', from: '1 Hz', to: '1 kHz', points: 10000, spacing: 'log', outputs: ['E0 / (R + j (2 pi f L - 1 / (2 pi f C)))'] },
   ],
 };
-const [sweepMs, handMs] = compare(() => engine.evaluateSheet(sweepSheet), () => {
-  const out = new Array(10000);
-  for (let k = 0; k < 10000; k++) {
-    const f = 1 * 1000 ** (k / 9999);
-    const w = 2 * Math.PI * f;
-    const x = w * 0.05 - 1 / (w * 100e-6);
-    const d = 100 + x * x;
-    out[k] = { re: (100 * 10) / d, im: (-100 * x) / d };
-  }
-  return out;
-});
+const [sweepMs, handMs] = compare(
+  () => engine.evaluateSheet(sweepSheet),
+  () => {
+    const out = new Array(10000);
+    for (let k = 0; k < 10000; k++) {
+      const f = 1 * 1000 ** (k / 9999);
+      const w = 2 * Math.PI * f;
+      const x = w * 0.05 - 1 / (w * 100e-6);
+      const d = 100 + x * x;
+      out[k] = { re: (100 * 10) / d, im: (-100 * x) / d };
+    }
+    return out;
+  },
+);
 row('10 000-point sweep, complex RLC current', sweepMs, 'hand-written TS loop', handMs, '5');
 
 // 3. Numeric transient (odex) against the analytic solution, 10 000 output points.

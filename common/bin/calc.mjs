@@ -62,7 +62,17 @@ const print = ({ output, exitCode }) => {
 };
 /** Every cell of the sheet with the reason it was not evaluated (exit 1). */
 const notEvaluated = (reason) =>
-  print({ output: { cells: parsed.sheet.cells.map((c) => ({ kind: c.kind, status: 'error', errors: [{ line: 1, column: 1, message: `Not evaluated: ${reason}` }], warnings: [] })) }, exitCode: 1 });
+  print({
+    output: {
+      cells: parsed.sheet.cells.map((c) => ({
+        kind: c.kind,
+        status: 'error',
+        errors: [{ line: 1, column: 1, message: `Not evaluated: ${reason}` }],
+        warnings: [],
+      })),
+    },
+    exitCode: 1,
+  });
 
 const child = fork(join(here, 'calc-child.cjs'), [dist], {
   execArgv: [`--max-old-space-size=${memoryMb}`],
@@ -87,8 +97,12 @@ child.on('message', (result) => {
 child.on('exit', (code, signal) => {
   clearTimeout(timer);
   if (answered) return;
-  if (timedOut) notEvaluated(`this sheet takes longer than CALC_TIMEOUT_MS allows (${timeoutMs / 1000} s), so it was stopped. Look for a very large sweep, matrix or a runaway expression.`);
-  else if (/heap out of memory|Reached heap limit|Allocation failed|Invalid (array|string) length/i.test(stderr)) notEvaluated(`this sheet needs more memory than CALC_MEMORY_MB allows (${memoryMb} MB), so it was stopped. Look for a very large matrix, sweep or table.`);
+  if (timedOut)
+    notEvaluated(
+      `this sheet takes longer than CALC_TIMEOUT_MS allows (${timeoutMs / 1000} s), so it was stopped. Look for a very large sweep, matrix or a runaway expression.`,
+    );
+  else if (/heap out of memory|Reached heap limit|Allocation failed|Invalid (array|string) length/i.test(stderr))
+    notEvaluated(`this sheet needs more memory than CALC_MEMORY_MB allows (${memoryMb} MB), so it was stopped. Look for a very large matrix, sweep or table.`);
   else notEvaluated(`the evaluation stopped unexpectedly (${signal ?? `exit code ${code}`})`);
 });
 child.send(parsed.sheet);

@@ -22,7 +22,8 @@ function problems(cells: CellResult[]): string[] {
     for (const d of [...cell.errors, ...cell.warnings]) {
       if (!(Number.isInteger(d.line) && d.line >= 1 && Number.isInteger(d.column) && d.column >= 1)) out.push(`bad position ${d.line}:${d.column}`);
       if (d.message.length < 4) out.push(`too short: ${d.message}`);
-      if (/\n\s+at |\.js:\d+|TypeError|ReferenceError|undefined is not|\[object Object\]/.test(d.message)) out.push(`not a sentence: ${d.message.slice(0, 200)}`);
+      if (/\n\s+at |\.js:\d+|TypeError|ReferenceError|undefined is not|\[object Object\]/.test(d.message))
+        out.push(`not a sentence: ${d.message.slice(0, 200)}`);
     }
   }
   return out;
@@ -38,7 +39,7 @@ describe('fuzzing the language', () => {
         try {
           result = evaluateSheet(sheet);
         } catch (err) {
-          throw new Error(`the engine threw: ${(err as Error).message}`);
+          throw new Error(`the engine threw: ${(err as Error).message}`, { cause: err });
         }
         const took = performance.now() - started;
         slowest = Math.max(slowest, took);

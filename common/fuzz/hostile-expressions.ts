@@ -6,12 +6,93 @@
 import fc from 'fast-check';
 
 const NAMES = ['R', 'L', 'C', 'f', 'w', 'x', 'I', 'V_1', 'Z_c', 'j', 'i', 'pi', 'e'];
-const UNITS = ['V', 'A', 'ohm', 'kohm', 'mH', 'uF', 'Hz', 'kHz', 'rad', 'deg', 's', 'ms', 'W', 'kW', 'var', 'kvar', 'VA', 'J', 'C', 'F', 'H', 'S', 'm', 'kg', 'K', 'degC', 'rad/s', 'V/m', 'qV', 'QW', 'bogus', 'µF', 'Ω'];
-const FUNCTIONS = ['sqrt', 'abs', 'arg', 're', 'im', 'conj', 'sin', 'cos', 'exp', 'log', 'max', 'sum', 'series', 'parallel', 'phasor', 'rms', 'rlc_impedance', 'delay_angle', 'resonant_frequency', 'power_factor', 'round', 'ones', 'zeros', 'det', 'inv'];
+const UNITS = [
+  'V',
+  'A',
+  'ohm',
+  'kohm',
+  'mH',
+  'uF',
+  'Hz',
+  'kHz',
+  'rad',
+  'deg',
+  's',
+  'ms',
+  'W',
+  'kW',
+  'var',
+  'kvar',
+  'VA',
+  'J',
+  'C',
+  'F',
+  'H',
+  'S',
+  'm',
+  'kg',
+  'K',
+  'degC',
+  'rad/s',
+  'V/m',
+  'qV',
+  'QW',
+  'bogus',
+  'µF',
+  'Ω',
+];
+const FUNCTIONS = [
+  'sqrt',
+  'abs',
+  'arg',
+  're',
+  'im',
+  'conj',
+  'sin',
+  'cos',
+  'exp',
+  'log',
+  'max',
+  'sum',
+  'series',
+  'parallel',
+  'phasor',
+  'rms',
+  'rlc_impedance',
+  'delay_angle',
+  'resonant_frequency',
+  'power_factor',
+  'round',
+  'ones',
+  'zeros',
+  'det',
+  'inv',
+];
 const ESCAPES = [
-  'import({x: 1})', 'evaluate("1+1")', 'parse("1")', 'compile("1")', 'createUnit("foo")', 'simplify("x")', 'derivative("x^2", "x")', 'resolve(x)',
-  'f(x) = x^2', 'cos.constructor("return process")()', 'x.constructor', '[].constructor.constructor("return 1")()', '__proto__', 'x["constructor"]',
-  'config({number: "BigNumber"})', 'typed()', 'chain(1)', 'reviver', 'Unit', 'process.exit(1)', 'require("fs")', 'this', 'globalThis', '"\\u0000"',
+  'import({x: 1})',
+  'evaluate("1+1")',
+  'parse("1")',
+  'compile("1")',
+  'createUnit("foo")',
+  'simplify("x")',
+  'derivative("x^2", "x")',
+  'resolve(x)',
+  'f(x) = x^2',
+  'cos.constructor("return process")()',
+  'x.constructor',
+  '[].constructor.constructor("return 1")()',
+  '__proto__',
+  'x["constructor"]',
+  'config({number: "BigNumber"})',
+  'typed()',
+  'chain(1)',
+  'reviver',
+  'Unit',
+  'process.exit(1)',
+  'require("fs")',
+  'this',
+  'globalThis',
+  '"\\u0000"',
 ];
 const UNICODE = ['\u202e', '\u200b', '\uFEFF', 'µ', 'Ω', '∠', '√', '²', '−', '×', '·', '🙂', '\u0301', '\uD800', 'ℎ', 'ﬁ', '\t', '\r'];
 
@@ -21,7 +102,13 @@ const num = fc.oneof(
   fc.integer().map(String),
 );
 
-const atom = fc.oneof(num, fc.constantFrom(...NAMES), fc.tuple(num, fc.constantFrom(...UNITS)).map(([n, u]) => `${n} ${u}`), fc.constantFrom(...ESCAPES), fc.constantFrom(...UNICODE));
+const atom = fc.oneof(
+  num,
+  fc.constantFrom(...NAMES),
+  fc.tuple(num, fc.constantFrom(...UNITS)).map(([n, u]) => `${n} ${u}`),
+  fc.constantFrom(...ESCAPES),
+  fc.constantFrom(...UNICODE),
+);
 
 /** An expression tree of bounded depth. */
 const expr: fc.Arbitrary<string> = fc.letrec<{ e: string }>((tie) => ({
@@ -53,7 +140,11 @@ export const ALLOCATION_BOMBS = fc.oneof(
 
 /** Method and property calls on values, which would mutate them or reach their prototype. */
 export const METHOD_CALLS = fc.oneof(
-  fc.constantFrom(...NAMES).chain((n) => fc.constantFrom(`${n}.resize([1])`, `${n}.toString()`, `${n}.value`, `${n}.clone()`, `${n}.set([1], 5)`, `${n}.units`, `size(${n}.resize([1]))`)),
+  fc
+    .constantFrom(...NAMES)
+    .chain((n) =>
+      fc.constantFrom(`${n}.resize([1])`, `${n}.toString()`, `${n}.value`, `${n}.clone()`, `${n}.set([1], 5)`, `${n}.units`, `size(${n}.resize([1]))`),
+    ),
   fc.constantFrom('[1, 2, 3].resize([1])', '(2 V).to("mV")', 'sqrt.signatures', 'ones(3).map(sqrt)', '{a: 1}.a'),
 );
 
@@ -77,7 +168,13 @@ export const doublingSheet = fc.tuple(fc.constantFrom('"abcdefgh"', '[1, 2, 3, 4
 }));
 
 /** A calc line (`name = expression`, sometimes broken on purpose) and a check condition. */
-export const hostileSource = fc.tuple(fc.constantFrom(...NAMES, 'y', 'z', '_', '1x', 'to', 'pi', 'sqrt', ''), fc.oneof({ weight: 4, arbitrary: expr }, { weight: 1, arbitrary: extreme }), fc.option(fc.constantFrom('# note', ' to mA', ' to', '=', ' # ∠ ok'), { nil: '' })).map(([name, e, tail]) => `${name} = ${e}${tail}`);
+export const hostileSource = fc
+  .tuple(
+    fc.constantFrom(...NAMES, 'y', 'z', '_', '1x', 'to', 'pi', 'sqrt', ''),
+    fc.oneof({ weight: 4, arbitrary: expr }, { weight: 1, arbitrary: extreme }),
+    fc.option(fc.constantFrom('# note', ' to mA', ' to', '=', ' # ∠ ok'), { nil: '' }),
+  )
+  .map(([name, e, tail]) => `${name} = ${e}${tail}`);
 
 export const hostileSheet = fc.tuple(fc.array(hostileSource, { minLength: 1, maxLength: 4 }), fc.oneof(expr, extreme)).map(([lines, condition]) => ({
   cells: [

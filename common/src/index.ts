@@ -8,16 +8,62 @@ export { CIRCUIT_FUNCTION_NAMES } from './circuits/functions';
 export { analyticSolution, numericSolution, dampingOf } from './circuits/transient';
 export { toContractJson, type ContractOutput } from './cells/contract';
 export { csvToTableCell, type CsvTableResult } from './sheet/csv-table';
-export type { AttachmentDto, CoPreparersBody, ProjectPeopleDto, CellDto, ProjectDto, SaveResultDto, SheetContentsDto, SheetDto, SheetState, SheetSummaryDto, TemplateSummaryDto } from './api/projects';
+export type {
+  AttachmentDto,
+  CoPreparersBody,
+  ProjectPeopleDto,
+  CellDto,
+  ProjectDto,
+  SaveResultDto,
+  SheetContentsDto,
+  SheetDto,
+  SheetState,
+  SheetSummaryDto,
+  TemplateSummaryDto,
+} from './api/projects';
 export { MAX_PASSWORD_BYTES, MIN_PASSWORD_LENGTH } from './api/accounts';
 export { PALETTE } from './plot/palette';
-export { sweepChart, transientChart, calcFigures, transientSummary, KIND_LABELS, kindLabel, checkPresentation, type CalcFigure, type SummaryRow, type Tone } from './plot/index';
+export {
+  sweepChart,
+  transientChart,
+  calcFigures,
+  transientSummary,
+  KIND_LABELS,
+  kindLabel,
+  checkPresentation,
+  type CalcFigure,
+  type SummaryRow,
+  type Tone,
+} from './plot/index';
 export type { QueryDto, QueryMessageDto, QueryStatus, RevisionSummaryDto, DiffDto, HistoryEventDto, NotificationDto } from './api/review';
 export { diffCells, type CellDiff, type SnapshotCell } from './review/diff';
 export { revisionCode, canonicalJson } from './review/revision-code';
 export type { PackageStatusDto, PortalRevisionDto, VerdictDto, CertificateDto, PackageSettingsDto } from './api/packages';
 export { runWithDeadline } from './language/deadline';
 export { parseNote, linkText, type NoteBlock, type NoteInline } from './notes/markdown';
-export { ROLES, MEMBER_ROLES, SHEET_EDITORS, STATE_WORDS, EDITABLE_STATES, MOVES, WorkflowCode, factsOfSheet, allowedMoves, checkerRefusal, editRefusal, independenceRefusal, stateRefusal, isEditable, mayEdit, refusalOf, type Actor, type Person, type Refusal, type Role, type SheetFacts, type WorkflowMove } from './review/workflow';
+export {
+  ROLES,
+  MEMBER_ROLES,
+  SHEET_EDITORS,
+  STATE_WORDS,
+  EDITABLE_STATES,
+  MOVES,
+  WorkflowCode,
+  factsOfSheet,
+  allowedMoves,
+  checkerRefusal,
+  editRefusal,
+  independenceRefusal,
+  stateRefusal,
+  isEditable,
+  mayEdit,
+  refusalOf,
+  type Actor,
+  type Person,
+  type Refusal,
+  type Role,
+  type SheetFacts,
+  type WorkflowMove,
+} from './review/workflow';
 export { CAUTION_TEXT, CAUTION_SHORT } from './api/cautions';
 export { ErrorCode, AuthErrorCode, MemberErrorCode, InvitationErrorCode, ProjectErrorCode, SheetErrorCode, EvaluationErrorCode } from './api/error-codes';

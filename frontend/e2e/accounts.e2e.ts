@@ -51,7 +51,10 @@ describe('accounts in a real browser', () => {
     // The link arrives by e-mail (the SMTP sink that npm test starts); following it makes the firm and signs in.
     let link: string | undefined;
     for (let k = 0; k < 50 && !link; k++) {
-      const messages = (await (await fetch(`${process.env.MAIL_API_URL}/messages?to=${encodeURIComponent(email)}`)).json()) as { subject: string; text: string }[];
+      const messages = (await (await fetch(`${process.env.MAIL_API_URL}/messages?to=${encodeURIComponent(email)}`)).json()) as {
+        subject: string;
+        text: string;
+      }[];
       link = /(http\S+confirm-registration\?token=[\w-]+)/.exec(messages.find((m) => m.subject === 'Confirm your Ampwright registration')?.text ?? '')?.[1];
       if (!link) await new Promise((r) => setTimeout(r, 200));
     }

@@ -48,13 +48,19 @@ describe('the sheet editor in a real browser', () => {
     await expect.poll(async () => (await page.getByTestId('check-outcome').allTextContents()).includes('Fail'), { timeout: 10000 }).toBe(true);
 
     // A CSV becomes a table cell; an attachment is uploaded and listed with its hash.
-    await page.getByTestId('csv-input').setInputFiles({ name: 'harmonics.csv', mimeType: 'text/csv', buffer: Buffer.from('h, I_h [A]\n1, 100\n5, 18\n7, 11\n') });
+    await page
+      .getByTestId('csv-input')
+      .setInputFiles({ name: 'harmonics.csv', mimeType: 'text/csv', buffer: Buffer.from('h, I_h [A]\n1, 100\n5, 18\n7, 11\n') });
     await page.getByRole('table', { name: 'Table' }).waitFor();
-    await page.getByTestId('attachment-input').setInputFiles({ name: 'site-note.txt', mimeType: 'text/plain', buffer: Buffer.from('Bank nameplate read on site.\n') });
+    await page
+      .getByTestId('attachment-input')
+      .setInputFiles({ name: 'site-note.txt', mimeType: 'text/plain', buffer: Buffer.from('Bank nameplate read on site.\n') });
     await page.getByRole('table', { name: 'Attachment list' }).getByText('site-note.txt').waitFor();
 
     // A file of the wrong type is refused and not listed.
-    await page.getByTestId('attachment-input').setInputFiles({ name: 'drawing.pdf', mimeType: 'application/pdf', buffer: Buffer.from('just text, not a PDF\n') });
+    await page
+      .getByTestId('attachment-input')
+      .setInputFiles({ name: 'drawing.pdf', mimeType: 'application/pdf', buffer: Buffer.from('just text, not a PDF\n') });
     await expect.poll(() => page.getByRole('region', { name: 'Attachments' }).getByRole('alert').textContent()).toMatch(/drawing\.pdf was refused/);
 
     await page.reload();
@@ -97,11 +103,18 @@ describe('the sheet editor in a real browser', () => {
       { kind: 'calc', source: `R_${k} = ${k + 1} ohm\nI_${k} = 10 V / R_${k} to mA` },
       { kind: 'check', condition: `I_${k} <= 20 A`, basis: 'common practice' },
     ]).flat();
-    const id = await page.evaluate(async ({ projectId, cells }) => {
-      const me = await (await fetch('/api/auth/me')).json();
-      const res = await fetch(`/api/projects/${projectId}/sheets`, { method: 'POST', headers: { 'Content-Type': 'application/json', 'x-ampwright-csrf': me.csrfToken }, body: JSON.stringify({ number: 'C-500', sheet: { format: 'ampwright.sheet/1', title: 'Five hundred cells', cells } }) });
-      return (await res.json()).id as string;
-    }, { projectId, cells });
+    const id = await page.evaluate(
+      async ({ projectId, cells }) => {
+        const me = await (await fetch('/api/auth/me')).json();
+        const res = await fetch(`/api/projects/${projectId}/sheets`, {
+          method: 'POST',
+          headers: { 'Content-Type': 'application/json', 'x-ampwright-csrf': me.csrfToken },
+          body: JSON.stringify({ number: 'C-500', sheet: { format: 'ampwright.sheet/1', title: 'Five hundred cells', cells } }),
+        });
+        return (await res.json()).id as string;
+      },
+      { projectId, cells },
+    );
     await page.goto(`${page.url().replace(/sheets\/.*$/, '')}sheets/${id}`);
     const last = page.getByRole('region', { name: 'Cell 499: Calculation' });
     await last.scrollIntoViewIfNeeded();

@@ -32,7 +32,10 @@ describe('independent checking and revisions in a real browser', () => {
 
     // The checker raises two queries.
     const checker = await pageFor(browser, 'checker@northfold.example', sheetPath);
-    for (const [n, text] of [[2, 'Where does L = 40 mH come from?'], [3, 'Say why the delay angle is negative.']] as const) {
+    for (const [n, text] of [
+      [2, 'Where does L = 40 mH come from?'],
+      [3, 'Say why the delay angle is negative.'],
+    ] as const) {
       await cell(checker, n).getByRole('button', { name: 'Raise a query' }).click();
       await cell(checker, n).getByLabel('Query').fill(text);
       await cell(checker, n).getByRole('button', { name: 'Raise', exact: true }).click();
@@ -51,7 +54,9 @@ describe('independent checking and revisions in a real browser', () => {
     await cell(page, 2).getByRole('button', { name: 'Edit' }).click();
     await page.getByRole('textbox', { name: 'Cell 2 source' }).click();
     await page.keyboard.press('Control+a');
-    await page.keyboard.insertText('R = 12 ohm                # branch resistance\nL = 40 mH                 # series inductance (reactor datasheet)\nC = 180 uF                # series capacitance\nf = 50 Hz                 # supply frequency\nE0 = 325 V                # source amplitude (230 V rms)\nw = 2 pi f                # angular frequency');
+    await page.keyboard.insertText(
+      'R = 12 ohm                # branch resistance\nL = 40 mH                 # series inductance (reactor datasheet)\nC = 180 uF                # series capacitance\nf = 50 Hz                 # supply frequency\nE0 = 325 V                # source amplitude (230 V rms)\nw = 2 pi f                # angular frequency',
+    );
     await expect.poll(() => cell(page, 2).getByTestId('save-state').textContent(), { timeout: 10000 }).toBe('Saved');
 
     // The checker closes both and passes the check.
@@ -85,6 +90,15 @@ describe('independent checking and revisions in a real browser', () => {
     expect(await diff.getByTestId('diff-input').first().textContent()).toContain('R = 24 ohm');
     for (const name of ['R', 'Z', 'I0', 'phi', 't_lag', 'pf']) expect(await diff.getByTestId(`diff-result-${name}`).count(), name).toBeGreaterThan(0);
     const trail = await page.getByRole('region', { name: 'Audit trail' }).textContent();
-    for (const words of ['asked for a check', 'raised a query', 'closed a query', 'passed the check', 'approved the sheet', 'issued a revision A', 'started the next revision']) expect(trail).toContain(words);
+    for (const words of [
+      'asked for a check',
+      'raised a query',
+      'closed a query',
+      'passed the check',
+      'approved the sheet',
+      'issued a revision A',
+      'started the next revision',
+    ])
+      expect(trail).toContain(words);
   });
 });

@@ -43,7 +43,11 @@ describe('projects and sheets in a real browser', () => {
     const { page } = s;
     await asEngineer2(page, 'Inrush when the bank is energised', 'C-901');
     const cell = page.getByRole('region', { name: 'Cell 4: Transient' });
-    const row = (label: string) => cell.getByRole('table', { name: 'Transient results' }).getByRole('row').filter({ has: page.getByRole('rowheader', { name: label, exact: true }) });
+    const row = (label: string) =>
+      cell
+        .getByRole('table', { name: 'Transient results' })
+        .getByRole('row')
+        .filter({ has: page.getByRole('rowheader', { name: label, exact: true }) });
     await row('Peak current').waitFor();
     const first = (await row('Peak current').textContent()) ?? '';
     expect(first).toMatch(/i = \d[\d.]* kA at t = [\d.]+ µs/);

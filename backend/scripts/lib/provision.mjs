@@ -36,9 +36,15 @@ export function ensureDebianPackages(command, packages, purpose) {
 const MARIADB = {
   dir: join(DATA, 'mariadb'),
   run: join(DATA, 'run'),
-  get socket() { return join(this.run, 'mysqld.sock'); },
-  get pidFile() { return join(this.run, 'mysqld.pid'); },
-  get logFile() { return join(this.run, 'mysqld.err'); },
+  get socket() {
+    return join(this.run, 'mysqld.sock');
+  },
+  get pidFile() {
+    return join(this.run, 'mysqld.pid');
+  },
+  get logFile() {
+    return join(this.run, 'mysqld.err');
+  },
 };
 
 function mariadbAdmin(...args) {
@@ -76,17 +82,33 @@ export async function startMariadb() {
   const child = startChild(
     'mariadbd',
     [
-      '--no-defaults', `--datadir=${MARIADB.dir}`, `--socket=${MARIADB.socket}`, `--pid-file=${MARIADB.pidFile}`,
-      `--port=${settings.dbPort}`, '--bind-address=127.0.0.1', '--user=root', '--skip-name-resolve', '--skip-log-bin',
-      `--log-error=${MARIADB.logFile}`, '--character-set-server=utf8mb4', '--collation-server=utf8mb4_unicode_ci',
+      '--no-defaults',
+      `--datadir=${MARIADB.dir}`,
+      `--socket=${MARIADB.socket}`,
+      `--pid-file=${MARIADB.pidFile}`,
+      `--port=${settings.dbPort}`,
+      '--bind-address=127.0.0.1',
+      '--user=root',
+      '--skip-name-resolve',
+      '--skip-log-bin',
+      `--log-error=${MARIADB.logFile}`,
+      '--character-set-server=utf8mb4',
+      '--collation-server=utf8mb4_unicode_ci',
     ],
     { stdio: 'ignore', detached: true },
   );
   let exited = false;
-  child.once('exit', () => { exited = true; });
+  child.once('exit', () => {
+    exited = true;
+  });
   try {
-    await waitFor(() => { if (exited) throw new SetupError(`MariaDB exited at start-up. Its log:\n${tailOf(MARIADB.logFile)}`); return mariadbAnswers(); },
-      { timeoutMs: 60000, what: 'MariaDB' });
+    await waitFor(
+      () => {
+        if (exited) throw new SetupError(`MariaDB exited at start-up. Its log:\n${tailOf(MARIADB.logFile)}`);
+        return mariadbAnswers();
+      },
+      { timeoutMs: 60000, what: 'MariaDB' },
+    );
   } catch (err) {
     if (err instanceof SetupError && !exited) throw new SetupError(`${err.message}. Its log:\n${tailOf(MARIADB.logFile)}`);
     throw err;
@@ -125,9 +147,14 @@ export function ensureDatabase(name, { recreate = false } = {}) {
 }
 
 /** Starts the SMTP sink and the S3 fake in one child process (backend/scripts/fakes.mjs). */
-export async function startFakes({ smtpPort = settings.smtpPort, mailApiPort = settings.mailApiPort, s3Port = settings.s3Port, s3Dir = join(DATA, 's3') } = {}) {
+export async function startFakes({
+  smtpPort = settings.smtpPort,
+  mailApiPort = settings.mailApiPort,
+  s3Port = settings.s3Port,
+  s3Dir = join(DATA, 's3'),
+} = {}) {
   await requireFreePort(smtpPort, 'the SMTP sink');
-  await requireFreePort(mailApiPort, 'the SMTP sink\'s reading API');
+  await requireFreePort(mailApiPort, "the SMTP sink's reading API");
   await requireFreePort(s3Port, 'the S3 fake');
   mkdirSync(s3Dir, { recursive: true });
   log(`starting the local fakes: SMTP 127.0.0.1:${smtpPort} (messages at http://127.0.0.1:${mailApiPort}/messages), S3 http://127.0.0.1:${s3Port}`);
@@ -136,7 +163,9 @@ export async function startFakes({ smtpPort = settings.smtpPort, mailApiPort = s
     stdio: ['ignore', 'inherit', 'inherit'],
   });
   let exited = false;
-  child.once('exit', () => { exited = true; });
+  child.once('exit', () => {
+    exited = true;
+  });
   await waitFor(
     async () => {
       if (exited) throw new SetupError('the local fakes exited at start-up (see their output above)');
@@ -194,7 +223,9 @@ export async function startApp(env) {
   await requireFreePort(port, 'the app');
   const child = startChild(process.execPath, ['--enable-source-maps', join(ROOT, 'backend', 'dist', 'main.js')], { env });
   let exited = false;
-  child.once('exit', () => { exited = true; });
+  child.once('exit', () => {
+    exited = true;
+  });
   await waitFor(
     async () => {
       if (exited) throw new SetupError('the app exited at start-up (see its output above)');

@@ -23,7 +23,11 @@ export class AttachmentsController {
   @Roles(...SHEET_EDITORS)
   @Post('sheets/:id/attachments')
   @UseInterceptors(FileInterceptor('file', UPLOAD_OPTIONS))
-  upload(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @UploadedFile() file: Express.Multer.File | undefined): Promise<AttachmentDto> {
+  upload(
+    @CurrentAuth() auth: AuthContext,
+    @Param('id', ParseUUIDPipe) id: string,
+    @UploadedFile() file: Express.Multer.File | undefined,
+  ): Promise<AttachmentDto> {
     return this.attachments.upload(auth, id, file);
   }
 
@@ -34,7 +38,10 @@ export class AttachmentsController {
     const { attachment, body } = await this.attachments.download(auth, id);
     res.setHeader('Content-Type', attachment.mediaType);
     res.setHeader('Content-Length', String(body.length));
-    res.setHeader('Content-Disposition', `attachment; filename="${attachment.fileName.replace(/[^\x20-\x7E]/g, '_')}"; filename*=UTF-8''${encodeURIComponent(attachment.fileName)}`);
+    res.setHeader(
+      'Content-Disposition',
+      `attachment; filename="${attachment.fileName.replace(/[^\x20-\x7E]/g, '_')}"; filename*=UTF-8''${encodeURIComponent(attachment.fileName)}`,
+    );
     res.setHeader('X-Content-Type-Options', 'nosniff');
     res.setHeader('Content-Security-Policy', "default-src 'none'; sandbox");
     res.setHeader('X-Ampwright-Sha256', attachment.sha256);

@@ -23,7 +23,10 @@ const view = (a: Attachment): AttachmentDto => ({
 /** A file name safe to keep and to send back: no folders, no control characters, at most 255 characters. */
 export function cleanFileName(name: string): string {
   const base = name.split(/[\\/]/).pop() ?? '';
-  const clean = base.replace(/[\u0000-\u001F\u007F"]/g, '').trim().slice(-255);
+  const clean = base
+    .replace(/[\u0000-\u001F\u007F"]/g, '')
+    .trim()
+    .slice(-255);
   return clean && clean !== '.' && clean !== '..' ? clean : 'file';
 }
 
@@ -43,16 +46,35 @@ export class AttachmentsService {
 
   /** Stores the bytes in the object store first, then the record: a failed store leaves no record behind. */
   async upload(auth: AuthContext, sheetId: string, file: { buffer: Buffer; originalname: string; size: number } | undefined): Promise<AttachmentDto> {
-    if (!file) throw new AppException(ErrorCode.ValidationFailed, 'Attach the file in the field "file".', HttpStatus.BAD_REQUEST, [{ field: 'file', message: 'no file was sent' }]);
+    if (!file)
+      throw new AppException(ErrorCode.ValidationFailed, 'Attach the file in the field "file".', HttpStatus.BAD_REQUEST, [
+        { field: 'file', message: 'no file was sent' },
+      ]);
     const sheet = await this.sheets.findEditable(auth, sheetId);
     const fileName = cleanFileName(Buffer.from(file.originalname, 'latin1').toString('utf8'));
-    if (file.size === 0) throw new AppException(ErrorCode.ValidationFailed, `${fileName} is empty; nothing was stored.`, HttpStatus.BAD_REQUEST, [{ field: 'file', message: 'the file is empty' }]);
+    if (file.size === 0)
+      throw new AppException(ErrorCode.ValidationFailed, `${fileName} is empty; nothing was stored.`, HttpStatus.BAD_REQUEST, [
+        { field: 'file', message: 'the file is empty' },
+      ]);
     const sniffed = await sniffUpload(file.buffer, fileName);
-    if (!sniffed.ok) throw new AppException(ErrorCode.UnsupportedMediaType, `${fileName} was refused: ${sniffed.reason}. Nothing was stored.`, HttpStatus.UNSUPPORTED_MEDIA_TYPE, [{ field: 'file', message: sniffed.reason }]);
+    if (!sniffed.ok)
+      throw new AppException(
+        ErrorCode.UnsupportedMediaType,
+        `${fileName} was refused: ${sniffed.reason}. Nothing was stored.`,
+        HttpStatus.UNSUPPORTED_MEDIA_TYPE,
+        [{ field: 'file', message: sniffed.reason }],
+      );
     const sha256 = createHash('sha256').update(file.buffer).digest('hex');
     const objectKey = `attachments/${sheet.id}/${randomUUID()}`;
     await this.store.put(objectKey, file.buffer, sniffed.mediaType);
-    const attachment = new Attachment(sheet, { objectKey, fileName, mediaType: sniffed.mediaType, size: file.size, sha256, uploadedBy: this.em.getReference(User, auth.session.user.id) });
+    const attachment = new Attachment(sheet, {
+      objectKey,
+      fileName,
+      mediaType: sniffed.mediaType,
+      size: file.size,
+      sha256,
+      uploadedBy: this.em.getReference(User, auth.session.user.id),
+    });
     await this.em.persist(attachment).flush();
     await this.em.populate(attachment, ['uploadedBy']);
     return view(attachment);

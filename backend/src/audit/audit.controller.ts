@@ -13,6 +13,13 @@ export class AuditController {
   @Get()
   async list(@CurrentAuth() auth: AuthContext) {
     const events = await this.audit.forFirm(auth.session.firm.id);
-    return events.map((e) => ({ id: e.id, type: e.type, userId: e.userId ?? null, email: e.email ?? null, detail: e.detail ?? null, at: e.createdAt.toISOString() }));
+    return events.map((e) => ({
+      id: e.id,
+      type: e.type,
+      userId: e.userId ?? null,
+      email: e.email ?? null,
+      detail: e.detail ?? null,
+      at: e.createdAt.toISOString(),
+    }));
   }
 }

@@ -28,7 +28,14 @@ const RESET_MINUTES = 60;
 /** Takes a single-use link by one conditional UPDATE: true for exactly one of any number of simultaneous uses. */
 async function takeOnce(em: EntityManager, table: 'password_reset' | 'pending_registration', tokenHash: string): Promise<boolean> {
   const now = new Date();
-  const res = await em.getConnection().execute(`update ${table} set used_at = ? where token_hash = ? and used_at is null and expires_at > ?`, [now, tokenHash, now], 'run', em.getTransactionContext());
+  const res = await em
+    .getConnection()
+    .execute(
+      `update ${table} set used_at = ? where token_hash = ? and used_at is null and expires_at > ?`,
+      [now, tokenHash, now],
+      'run',
+      em.getTransactionContext(),
+    );
   return (res as { affectedRows?: number }).affectedRows === 1;
 }
 const REGISTRATION_HOURS = 24;
@@ -70,14 +77,31 @@ export class AuthService {
     }
     const token = randomBytes(32).toString('base64url');
     const expires = new Date(Date.now() + REGISTRATION_HOURS * 3600_000);
-    await em.persist(new PendingRegistration(hashToken(token), { firmName: dto.firmName, name: dto.name, email: dto.email, passwordHash: await this.passwords.hash(dto.password), expiresAt: expires })).flush();
-    await this.mail.send(mailTemplates.confirmRegistration({ to: dto.email, firm: dto.firmName, url: `${this.appUrl}/confirm-registration?token=${token}`, expires }));
+    await em
+      .persist(
+        new PendingRegistration(hashToken(token), {
+          firmName: dto.firmName,
+          name: dto.name,
+          email: dto.email,
+          passwordHash: await this.passwords.hash(dto.password),
+          expiresAt: expires,
+        }),
+      )
+      .flush();
+    await this.mail.send(
+      mailTemplates.confirmRegistration({ to: dto.email, firm: dto.firmName, url: `${this.appUrl}/confirm-registration?token=${token}`, expires }),
+    );
     await this.audit.record('registration-requested', { email: dto.email, ip });
   }
 
   /** Following the e-mailed link makes the firm and its owner, once, and signs the owner in. */
   async confirmRegistration(dto: ConfirmRegistrationDto, res: Response, ip?: string): Promise<MeResponseDto> {
-    const invalid = () => new AppException(AuthErrorCode.RegistrationInvalid, 'This registration link has expired or has been used. Register again, or sign in.', HttpStatus.BAD_REQUEST);
+    const invalid = () =>
+      new AppException(
+        AuthErrorCode.RegistrationInvalid,
+        'This registration link has expired or has been used. Register again, or sign in.',
+        HttpStatus.BAD_REQUEST,
+      );
     const pending = await this.em.findOne(PendingRegistration, { tokenHash: hashToken(dto.token) });
     if (!pending) throw invalid();
     if (!(await takeOnce(this.em, 'pending_registration', pending.tokenHash))) throw invalid();
@@ -116,7 +140,12 @@ export class AuthService {
 
   me(auth: AuthContext): MeResponseDto {
     const { user, firm } = auth.session;
-    return { user: { id: user.id, email: user.email, name: user.name }, firm: { id: firm.id, name: firm.name }, roles: auth.roles, csrfToken: auth.session.csrfToken };
+    return {
+      user: { id: user.id, email: user.email, name: user.name },
+      firm: { id: firm.id, name: firm.name },
+      roles: auth.roles,
+      csrfToken: auth.session.csrfToken,
+    };
   }
 
   async changeProfile(auth: AuthContext, dto: ChangeProfileDto): Promise<MeResponseDto> {
@@ -152,14 +181,17 @@ export class AuthService {
    * wins), and using it revokes the account's other reset links and ends all its sessions.
    */
   async resetPassword(dto: ResetPasswordDto, ip?: string): Promise<void> {
-    const invalid = () => new AppException(AuthErrorCode.ResetInvalid, 'This reset link has expired or has been used. Ask for a new one.', HttpStatus.BAD_REQUEST);
+    const invalid = () =>
+      new AppException(AuthErrorCode.ResetInvalid, 'This reset link has expired or has been used. Ask for a new one.', HttpStatus.BAD_REQUEST);
     const reset = await this.em.findOne(PasswordReset, { tokenHash: hashToken(dto.token) }, { populate: ['user'] });
     if (!reset) throw invalid();
     const passwordHash = await this.passwords.hash(dto.password);
     await this.em.transactional(async (em) => {
       if (!(await takeOnce(em, 'password_reset', reset.tokenHash))) throw invalid();
       await em.nativeUpdate(User, { id: reset.user.id }, { passwordHash });
-      await em.getConnection().execute('update password_reset set used_at = ? where user_id = ? and used_at is null', [new Date(), reset.user.id], 'run', em.getTransactionContext());
+      await em
+        .getConnection()
+        .execute('update password_reset set used_at = ? where user_id = ? and used_at is null', [new Date(), reset.user.id], 'run', em.getTransactionContext());
     });
     await this.sessions.closeAllOf(reset.user);
     await this.audit.record('password-reset', { userId: reset.user.id, email: reset.user.email, ip });

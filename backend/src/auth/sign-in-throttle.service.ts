@@ -38,7 +38,14 @@ export class SignInThrottle {
     const { address, pair } = this.keys(email, ip);
     const waits = await this.storage.blockedFor([`failures:${address}`, `failures:${pair}`]);
     if (waits > 0) {
-      throw new AppException(ErrorCode.TooManyRequests, `Too many failed sign-ins: wait ${waits} s and try again.`, HttpStatus.TOO_MANY_REQUESTS, undefined, undefined, { 'Retry-After': String(waits) });
+      throw new AppException(
+        ErrorCode.TooManyRequests,
+        `Too many failed sign-ins: wait ${waits} s and try again.`,
+        HttpStatus.TOO_MANY_REQUESTS,
+        undefined,
+        undefined,
+        { 'Retry-After': String(waits) },
+      );
     }
   }
 

@@ -24,7 +24,14 @@ describe('validateEnvironment', () => {
 });
 
 describe('validateEnvironment in production', () => {
-  const local = { NODE_ENV: 'production', DB_PASSWORD: 'ampwright-local-only', S3_ACCESS_KEY: 'S3RVER', S3_SECRET_KEY: 'S3RVER', APP_HOST: '0.0.0.0', APP_URL: 'https://calc.example.com' };
+  const local = {
+    NODE_ENV: 'production',
+    DB_PASSWORD: 'ampwright-local-only',
+    S3_ACCESS_KEY: 'S3RVER',
+    S3_SECRET_KEY: 'S3RVER',
+    APP_HOST: '0.0.0.0',
+    APP_URL: 'https://calc.example.com',
+  };
 
   it('refuses the local demo secrets and insecure cookies, naming what to set', () => {
     const attempt = () => validateEnvironment(local);
@@ -36,7 +43,14 @@ describe('validateEnvironment in production', () => {
   });
 
   it('starts with production values, and the local demo on loopback stays as it is', () => {
-    const env = validateEnvironment({ ...local, CERTIFICATE_SECRET: 'x'.repeat(48), DB_PASSWORD: 'a real one', S3_ACCESS_KEY: 'AKIA', S3_SECRET_KEY: 'secret', COOKIE_SECURE: 'true' });
+    const env = validateEnvironment({
+      ...local,
+      CERTIFICATE_SECRET: 'x'.repeat(48),
+      DB_PASSWORD: 'a real one',
+      S3_ACCESS_KEY: 'AKIA',
+      S3_SECRET_KEY: 'secret',
+      COOKIE_SECURE: 'true',
+    });
     expect(env.NODE_ENV).toBe('production');
     expect(validateEnvironment({ DB_PASSWORD: 'ampwright-local-only', S3_ACCESS_KEY: 'S3RVER', S3_SECRET_KEY: 'S3RVER' }).NODE_ENV).toBe('development');
   });

@@ -26,7 +26,9 @@ export class DemoAccountsCheck implements OnApplicationBootstrap {
     if (this.config.get('NODE_ENV', { infer: true }) !== 'production') return;
     const open = await openDemoAccounts(this.em);
     if (open.length) {
-      throw new Error(`Ampwright will not start in production while demo accounts open with the published demo password: ${open.join(', ')}. Remove them, or give them passwords of their own.`);
+      throw new Error(
+        `Ampwright will not start in production while demo accounts open with the published demo password: ${open.join(', ')}. Remove them, or give them passwords of their own.`,
+      );
     }
   }
 }

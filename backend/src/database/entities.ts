@@ -21,4 +21,29 @@ import { ThrottleCounter } from '../core/throttle/throttle-counter.entity';
 import { MailJob } from '../mail/entities/mail-job.entity';
 
 /** Every entity, listed once: the ORM, the migrator and the seed read this list. */
-export const ENTITIES = [Firm, User, Membership, Session, PasswordReset, Invitation, AuditEvent, Project, ProjectClient, ProjectMember, Sheet, SheetAuthor, Cell, Attachment, CellQuery, QueryMessage, Revision, Notification, FirmCertificate, PackageJob, Template, ThrottleCounter, MailJob, PendingRegistration];
+export const ENTITIES = [
+  Firm,
+  User,
+  Membership,
+  Session,
+  PasswordReset,
+  Invitation,
+  AuditEvent,
+  Project,
+  ProjectClient,
+  ProjectMember,
+  Sheet,
+  SheetAuthor,
+  Cell,
+  Attachment,
+  CellQuery,
+  QueryMessage,
+  Revision,
+  Notification,
+  FirmCertificate,
+  PackageJob,
+  Template,
+  ThrottleCounter,
+  MailJob,
+  PendingRegistration,
+];

@@ -13,7 +13,8 @@ import { seedDemo } from './seeders/demo.seeder';
 
 async function seed() {
   const env = validateEnvironment(process.env);
-  if (env.NODE_ENV === 'production') throw new Error('the demo seed is for local use only: it creates accounts with a published password, so it never runs with NODE_ENV=production');
+  if (env.NODE_ENV === 'production')
+    throw new Error('the demo seed is for local use only: it creates accounts with a published password, so it never runs with NODE_ENV=production');
   const orm = await MikroORM.init(ormConfig(env));
   try {
     console.log(await seedDemo(orm.em.fork(), env.BCRYPT_COST));

@@ -143,7 +143,8 @@ export class EvaluationPool {
     const { tenant, key } = options;
     if (this.closed) return Promise.resolve({ ok: false, reason: 'crash', message: 'the evaluation service is shutting down' });
     const reservation = options.reservation ?? this.reserve(tenant);
-    if (!reservation) return Promise.resolve({ ok: false, reason: 'busy', message: `this firm already has ${this.limits.perTenantQueued} evaluations running or waiting` });
+    if (!reservation)
+      return Promise.resolve({ ok: false, reason: 'busy', message: `this firm already has ${this.limits.perTenantQueued} evaluations running or waiting` });
     return new Promise((resolve) => {
       const id = this.nextId++;
       const job: Job = {
@@ -240,7 +241,8 @@ export class EvaluationPool {
     child.job = undefined;
     if (job) {
       this.ran(job.tenant, -1);
-      if (child.stoppedFor?.reason === 'timeout' || child.stoppedFor?.reason === 'memory' || MEMORY_WORDS.test(child.stderr)) this.penalised.set(job.tenant, Date.now() + PENALTY_MS);
+      if (child.stoppedFor?.reason === 'timeout' || child.stoppedFor?.reason === 'memory' || MEMORY_WORDS.test(child.stderr))
+        this.penalised.set(job.tenant, Date.now() + PENALTY_MS);
       const why =
         child.stoppedFor ??
         (MEMORY_WORDS.test(child.stderr)

@@ -63,7 +63,12 @@ const reply = (message: SandboxReply) => process.send?.(message);
 process.on('message', (message: SandboxRequest) => {
   run(message.task, message.timeoutMs).then(
     (value) => reply({ id: message.id, ok: true, value }),
-    (err: Error) => reply(err instanceof Stopped ? { id: message.id, ok: false, message: err.message, timeout: true, cell: err.cell } : { id: message.id, ok: false, message: err.message }),
+    (err: Error) =>
+      reply(
+        err instanceof Stopped
+          ? { id: message.id, ok: false, message: err.message, timeout: true, cell: err.cell }
+          : { id: message.id, ok: false, message: err.message },
+      ),
   );
 });
 // The server went away (or was killed): nothing is left running.

@@ -31,8 +31,18 @@ export class EvaluationService implements OnModuleDestroy {
 
   constructor(config: ConfigService<Environment, true>) {
     const processes = config.get('EVALUATION_PROCESSES', { infer: true });
-    this.limits = { timeoutMs: config.get('EVALUATION_TIMEOUT_MS', { infer: true }), waitMs: config.get('EVALUATION_WAIT_MS', { infer: true }), memoryMb: config.get('EVALUATION_MEMORY_MB', { infer: true }) };
-    this.pool = new EvaluationPool({ processes, ...this.limits, perTenantRunning: Math.max(1, processes - 1), perTenantQueued: config.get('EVALUATION_QUEUE_PER_FIRM', { infer: true }), nodeEnv: config.get('NODE_ENV', { infer: true }) });
+    this.limits = {
+      timeoutMs: config.get('EVALUATION_TIMEOUT_MS', { infer: true }),
+      waitMs: config.get('EVALUATION_WAIT_MS', { infer: true }),
+      memoryMb: config.get('EVALUATION_MEMORY_MB', { infer: true }),
+    };
+    this.pool = new EvaluationPool({
+      processes,
+      ...this.limits,
+      perTenantRunning: Math.max(1, processes - 1),
+      perTenantQueued: config.get('EVALUATION_QUEUE_PER_FIRM', { infer: true }),
+      nodeEnv: config.get('NODE_ENV', { infer: true }),
+    });
   }
 
   /** The sentence a person reads when a sheet could not be evaluated. */

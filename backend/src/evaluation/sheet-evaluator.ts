@@ -50,7 +50,10 @@ export class SheetEvaluator {
 
   async evaluate(sheet: SheetFile, options: EvaluateOptions): Promise<SheetOutcome> {
     const started = performance.now();
-    const outcome = await this.evaluation.run({ kind: 'evaluate', sheet, key: options.key, version: options.version }, { tenant: options.firm, key: options.key, reservation: options.reservation });
+    const outcome = await this.evaluation.run(
+      { kind: 'evaluate', sheet, key: options.key, version: options.version },
+      { tenant: options.firm, key: options.key, reservation: options.reservation },
+    );
     const totalMs = performance.now() - started;
     if (outcome.ok) {
       const { cells, engineVersion, evaluated, reusedFrom, engineMs } = outcome.value;

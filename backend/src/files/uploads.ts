@@ -15,7 +15,9 @@ export const UPLOAD_LIMIT_TEXT = '25 MB';
 export const UPLOAD_OPTIONS = { limits: { fileSize: UPLOAD_LIMIT_BYTES, files: 1, fields: 4, fieldSize: 1024, fieldNameSize: 64, parts: 5, headerPairs: 20 } };
 
 /** For public uploads (verification): exactly one file, nothing else. */
-export const SINGLE_FILE_OPTIONS = { limits: { fileSize: UPLOAD_LIMIT_BYTES, files: 1, fields: 0, fieldSize: 0, fieldNameSize: 64, parts: 1, headerPairs: 20 } };
+export const SINGLE_FILE_OPTIONS = {
+  limits: { fileSize: UPLOAD_LIMIT_BYTES, files: 1, fields: 0, fieldSize: 0, fieldNameSize: 64, parts: 1, headerPairs: 20 },
+};
 
 /** Multer's words for a body outside the limits, as sentences. */
 export const MULTIPART_LIMIT_WORDS: Record<string, string> = {
@@ -56,7 +58,11 @@ export async function sniffUpload(buffer: Buffer, fileName: string): Promise<Sni
   const detected = await fileTypeFromBuffer(buffer);
   if (detected) {
     const kind = Object.entries(ALLOWED).find(([, v]) => v.mediaType === detected.mime || v.extensions.includes(detected.ext));
-    if (!kind) return { ok: false, reason: `its content is ${detected.mime}, which is not a kind of file Ampwright keeps (PDF, images, Office documents, ZIP, CSV or text)` };
+    if (!kind)
+      return {
+        ok: false,
+        reason: `its content is ${detected.mime}, which is not a kind of file Ampwright keeps (PDF, images, Office documents, ZIP, CSV or text)`,
+      };
     if (!kind[1].extensions.includes(ext)) return { ok: false, reason: `its name ends in .${ext || '(nothing)'} but its content is ${detected.mime}` };
     return { ok: true, mediaType: kind[1].mediaType };
   }

@@ -20,7 +20,8 @@ import { InvitationErrorCode } from '@ampwright/common';
 export { InvitationErrorCode };
 
 const VALID_DAYS = 7;
-const invalid = () => new AppException(InvitationErrorCode.Invalid, 'This invitation has expired, been used or been withdrawn. Ask for a new one.', HttpStatus.BAD_REQUEST);
+const invalid = () =>
+  new AppException(InvitationErrorCode.Invalid, 'This invitation has expired, been used or been withdrawn. Ask for a new one.', HttpStatus.BAD_REQUEST);
 
 const toResponse = (i: Invitation): InvitationResponseDto => ({
   id: i.id,
@@ -48,22 +49,42 @@ export class InvitationsService {
 
   async invite(auth: AuthContext, dto: CreateInvitationDto): Promise<InvitationResponseDto> {
     if (dto.roles.includes('client') && dto.roles.length > 1) {
-      throw new AppException(InvitationErrorCode.ClientWithOtherRoles, 'A client cannot also hold a role in the firm: invite them as a client only.', HttpStatus.BAD_REQUEST);
+      throw new AppException(
+        InvitationErrorCode.ClientWithOtherRoles,
+        'A client cannot also hold a role in the firm: invite them as a client only.',
+        HttpStatus.BAD_REQUEST,
+      );
     }
     const firm = auth.session.firm;
     if (dto.projectIds?.length) {
-      if (!dto.roles.includes('client')) throw new AppException(InvitationErrorCode.ClientWithOtherRoles, 'Projects are given to clients only: members see all of the firm\'s projects.', HttpStatus.BAD_REQUEST);
+      if (!dto.roles.includes('client'))
+        throw new AppException(
+          InvitationErrorCode.ClientWithOtherRoles,
+          "Projects are given to clients only: members see all of the firm's projects.",
+          HttpStatus.BAD_REQUEST,
+        );
       const found = await this.em.count(Project, { id: { $in: dto.projectIds }, firm });
-      if (found !== new Set(dto.projectIds).size) throw new AppException(InvitationErrorCode.Invalid, 'One of the projects is not a project of this firm.', HttpStatus.BAD_REQUEST, [{ field: 'projectIds', message: 'no such project in this firm' }]);
+      if (found !== new Set(dto.projectIds).size)
+        throw new AppException(InvitationErrorCode.Invalid, 'One of the projects is not a project of this firm.', HttpStatus.BAD_REQUEST, [
+          { field: 'projectIds', message: 'no such project in this firm' },
+        ]);
     }
     const existing = await this.em.findOne(Membership, { firm, user: { email: dto.email } });
-    if (existing) throw new AppException(InvitationErrorCode.AlreadyMember, `${dto.email} is already in ${firm.name}: change their roles instead.`, HttpStatus.CONFLICT);
+    if (existing)
+      throw new AppException(InvitationErrorCode.AlreadyMember, `${dto.email} is already in ${firm.name}: change their roles instead.`, HttpStatus.CONFLICT);
     const token = newToken();
     const invitation = new Invitation(firm, dto.email, dto.roles, hashToken(token), new Date(Date.now() + VALID_DAYS * 86_400_000), auth.session.user);
     invitation.projectIds = dto.projectIds ?? [];
     await this.em.persist(invitation).flush();
     await this.mail.send(
-      mailTemplates.invitation({ to: dto.email, firm: firm.name, invitedBy: auth.session.user.name, roles: dto.roles, url: `${this.appUrl}/accept-invitation?token=${token}`, expires: invitation.expiresAt }),
+      mailTemplates.invitation({
+        to: dto.email,
+        firm: firm.name,
+        invitedBy: auth.session.user.name,
+        roles: dto.roles,
+        url: `${this.appUrl}/accept-invitation?token=${token}`,
+        expires: invitation.expiresAt,
+      }),
     );
     await this.audit.record('invitation-sent', { firmId: firm.id, userId: auth.session.user.id, email: dto.email, detail: { roles: dto.roles } });
     return toResponse(invitation);
@@ -79,7 +100,12 @@ export class InvitationsService {
     const invitation = await this.em.findOne(Invitation, { id, firm: auth.session.firm });
     if (!invitation) throw new AppException(ErrorCode.NotFound, 'No such invitation.', HttpStatus.NOT_FOUND);
     const withdrawn = await this.em.nativeUpdate(Invitation, { id, acceptedAt: null, revokedAt: null }, { revokedAt: new Date() });
-    if (withdrawn !== 1) throw new AppException(ErrorCode.Conflict, invitation.acceptedAt ? 'This invitation was accepted already; remove the member instead.' : 'This invitation was withdrawn already.', HttpStatus.CONFLICT);
+    if (withdrawn !== 1)
+      throw new AppException(
+        ErrorCode.Conflict,
+        invitation.acceptedAt ? 'This invitation was accepted already; remove the member instead.' : 'This invitation was withdrawn already.',
+        HttpStatus.CONFLICT,
+      );
     await this.audit.record('invitation-revoked', { firmId: auth.session.firm.id, userId: auth.session.user.id, email: invitation.email });
     await this.em.refresh(invitation);
     return toResponse(invitation);

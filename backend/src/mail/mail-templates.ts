@@ -11,7 +11,9 @@ function compose(to: string, subject: string, firm: string, paragraphs: string[]
   const html = [
     '<div style="font-family:IBM Plex Sans,Arial,sans-serif;color:#1c2328;max-width:560px">',
     ...paragraphs.map((p) => `<p>${escape(p)}</p>`),
-    action ? `<p><a href="${escape(action.url)}" style="background:#16324a;color:#fff;padding:8px 14px;text-decoration:none">${escape(action.label)}</a></p>` : '',
+    action
+      ? `<p><a href="${escape(action.url)}" style="background:#16324a;color:#fff;padding:8px 14px;text-decoration:none">${escape(action.label)}</a></p>`
+      : '',
     `<p style="color:#4f5a62;font-size:12px">Ampwright, for ${escape(firm)}</p>`,
     '</div>',
   ].join('');
@@ -59,7 +61,9 @@ export const mailTemplates = {
       p.to,
       'Your Ampwright account',
       'Ampwright',
-      ['Someone tried to register a firm on Ampwright with this address, which has an account already. Sign in instead; if you forgot the password, the sign-in page can reset it. If it was not you, ignore this message.'],
+      [
+        'Someone tried to register a firm on Ampwright with this address, which has an account already. Sign in instead; if you forgot the password, the sign-in page can reset it. If it was not you, ignore this message.',
+      ],
       { label: 'Sign in', url: p.url },
     ),
   /** A sheet's review event, to one person: what happened, in one sentence, with a link to the sheet. */

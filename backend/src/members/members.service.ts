@@ -39,7 +39,8 @@ export class MembersService {
   private async assertOwnerRemains(auth: AuthContext, changed: Membership, newRoles: string[] | null): Promise<void> {
     if (!changed.roles.includes('owner') || newRoles?.includes('owner')) return;
     const owners = await this.em.count(Membership, { firm: auth.session.firm, roles: { $like: '%"owner"%' } });
-    if (owners <= 1) throw new AppException(MemberErrorCode.LastOwner, 'A firm must keep at least one owner: make someone else owner first.', HttpStatus.CONFLICT);
+    if (owners <= 1)
+      throw new AppException(MemberErrorCode.LastOwner, 'A firm must keep at least one owner: make someone else owner first.', HttpStatus.CONFLICT);
   }
 
   async updateRoles(auth: AuthContext, id: string, dto: UpdateRolesDto): Promise<MemberResponseDto> {
@@ -51,7 +52,12 @@ export class MembersService {
     const before = m.roles;
     m.roles = dto.roles;
     await this.em.flush();
-    await this.audit.record('role-changed', { firmId: auth.session.firm.id, userId: auth.session.user.id, email: m.user.email, detail: { before, after: dto.roles } });
+    await this.audit.record('role-changed', {
+      firmId: auth.session.firm.id,
+      userId: auth.session.user.id,
+      email: m.user.email,
+      detail: { before, after: dto.roles },
+    });
     return toResponse(m);
   }
 

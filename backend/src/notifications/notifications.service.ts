@@ -16,7 +16,14 @@ export interface NoticeTarget {
   mail?: OutgoingMail;
 }
 
-const view = (n: Notification): NotificationDto => ({ id: n.id, kind: n.kind, text: n.text, link: n.link, readAt: n.readAt?.toISOString() ?? null, createdAt: n.createdAt.toISOString() });
+const view = (n: Notification): NotificationDto => ({
+  id: n.id,
+  kind: n.kind,
+  text: n.text,
+  link: n.link,
+  readAt: n.readAt?.toISOString() ?? null,
+  createdAt: n.createdAt.toISOString(),
+});
 
 /** Tells people in the app and by e-mail. A mail server that is down never undoes the action itself. */
 @Injectable()
@@ -44,7 +51,10 @@ export class NotificationsService {
     await Promise.all(
       unique.map((t) =>
         this.mail
-          .send(t.mail ?? mailTemplates.sheetEvent({ to: t.user.email, firm: notice.firm, subject: notice.subject, sentence: notice.text, url: this.url(notice.link) }))
+          .send(
+            t.mail ??
+              mailTemplates.sheetEvent({ to: t.user.email, firm: notice.firm, subject: notice.subject, sentence: notice.text, url: this.url(notice.link) }),
+          )
           .catch((err: Error) => this.logger.warn(`could not e-mail ${t.user.email} (${notice.kind}): ${err.message}; the notice is in the app`)),
       ),
     );

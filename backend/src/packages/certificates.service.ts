@@ -13,7 +13,14 @@ import { randomBytes } from 'node:crypto';
 
 export type CertificateView = CertificateDto;
 
-const view = (c: FirmCertificate): CertificateView => ({ subject: c.subject, issuer: c.issuer, notBefore: c.notBefore.toISOString(), notAfter: c.notAfter.toISOString(), fingerprint: c.fingerprint, selfSigned: c.selfSigned });
+const view = (c: FirmCertificate): CertificateView => ({
+  subject: c.subject,
+  issuer: c.issuer,
+  notBefore: c.notBefore.toISOString(),
+  notAfter: c.notAfter.toISOString(),
+  fingerprint: c.fingerprint,
+  selfSigned: c.selfSigned,
+});
 
 @Injectable()
 export class CertificatesService {
@@ -29,7 +36,9 @@ export class CertificatesService {
 
   /** What the firm's packages carry: the query register only if the owner turned it on. */
   async packageSettings(auth: AuthContext): Promise<PackageSettingsDto> {
-    const [row] = await this.em.getConnection().execute<{ package_query_register: number }[]>('select package_query_register from firm where id = ?', [auth.session.firm.id]);
+    const [row] = await this.em
+      .getConnection()
+      .execute<{ package_query_register: number }[]>('select package_query_register from firm where id = ?', [auth.session.firm.id]);
     return { queryRegister: !!row?.package_query_register };
   }
 
@@ -45,12 +54,20 @@ export class CertificatesService {
 
   /** The owner's upload of the firm's PKCS#12 certificate, refused with the reason if it cannot sign. */
   async upload(auth: AuthContext, file: { buffer: Buffer } | undefined, password: string | undefined): Promise<CertificateView> {
-    if (!file) throw new AppException(ErrorCode.ValidationFailed, 'Attach the .p12 or .pfx file in the field "file".', HttpStatus.BAD_REQUEST, [{ field: 'file', message: 'no file was sent' }]);
-    if (typeof password !== 'string') throw new AppException(ErrorCode.ValidationFailed, 'Give the certificate\'s password in the field "password".', HttpStatus.BAD_REQUEST, [{ field: 'password', message: 'required' }]);
+    if (!file)
+      throw new AppException(ErrorCode.ValidationFailed, 'Attach the .p12 or .pfx file in the field "file".', HttpStatus.BAD_REQUEST, [
+        { field: 'file', message: 'no file was sent' },
+      ]);
+    if (typeof password !== 'string')
+      throw new AppException(ErrorCode.ValidationFailed, 'Give the certificate\'s password in the field "password".', HttpStatus.BAD_REQUEST, [
+        { field: 'password', message: 'required' },
+      ]);
     // Opened in an evaluation process with a deadline: a hostile file's key iterations never run here.
     const opened = await this.evaluation.readCertificate(auth.session.firm.id, file.buffer, password);
     if (!opened.ok) {
-      throw new AppException('CERTIFICATE_REFUSED', `The certificate was refused: ${opened.problem}`, HttpStatus.BAD_REQUEST, [{ field: opened.problem.includes('password') ? 'password' : 'file', message: opened.problem }]);
+      throw new AppException('CERTIFICATE_REFUSED', `The certificate was refused: ${opened.problem}`, HttpStatus.BAD_REQUEST, [
+        { field: opened.problem.includes('password') ? 'password' : 'file', message: opened.problem },
+      ]);
     }
     return view(await this.store(auth.session.firm, file.buffer, password, opened.facts, false));
   }

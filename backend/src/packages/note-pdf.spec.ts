@@ -20,7 +20,10 @@ async function renderNote(source: string): Promise<{ raw: string; text: string; 
   doc.on('data', (c: Buffer) => chunks.push(c));
   const ended = new Promise((r) => doc.on('end', r));
   doc.y = 20;
-  drawNote({ doc, left: 20, width: WIDTH, ensure: () => undefined, colours: { text: '#000000', muted: '#444444', heading: '#000000', rule: '#888888' } }, source);
+  drawNote(
+    { doc, left: 20, width: WIDTH, ensure: () => undefined, colours: { text: '#000000', muted: '#444444', heading: '#000000', rule: '#888888' } },
+    source,
+  );
   doc.end();
   await ended;
   const pdf = Buffer.concat(chunks);

@@ -62,7 +62,8 @@ function pieces(inlines: NoteInline[], size: number, base: Font): Piece[] {
 }
 
 function drawMaths(doc: PDFKit.PDFDocument, t: TexSvg, x: number, y: number, w: number, colour: string) {
-  if (!drawTex(doc, t, x, y, w, colour)) SVGtoPDF(doc, t.svg.replace(/currentColor/g, colour), x, y, { width: w, height: (t.height * w) / t.width, assumePt: true });
+  if (!drawTex(doc, t, x, y, w, colour))
+    SVGtoPDF(doc, t.svg.replace(/currentColor/g, colour), x, y, { width: w, height: (t.height * w) / t.width, assumePt: true });
 }
 
 /** Lays out one paragraph of runs from the current y, wrapping at the width; maths sits on the baseline. */
@@ -73,8 +74,15 @@ function flow(layout: NoteLayout, inlines: NoteInline[], opts: { size: number; f
   const all = pieces(inlines, opts.size, opts.font);
   const ascent = opts.size * 0.78;
   const descent = opts.size * 0.25;
-  const widthOf = (p: Piece) => (p.kind === 'word' ? doc.font(p.font).fontSize(opts.size).widthOfString(p.text) : p.kind === 'maths' ? Math.min(p.t.width, width) : 0);
-  const spaceOf = (p: Piece) => (p.kind !== 'break' && p.space ? doc.font(p.kind === 'word' ? p.font : opts.font).fontSize(opts.size).widthOfString(' ') : 0);
+  const widthOf = (p: Piece) =>
+    p.kind === 'word' ? doc.font(p.font).fontSize(opts.size).widthOfString(p.text) : p.kind === 'maths' ? Math.min(p.t.width, width) : 0;
+  const spaceOf = (p: Piece) =>
+    p.kind !== 'break' && p.space
+      ? doc
+          .font(p.kind === 'word' ? p.font : opts.font)
+          .fontSize(opts.size)
+          .widthOfString(' ')
+      : 0;
   let line: { p: Piece; x: number; w: number }[] = [];
   let x = 0;
   let first = true;
@@ -85,9 +93,19 @@ function flow(layout: NoteLayout, inlines: NoteInline[], opts: { size: number; f
     layout.ensure(h);
     const top = doc.y;
     const baseline = top + up;
-    if (first && opts.marker) doc.font(opts.font).fontSize(opts.size).fillColor(opts.colour).text(opts.marker, left - opts.size * 1.4, baseline - ascent, { lineBreak: false });
+    if (first && opts.marker)
+      doc
+        .font(opts.font)
+        .fontSize(opts.size)
+        .fillColor(opts.colour)
+        .text(opts.marker, left - opts.size * 1.4, baseline - ascent, { lineBreak: false });
     for (const { p, x: px, w } of line) {
-      if (p.kind === 'word') doc.font(p.font).fontSize(opts.size).fillColor(opts.colour).text(p.text, left + px, baseline - ascent, { lineBreak: false });
+      if (p.kind === 'word')
+        doc
+          .font(p.font)
+          .fontSize(opts.size)
+          .fillColor(opts.colour)
+          .text(p.text, left + px, baseline - ascent, { lineBreak: false });
       else if (p.kind === 'maths') drawMaths(doc, p.t, left + px, baseline - (p.t.height - p.t.depth) * (w / p.t.width), w, opts.colour);
     }
     doc.y = top + h;
@@ -125,7 +143,9 @@ export function drawNote(layout: NoteLayout, source: string): void {
         flow(layout, block.inlines, { size: 10, font: 'sans', colour: block.quote ? colours.muted : colours.text, indent: block.quote ? 12 : 0 });
         break;
       case 'list':
-        block.items.forEach((item, k) => flow(layout, item, { size: 10, font: 'sans', colour: colours.text, indent: 16, marker: block.ordered ? `${block.start + k}.` : '•' }));
+        block.items.forEach((item, k) =>
+          flow(layout, item, { size: 10, font: 'sans', colour: colours.text, indent: 16, marker: block.ordered ? `${block.start + k}.` : '•' }),
+        );
         break;
       case 'maths': {
         const t = typeset(block.tex, 11, 'display');
@@ -146,7 +166,12 @@ export function drawNote(layout: NoteLayout, source: string): void {
         break;
       case 'rule':
         layout.ensure(10);
-        doc.moveTo(layout.left, doc.y + 4).lineTo(layout.left + layout.width, doc.y + 4).lineWidth(0.5).strokeColor(colours.rule).stroke();
+        doc
+          .moveTo(layout.left, doc.y + 4)
+          .lineTo(layout.left + layout.width, doc.y + 4)
+          .lineWidth(0.5)
+          .strokeColor(colours.rule)
+          .stroke();
         doc.y += 8;
         break;
     }

@@ -9,12 +9,30 @@ import { readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
-import { CAUTION_SHORT, CAUTION_TEXT, PALETTE, calcFigures, type CellKind, checkPresentation, kindLabel, type Tone, sweepChart, transientChart, transientSummary, type CalcResult, type CellResult, type CheckResult, type QueryDto, type RevisionSummaryDto, type SweepResult, type TransientResult } from '@ampwright/common';
+import {
+  CAUTION_SHORT,
+  CAUTION_TEXT,
+  PALETTE,
+  calcFigures,
+  type CellKind,
+  checkPresentation,
+  kindLabel,
+  type Tone,
+  sweepChart,
+  transientChart,
+  transientSummary,
+  type CalcResult,
+  type CellResult,
+  type CheckResult,
+  type QueryDto,
+  type RevisionSummaryDto,
+  type SweepResult,
+  type TransientResult,
+} from '@ampwright/common';
 import type { RevisionSnapshot } from '../review/revisions.service';
 import { drawNote } from './note-pdf';
 import { drawTex, texToSvg } from './tex-svg';
 import { woffToSfnt } from './woff';
-
 
 export interface PackageAttachment {
   fileName: string;
@@ -47,7 +65,8 @@ const FONT_FILES = {
 };
 /** The fonts unpacked once per process (see woff.ts). */
 let fonts: Record<keyof typeof FONT_FILES, Buffer> | undefined;
-const FONTS = () => (fonts ??= Object.fromEntries(Object.entries(FONT_FILES).map(([k, f]) => [k, woffToSfnt(readFileSync(f))])) as Record<keyof typeof FONT_FILES, Buffer>);
+const FONTS = () =>
+  (fonts ??= Object.fromEntries(Object.entries(FONT_FILES).map(([k, f]) => [k, woffToSfnt(readFileSync(f))])) as Record<keyof typeof FONT_FILES, Buffer>);
 
 /** The metadata key that carries the revision id (read back by the verification page). */
 export const REVISION_KEY = 'AmpwrightRevision';
@@ -94,7 +113,10 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     doc.moveDown(0.3).fillColor(TEXT).font('sans').fontSize(10);
   };
   const para = (text: string, opts: { font?: string; size?: number; colour?: string } = {}) => {
-    doc.font(opts.font ?? 'sans').fontSize(opts.size ?? 10).fillColor(opts.colour ?? TEXT);
+    doc
+      .font(opts.font ?? 'sans')
+      .fontSize(opts.size ?? 10)
+      .fillColor(opts.colour ?? TEXT);
     ensure(doc.heightOfString(text, { width: width() }) + 4);
     doc.text(text, M, doc.y, { width: width() });
   };
@@ -103,7 +125,8 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     try {
       const t = texToSvg(source, size);
       const k = t.width > maxWidth ? maxWidth / t.width : 1;
-      if (!drawTex(doc, t, x, y, t.width * k, TEXT)) SVGtoPDF(doc, t.svg.replace(/currentColor/g, TEXT), x, y, { width: t.width * k, height: t.height * k, assumePt: true });
+      if (!drawTex(doc, t, x, y, t.width * k, TEXT))
+        SVGtoPDF(doc, t.svg.replace(/currentColor/g, TEXT), x, y, { width: t.width * k, height: t.height * k, assumePt: true });
       return { w: t.width * k, h: t.height * k };
     } catch {
       doc.font('mono').fontSize(8).fillColor(TEXT).text(source, x, y, { width: maxWidth });
@@ -126,7 +149,11 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
 
   // Cover sheet.
   doc.addPage();
-  doc.font('bold').fontSize(11).fillColor(COPPER).text(snap.firm.toUpperCase(), M, M + 20, { characterSpacing: 1 });
+  doc
+    .font('bold')
+    .fontSize(11)
+    .fillColor(COPPER)
+    .text(snap.firm.toUpperCase(), M, M + 20, { characterSpacing: 1 });
   doc.moveDown(2).font('bold').fontSize(24).fillColor(INK).text('Calculation package');
   doc.moveDown(0.4).font('sans').fontSize(16).fillColor(TEXT).text(snap.sheet.title, { width: width() });
   doc.moveDown(1.2);
@@ -146,21 +173,38 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
   for (const [k, v] of facts) {
     const y = doc.y;
     doc.font('bold').fontSize(10).fillColor(MUTED).text(k, M, y, { width: 110 });
-    doc.font('sans').fillColor(TEXT).text(v, M + 120, y, { width: width() - 120 });
+    doc
+      .font('sans')
+      .fillColor(TEXT)
+      .text(v, M + 120, y, { width: width() - 120 });
     doc.moveDown(0.35);
   }
   doc.moveDown(1.5);
   const cy = doc.y;
-  const ch = doc.font('sans').fontSize(10).heightOfString(CAUTION_TEXT, { width: width() - 24 }) + 30;
+  const ch =
+    doc
+      .font('sans')
+      .fontSize(10)
+      .heightOfString(CAUTION_TEXT, { width: width() - 24 }) + 30;
   doc.rect(M, cy, width(), ch).lineWidth(1).strokeColor(CAUTION).stroke();
-  doc.font('bold').fontSize(10).fillColor(CAUTION).text('Caution', M + 12, cy + 8);
-  doc.font('sans').fillColor(TEXT).text(CAUTION_TEXT, M + 12, cy + 22, { width: width() - 24 });
+  doc
+    .font('bold')
+    .fontSize(10)
+    .fillColor(CAUTION)
+    .text('Caution', M + 12, cy + 8);
+  doc
+    .font('sans')
+    .fillColor(TEXT)
+    .text(CAUTION_TEXT, M + 12, cy + 22, { width: width() - 24 });
 
   // Revision history and contents.
   doc.addPage();
   heading('Revision history');
   for (const r of input.history) {
-    para(`${r.code} — issued ${date(r.issuedAt)}; prepared by ${r.preparedBy}, checked by ${r.checkedBy} (${date(r.checkedAt)}), approved by ${r.approvedBy} (${date(r.approvedAt)}); snapshot SHA-256 ${r.snapshotSha256}`, { size: 9 });
+    para(
+      `${r.code} — issued ${date(r.issuedAt)}; prepared by ${r.preparedBy}, checked by ${r.checkedBy} (${date(r.checkedAt)}), approved by ${r.approvedBy} (${date(r.approvedAt)}); snapshot SHA-256 ${r.snapshotSha256}`,
+      { size: 9 },
+    );
     doc.moveDown(0.3);
   }
   heading('Contents');
@@ -174,19 +218,25 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
   type Cell = Record<string, unknown> & { kind: string };
   /** How each kind of cell is drawn: a new kind does not compile until it is drawn here. */
   const DRAW: Record<CellKind, (cell: Cell, result: CellResult | null) => void> = {
-    note: (cell) => drawNote({ doc, left: M, width: width(), ensure, colours: { text: TEXT, muted: MUTED, heading: INK, rule: RULE } }, String(cell.text ?? '')),
+    note: (cell) =>
+      drawNote({ doc, left: M, width: width(), ensure, colours: { text: TEXT, muted: MUTED, heading: INK, rule: RULE } }, String(cell.text ?? '')),
     calc: (_cell, result) => result?.kind === 'calc' && drawCalc(result),
     check: (cell, result) => result?.kind === 'check' && drawCheck(result, cell),
     sweep: (cell, result) => {
       if (result?.kind !== 'sweep') return;
-      para(`${cell.variable} from ${cell.from} to ${cell.to}, ${cell.points} points (${cell.spacing ?? 'linear'}); outputs: ${((cell.outputs as string[]) ?? []).join('; ')}`, { size: 9, colour: MUTED });
+      para(
+        `${cell.variable} from ${cell.from} to ${cell.to}, ${cell.points} points (${cell.spacing ?? 'linear'}); outputs: ${((cell.outputs as string[]) ?? []).join('; ')}`,
+        { size: 9, colour: MUTED },
+      );
       const svg = sweepChart(result as SweepResult, { logX: cell.spacing === 'log' });
       if (svg) svgFigure(svg, width());
     },
     transient: (cell, result) => {
       if (result?.kind !== 'transient') return;
       const t = result as TransientResult;
-      para(`R = ${cell.R}, L = ${cell.L}, C = ${cell.C}, E(t) = ${cell.source}, from q0 = ${cell.q0 || '0'}, i0 = ${cell.i0 || '0'}, over ${cell.span}.`, { size: 9 });
+      para(`R = ${cell.R}, L = ${cell.L}, C = ${cell.C}, E(t) = ${cell.source}, from q0 = ${cell.q0 || '0'}, i0 = ${cell.i0 || '0'}, over ${cell.span}.`, {
+        size: 9,
+      });
       for (const row of transientSummary(t)) para(`${row.label}: ${row.text}`, { size: 9 });
       const svg = transientChart(t);
       if (svg) svgFigure(svg, width());
@@ -201,14 +251,34 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     const cell = fileCell as Record<string, unknown> & { kind: string };
     const result = (snap.results[i] ?? null) as CellResult | null;
     ensure(40);
-    entries.push({ label: `Cell ${i + 1}: ${kindLabel(cell.kind).toLowerCase()}${cell.kind === 'note' ? ` — ${String(cell.text ?? '').split('\n')[0].replace(/^#+\s*/, '').slice(0, 60)}` : ''}`, page: doc.bufferedPageRange().count });
+    entries.push({
+      label: `Cell ${i + 1}: ${kindLabel(cell.kind).toLowerCase()}${
+        cell.kind === 'note'
+          ? ` — ${String(cell.text ?? '')
+              .split('\n')[0]
+              .replace(/^#+\s*/, '')
+              .slice(0, 60)}`
+          : ''
+      }`,
+      page: doc.bufferedPageRange().count,
+    });
     doc.moveDown(0.5);
-    doc.font('bold').fontSize(8).fillColor(MUTED).text(`${i + 1} · ${kindLabel(cell.kind).toUpperCase()}`, M, doc.y, { characterSpacing: 0.8 });
-    doc.moveTo(M, doc.y + 1).lineTo(M + width(), doc.y + 1).lineWidth(0.5).strokeColor(RULE).stroke();
+    doc
+      .font('bold')
+      .fontSize(8)
+      .fillColor(MUTED)
+      .text(`${i + 1} · ${kindLabel(cell.kind).toUpperCase()}`, M, doc.y, { characterSpacing: 0.8 });
+    doc
+      .moveTo(M, doc.y + 1)
+      .lineTo(M + width(), doc.y + 1)
+      .lineWidth(0.5)
+      .strokeColor(RULE)
+      .stroke();
     doc.moveDown(0.4);
     DRAW[cell.kind as CellKind]?.(cell, result);
-    if (result && result.errors.length) for (const e of result.errors) para(`Error, line ${e.line}, column ${e.column}: ${e.message}`, { colour: FAIL, size: 9 });
-    input.onProgress?.((i + 1) / cells.length * 0.9);
+    if (result && result.errors.length)
+      for (const e of result.errors) para(`Error, line ${e.line}, column ${e.column}: ${e.message}`, { colour: FAIL, size: 9 });
+    input.onProgress?.(((i + 1) / cells.length) * 0.9);
   });
 
   function drawCalc(result: CalcResult) {
@@ -224,10 +294,18 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
       y2 += working.h + 2;
       doc.y = y2;
       if (line.description) {
-        doc.font('italic').fontSize(8).fillColor(MUTED).text(line.description, M + 14, doc.y, { width: width() - 14 });
+        doc
+          .font('italic')
+          .fontSize(8)
+          .fillColor(MUTED)
+          .text(line.description, M + 14, doc.y, { width: width() - 14 });
       }
       if (line.convention) {
-        doc.font('sans').fontSize(8).fillColor(MUTED).text(line.convention, M + 14, doc.y, { width: width() - 14 });
+        doc
+          .font('sans')
+          .fontSize(8)
+          .fillColor(MUTED)
+          .text(line.convention, M + 14, doc.y, { width: width() - 14 });
       }
       doc.moveDown(0.35);
     }
@@ -247,7 +325,11 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     const y = doc.y;
     const p = checkPresentation(result);
     doc.rect(M, y, 64, 16).fillColor(TONE[p.tone]).fill();
-    doc.font('bold').fontSize(9).fillColor('#ffffff').text(p.outcome.toUpperCase(), M, y + 4, { width: 64, align: 'center' });
+    doc
+      .font('bold')
+      .fontSize(9)
+      .fillColor('#ffffff')
+      .text(p.outcome.toUpperCase(), M, y + 4, { width: 64, align: 'center' });
     if (result.tex) tex(result.tex.formula, M + 76, y + 1, width() - 76);
     doc.y = y + 22;
     if (result.tex?.working) {
@@ -256,9 +338,19 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     }
     if (p.utilisation) {
       const barW = 220;
-      doc.rect(M + 14, doc.y, barW, 6).fillColor(RULE).fill();
-      doc.rect(M + 14, doc.y, p.utilisation.fraction * barW, 6).fillColor(TONE[p.utilisation.band]).fill();
-      doc.font('sans').fontSize(9).fillColor(TEXT).text(`${p.utilisation.text}${p.advisory ? ' (advisory)' : ''}`, M + 24 + barW, doc.y - 2);
+      doc
+        .rect(M + 14, doc.y, barW, 6)
+        .fillColor(RULE)
+        .fill();
+      doc
+        .rect(M + 14, doc.y, p.utilisation.fraction * barW, 6)
+        .fillColor(TONE[p.utilisation.band])
+        .fill();
+      doc
+        .font('sans')
+        .fontSize(9)
+        .fillColor(TEXT)
+        .text(`${p.utilisation.text}${p.advisory ? ' (advisory)' : ''}`, M + 24 + barW, doc.y - 2);
       doc.moveDown(0.2);
     }
     if (cell.basis) para(`Basis: ${String(cell.basis)}`, { size: 9, colour: MUTED });
@@ -271,11 +363,24 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     const row = (values: string[], font: string) => {
       ensure(14);
       const y = doc.y;
-      values.forEach((v, j) => doc.font(font).fontSize(9).fillColor(TEXT).text(v, M + j * colW, y, { width: colW - 6, lineBreak: false, ellipsis: true }));
+      values.forEach((v, j) =>
+        doc
+          .font(font)
+          .fontSize(9)
+          .fillColor(TEXT)
+          .text(v, M + j * colW, y, { width: colW - 6, lineBreak: false, ellipsis: true }),
+      );
       doc.y = y + 13;
     };
-    row(columns.map((c) => (c.unit ? `${c.name} [${c.unit}]` : c.name)), 'bold');
-    for (const r of rows) row(r.map((v) => (v === null || v === undefined ? '' : String(v))), 'mono');
+    row(
+      columns.map((c) => (c.unit ? `${c.name} [${c.unit}]` : c.name)),
+      'bold',
+    );
+    for (const r of rows)
+      row(
+        r.map((v) => (v === null || v === undefined ? '' : String(v))),
+        'mono',
+      );
     doc.moveDown(0.3);
   }
 
@@ -308,7 +413,11 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
   doc.switchToPage(contentsPage);
   let y = contentsY;
   for (const e of entries) {
-    doc.font('sans').fontSize(9).fillColor(TEXT).text(e.label, M, y, { width: width() - 50, lineBreak: false, ellipsis: true });
+    doc
+      .font('sans')
+      .fontSize(9)
+      .fillColor(TEXT)
+      .text(e.label, M, y, { width: width() - 50, lineBreak: false, ellipsis: true });
     doc.text(String(e.page), M + width() - 40, y, { width: 40, align: 'right', lineBreak: false });
     y += 13;
     if (y > bottom()) break;
@@ -318,8 +427,16 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     const keep = doc.page.margins.bottom;
     doc.page.margins.bottom = 0;
     doc.font('sans').fontSize(8).fillColor(MUTED);
-    doc.text(`${snap.firm} · Job ${snap.project.jobNumber} · Sheet ${snap.sheetNumber} · Revision ${snap.revision.code}`, M, M - 24, { width: width(), lineBreak: false });
-    doc.moveTo(M, M - 12).lineTo(M + width(), M - 12).lineWidth(0.5).strokeColor(RULE).stroke();
+    doc.text(`${snap.firm} · Job ${snap.project.jobNumber} · Sheet ${snap.sheetNumber} · Revision ${snap.revision.code}`, M, M - 24, {
+      width: width(),
+      lineBreak: false,
+    });
+    doc
+      .moveTo(M, M - 12)
+      .lineTo(M + width(), M - 12)
+      .lineWidth(0.5)
+      .strokeColor(RULE)
+      .stroke();
     doc.text(CAUTION_SHORT, M, doc.page.height - M + 14, { width: width() - 80, lineBreak: false });
     doc.text(`Page ${p + 1} of ${range.count}`, M + width() - 80, doc.page.height - M + 14, { width: 80, align: 'right', lineBreak: false });
     doc.page.margins.bottom = keep;

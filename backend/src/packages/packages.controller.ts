@@ -86,7 +86,11 @@ export class PackagesController {
   @Roles('owner')
   @Post('firm/certificate')
   @UseInterceptors(FileInterceptor('file', UPLOAD_OPTIONS))
-  upload(@CurrentAuth() auth: AuthContext, @UploadedFile() file: Express.Multer.File | undefined, @Body('password') password: string | undefined): Promise<CertificateView> {
+  upload(
+    @CurrentAuth() auth: AuthContext,
+    @UploadedFile() file: Express.Multer.File | undefined,
+    @Body('password') password: string | undefined,
+  ): Promise<CertificateView> {
     return this.certificates.upload(auth, file, password);
   }
 }

@@ -6,5 +6,10 @@ import { CertificatesService } from './certificates.service';
 import { PackagesController } from './packages.controller';
 import { PackagesService } from './packages.service';
 
-@Module({ imports: [EvaluationModule, FilesModule, ReviewModule], controllers: [PackagesController], providers: [PackagesService, CertificatesService], exports: [PackagesService] })
+@Module({
+  imports: [EvaluationModule, FilesModule, ReviewModule],
+  controllers: [PackagesController],
+  providers: [PackagesService, CertificatesService],
+  exports: [PackagesService],
+})
 export class PackagesModule {}

@@ -65,7 +65,10 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
     clearInterval(this.timer);
     const until = Date.now() + 30_000;
     while (this.busy && Date.now() < until) await new Promise((r) => setTimeout(r, 100));
-    await this.orm.em.fork().nativeUpdate(PackageJob, { lockedBy: this.instance, status: 'running' }, { status: 'queued', lockedBy: null, claimToken: null }).catch(() => undefined);
+    await this.orm.em
+      .fork()
+      .nativeUpdate(PackageJob, { lockedBy: this.instance, status: 'running' }, { status: 'queued', lockedBy: null, claimToken: null })
+      .catch(() => undefined);
   }
 
   /**
@@ -95,7 +98,11 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
           'run',
         );
         if (!(res as { affectedRows?: number }).affectedRows) return false;
-        const job = await this.em.findOneOrFail(PackageJob, { claimToken: token }, { populate: ['revision', 'revision.sheet', 'revision.sheet.project', 'revision.sheet.project.firm'] });
+        const job = await this.em.findOneOrFail(
+          PackageJob,
+          { claimToken: token },
+          { populate: ['revision', 'revision.sheet', 'revision.sheet.project', 'revision.sheet.project.firm'] },
+        );
         await this.run(job, token);
         return true;
       });
@@ -109,7 +116,10 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
 
   /** Whether this run still holds its claim (and refreshes its heartbeat). */
   private async beat(jobId: string, token: string): Promise<boolean> {
-    const res = await this.orm.em.fork().getConnection().execute("update package_job set heartbeat_at = now(3) where id = ? and claim_token = ? and status = 'running'", [jobId, token], 'run');
+    const res = await this.orm.em
+      .fork()
+      .getConnection()
+      .execute("update package_job set heartbeat_at = now(3) where id = ? and claim_token = ? and status = 'running'", [jobId, token], 'run');
     return (res as { affectedRows?: number }).affectedRows === 1;
   }
 
@@ -125,11 +135,21 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
       const next = Math.round(fraction * 80);
       if (next > percent + 9) {
         percent = next;
-        void this.orm.em.fork().nativeUpdate(PackageJob, { id: job.id, claimToken: token }, { percent }).catch(() => undefined);
+        void this.orm.em
+          .fork()
+          .nativeUpdate(PackageJob, { id: job.id, claimToken: token }, { percent })
+          .catch(() => undefined);
       }
     };
     let lost = false;
-    const heartbeat = setInterval(() => void this.beat(job.id, token).then((held) => (lost ||= !held), () => undefined), HEARTBEAT_MS);
+    const heartbeat = setInterval(
+      () =>
+        void this.beat(job.id, token).then(
+          (held) => (lost ||= !held),
+          () => undefined,
+        ),
+      HEARTBEAT_MS,
+    );
     const key = `packages/${revision.sheet.id}/${revision.code}-${revision.id}-${token}.pdf`;
     let stored = false;
     try {
@@ -139,7 +159,11 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
       stored = true;
       const sha = createHash('sha256').update(pdf).digest('hex');
       await this.em.transactional(async (em) => {
-        const done = await em.nativeUpdate(PackageJob, { id: job.id, claimToken: token, status: 'running' }, { status: 'done', percent: 100, error: null, lockedBy: null, claimToken: null });
+        const done = await em.nativeUpdate(
+          PackageJob,
+          { id: job.id, claimToken: token, status: 'running' },
+          { status: 'done', percent: 100, error: null, lockedBy: null, claimToken: null },
+        );
         if (done !== 1) throw new ClaimLost();
         const recorded = await em.nativeUpdate(Revision, { id: revision.id, pdfSha256: null }, { pdfSha256: sha, pdfObjectKey: key });
         if (recorded !== 1) throw new ClaimLost();
@@ -178,7 +202,10 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
     );
     const cert = await this.certificates.forSigning(revision.sheet.project.firm);
     const who = { firm: snapshot.firm, reason: `Issue of ${snapshot.sheetNumber} revision ${snapshot.revision.code}` };
-    return buildPackageInWorker({ revisionId: revision.id, snapshot, history, attachments, onProgress }, { p12: new Uint8Array(cert.p12), password: cert.password, who });
+    return buildPackageInWorker(
+      { revisionId: revision.id, snapshot, history, attachments, onProgress },
+      { p12: new Uint8Array(cert.p12), password: cert.password, who },
+    );
   }
 
   private async findRevision(auth: AuthContext, id: string): Promise<Revision> {
@@ -207,8 +234,17 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
     if (!job) {
       await this.em.persist(this.em.create(PackageJob, { revision: r })).flush();
     } else {
-      const requeued = await this.em.nativeUpdate(PackageJob, { id: job.id, status: 'failed' }, { status: 'queued', attempts: 0, error: null, claimToken: null, lockedBy: null });
-      if (requeued !== 1) throw new AppException(ErrorCode.Conflict, 'The package of this revision is waiting or being made: only a failed one is tried again.', HttpStatus.CONFLICT);
+      const requeued = await this.em.nativeUpdate(
+        PackageJob,
+        { id: job.id, status: 'failed' },
+        { status: 'queued', attempts: 0, error: null, claimToken: null, lockedBy: null },
+      );
+      if (requeued !== 1)
+        throw new AppException(
+          ErrorCode.Conflict,
+          'The package of this revision is waiting or being made: only a failed one is tried again.',
+          HttpStatus.CONFLICT,
+        );
     }
     this.em.clear();
     return this.status(auth, revisionId);
@@ -216,7 +252,8 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
 
   async download(auth: AuthContext, revisionId: string): Promise<{ body: Buffer; fileName: string; sha256: string }> {
     const r = await this.findRevision(auth, revisionId);
-    if (!r.pdfObjectKey || !r.pdfSha256) throw new AppException('PACKAGE_NOT_READY', 'The package of this revision is still being made; try again in a moment.', HttpStatus.CONFLICT);
+    if (!r.pdfObjectKey || !r.pdfSha256)
+      throw new AppException('PACKAGE_NOT_READY', 'The package of this revision is still being made; try again in a moment.', HttpStatus.CONFLICT);
     const body = await this.store.get(r.pdfObjectKey);
     return { body, fileName: `${r.sheet.project.jobNumber}-${r.sheet.number}-rev${r.code}.pdf`.replace(/[^A-Za-z0-9._-]/g, '_'), sha256: r.pdfSha256 };
   }
@@ -225,7 +262,11 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
   async portal(auth: AuthContext): Promise<PortalRevision[]> {
     const projectIds = (await this.em.find(ProjectClient, { user: auth.session.user })).map((c) => c.project.id);
     if (!projectIds.length) return [];
-    const rows = await this.em.find(Revision, { sheet: { project: { $in: projectIds } } }, { populate: ['sheet', 'sheet.project', 'preparedBy', 'checkedBy', 'approvedBy'], orderBy: { issuedAt: 'desc' } });
+    const rows = await this.em.find(
+      Revision,
+      { sheet: { project: { $in: projectIds } } },
+      { populate: ['sheet', 'sheet.project', 'preparedBy', 'checkedBy', 'approvedBy'], orderBy: { issuedAt: 'desc' } },
+    );
     return rows.map((r) => ({
       ...this.revisions.toSummary(r),
       sheetId: r.sheet.id,
@@ -244,19 +285,40 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
    * not ours. Nothing is said about work that was not issued.
    */
   async verify(file: { buffer: Buffer; size: number } | undefined): Promise<Verdict> {
-    if (!file || file.size === 0) throw new AppException(ErrorCode.ValidationFailed, 'Choose a PDF file to check.', HttpStatus.BAD_REQUEST, [{ field: 'file', message: 'no file was sent' }]);
+    if (!file || file.size === 0)
+      throw new AppException(ErrorCode.ValidationFailed, 'Choose a PDF file to check.', HttpStatus.BAD_REQUEST, [
+        { field: 'file', message: 'no file was sent' },
+      ]);
     if (!file.buffer.subarray(0, 1024).toString('latin1').includes('%PDF-')) {
-      throw new AppException(ErrorCode.UnsupportedMediaType, 'This file is not a PDF, so it cannot be one of our packages.', HttpStatus.UNSUPPORTED_MEDIA_TYPE, [{ field: 'file', message: 'not a PDF' }]);
+      throw new AppException(
+        ErrorCode.UnsupportedMediaType,
+        'This file is not a PDF, so it cannot be one of our packages.',
+        HttpStatus.UNSUPPORTED_MEDIA_TYPE,
+        [{ field: 'file', message: 'not a PDF' }],
+      );
     }
     const sha = createHash('sha256').update(file.buffer).digest('hex');
     const match = await this.em.findOne(Revision, { pdfSha256: sha }, { populate: ['sheet', 'sheet.project', 'sheet.project.firm'] });
     if (match) {
       const snap = match.snapshot as unknown as RevisionSnapshot;
-      return { verdict: 'unaltered', project: match.sheet.project.title, jobNumber: match.sheet.project.jobNumber, sheet: match.sheet.number, sheetTitle: snap.sheet.title, revision: match.code, issuedAt: match.issuedAt.toISOString(), firm: match.sheet.project.firm.name };
+      return {
+        verdict: 'unaltered',
+        project: match.sheet.project.title,
+        jobNumber: match.sheet.project.jobNumber,
+        sheet: match.sheet.number,
+        sheetTitle: snap.sheet.title,
+        revision: match.code,
+        issuedAt: match.issuedAt.toISOString(),
+        firm: match.sheet.project.firm.name,
+      };
     }
     const named = new RegExp(`${REVISION_KEY}[:(\\s]+([0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12})`).exec(file.buffer.toString('latin1'));
     if (named && (await this.em.count(Revision, { id: named[1], pdfSha256: { $ne: null } }))) {
-      return { verdict: 'altered', message: 'This file claims to be one of our packages, but it is not the file we issued: it was altered after signing (or damaged). Do not rely on it; ask the issuing firm for the original.' };
+      return {
+        verdict: 'altered',
+        message:
+          'This file claims to be one of our packages, but it is not the file we issued: it was altered after signing (or damaged). Do not rely on it; ask the issuing firm for the original.',
+      };
     }
     return { verdict: 'unknown', message: 'This PDF is not a package issued by this service.' };
   }

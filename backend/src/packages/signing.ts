@@ -44,11 +44,19 @@ export function assertSaneIterations(der: Buffer): void {
       const parts = node.value;
       parts.forEach((part, k) => {
         const before = parts[k - 1];
-        if (part.tagClass === forge.asn1.Class.UNIVERSAL && part.type === forge.asn1.Type.INTEGER && before?.tagClass === forge.asn1.Class.UNIVERSAL && before.type === forge.asn1.Type.OCTETSTRING && typeof part.value === 'string') {
+        if (
+          part.tagClass === forge.asn1.Class.UNIVERSAL &&
+          part.type === forge.asn1.Type.INTEGER &&
+          before?.tagClass === forge.asn1.Class.UNIVERSAL &&
+          before.type === forge.asn1.Type.OCTETSTRING &&
+          typeof part.value === 'string'
+        ) {
           const bytes = part.value;
           const count = bytes.length > 6 ? Infinity : [...bytes].reduce((n, ch) => n * 256 + ch.charCodeAt(0), 0);
           if (count > MAX_P12_ITERATIONS) {
-            throw new CertificateProblem(`This certificate file asks for ${Number.isFinite(count) ? count.toLocaleString('en') : 'an enormous number of'} key iterations; Ampwright takes at most ${MAX_P12_ITERATIONS.toLocaleString('en')}. Export it again with the usual settings.`);
+            throw new CertificateProblem(
+              `This certificate file asks for ${Number.isFinite(count) ? count.toLocaleString('en') : 'an enormous number of'} key iterations; Ampwright takes at most ${MAX_P12_ITERATIONS.toLocaleString('en')}. Export it again with the usual settings.`,
+            );
           }
         }
         walk(part, depth + 1);
@@ -85,14 +93,23 @@ export function readP12(p12: Buffer, password: string, now = new Date()): Certif
     if (/MAC could not be verified|Invalid password/i.test(m)) throw new CertificateProblem('The password does not open this certificate file.');
     throw new CertificateProblem('This is not a PKCS#12 (.p12 or .pfx) certificate file.');
   }
-  const keys = [...(parsed.getBags({ bagType: forge.pki.oids.pkcs8ShroudedKeyBag })[forge.pki.oids.pkcs8ShroudedKeyBag] ?? []), ...(parsed.getBags({ bagType: forge.pki.oids.keyBag })[forge.pki.oids.keyBag] ?? [])];
+  const keys = [
+    ...(parsed.getBags({ bagType: forge.pki.oids.pkcs8ShroudedKeyBag })[forge.pki.oids.pkcs8ShroudedKeyBag] ?? []),
+    ...(parsed.getBags({ bagType: forge.pki.oids.keyBag })[forge.pki.oids.keyBag] ?? []),
+  ];
   const certs = parsed.getBags({ bagType: forge.pki.oids.certBag })[forge.pki.oids.certBag] ?? [];
   const cert = certs[0]?.cert;
   if (!keys.length || !cert) throw new CertificateProblem('The file must hold a private key and its certificate.');
   if (cert.validity.notAfter < now) throw new CertificateProblem(`The certificate expired on ${cert.validity.notAfter.toISOString().slice(0, 10)}.`);
   if (cert.validity.notBefore > now) throw new CertificateProblem(`The certificate is not valid before ${cert.validity.notBefore.toISOString().slice(0, 10)}.`);
   const der = forge.asn1.toDer(forge.pki.certificateToAsn1(cert)).getBytes();
-  return { subject: name(cert.subject.attributes), issuer: name(cert.issuer.attributes), notBefore: cert.validity.notBefore, notAfter: cert.validity.notAfter, fingerprint: forge.md.sha256.create().update(der).digest().toHex() };
+  return {
+    subject: name(cert.subject.attributes),
+    issuer: name(cert.issuer.attributes),
+    notBefore: cert.validity.notBefore,
+    notAfter: cert.validity.notAfter,
+    fingerprint: forge.md.sha256.create().update(der).digest().toHex(),
+  };
 }
 
 /** A self-signed certificate for the firm (for the demo and until the owner uploads the firm's own). */
@@ -104,10 +121,16 @@ export function makeSelfSignedP12(firm: string, password: string, years = 3, not
   cert.serialNumber = `01${randomBytes(8).toString('hex')}`;
   cert.validity.notBefore = notBefore;
   cert.validity.notAfter = new Date(notBefore.getTime() + years * 365.25 * 86400_000);
-  const attrs = [{ name: 'commonName', value: `${firm} (self-signed, Ampwright)` }, { name: 'organizationName', value: firm }];
+  const attrs = [
+    { name: 'commonName', value: `${firm} (self-signed, Ampwright)` },
+    { name: 'organizationName', value: firm },
+  ];
   cert.setSubject(attrs);
   cert.setIssuer(attrs);
-  cert.setExtensions([{ name: 'basicConstraints', cA: false }, { name: 'keyUsage', digitalSignature: true, nonRepudiation: true }]);
+  cert.setExtensions([
+    { name: 'basicConstraints', cA: false },
+    { name: 'keyUsage', digitalSignature: true, nonRepudiation: true },
+  ]);
   cert.sign(key, forge.md.sha256.create());
   const asn1 = forge.pkcs12.toPkcs12Asn1(key, [cert], password, { algorithm: '3des' });
   return Buffer.from(forge.asn1.toDer(asn1).getBytes(), 'binary');
@@ -116,7 +139,15 @@ export function makeSelfSignedP12(firm: string, password: string, years = 3, not
 /** Signs a finished PDF: adds the signature field, then fills it with the detached PKCS#7 signature. */
 export async function signPdf(pdf: Buffer, p12: Buffer, password: string, who: { firm: string; reason: string }, signingTime = new Date()): Promise<Buffer> {
   assertSaneIterations(p12);
-  const withPlaceholder = plainAddPlaceholder({ pdfBuffer: pdf, reason: who.reason, contactInfo: who.firm, name: who.firm, location: 'Ampwright', signingTime, signatureLength: 16384 });
+  const withPlaceholder = plainAddPlaceholder({
+    pdfBuffer: pdf,
+    reason: who.reason,
+    contactInfo: who.firm,
+    name: who.firm,
+    location: 'Ampwright',
+    signingTime,
+    signatureLength: 16384,
+  });
   return signpdf.sign(withPlaceholder, new P12Signer(p12, { passphrase: password }), signingTime);
 }
 

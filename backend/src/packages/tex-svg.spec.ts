@@ -36,11 +36,17 @@ describe('drawTex', () => {
   };
 
   it('draws formulas as the SVG renderer does (pixels compared, poppler pdftoppm)', async () => {
-    for (const tex of ['\\phi = \\arctan\\left(\\frac{X}{R}\\right)', 'Z = \\sqrt{{\\left(10.00\\,\\Omega\\right)}^{2}+{\\left(-25.55\\,\\Omega\\right)}^{2}}', 'C = 100\\,\\mu\\mathrm{F} \\le 27.44\\,\\Omega\\angle -68.6^{\\circ}']) {
+    for (const tex of [
+      '\\phi = \\arctan\\left(\\frac{X}{R}\\right)',
+      'Z = \\sqrt{{\\left(10.00\\,\\Omega\\right)}^{2}+{\\left(-25.55\\,\\Omega\\right)}^{2}}',
+      'C = 100\\,\\mu\\mathrm{F} \\le 27.44\\,\\Omega\\angle -68.6^{\\circ}',
+    ]) {
       const t = texToSvg(tex, 10.5);
       expect(t.ops, tex).toBeDefined();
       const ours = await render((doc) => expect(drawTex(doc, t, 10, 10, t.width, '#222222')).toBe(true));
-      const theirs = await render((doc) => SVGtoPDF(doc, t.svg.replace(/currentColor/g, '#222222'), 10, 10, { width: t.width, height: t.height, assumePt: true }));
+      const theirs = await render((doc) =>
+        SVGtoPDF(doc, t.svg.replace(/currentColor/g, '#222222'), 10, 10, { width: t.width, height: t.height, assumePt: true }),
+      );
       expect(ours.length).toBe(theirs.length);
       let strong = 0;
       let ink = 0;
@@ -60,7 +66,13 @@ describe('texToSvg with LaTeX an author wrote', () => {
   it('makes no link from \\href and runs no package that loads code or defines macros', () => {
     const linked = texToSvg('\\href{https://evil.example/login}{see datasheet}', 10);
     expect(linked.svg).not.toMatch(/<a[\s>]|evil\.example/);
-    for (const tex of ['\\require{html}\\href{https://evil.example}{x}', '\\class{x}{y}', '\\style{color:red}{y}', '\\newcommand{\\a}{\\a\\a}\\a', '\\toggle{a}{b}\\endtoggle']) {
+    for (const tex of [
+      '\\require{html}\\href{https://evil.example}{x}',
+      '\\class{x}{y}',
+      '\\style{color:red}{y}',
+      '\\newcommand{\\a}{\\a\\a}\\a',
+      '\\toggle{a}{b}\\endtoggle',
+    ]) {
       expect(texToSvg(tex, 10).svg).not.toMatch(/<a[\s>]|evil\.example|class="x"|color:red/);
     }
   });

@@ -25,13 +25,19 @@ RegisterHTMLHandler(adaptor);
  * unknown command is shown in red (noundefined), never fetched.
  */
 export const TEX_PACKAGES = ['base', 'ams', 'boldsymbol', 'cancel', 'color', 'gensymb', 'noundefined', 'textmacros', 'upgreek'];
-const doc = mathjax.document('', { InputJax: new TeX({ packages: TEX_PACKAGES, maxMacros: 1000, maxBuffer: 64 * 1024 }), OutputJax: new SVG({ fontCache: 'none' }) });
+const doc = mathjax.document('', {
+  InputJax: new TeX({ packages: TEX_PACKAGES, maxMacros: 1000, maxBuffer: 64 * 1024 }),
+  OutputJax: new SVG({ fontCache: 'none' }),
+});
 
 /** The x-height of MathJax's TeX fonts, as a fraction of the font size. */
 const EX_PER_EM = 0.431;
 
 /** A MathJax drawing as pdfkit operations: groups with SVG transforms, glyph paths and rules. */
-type DrawOp = { op: 'group'; transform?: string; children: DrawOp[] } | { op: 'path'; d: string; transform?: string } | { op: 'rect'; x: number; y: number; w: number; h: number };
+type DrawOp =
+  | { op: 'group'; transform?: string; children: DrawOp[] }
+  | { op: 'path'; d: string; transform?: string }
+  | { op: 'rect'; x: number; y: number; w: number; h: number };
 
 export interface TexSvg {
   svg: string;
@@ -70,7 +76,9 @@ function convert(tex: string, fontSize: number, style: 'display' | 'text'): TexS
   const height = parseFloat(adaptor.getAttribute(svgNode, 'height')) * ex;
   const align = /vertical-align:\s*(-?[\d.]+)ex/.exec(adaptor.getAttribute(svgNode, 'style') ?? '');
   // Sizes in points, so the PDF drawing needs no notion of ex.
-  const sized = svg.replace(/^<svg([^>]*?) width="[^"]*" height="[^"]*"/, `<svg$1 width="${width.toFixed(2)}" height="${height.toFixed(2)}"`).replace(/ style="vertical-align:[^"]*"/, '');
+  const sized = svg
+    .replace(/^<svg([^>]*?) width="[^"]*" height="[^"]*"/, `<svg$1 width="${width.toFixed(2)}" height="${height.toFixed(2)}"`)
+    .replace(/ style="vertical-align:[^"]*"/, '');
   return { svg: sized, ops: compile(svgNode), width, height, depth: align ? -parseFloat(align[1]) * ex : 0 };
 }
 
@@ -78,7 +86,10 @@ type LiteNode = Parameters<typeof adaptor.outerHTML>[0];
 const SIMPLE_TRANSFORM = /^\s*((translate|scale)\(\s*-?[\d.e+-]+(\s*[, ]\s*-?[\d.e+-]+)?\s*\)\s*)*$/;
 
 function compile(svgNode: LiteNode): TexSvg['ops'] {
-  const viewBox = (adaptor.getAttribute(svgNode, 'viewBox') ?? '').trim().split(/[\s,]+/).map(Number) as number[];
+  const viewBox = (adaptor.getAttribute(svgNode, 'viewBox') ?? '')
+    .trim()
+    .split(/[\s,]+/)
+    .map(Number) as number[];
   if (viewBox.length !== 4 || viewBox.some((n: number) => !Number.isFinite(n)) || viewBox[2] <= 0) return undefined;
   const children = compileChildren(svgNode);
   return children ? { viewBox: viewBox as [number, number, number, number], children } : undefined;
@@ -123,7 +134,10 @@ export function absolutePath(d: string): string {
   if (known !== undefined) return known;
   const tokens = d.match(/[a-zA-Z]|-?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?/g) ?? [];
   const out: string[] = [];
-  let x = 0, y = 0, startX = 0, startY = 0;
+  let x = 0,
+    y = 0,
+    startX = 0,
+    startY = 0;
   let lastCubic: [number, number] | null = null;
   let lastQuad: [number, number] | null = null;
   let command = '';
@@ -135,10 +149,12 @@ export function absolutePath(d: string): string {
     const upper = command.toUpperCase();
     if (!(upper in ARITY)) return cache('');
     const rel = command !== upper;
-    const ox = rel ? x : 0, oy = rel ? y : 0;
+    const ox = rel ? x : 0,
+      oy = rel ? y : 0;
     if (upper === 'Z') {
       out.push('Z');
-      x = startX; y = startY;
+      x = startX;
+      y = startY;
       lastCubic = lastQuad = null;
       command = '';
       continue;
@@ -148,38 +164,60 @@ export function absolutePath(d: string): string {
     let quad: [number, number] | null = null;
     switch (upper) {
       case 'M':
-        x = ox + num(); y = oy + num(); startX = x; startY = y;
+        x = ox + num();
+        y = oy + num();
+        startX = x;
+        startY = y;
         out.push(`M${fmt(x, y)}`);
         command = rel ? 'l' : 'L'; // further pairs are lines
         break;
-      case 'L': x = ox + num(); y = oy + num(); out.push(`L${fmt(x, y)}`); break;
-      case 'H': x = (rel ? x : 0) + num(); out.push(`L${fmt(x, y)}`); break;
-      case 'V': y = (rel ? y : 0) + num(); out.push(`L${fmt(x, y)}`); break;
+      case 'L':
+        x = ox + num();
+        y = oy + num();
+        out.push(`L${fmt(x, y)}`);
+        break;
+      case 'H':
+        x = (rel ? x : 0) + num();
+        out.push(`L${fmt(x, y)}`);
+        break;
+      case 'V':
+        y = (rel ? y : 0) + num();
+        out.push(`L${fmt(x, y)}`);
+        break;
       case 'C': {
         const c = [ox + num(), oy + num(), ox + num(), oy + num(), ox + num(), oy + num()];
         out.push(`C${fmt(...c)}`);
-        cubic = [c[2], c[3]]; x = c[4]; y = c[5];
+        cubic = [c[2], c[3]];
+        x = c[4];
+        y = c[5];
         break;
       }
       case 'S': {
         const [c1x, c1y]: [number, number] = lastCubic ? [2 * x - lastCubic[0], 2 * y - lastCubic[1]] : [x, y];
         const c = [ox + num(), oy + num(), ox + num(), oy + num()];
         out.push(`C${fmt(c1x, c1y, ...c)}`);
-        cubic = [c[0], c[1]]; x = c[2]; y = c[3];
+        cubic = [c[0], c[1]];
+        x = c[2];
+        y = c[3];
         break;
       }
       case 'Q': {
         const c = [ox + num(), oy + num(), ox + num(), oy + num()];
         out.push(`Q${fmt(...c)}`);
-        quad = [c[0], c[1]]; x = c[2]; y = c[3];
+        quad = [c[0], c[1]];
+        x = c[2];
+        y = c[3];
         break;
       }
       case 'T': {
         const qx: number = lastQuad ? 2 * x - lastQuad[0] : x;
         const qy: number = lastQuad ? 2 * y - lastQuad[1] : y;
-        const ex = ox + num(), ey = oy + num();
+        const ex = ox + num(),
+          ey = oy + num();
         out.push(`Q${fmt(qx, qy, ex, ey)}`);
-        quad = [qx, qy]; x = ex; y = ey;
+        quad = [qx, qy];
+        x = ex;
+        y = ey;
         break;
       }
     }
@@ -198,7 +236,10 @@ export function absolutePath(d: string): string {
 function applyTransform(doc: PDFKit.PDFDocument, transform?: string): void {
   if (!transform) return;
   for (const [, name, args] of transform.matchAll(/(translate|scale)\(([^)]*)\)/g)) {
-    const [a, b] = args.trim().split(/[\s,]+/).map(Number);
+    const [a, b] = args
+      .trim()
+      .split(/[\s,]+/)
+      .map(Number);
     if (name === 'translate') doc.translate(a, b ?? 0);
     else doc.scale(a, b ?? a);
   }

@@ -8,7 +8,11 @@ const woffOf = (pkg: string, file: string) => readFileSync(join(dirname(require.
 
 describe('woffToSfnt', () => {
   it('unpacks the IBM Plex WOFF files into fonts fontkit reads exactly as it reads the WOFF (fontkit, the reader pdfkit uses)', () => {
-    for (const [pkg, file] of [['@ibm/plex-sans', 'IBMPlexSans-Regular.woff'], ['@ibm/plex-sans', 'IBMPlexSans-SemiBold.woff'], ['@ibm/plex-mono', 'IBMPlexMono-Regular.woff']]) {
+    for (const [pkg, file] of [
+      ['@ibm/plex-sans', 'IBMPlexSans-Regular.woff'],
+      ['@ibm/plex-sans', 'IBMPlexSans-SemiBold.woff'],
+      ['@ibm/plex-mono', 'IBMPlexMono-Regular.woff'],
+    ]) {
       const woff = woffOf(pkg, file);
       const sfnt = woffToSfnt(woff);
       const a = fontkit.create(woff);

@@ -34,10 +34,12 @@ export class ProjectsService {
   /** A project the caller may see: any of the firm's for a member, an invited one for a client; else 404. */
   /** Queries not closed over the project's sheets, each for the revision it is being prepared as. */
   private async openQueries(p: Project): Promise<number> {
-    const rows = await this.em.getConnection().execute<{ n: number }[]>(
-      'select count(*) as n from cell_query q join sheet s on s.id = q.sheet_id where s.project_id = ? and q.status <> ? and q.revision_number = s.revision_number',
-      [p.id, 'closed'],
-    );
+    const rows = await this.em
+      .getConnection()
+      .execute<{ n: number }[]>(
+        'select count(*) as n from cell_query q join sheet s on s.id = q.sheet_id where s.project_id = ? and q.status <> ? and q.revision_number = s.revision_number',
+        [p.id, 'closed'],
+      );
     return Number(rows[0]?.n ?? 0);
   }
 
@@ -50,7 +52,10 @@ export class ProjectsService {
 
   async list(auth: AuthContext): Promise<ProjectResponseDto[]> {
     const where = auth.roles.includes('client')
-      ? { firm: auth.session.firm, id: { $in: (await this.em.find(ProjectClient, { user: auth.session.user }, { populate: ['project'] })).map((c) => c.project.id) } }
+      ? {
+          firm: auth.session.firm,
+          id: { $in: (await this.em.find(ProjectClient, { user: auth.session.user }, { populate: ['project'] })).map((c) => c.project.id) },
+        }
       : { firm: auth.session.firm };
     const projects = await this.em.find(Project, where, { orderBy: { jobNumber: 'asc' } });
     return Promise.all(projects.map((p) => this.toResponse(p, auth)));
@@ -65,7 +70,9 @@ export class ProjectsService {
       return await work();
     } catch (err) {
       if (err instanceof UniqueConstraintViolationException) {
-        throw new AppException(ProjectErrorCode.JobNumberTaken, `Job number ${jobNumber} is used by another project of the firm.`, HttpStatus.CONFLICT, [{ field: 'jobNumber', message: 'this job number is taken' }]);
+        throw new AppException(ProjectErrorCode.JobNumberTaken, `Job number ${jobNumber} is used by another project of the firm.`, HttpStatus.CONFLICT, [
+          { field: 'jobNumber', message: 'this job number is taken' },
+        ]);
       }
       throw err;
     }
@@ -88,7 +95,11 @@ export class ProjectsService {
   async remove(auth: AuthContext, id: string): Promise<void> {
     const project = await this.find(auth, id);
     if (await this.em.count(Sheet, { project, $or: [{ state: 'issued' }, { revisionNumber: { $gt: 1 } }] })) {
-      throw new AppException('PROJECT_HAS_ISSUED_SHEETS', 'This project has issued sheets, which are kept for good: it cannot be deleted.', HttpStatus.CONFLICT);
+      throw new AppException(
+        'PROJECT_HAS_ISSUED_SHEETS',
+        'This project has issued sheets, which are kept for good: it cannot be deleted.',
+        HttpStatus.CONFLICT,
+      );
     }
     await this.em.remove(project).flush();
   }
@@ -97,7 +108,9 @@ export class ProjectsService {
   async people(auth: AuthContext, id: string): Promise<ProjectPeopleDto> {
     const project = await this.find(auth, id);
     const team = await this.em.find(ProjectMember, { project }, { populate: ['user'], orderBy: { user: { name: 'asc' } } });
-    const roles = new Map((await this.em.find(Membership, { firm: auth.session.firm, user: { $in: team.map((t) => t.user.id) } })).map((m) => [m.user.id, m.roles]));
+    const roles = new Map(
+      (await this.em.find(Membership, { firm: auth.session.firm, user: { $in: team.map((t) => t.user.id) } })).map((m) => [m.user.id, m.roles]),
+    );
     const clients = await this.em.find(ProjectClient, { project }, { populate: ['user'], orderBy: { user: { name: 'asc' } } });
     return {
       members: team.map((t) => ({ id: t.user.id, name: t.user.name, email: t.user.email, roles: roles.get(t.user.id) ?? [] })),
@@ -111,7 +124,13 @@ export class ProjectsService {
     const memberships = await this.em.find(Membership, { firm: auth.session.firm, user: { $in: userIds } });
     const ok = new Set(memberships.filter((m) => m.roles.some((r) => r !== 'client')).map((m) => m.user.id));
     const bad = [...new Set(userIds)].filter((u) => !ok.has(u));
-    if (bad.length) throw new AppException(ErrorCode.ValidationFailed, `${bad.length === 1 ? 'One person is' : `${bad.length} people are`} not a member of the firm: a project's team is made of the firm's members (clients are invited separately).`, HttpStatus.BAD_REQUEST, bad.map(() => ({ field: 'userIds', message: 'not a member of the firm' })));
+    if (bad.length)
+      throw new AppException(
+        ErrorCode.ValidationFailed,
+        `${bad.length === 1 ? 'One person is' : `${bad.length} people are`} not a member of the firm: a project's team is made of the firm's members (clients are invited separately).`,
+        HttpStatus.BAD_REQUEST,
+        bad.map(() => ({ field: 'userIds', message: 'not a member of the firm' })),
+      );
     await this.em.transactional(async (em) => {
       await em.nativeDelete(ProjectMember, { project: project.id });
       for (const u of new Set(userIds)) em.persist(new ProjectMember(em.getReference(Project, project.id), em.getReference(User, u)));

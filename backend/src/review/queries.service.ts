@@ -47,13 +47,27 @@ export class QueriesService {
     await this.notifications.notify([{ user: to }], { kind, subject, text, link: this.link(sheet), firm: sheet.project.firm.name });
   }
 
-  private record(auth: AuthContext, type: 'query-raised' | 'query-replied' | 'query-closed' | 'cell-agreed' | 'agreement-withdrawn', sheet: Sheet, detail: Record<string, unknown>) {
-    return this.audit.record(type, { firmId: auth.session.firm.id, userId: auth.session.user.id, subjectId: sheet.id, detail: { sheet: sheet.number, ...detail } });
+  private record(
+    auth: AuthContext,
+    type: 'query-raised' | 'query-replied' | 'query-closed' | 'cell-agreed' | 'agreement-withdrawn',
+    sheet: Sheet,
+    detail: Record<string, unknown>,
+  ) {
+    return this.audit.record(type, {
+      firmId: auth.session.firm.id,
+      userId: auth.session.user.id,
+      subjectId: sheet.id,
+      detail: { sheet: sheet.number, ...detail },
+    });
   }
 
   async list(auth: AuthContext, sheetId: string, all: boolean): Promise<QueryDto[]> {
     const sheet = await this.sheets.findReadable(auth, sheetId);
-    const rows = await this.em.find(CellQuery, { sheet, ...(all ? {} : { revisionNumber: sheet.revisionNumber }) }, { orderBy: { createdAt: 'asc' }, populate: POPULATE });
+    const rows = await this.em.find(
+      CellQuery,
+      { sheet, ...(all ? {} : { revisionNumber: sheet.revisionNumber }) },
+      { orderBy: { createdAt: 'asc' }, populate: POPULATE },
+    );
     return rows.map(queryView);
   }
 
@@ -67,10 +81,19 @@ export class QueriesService {
       requireState(sheet, ['with-checker'], 'raise a query');
       requireChecker(auth, sheet, 'raise a query');
       const cell = await em.findOne(Cell, { id: dto.cellId, sheet });
-      if (!cell) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND, [{ field: 'cellId', message: 'not a cell of this sheet' }]);
+      if (!cell)
+        throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND, [
+          { field: 'cellId', message: 'not a cell of this sheet' },
+        ]);
       if (dto.line !== undefined) {
         const lines = cell.kind === 'calc' ? String(cell.fields.source ?? '').split('\n').length : 1;
-        if (dto.line > lines) throw new AppException(ErrorCode.ValidationFailed, `The cell has ${lines} line${lines === 1 ? '' : 's'}; there is no line ${dto.line}.`, HttpStatus.BAD_REQUEST, [{ field: 'line', message: `at most ${lines}` }]);
+        if (dto.line > lines)
+          throw new AppException(
+            ErrorCode.ValidationFailed,
+            `The cell has ${lines} line${lines === 1 ? '' : 's'}; there is no line ${dto.line}.`,
+            HttpStatus.BAD_REQUEST,
+            [{ field: 'line', message: `at most ${lines}` }],
+          );
       }
       const query = new CellQuery(sheet, cell, dto.line, em.getReference(User, auth.session.user.id), sheet.revisionNumber);
       em.persist(query);
@@ -78,7 +101,13 @@ export class QueriesService {
       id = query.id;
     });
     await this.record(auth, 'query-raised', sheet, { query: id, line: dto.line ?? null });
-    await this.tell(sheet, sheet.preparer, 'query-raised', `Query raised on ${sheet.number}`, `${auth.session.user.name} raised a query on sheet ${sheet.number}: ${dto.text}`);
+    await this.tell(
+      sheet,
+      sheet.preparer,
+      'query-raised',
+      `Query raised on ${sheet.number}`,
+      `${auth.session.user.name} raised a query on sheet ${sheet.number}: ${dto.text}`,
+    );
     return this.one(id);
   }
 
@@ -88,7 +117,11 @@ export class QueriesService {
   }
 
   private async findQuery(auth: AuthContext, id: string): Promise<CellQuery> {
-    const q = await this.em.findOne(CellQuery, { id, sheet: { project: { firm: auth.session.firm } } }, { populate: ['sheet', 'sheet.preparer', 'sheet.checker', 'sheet.project', 'sheet.project.firm'] });
+    const q = await this.em.findOne(
+      CellQuery,
+      { id, sheet: { project: { firm: auth.session.firm } } },
+      { populate: ['sheet', 'sheet.preparer', 'sheet.checker', 'sheet.project', 'sheet.project.firm'] },
+    );
     if (!q) throw new AppException(ErrorCode.NotFound, 'No such query.', HttpStatus.NOT_FOUND);
     return q;
   }
@@ -97,16 +130,25 @@ export class QueriesService {
   async reply(auth: AuthContext, id: string, dto: ReplyDto): Promise<QueryDto> {
     const q = await this.findQuery(auth, id);
     const sheet = q.sheet;
-    if (q.status === 'closed') throw new AppException(ReviewErrorCode.OutOfTurn, 'The query is closed; raise a new one if something is still wrong.', HttpStatus.CONFLICT);
+    if (q.status === 'closed')
+      throw new AppException(ReviewErrorCode.OutOfTurn, 'The query is closed; raise a new one if something is still wrong.', HttpStatus.CONFLICT);
     const byPreparer = isUser(auth, sheet.preparer);
     const byChecker = isUser(auth, sheet.checker);
-    if (!byPreparer && !byChecker) throw new AppException(ReviewErrorCode.NotYours, 'Only the sheet\'s preparer and its checker take part in a query.', HttpStatus.FORBIDDEN);
-    if (!isEditable(sheet.state as SheetState)) throw new AppException(ReviewErrorCode.OutOfTurn, 'The sheet is past checking; its queries can no longer change.', HttpStatus.CONFLICT);
+    if (!byPreparer && !byChecker)
+      throw new AppException(ReviewErrorCode.NotYours, "Only the sheet's preparer and its checker take part in a query.", HttpStatus.FORBIDDEN);
+    if (!isEditable(sheet.state as SheetState))
+      throw new AppException(ReviewErrorCode.OutOfTurn, 'The sheet is past checking; its queries can no longer change.', HttpStatus.CONFLICT);
     this.em.persist(new QueryMessage(q, this.em.getReference(User, auth.session.user.id), dto.text));
     q.status = byPreparer ? 'answered' : 'open';
     await this.em.flush();
     await this.record(auth, 'query-replied', sheet, { query: q.id, status: q.status });
-    await this.tell(sheet, byPreparer ? sheet.checker : sheet.preparer, 'query-answered', `Query ${byPreparer ? 'answered' : 'followed up'} on ${sheet.number}`, `${auth.session.user.name} replied to a query on sheet ${sheet.number}: ${dto.text}`);
+    await this.tell(
+      sheet,
+      byPreparer ? sheet.checker : sheet.preparer,
+      'query-answered',
+      `Query ${byPreparer ? 'answered' : 'followed up'} on ${sheet.number}`,
+      `${auth.session.user.name} replied to a query on sheet ${sheet.number}: ${dto.text}`,
+    );
     return this.one(q.id);
   }
 

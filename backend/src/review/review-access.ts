@@ -13,7 +13,14 @@ export { WorkflowCode as ReviewErrorCode };
 /** The rulebook's facts of a sheet whose preparer, checker and approver are loaded. */
 export function factsOf(sheet: Sheet, authors: ReadonlyMap<string, string>, openQueries = 0): SheetFacts {
   const person = (u: { id: string; name: string } | undefined) => (u ? { id: u.id, name: u.name } : null);
-  return { state: sheet.state as SheetState, preparer: person(sheet.preparer)!, checker: person(sheet.checker), approver: person(sheet.approver), authors, openQueries };
+  return {
+    state: sheet.state as SheetState,
+    preparer: person(sheet.preparer)!,
+    checker: person(sheet.checker),
+    approver: person(sheet.approver),
+    authors,
+    openQueries,
+  };
 }
 
 /** Refuses a move of the workflow the rulebook does not allow this person now. */

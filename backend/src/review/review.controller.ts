@@ -130,8 +130,14 @@ export class ReviewController {
   @Roles(...MEMBER_ROLES)
   @Get('sheets/:id/diff')
   diff(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Query('from') from = '', @Query('to') to = 'draft'): Promise<DiffDto> {
-    for (const [name, v] of [['from', from], ['to', to]] as const) {
-      if (!REVISION_REF.test(v)) throw new AppException(ErrorCode.ValidationFailed, `${name} must be a revision id or "draft".`, 400, [{ field: name, message: 'a revision id or "draft"' }]);
+    for (const [name, v] of [
+      ['from', from],
+      ['to', to],
+    ] as const) {
+      if (!REVISION_REF.test(v))
+        throw new AppException(ErrorCode.ValidationFailed, `${name} must be a revision id or "draft".`, 400, [
+          { field: name, message: 'a revision id or "draft"' },
+        ]);
     }
     return this.revisions.diff(auth, id, from, to);
   }

@@ -1,7 +1,18 @@
 import { createHash } from 'node:crypto';
 import { EntityManager } from '@mikro-orm/core';
 import { HttpStatus, Injectable } from '@nestjs/common';
-import { canonicalJson, diffCells, revisionCode, type CellResult, type DiffDto, type HistoryEventDto, type QueryDto, type RevisionSummaryDto, type SheetFile, type SnapshotCell } from '@ampwright/common';
+import {
+  canonicalJson,
+  diffCells,
+  revisionCode,
+  type CellResult,
+  type DiffDto,
+  type HistoryEventDto,
+  type QueryDto,
+  type RevisionSummaryDto,
+  type SheetFile,
+  type SnapshotCell,
+} from '@ampwright/common';
 import { Attachment } from '../attachments/entities/attachment.entity';
 import { AuditEvent } from '../audit/entities/audit-event.entity';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
@@ -61,7 +72,9 @@ export class RevisionsService {
 
   /** The firm's choice, read from its row (the request's firm entity may be partly loaded). */
   private async firmShowsQueryRegister(em: EntityManager, firmId: string): Promise<boolean> {
-    const [row] = await em.getConnection().execute<{ package_query_register: number }[]>('select package_query_register from firm where id = ?', [firmId], 'all', em.getTransactionContext());
+    const [row] = await em
+      .getConnection()
+      .execute<{ package_query_register: number }[]>('select package_query_register from firm where id = ?', [firmId], 'all', em.getTransactionContext());
     return !!row?.package_query_register;
   }
 
@@ -85,7 +98,11 @@ export class RevisionsService {
    */
   async freeze(em: EntityManager, sheet: Sheet, fresh: FreshEvaluation): Promise<Revision> {
     if (sheet.version !== fresh.version) {
-      throw new AppException(SheetErrorCode.StaleVersion, 'The sheet changed while it was being evaluated for issue, so nothing was issued. Issue it again.', HttpStatus.CONFLICT);
+      throw new AppException(
+        SheetErrorCode.StaleVersion,
+        'The sheet changed while it was being evaluated for issue, so nothing was issued. Issue it again.',
+        HttpStatus.CONFLICT,
+      );
     }
     const cells = await em.find(Cell, { sheet }, { orderBy: { position: 'asc' } });
     const file = this.sheets.toFile(sheet, cells);
@@ -103,7 +120,11 @@ export class RevisionsService {
         drifted.map((c) => ({ field: `cells[${c.position - 1}]`, message: 'its results differ from the checked ones' })),
       );
     }
-    const queries = await em.find(CellQuery, { sheet, revisionNumber: sheet.revisionNumber }, { orderBy: { createdAt: 'asc' }, populate: ['messages', 'messages.author', 'raisedBy', 'closedBy', 'cell'] });
+    const queries = await em.find(
+      CellQuery,
+      { sheet, revisionNumber: sheet.revisionNumber },
+      { orderBy: { createdAt: 'asc' }, populate: ['messages', 'messages.author', 'raisedBy', 'closedBy', 'cell'] },
+    );
     const attachments = await em.find(Attachment, { sheet }, { orderBy: { createdAt: 'asc' } });
     const issuedAt = new Date();
     const code = revisionCode(sheet.revisionNumber);
@@ -111,14 +132,24 @@ export class RevisionsService {
       format: SNAPSHOT_FORMAT,
       revision: { code, number: sheet.revisionNumber },
       firm: sheet.project.firm.name,
-      project: { jobNumber: sheet.project.jobNumber, title: sheet.project.title, clientOrganisation: sheet.project.clientOrganisation, site: sheet.project.site },
+      project: {
+        jobNumber: sheet.project.jobNumber,
+        title: sheet.project.title,
+        clientOrganisation: sheet.project.clientOrganisation,
+        site: sheet.project.site,
+      },
       sheetNumber: sheet.number,
       sheet: file,
       cellIds: cells.map((c) => c.id),
       results: outcome.cells as CellResult[],
       engineVersion: outcome.engineVersion,
       people: { preparedBy: sheet.preparer.name, checkedBy: sheet.checker!.name, approvedBy: sheet.approver!.name },
-      dates: { checkRequestedAt: iso(sheet.checkRequestedAt), checkedAt: iso(sheet.checkedAt), approvedAt: iso(sheet.approvedAt), issuedAt: issuedAt.toISOString() },
+      dates: {
+        checkRequestedAt: iso(sheet.checkRequestedAt),
+        checkedAt: iso(sheet.checkedAt),
+        approvedAt: iso(sheet.approvedAt),
+        issuedAt: issuedAt.toISOString(),
+      },
       queries: queries.map(queryView),
       attachments: attachments.map((a) => ({ id: a.id, fileName: a.fileName, mediaType: a.mediaType, size: a.size, sha256: a.sha256 })),
       packageOptions: { queryRegister: await this.firmShowsQueryRegister(em, sheet.project.firm.id) },
@@ -155,7 +186,15 @@ export class RevisionsService {
         em.persist(cell);
       }
       existing.delete(id);
-      Object.assign(cell, { position, kind, fields, results: snap.results[position] ?? undefined, agreedBy: undefined, agreedAt: undefined, changedAfterAgreement: false });
+      Object.assign(cell, {
+        position,
+        kind,
+        fields,
+        results: snap.results[position] ?? undefined,
+        agreedBy: undefined,
+        agreedAt: undefined,
+        changedAfterAgreement: false,
+      });
     });
     for (const extra of existing.values()) em.remove(extra);
     // The stored results are now the snapshot's, not those of an evaluation of a version.
@@ -197,7 +236,11 @@ export class RevisionsService {
   }
 
   private async find(auth: AuthContext, id: string): Promise<Revision> {
-    const r = await this.em.findOne(Revision, { id, sheet: { project: { firm: auth.session.firm } } }, { populate: ['preparedBy', 'checkedBy', 'approvedBy', 'sheet'] });
+    const r = await this.em.findOne(
+      Revision,
+      { id, sheet: { project: { firm: auth.session.firm } } },
+      { populate: ['preparedBy', 'checkedBy', 'approvedBy', 'sheet'] },
+    );
     if (!r) throw new AppException(ErrorCode.NotFound, 'No such revision.', HttpStatus.NOT_FOUND);
     return r;
   }
@@ -220,7 +263,10 @@ export class RevisionsService {
     const side = async (ref: string): Promise<{ label: string; cells: SnapshotCell[] }> => {
       if (ref === 'draft') {
         const cells = await this.em.find(Cell, { sheet }, { orderBy: { position: 'asc' } });
-        return { label: `${revisionCode(sheet.revisionNumber)} (${sheet.state === 'issued' ? 'issued' : 'draft'})`, cells: cells.map((c) => ({ id: c.id, kind: c.kind, fields: c.fields, results: (c.results as CellResult | undefined) ?? null })) };
+        return {
+          label: `${revisionCode(sheet.revisionNumber)} (${sheet.state === 'issued' ? 'issued' : 'draft'})`,
+          cells: cells.map((c) => ({ id: c.id, kind: c.kind, fields: c.fields, results: (c.results as CellResult | undefined) ?? null })),
+        };
       }
       const r = await this.em.findOne(Revision, { id: ref, sheet });
       if (!r) throw new AppException(ErrorCode.NotFound, `No revision ${ref} of this sheet.`, HttpStatus.NOT_FOUND);
@@ -235,6 +281,12 @@ export class RevisionsService {
     const sheet = await this.sheets.findReadable(auth, sheetId);
     const events = await this.em.find(AuditEvent, { subjectId: sheet.id, firmId: auth.session.firm.id }, { orderBy: { createdAt: 'asc' } });
     const users = new Map((await this.em.find(User, { id: { $in: events.map((e) => e.userId).filter((x): x is string => !!x) } })).map((u) => [u.id, u.name]));
-    return events.map((e) => ({ id: e.id, type: e.type, who: e.userId ? (users.get(e.userId) ?? null) : null, detail: e.detail ?? null, createdAt: e.createdAt.toISOString() }));
+    return events.map((e) => ({
+      id: e.id,
+      type: e.type,
+      who: e.userId ? (users.get(e.userId) ?? null) : null,
+      detail: e.detail ?? null,
+      createdAt: e.createdAt.toISOString(),
+    }));
   }
 }

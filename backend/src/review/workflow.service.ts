@@ -37,7 +37,12 @@ export class WorkflowService {
   ) {}
 
   /** Runs `act` on the sheet locked for update, then records the event and tells people. */
-  private async locked<T>(auth: AuthContext, id: string, act: (sheet: Sheet, em: EntityManager) => Promise<T>, options: { readOnly?: boolean } = {}): Promise<{ sheet: Sheet; out: T }> {
+  private async locked<T>(
+    auth: AuthContext,
+    id: string,
+    act: (sheet: Sheet, em: EntityManager) => Promise<T>,
+    options: { readOnly?: boolean } = {},
+  ): Promise<{ sheet: Sheet; out: T }> {
     await this.sheets.findReadable(auth, id);
     let sheet!: Sheet;
     let out!: T;
@@ -55,7 +60,10 @@ export class WorkflowService {
 
   private async member(auth: AuthContext, userId: string, role: Role, what: string): Promise<User> {
     const m = await this.em.findOne(Membership, { firm: auth.session.firm, user: userId }, { populate: ['user'] });
-    if (!m || !m.roles.includes(role)) throw new AppException(ReviewErrorCode.BadAssignee, `The ${what} must be a member of the firm with the ${role} role.`, HttpStatus.BAD_REQUEST, [{ field: `${what}Id`, message: `not a ${role} of the firm` }]);
+    if (!m || !m.roles.includes(role))
+      throw new AppException(ReviewErrorCode.BadAssignee, `The ${what} must be a member of the firm with the ${role} role.`, HttpStatus.BAD_REQUEST, [
+        { field: `${what}Id`, message: `not a ${role} of the firm` },
+      ]);
     return m.user;
   }
 
@@ -64,11 +72,19 @@ export class WorkflowService {
   }
 
   private async record(auth: AuthContext, type: AuditType, sheet: Sheet, detail: Record<string, unknown> = {}) {
-    await this.audit.record(type, { firmId: auth.session.firm.id, userId: auth.session.user.id, subjectId: sheet.id, detail: { sheet: sheet.number, ...detail } });
+    await this.audit.record(type, {
+      firmId: auth.session.firm.id,
+      userId: auth.session.user.id,
+      subjectId: sheet.id,
+      detail: { sheet: sheet.number, ...detail },
+    });
   }
 
   private tell(sheet: Sheet, targets: (User | undefined)[], kind: string, subject: string, text: string) {
-    return this.notifications.notify(targets.filter((u): u is User => !!u).map((user) => ({ user })), { kind, subject, text, link: this.link(sheet), firm: sheet.project.firm.name });
+    return this.notifications.notify(
+      targets.filter((u): u is User => !!u).map((user) => ({ user })),
+      { kind, subject, text, link: this.link(sheet), firm: sheet.project.firm.name },
+    );
   }
 
   async requestCheck(auth: AuthContext, id: string, dto: RequestCheckDto) {
@@ -81,7 +97,13 @@ export class WorkflowService {
       s.checkedAt = undefined;
     });
     await this.record(auth, 'check-requested', sheet, { checker: sheet.checker!.name });
-    await this.tell(sheet, [sheet.checker], 'check-requested', `Check requested: ${sheet.number}`, `${auth.session.user.name} asks you to check sheet ${sheet.number} "${sheet.title}".`);
+    await this.tell(
+      sheet,
+      [sheet.checker],
+      'check-requested',
+      `Check requested: ${sheet.number}`,
+      `${auth.session.user.name} asks you to check sheet ${sheet.number} "${sheet.title}".`,
+    );
     return this.sheets.get(auth, id);
   }
 
@@ -91,7 +113,13 @@ export class WorkflowService {
       s.state = 'being-prepared';
     });
     await this.record(auth, 'sheet-returned', sheet, { note: dto.note ?? null });
-    await this.tell(sheet, [sheet.preparer], 'sheet-returned', `Returned: ${sheet.number}`, `${auth.session.user.name} returned sheet ${sheet.number} to you${dto.note ? `: ${dto.note}` : '.'}`);
+    await this.tell(
+      sheet,
+      [sheet.preparer],
+      'sheet-returned',
+      `Returned: ${sheet.number}`,
+      `${auth.session.user.name} returned sheet ${sheet.number} to you${dto.note ? `: ${dto.note}` : '.'}`,
+    );
     return this.sheets.get(auth, id);
   }
 
@@ -103,7 +131,13 @@ export class WorkflowService {
       s.checkedAt = new Date();
     });
     await this.record(auth, 'check-passed', sheet);
-    await this.tell(sheet, [sheet.preparer, sheet.approver], 'check-passed', `Check passed: ${sheet.number}`, `${auth.session.user.name} passed the check of sheet ${sheet.number} "${sheet.title}".`);
+    await this.tell(
+      sheet,
+      [sheet.preparer, sheet.approver],
+      'check-passed',
+      `Check passed: ${sheet.number}`,
+      `${auth.session.user.name} passed the check of sheet ${sheet.number} "${sheet.title}".`,
+    );
     return this.sheets.get(auth, id);
   }
 
@@ -115,7 +149,13 @@ export class WorkflowService {
       s.approvedAt = new Date();
     });
     await this.record(auth, 'sheet-approved', sheet);
-    await this.tell(sheet, [sheet.preparer], 'sheet-approved', `Approved: ${sheet.number}`, `${auth.session.user.name} approved sheet ${sheet.number} "${sheet.title}".`);
+    await this.tell(
+      sheet,
+      [sheet.preparer],
+      'sheet-approved',
+      `Approved: ${sheet.number}`,
+      `${auth.session.user.name} approved sheet ${sheet.number} "${sheet.title}".`,
+    );
     return this.sheets.get(auth, id);
   }
 
@@ -133,7 +173,13 @@ export class WorkflowService {
     });
     await this.sheets.refreshResults(id, auth.session.firm.id);
     await this.record(auth, 'sheet-returned-to-checker', sheet, { note: dto.note ?? null });
-    await this.tell(sheet, [sheet.checker], 'sheet-returned-to-checker', `Back for checking: ${sheet.number}`, `${auth.session.user.name} returned sheet ${sheet.number} to you to check again${dto.note ? `: ${dto.note}` : '.'}`);
+    await this.tell(
+      sheet,
+      [sheet.checker],
+      'sheet-returned-to-checker',
+      `Back for checking: ${sheet.number}`,
+      `${auth.session.user.name} returned sheet ${sheet.number} to you to check again${dto.note ? `: ${dto.note}` : '.'}`,
+    );
     return this.sheets.get(auth, id);
   }
 
@@ -154,11 +200,32 @@ export class WorkflowService {
       return revision;
     });
     await this.record(auth, 'revision-issued', sheet, { revision: revision.code, sha256: revision.snapshotSha256 });
-    await this.tell(sheet, [sheet.approver, sheet.preparer, sheet.checker], 'revision-issued', `Issued: ${sheet.number} revision ${revision.code}`, `Sheet ${sheet.number} "${sheet.title}" was issued as revision ${revision.code}.`);
+    await this.tell(
+      sheet,
+      [sheet.approver, sheet.preparer, sheet.checker],
+      'revision-issued',
+      `Issued: ${sheet.number} revision ${revision.code}`,
+      `Sheet ${sheet.number} "${sheet.title}" was issued as revision ${revision.code}.`,
+    );
     const clients = await this.em.find(ProjectClient, { project: sheet.project.id }, { populate: ['user'] });
     const firm = sheet.project.firm.name;
-    const targets: NoticeTarget[] = clients.map((c) => ({ user: c.user, mail: mailTemplates.revisionIssued({ to: c.user.email, firm, sheet: `${sheet.number} ${sheet.title}`, revision: revision.code, url: this.notifications.url('/portal') }) }));
-    await this.notifications.notify(targets, { kind: 'revision-issued', subject: `Issued: ${sheet.number} revision ${revision.code}`, text: `${firm} issued revision ${revision.code} of sheet ${sheet.number} "${sheet.title}".`, link: '/portal', firm });
+    const targets: NoticeTarget[] = clients.map((c) => ({
+      user: c.user,
+      mail: mailTemplates.revisionIssued({
+        to: c.user.email,
+        firm,
+        sheet: `${sheet.number} ${sheet.title}`,
+        revision: revision.code,
+        url: this.notifications.url('/portal'),
+      }),
+    }));
+    await this.notifications.notify(targets, {
+      kind: 'revision-issued',
+      subject: `Issued: ${sheet.number} revision ${revision.code}`,
+      text: `${firm} issued revision ${revision.code} of sheet ${sheet.number} "${sheet.title}".`,
+      link: '/portal',
+      firm,
+    });
     return this.revisions.summary(revision.id);
   }
 

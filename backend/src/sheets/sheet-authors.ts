@@ -23,20 +23,34 @@ export async function authorsOf(em: EntityManager, sheetId: string, revisionNumb
 }
 
 /** Everyone who may not check or approve this revision, by id with their names: the preparer and every author. */
-export async function notIndependent(em: EntityManager, sheet: { id: string; revisionNumber: number; preparer: { id: string; name: string } }): Promise<Map<string, string>> {
-  return new Map([[sheet.preparer.id, sheet.preparer.name], ...(await authorsOf(em, sheet.id, sheet.revisionNumber)).map((a) => [a.userId, a.name] as [string, string])]);
+export async function notIndependent(
+  em: EntityManager,
+  sheet: { id: string; revisionNumber: number; preparer: { id: string; name: string } },
+): Promise<Map<string, string>> {
+  return new Map([
+    [sheet.preparer.id, sheet.preparer.name],
+    ...(await authorsOf(em, sheet.id, sheet.revisionNumber)).map((a) => [a.userId, a.name] as [string, string]),
+  ]);
 }
 
 /** Records that a person's save of this revision was stored (inside the saving transaction). */
 export async function recordEdit(em: EntityManager, sheetId: string, revisionNumber: number, userId: string): Promise<void> {
-  await em.execute('insert into sheet_author (id, sheet_id, revision_number, user_id, named, edited) values (uuid(), ?, ?, ?, 0, 1) on duplicate key update edited = 1', [sheetId, revisionNumber, userId], 'run');
+  await em.execute(
+    'insert into sheet_author (id, sheet_id, revision_number, user_id, named, edited) values (uuid(), ?, ?, ?, 0, 1) on duplicate key update edited = 1',
+    [sheetId, revisionNumber, userId],
+    'run',
+  );
 }
 
 /** Sets the named co-preparers of a revision; someone taken off the list stays an author if they edited. */
 export async function nameCoPreparers(em: EntityManager, sheetId: string, revisionNumber: number, userIds: string[]): Promise<void> {
   await em.execute('update sheet_author set named = 0 where sheet_id = ? and revision_number = ?', [sheetId, revisionNumber], 'run');
   for (const userId of userIds) {
-    await em.execute('insert into sheet_author (id, sheet_id, revision_number, user_id, named, edited) values (uuid(), ?, ?, ?, 1, 0) on duplicate key update named = 1', [sheetId, revisionNumber, userId], 'run');
+    await em.execute(
+      'insert into sheet_author (id, sheet_id, revision_number, user_id, named, edited) values (uuid(), ?, ?, ?, 1, 0) on duplicate key update named = 1',
+      [sheetId, revisionNumber, userId],
+      'run',
+    );
   }
   await em.execute('delete from sheet_author where sheet_id = ? and revision_number = ? and named = 0 and edited = 0', [sheetId, revisionNumber], 'run');
 }

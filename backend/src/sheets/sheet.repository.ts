@@ -20,7 +20,7 @@ interface CellRow {
   agreed_by: string | null;
 }
 
-interface SheetRow {
+interface SheetRow extends PeopleRow {
   id: string;
   project_id: string;
   number: string;
@@ -30,15 +30,23 @@ interface SheetRow {
   version: number;
   engine_version: string | null;
   revision_number: number;
-  preparer_id: string;
-  preparer_name: string;
-  checker_id: string | null;
-  checker_name: string | null;
-  approver_id: string | null;
-  approver_name: string | null;
   open_queries: number | bigint | string;
   /** JSON array of {id, name, named} from sheet_author, or null. */
   authors: unknown;
+}
+
+/** A sheet as a save needs it: what the rulebook looks at, and its heading and unknown top-level fields. */
+export interface SheetHeadingRow {
+  id: string;
+  state: SheetState;
+  version: number;
+  revisionNumber: number;
+  title: string;
+  settings: Record<string, unknown>;
+  extra: Record<string, unknown>;
+  preparer: { id: string; name: string };
+  checker: { id: string; name: string } | null;
+  approver: { id: string; name: string } | null;
 }
 
 /** Which results a save stores: the cells it re-evaluated (and those it touched), or all of them. */
@@ -106,6 +114,29 @@ export interface CellWrites {
   removed: string[];
 }
 
+/** The people of a sheet, selected by SHEET_OF_FIRM's joins. */
+const PEOPLE_COLUMNS = 's.preparer_id, pu.name as preparer_name, s.checker_id, cu.name as checker_name, s.approver_id, au.name as approver_name';
+/** A sheet of a firm (bound: sheet id, firm id) with its preparer, checker and approver. */
+const SHEET_OF_FIRM = `from sheet s join project p on p.id = s.project_id join app_user pu on pu.id = s.preparer_id
+  left join app_user cu on cu.id = s.checker_id left join app_user au on au.id = s.approver_id
+  where s.id = ? and p.firm_id = ?`;
+
+interface PeopleRow {
+  preparer_id: string;
+  preparer_name: string;
+  checker_id: string | null;
+  checker_name: string | null;
+  approver_id: string | null;
+  approver_name: string | null;
+}
+
+const who = (personId: string | null, name: string | null) => (personId ? { id: personId, name: name ?? '' } : null);
+const peopleOf = (r: PeopleRow) => ({
+  preparer: { id: r.preparer_id, name: r.preparer_name },
+  checker: who(r.checker_id, r.checker_name),
+  approver: who(r.approver_id, r.approver_name),
+});
+
 const placeholders = (n: number) => Array.from({ length: n }, () => '?').join(', ');
 
 export class SheetRepository extends EntityRepository<Sheet> {
@@ -114,27 +145,38 @@ export class SheetRepository extends EntityRepository<Sheet> {
     return this.findOne({ id, project: { firm: firmId } }, { populate: ['project', 'preparer', 'checker', 'approver'] });
   }
 
+  /** A sheet of a firm as a save needs it, in one query without entities (another firm's sheet is null). */
+  async heading(firmId: string, id: string): Promise<SheetHeadingRow | null> {
+    const [s] = await this.em.execute<
+      (PeopleRow & { id: string; state: SheetState; version: number; revision_number: number; title: string; settings: unknown; extra: unknown })[]
+    >(`select s.id, s.state, s.version, s.revision_number, s.title, s.settings, s.extra, ${PEOPLE_COLUMNS} ${SHEET_OF_FIRM}`, [id, firmId]);
+    if (!s) return null;
+    return {
+      id: s.id,
+      state: s.state,
+      version: s.version,
+      revisionNumber: s.revision_number,
+      title: s.title,
+      settings: parsedJson(s.settings) as Record<string, unknown>,
+      extra: parsedJson(s.extra) as Record<string, unknown>,
+      ...peopleOf(s),
+    };
+  }
+
   /**
    * A sheet of a firm as the API shows it, in two queries: the sheet with its people and open-query
    * count, then its cells. Reading a sheet is the hot path.
    */
   async view(firmId: string, id: string): Promise<SheetDto | null> {
     const [s] = await this.em.execute<SheetRow[]>(
-      `select s.id, s.project_id, s.number, s.title, s.settings, s.state, s.version, s.engine_version, s.revision_number,
-              s.preparer_id, pu.name as preparer_name, s.checker_id, cu.name as checker_name, s.approver_id, au.name as approver_name,
+      `select s.id, s.project_id, s.number, s.title, s.settings, s.state, s.version, s.engine_version, s.revision_number, ${PEOPLE_COLUMNS},
               (select count(*) from cell_query q where q.sheet_id = s.id and q.revision_number = s.revision_number and q.status <> 'closed') as open_queries,
               (select json_arrayagg(json_object('id', a.user_id, 'name', au2.name, 'named', a.named)) from sheet_author a join app_user au2 on au2.id = a.user_id
                 where a.sheet_id = s.id and a.revision_number = s.revision_number) as authors
-         from sheet s
-         join project p on p.id = s.project_id
-         join app_user pu on pu.id = s.preparer_id
-         left join app_user cu on cu.id = s.checker_id
-         left join app_user au on au.id = s.approver_id
-        where s.id = ? and p.firm_id = ?`,
+         ${SHEET_OF_FIRM}`,
       [id, firmId],
     );
     if (!s) return null;
-    const who = (personId: string | null, name: string | null) => (personId ? { id: personId, name: name ?? '' } : null);
     return {
       id: s.id,
       projectId: s.project_id,
@@ -144,9 +186,7 @@ export class SheetRepository extends EntityRepository<Sheet> {
       state: s.state,
       version: s.version,
       engineVersion: s.engine_version ?? null,
-      preparer: { id: s.preparer_id, name: s.preparer_name },
-      checker: who(s.checker_id, s.checker_name),
-      approver: who(s.approver_id, s.approver_name),
+      ...peopleOf(s),
       revisionNumber: s.revision_number,
       revisionCode: revisionCode(s.revision_number),
       openQueries: Number(s.open_queries),
@@ -214,7 +254,8 @@ export class SheetRepository extends EntityRepository<Sheet> {
   /** Writes what a save changed of a sheet's cells (in the caller's transaction). */
   async writeCells(sheetId: string, writes: CellWrites): Promise<void> {
     const run = (sql: string, params: unknown[]) => this.em.execute(sql, params, 'run');
-    if (writes.removed.length) await run(`delete from cell where sheet_id = ? and id in (${placeholders(writes.removed.length)})`, [sheetId, ...writes.removed]);
+    if (writes.removed.length)
+      await run(`delete from cell where sheet_id = ? and id in (${placeholders(writes.removed.length)})`, [sheetId, ...writes.removed]);
     for (const c of writes.edited) {
       await run(
         'update cell set kind = ?, fields = ?, changed_by_id = ?, changed_at = ?, agreed_by_id = ?, agreed_at = ?, changed_after_agreement = ? where sheet_id = ? and id = ?',
@@ -223,11 +264,10 @@ export class SheetRepository extends EntityRepository<Sheet> {
     }
     for (let k = 0; k < writes.moved.length; k += BATCH) {
       const batch = writes.moved.slice(k, k + BATCH);
-      await run(`update cell set position = case id ${batch.map(() => 'when ? then ?').join(' ')} end where sheet_id = ? and id in (${placeholders(batch.length)})`, [
-        ...batch.flatMap((c) => [c.id, c.position]),
-        sheetId,
-        ...batch.map((c) => c.id),
-      ]);
+      await run(
+        `update cell set position = case id ${batch.map(() => 'when ? then ?').join(' ')} end where sheet_id = ? and id in (${placeholders(batch.length)})`,
+        [...batch.flatMap((c) => [c.id, c.position]), sheetId, ...batch.map((c) => c.id)],
+      );
     }
     for (const c of writes.inserted) {
       await run('insert into cell (id, sheet_id, position, kind, fields, changed_by_id, changed_at, changed_after_agreement) values (?, ?, ?, ?, ?, ?, ?, ?)', [
@@ -271,7 +311,11 @@ export class SheetRepository extends EntityRepository<Sheet> {
           'run',
         );
       }
-      await em.execute('update sheet set results_version = ?, engine_version = coalesce(?, engine_version) where id = ?', [store.version, store.engineVersion, sheetId], 'run');
+      await em.execute(
+        'update sheet set results_version = ?, engine_version = coalesce(?, engine_version) where id = ?',
+        [store.version, store.engineVersion, sheetId],
+        'run',
+      );
       return new Set(ids);
     });
   }

@@ -1,4 +1,19 @@
-import { Body, Controller, Delete, Get, HttpCode, Param, ParseIntPipe, ParseUUIDPipe, Patch, Post, Put, Query, UploadedFile, UseInterceptors } from '@nestjs/common';
+import {
+  Body,
+  Controller,
+  Delete,
+  Get,
+  HttpCode,
+  Param,
+  ParseIntPipe,
+  ParseUUIDPipe,
+  Patch,
+  Post,
+  Put,
+  Query,
+  UploadedFile,
+  UseInterceptors,
+} from '@nestjs/common';
 import { FileInterceptor } from '@nestjs/platform-express';
 import type { SheetFile } from '@ampwright/common';
 import { Roles } from '../core/decorators/access.decorator';
@@ -69,20 +84,35 @@ export class SheetsController {
   @Roles(...SHEET_EDITORS)
   @Post('sheets/:id/cells/import-csv')
   @UseInterceptors(FileInterceptor('file', UPLOAD_OPTIONS))
-  importCsv(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @UploadedFile() file: Express.Multer.File | undefined, @Body() dto: ImportCsvDto): Promise<SaveResult> {
+  importCsv(
+    @CurrentAuth() auth: AuthContext,
+    @Param('id', ParseUUIDPipe) id: string,
+    @UploadedFile() file: Express.Multer.File | undefined,
+    @Body() dto: ImportCsvDto,
+  ): Promise<SaveResult> {
     return this.sheets.importCsv(auth, id, file, dto);
   }
 
   @Roles(...SHEET_EDITORS)
   @Patch('sheets/:id/cells/:cellId')
-  updateCell(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Param('cellId', ParseUUIDPipe) cellId: string, @Body() dto: UpdateCellDto): Promise<SaveResult> {
+  updateCell(
+    @CurrentAuth() auth: AuthContext,
+    @Param('id', ParseUUIDPipe) id: string,
+    @Param('cellId', ParseUUIDPipe) cellId: string,
+    @Body() dto: UpdateCellDto,
+  ): Promise<SaveResult> {
     return this.sheets.updateCell(auth, id, cellId, dto);
   }
 
   @Roles(...SHEET_EDITORS)
   @Post('sheets/:id/cells/:cellId/move')
   @HttpCode(200)
-  moveCell(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Param('cellId', ParseUUIDPipe) cellId: string, @Body() dto: MoveCellDto): Promise<SaveResult> {
+  moveCell(
+    @CurrentAuth() auth: AuthContext,
+    @Param('id', ParseUUIDPipe) id: string,
+    @Param('cellId', ParseUUIDPipe) cellId: string,
+    @Body() dto: MoveCellDto,
+  ): Promise<SaveResult> {
     return this.sheets.moveCell(auth, id, cellId, dto);
   }
 

@@ -9,5 +9,10 @@ import { TemplatesController } from '../templates/templates.controller';
 import { SheetsController } from './sheets.controller';
 import { SheetsService } from './sheets.service';
 
-@Module({ imports: [MikroOrmModule.forFeature([Sheet, Cell]), ProjectsModule, TemplatesModule, EvaluationModule], controllers: [SheetsController, TemplatesController], providers: [SheetsService], exports: [SheetsService] })
+@Module({
+  imports: [MikroOrmModule.forFeature([Sheet, Cell]), ProjectsModule, TemplatesModule, EvaluationModule],
+  controllers: [SheetsController, TemplatesController],
+  providers: [SheetsService],
+  exports: [SheetsService],
+})
 export class SheetsModule {}

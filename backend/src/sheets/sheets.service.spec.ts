@@ -20,16 +20,38 @@ import { SheetsService } from './sheets.service';
 
 const author = { id: 'u-1', name: 'Ada Preparer' };
 const auth = { session: { user: author, firm: { id: 'f-1' } }, roles: ['engineer'] } as unknown as AuthContext;
-const ok = (index: number, x: number) => ({ kind: 'calc', status: 'ok', errors: [], warnings: [], values: { [`x${index}`]: { si: x } } }) as unknown as CellResult;
+const ok = (index: number, x: number) =>
+  ({ kind: 'calc', status: 'ok', errors: [], warnings: [], values: { [`x${index}`]: { si: x } } }) as unknown as CellResult;
 
 /** A sheet at version 4 with three calc cells, and the service over fakes of everything it uses. */
 function setup(evaluation: Partial<SheetOutcome> & { ok: boolean }, options: { raised?: boolean; state?: string } = {}) {
-  const sheet = { id: 's-1', state: 'being-prepared', preparer: author, checker: undefined, approver: undefined, revisionNumber: 1, version: 4, title: 'T', settings: {}, extra: {} } as unknown as Sheet;
-  const cells = ['c-a', 'c-b', 'c-c'].map(
-    (id, position): CellRecord => ({ id, position, kind: 'calc', fields: { source: `x${position} = ${position}` }, changedById: null, changedBy: null, changedAt: new Date('2026-01-01'), agreedById: null, agreedBy: null, agreedAt: null, changedAfterAgreement: false }),
-  );
+  const sheet = {
+    id: 's-1',
+    state: 'being-prepared',
+    preparer: author,
+    checker: undefined,
+    approver: undefined,
+    revisionNumber: 1,
+    version: 4,
+    title: 'T',
+    settings: {},
+    extra: {},
+  } as unknown as Sheet;
+  const cells = ['c-a', 'c-b', 'c-c'].map((id, position): CellRecord => ({
+    id,
+    position,
+    kind: 'calc',
+    fields: { source: `x${position} = ${position}` },
+    changedById: null,
+    changedBy: null,
+    changedAt: new Date('2026-01-01'),
+    agreedById: null,
+    agreedBy: null,
+    agreedAt: null,
+    changedAfterAgreement: false,
+  }));
   const repository = {
-    findInFirm: vi.fn(async () => sheet),
+    heading: vi.fn(async () => sheet),
     raiseVersion: vi.fn(async () => options.raised ?? true),
     stateOf: vi.fn(async () => options.state ?? 'being-prepared'),
     cellRecords: vi.fn(async () => cells),
@@ -42,7 +64,13 @@ function setup(evaluation: Partial<SheetOutcome> & { ok: boolean }, options: { r
   const em = { transactional: vi.fn(async (work: (tx: typeof txEm) => Promise<unknown>) => work(txEm)) };
   const reservation: Reservation = { tenant: 'f-1', release: () => undefined };
   const evaluations = { holding: vi.fn(async <T>(_firm: string, work: (r: Reservation) => Promise<T>) => work(reservation)) };
-  const outcome = { totalMs: 3, ...(evaluation.ok ? { results: cells.map((_, k) => ok(k, k)), engineVersion: '1.0.0', evaluated: [], reusedFrom: null, engineMs: 1 } : { reason: 'timeout', message: 'This sheet takes too long.' }), ...evaluation } as SheetOutcome;
+  const outcome = {
+    totalMs: 3,
+    ...(evaluation.ok
+      ? { results: cells.map((_, k) => ok(k, k)), engineVersion: '1.0.0', evaluated: [], reusedFrom: null, engineMs: 1 }
+      : { reason: 'timeout', message: 'This sheet takes too long.' }),
+    ...evaluation,
+  } as SheetOutcome;
   const evaluator = { evaluate: vi.fn(async () => outcome) };
   const audit = { record: vi.fn(async () => undefined) };
   const service = new SheetsService(
@@ -63,7 +91,10 @@ describe('SheetsService: the path of a save', () => {
   it('asks to store only the re-evaluated and touched cells when the process reused the cache of the version changed', async () => {
     const { service, repository, evaluator } = setup({ ok: true, reusedFrom: 4, evaluated: [0, 2] });
     const answer = await service.updateCell(auth, 's-1', 'c-a', edit);
-    expect(evaluator.evaluate).toHaveBeenCalledWith(expect.objectContaining({ cells: [{ kind: 'calc', source: 'x0 = 10' }, expect.anything(), expect.anything()] }), expect.objectContaining({ key: 's-1', version: 5 }));
+    expect(evaluator.evaluate).toHaveBeenCalledWith(
+      expect.objectContaining({ cells: [{ kind: 'calc', source: 'x0 = 10' }, expect.anything(), expect.anything()] }),
+      expect.objectContaining({ key: 's-1', version: 5 }),
+    );
     const [, store] = repository.storeResults.mock.calls[0];
     expect(store).toMatchObject({ version: 5, only: { basedOn: 4 } });
     expect([...store.only!.ids].sort()).toEqual(['c-a', 'c-c']);
@@ -71,7 +102,12 @@ describe('SheetsService: the path of a save', () => {
     expect(answer.changed.map((c) => c.id)).toEqual(['c-a', 'c-c']);
     expect(answer.changed[0]).toMatchObject({ fields: { source: 'x0 = 10' }, changedBy: 'Ada Preparer', results: { values: { x0: { si: 0 } } } });
     // Only the edited cell is written; nothing moved, nothing added.
-    expect(repository.writeCells).toHaveBeenCalledWith('s-1', { inserted: [], edited: [expect.objectContaining({ id: 'c-a', changedById: 'u-1' })], moved: [], removed: [] });
+    expect(repository.writeCells).toHaveBeenCalledWith('s-1', {
+      inserted: [],
+      edited: [expect.objectContaining({ id: 'c-a', changedById: 'u-1' })],
+      moved: [],
+      removed: [],
+    });
     expect(repository.writeHeading).not.toHaveBeenCalled();
   });
 
@@ -104,7 +140,8 @@ describe('SheetsService: the path of a save', () => {
     const [, store] = repository.storeResults.mock.calls[0];
     expect(store.only).toBeUndefined();
     expect(store.engineVersion).toBeNull();
-    for (const result of store.results.values()) expect(result).toMatchObject({ kind: 'unevaluated', errors: [{ message: 'Not evaluated: This sheet takes too long.' }] });
+    for (const result of store.results.values())
+      expect(result).toMatchObject({ kind: 'unevaluated', errors: [{ message: 'Not evaluated: This sheet takes too long.' }] });
     expect(answer.version).toBe(5);
   });
 });

@@ -2,13 +2,26 @@ import { randomUUID } from 'node:crypto';
 import { UniqueConstraintViolationException } from '@mikro-orm/core';
 import { EntityManager } from '@mikro-orm/mariadb';
 import { HttpStatus, Injectable } from '@nestjs/common';
-import { EDITABLE_STATES, editRefusal, WorkflowCode, cellSchema, parseSheetFile, SHEET_FORMAT, unevaluatedResults, type CellDto, type CellResult, type SaveResultDto, type SheetDto, type SheetFile } from '@ampwright/common';
+import {
+  EDITABLE_STATES,
+  editRefusal,
+  WorkflowCode,
+  cellSchema,
+  parseSheetFile,
+  SHEET_FORMAT,
+  unevaluatedResults,
+  type CellDto,
+  type CellResult,
+  type SaveResultDto,
+  type SheetDto,
+  type SheetFile,
+} from '@ampwright/common';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService, type Reservation } from '../evaluation/evaluation.service';
 import { SheetEvaluator } from '../evaluation/sheet-evaluator';
 import { addTiming, timed } from '../core/timing/server-timing';
-import { SheetRepository, type CellRecord } from './sheet.repository';
+import { SheetRepository, type CellRecord, type SheetHeadingRow } from './sheet.repository';
 import { Membership } from '../firms/entities/membership.entity';
 import { authorsOf, nameCoPreparers, recordEdit } from './sheet-authors';
 import { ProjectsService } from '../projects/projects.service';
@@ -46,7 +59,6 @@ interface Heading {
   title: string;
   settings: Record<string, unknown>;
 }
-
 
 /**
  * A change to a sheet, run in the saving transaction on the sheet's heading and cells as read (in order,
@@ -94,32 +106,58 @@ export class SheetsService {
    */
   async findEditable(auth: AuthContext, id: string): Promise<Sheet> {
     const sheet = await this.find(auth, id);
-    // The rulebook decides; the co-preparers are read only when the caller is not the preparer.
+    await this.assertMayEdit(auth, {
+      id: sheet.id,
+      state: sheet.state as SheetState,
+      revisionNumber: sheet.revisionNumber,
+      preparer: sheet.preparer,
+      checker: sheet.checker ?? null,
+      approver: sheet.approver ?? null,
+    });
+    return sheet;
+  }
+
+  /** The rulebook decides who may edit; the co-preparers are read only when the caller is not the preparer. */
+  private async assertMayEdit(
+    auth: AuthContext,
+    sheet: Pick<SheetHeadingRow, 'id' | 'state' | 'revisionNumber' | 'preparer' | 'checker' | 'approver'>,
+  ): Promise<void> {
     const actor = actorOf(auth);
-    const facts = { state: sheet.state as SheetState, preparer: sheet.preparer, checker: sheet.checker, approver: sheet.approver, coPreparerIds: [] as string[] };
+    const facts = { state: sheet.state, preparer: sheet.preparer, checker: sheet.checker, approver: sheet.approver, coPreparerIds: [] as string[] };
     let refusal = editRefusal(facts, actor);
     if (refusal?.code === WorkflowCode.NotPreparer) {
       facts.coPreparerIds = (await authorsOf(this.em, sheet.id, sheet.revisionNumber)).filter((a) => a.named).map((a) => a.userId);
       refusal = editRefusal(facts, actor);
     }
     enforce(refusal);
-    return sheet;
   }
 
   /** The preparer names the co-preparers of the revision being prepared: members of the firm with the engineer role. */
   async setCoPreparers(auth: AuthContext, id: string, dto: CoPreparersDto): Promise<SheetView> {
     const sheet = await this.find(auth, id);
     this.assertEditable(sheet.state);
-    if (sheet.preparer.id !== auth.session.user.id) throw new AppException(SheetErrorCode.NotPreparer, `Only the sheet's preparer (${sheet.preparer.name}) names its co-preparers.`, HttpStatus.FORBIDDEN);
+    if (sheet.preparer.id !== auth.session.user.id)
+      throw new AppException(SheetErrorCode.NotPreparer, `Only the sheet's preparer (${sheet.preparer.name}) names its co-preparers.`, HttpStatus.FORBIDDEN);
     const ids = [...new Set(dto.userIds)].filter((u) => u !== sheet.preparer.id);
     const members = ids.length ? await this.em.find(Membership, { firm: auth.session.firm, user: { $in: ids } }) : [];
     for (const uid of ids) {
       const m = members.find((x) => x.user.id === uid);
-      if (!m || !m.roles.includes('engineer')) throw new AppException(ErrorCode.ValidationFailed, 'A co-preparer must be a member of the firm with the engineer role.', HttpStatus.BAD_REQUEST, [{ field: 'userIds', message: `${uid} is not an engineer of the firm` }]);
-      if (uid === sheet.checker?.id || uid === sheet.approver?.id) throw new AppException(SheetErrorCode.NotIndependent, 'The sheet\'s checker or approver cannot be a co-preparer of it.', HttpStatus.BAD_REQUEST, [{ field: 'userIds', message: 'the checker or approver cannot prepare the sheet' }]);
+      if (!m || !m.roles.includes('engineer'))
+        throw new AppException(ErrorCode.ValidationFailed, 'A co-preparer must be a member of the firm with the engineer role.', HttpStatus.BAD_REQUEST, [
+          { field: 'userIds', message: `${uid} is not an engineer of the firm` },
+        ]);
+      if (uid === sheet.checker?.id || uid === sheet.approver?.id)
+        throw new AppException(SheetErrorCode.NotIndependent, "The sheet's checker or approver cannot be a co-preparer of it.", HttpStatus.BAD_REQUEST, [
+          { field: 'userIds', message: 'the checker or approver cannot prepare the sheet' },
+        ]);
     }
     await this.em.transactional((em) => nameCoPreparers(em, sheet.id, sheet.revisionNumber, ids));
-    await this.audit.record('co-preparers-named', { firmId: auth.session.firm.id, userId: auth.session.user.id, subjectId: id, detail: { sheet: sheet.number, coPreparers: ids } });
+    await this.audit.record('co-preparers-named', {
+      firmId: auth.session.firm.id,
+      userId: auth.session.user.id,
+      subjectId: id,
+      detail: { sheet: sheet.number, coPreparers: ids },
+    });
     return this.view(auth, id);
   }
 
@@ -141,14 +179,29 @@ export class SheetsService {
   }
 
   toFile(sheet: Pick<Sheet, 'extra' | 'title' | 'settings'>, cells: readonly Pick<Cell, 'kind' | 'fields'>[]): SheetFile {
-    return { ...sheet.extra, format: SHEET_FORMAT, title: sheet.title, settings: sheet.settings, cells: cells.map((c) => ({ kind: c.kind, ...c.fields }) as SheetFile['cells'][number]) };
+    return {
+      ...sheet.extra,
+      format: SHEET_FORMAT,
+      title: sheet.title,
+      settings: sheet.settings,
+      cells: cells.map((c) => ({ kind: c.kind, ...c.fields }) as SheetFile['cells'][number]),
+    };
   }
 
   async list(auth: AuthContext, projectId: string) {
     const project = await this.projects.find(auth, projectId);
     const sheets = await this.em.find(Sheet, { project }, { orderBy: { number: 'asc' }, populate: ['preparer'] });
     const open = await this.repository.openQueryCounts(sheets.map((s) => s.id));
-    return sheets.map((s) => ({ id: s.id, number: s.number, title: s.title, state: s.state, version: s.version, preparer: s.preparer.name, openQueries: open.get(s.id) ?? 0, updatedAt: s.updatedAt.toISOString() }));
+    return sheets.map((s) => ({
+      id: s.id,
+      number: s.number,
+      title: s.title,
+      state: s.state,
+      version: s.version,
+      preparer: s.preparer.name,
+      openQueries: open.get(s.id) ?? 0,
+      updatedAt: s.updatedAt.toISOString(),
+    }));
   }
 
   async get(auth: AuthContext, id: string): Promise<SheetView> {
@@ -168,12 +221,20 @@ export class SheetsService {
       const parsed = parseSheetFile(dto.sheet);
       if (!parsed.ok) {
         const details = parsed.problems.map((p) => ({ field: `sheet.${p.path}`, message: p.message }));
-        throw new AppException(ErrorCode.ValidationFailed, `The sheet file is not valid: ${details.map((d) => `${d.field}: ${d.message}`).join('; ')}`, HttpStatus.BAD_REQUEST, details);
+        throw new AppException(
+          ErrorCode.ValidationFailed,
+          `The sheet file is not valid: ${details.map((d) => `${d.field}: ${d.message}`).join('; ')}`,
+          HttpStatus.BAD_REQUEST,
+          details,
+        );
       }
       file = parsed.sheet;
     }
     const title = dto.title ?? file?.title;
-    if (!title) throw new AppException(ErrorCode.ValidationFailed, 'title is needed for a blank sheet', HttpStatus.BAD_REQUEST, [{ field: 'title', message: 'title is needed for a blank sheet' }]);
+    if (!title)
+      throw new AppException(ErrorCode.ValidationFailed, 'title is needed for a blank sheet', HttpStatus.BAD_REQUEST, [
+        { field: 'title', message: 'title is needed for a blank sheet' },
+      ]);
     const { sheet, cells } = sheetFromFile(project, dto.number, title, file, auth.session.user);
     await this.evaluation.holding(auth.session.firm.id, async (reservation) => {
       this.em.persist(cells);
@@ -181,7 +242,9 @@ export class SheetsService {
         await this.em.persist(sheet).flush();
       } catch (err) {
         if (err instanceof UniqueConstraintViolationException) {
-          throw new AppException(SheetErrorCode.NumberTaken, `Sheet number ${dto.number} is used in this project already.`, HttpStatus.CONFLICT, [{ field: 'number', message: 'this sheet number is taken' }]);
+          throw new AppException(SheetErrorCode.NumberTaken, `Sheet number ${dto.number} is used in this project already.`, HttpStatus.CONFLICT, [
+            { field: 'number', message: 'this sheet number is taken' },
+          ]);
         }
         throw err;
       }
@@ -192,7 +255,12 @@ export class SheetsService {
 
   async remove(auth: AuthContext, id: string): Promise<void> {
     const sheet = await this.findEditable(auth, id);
-    if (sheet.revisionNumber > 1) throw new AppException(SheetErrorCode.HasRevisions, 'This sheet has issued revisions, which are kept for good; it cannot be deleted.', HttpStatus.CONFLICT);
+    if (sheet.revisionNumber > 1)
+      throw new AppException(
+        SheetErrorCode.HasRevisions,
+        'This sheet has issued revisions, which are kept for good; it cannot be deleted.',
+        HttpStatus.CONFLICT,
+      );
     await this.em.remove(sheet).flush();
   }
 
@@ -204,13 +272,18 @@ export class SheetsService {
    * lock; and the results of the cells it re-evaluated stored while the sheet is still at that version.
    */
   private async change(auth: AuthContext, id: string, version: number, apply: Change): Promise<SaveResult> {
-    const sheet = await timed('db', () => this.findEditable(auth, id));
+    const sheet = await timed('db', async () => {
+      const heading = await this.repository.heading(auth.session.firm.id, id);
+      if (!heading) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
+      await this.assertMayEdit(auth, heading);
+      return heading;
+    });
     // A place in the firm's evaluation queue is held before anything is written: a firm whose queue is
     // full is told so (429) and its change is not saved, rather than saved and left unevaluated.
     return this.evaluation.holding(auth.session.firm.id, (reservation) => this.changeHolding(sheet, auth, version, apply, reservation));
   }
 
-  private async changeHolding(found: Sheet, auth: AuthContext, version: number, apply: Change, reservation: Reservation): Promise<SaveResult> {
+  private async changeHolding(found: SheetHeadingRow, auth: AuthContext, version: number, apply: Change, reservation: Reservation): Promise<SaveResult> {
     const actor = auth.session.user;
     const saved = await timed('db', () =>
       this.em
@@ -218,10 +291,15 @@ export class SheetsService {
           if (!(await this.repository.raiseVersion(found.id, version, EDITABLE))) {
             const state = await this.repository.stateOf(found.id);
             if (state) this.assertEditable(state);
-            throw new AppException(SheetErrorCode.StaleVersion, 'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.', HttpStatus.CONFLICT);
+            throw new AppException(
+              SheetErrorCode.StaleVersion,
+              'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.',
+              HttpStatus.CONFLICT,
+            );
           }
-          // Read in the transaction, after the row lock: the revision, title and settings as they now stand.
-          const sheet = await em.findOneOrFail(Sheet, found.id, { refresh: true });
+          // What was read before is what the version raised from, unless that read saw an older version
+          // (then it is read again, under the row lock now held).
+          const sheet = found.version === version ? found : (await this.repository.heading(auth.session.firm.id, found.id))!;
           if (actor.id !== sheet.preparer.id) await recordEdit(em, sheet.id, sheet.revisionNumber, actor.id);
           const cells = await this.repository.cellRecords(sheet.id);
           const placed = new Map(cells.map((c) => [c.id, c.position]));
@@ -248,7 +326,12 @@ export class SheetsService {
         }),
     );
     const { file, applied, cells } = saved;
-    const { results, written } = await this.evaluateAndStore(found.id, file, cells, version + 1, { firm: auth.session.firm.id, reservation, basedOn: version, touched: applied.touched });
+    const { results, written } = await this.evaluateAndStore(found.id, file, cells, version + 1, {
+      firm: auth.session.firm.id,
+      reservation,
+      basedOn: version,
+      touched: applied.touched,
+    });
     // The answer: each cell the change touched or whose results were written, built from what is in hand.
     const shown = cells.filter((c) => applied.touched.has(c.id) || written.has(c.id));
     return {
@@ -276,7 +359,9 @@ export class SheetsService {
     const em = this.em.fork();
     const sheet = await em.findOneOrFail(Sheet, sheetId);
     const cells = await em.find(Cell, { sheet }, { orderBy: { position: 'asc' }, exclude: ['results'] });
-    await this.evaluation.holding(firmId, (reservation) => this.evaluateAndStore(sheet.id, this.toFile(sheet, cells), cells, sheet.version, { firm: firmId, reservation }));
+    await this.evaluation.holding(firmId, (reservation) =>
+      this.evaluateAndStore(sheet.id, this.toFile(sheet, cells), cells, sheet.version, { firm: firmId, reservation }),
+    );
   }
 
   /**
@@ -301,8 +386,12 @@ export class SheetsService {
     const list = outcome.ok ? outcome.results : unevaluatedResults(cells.length, outcome.message);
     const results = new Map(cells.map((c, i) => [c.id, list[i]]));
     const incremental = outcome.ok && options.basedOn !== undefined && outcome.reusedFrom === options.basedOn;
-    const only = incremental ? { ids: new Set([...outcome.evaluated.map((i) => cells[i].id), ...(options.touched ?? [])]), basedOn: options.basedOn! } : undefined;
-    const written = await timed('db', () => this.repository.storeResults(sheetId, { version, results, only, engineVersion: outcome.ok ? outcome.engineVersion : null }));
+    const only = incremental
+      ? { ids: new Set([...outcome.evaluated.map((i) => cells[i].id), ...(options.touched ?? [])]), basedOn: options.basedOn! }
+      : undefined;
+    const written = await timed('db', () =>
+      this.repository.storeResults(sheetId, { version, results, only, engineVersion: outcome.ok ? outcome.engineVersion : null }),
+    );
     return { results, written: written ?? new Set() };
   }
 
@@ -311,7 +400,8 @@ export class SheetsService {
       if (dto.title !== undefined) heading.title = dto.title;
       if (dto.settings !== undefined) {
         const parsed = parseSheetFile({ format: SHEET_FORMAT, title: heading.title, settings: dto.settings, cells: [] });
-        if (!parsed.ok) throw new AppException(ErrorCode.ValidationFailed, parsed.problems.map((p) => `${p.path}: ${p.message}`).join('; '), HttpStatus.BAD_REQUEST);
+        if (!parsed.ok)
+          throw new AppException(ErrorCode.ValidationFailed, parsed.problems.map((p) => `${p.path}: ${p.message}`).join('; '), HttpStatus.BAD_REQUEST);
         heading.settings = dto.settings;
       }
       return { touched: new Set(dto.settings !== undefined ? cells.map((c) => c.id) : []) };
@@ -325,23 +415,48 @@ export class SheetsService {
       const position = Math.min(dto.position, cells.length);
       const shifted = cells.filter((c) => c.position >= position);
       for (const c of shifted) c.position += 1;
-      const cell: CellRecord = { id: randomUUID(), position, kind, fields, changedById: actor.id, changedBy: actor.name, changedAt: new Date(), agreedById: null, agreedBy: null, agreedAt: null, changedAfterAgreement: false };
+      const cell: CellRecord = {
+        id: randomUUID(),
+        position,
+        kind,
+        fields,
+        changedById: actor.id,
+        changedBy: actor.name,
+        changedAt: new Date(),
+        agreedById: null,
+        agreedBy: null,
+        agreedAt: null,
+        changedAfterAgreement: false,
+      };
       return { touched: new Set([cell.id, ...shifted.map((c) => c.id)]), inserted: [cell] };
     });
   }
 
   /** A CSV upload as a new table cell; any bad row is reported by its line and nothing is stored. */
   async importCsv(auth: AuthContext, id: string, file: { buffer: Buffer; originalname: string } | undefined, dto: ImportCsvDto): Promise<SaveResult> {
-    if (!file) throw new AppException(ErrorCode.ValidationFailed, 'Attach the CSV file in the field "file".', HttpStatus.BAD_REQUEST, [{ field: 'file', message: 'no file was sent' }]);
+    if (!file)
+      throw new AppException(ErrorCode.ValidationFailed, 'Attach the CSV file in the field "file".', HttpStatus.BAD_REQUEST, [
+        { field: 'file', message: 'no file was sent' },
+      ]);
     // Nothing is parsed for a sheet the caller may not change; the parsing itself runs in an evaluation process.
     await this.findEditable(auth, id);
     const parsed = await this.evaluation.parseCsv(auth.session.firm.id, file.buffer);
     if ('binary' in parsed) {
-      throw new AppException(ErrorCode.UnsupportedMediaType, `${file.originalname} is not a CSV text file (its content is binary), whatever its name says.`, HttpStatus.UNSUPPORTED_MEDIA_TYPE, [{ field: 'file', message: 'not a text file' }]);
+      throw new AppException(
+        ErrorCode.UnsupportedMediaType,
+        `${file.originalname} is not a CSV text file (its content is binary), whatever its name says.`,
+        HttpStatus.UNSUPPORTED_MEDIA_TYPE,
+        [{ field: 'file', message: 'not a text file' }],
+      );
     }
     if (!parsed.ok) {
       const details = parsed.problems.map((p) => ({ field: 'file', message: `line ${p.line}: ${p.message}` }));
-      throw new AppException('CSV_INVALID', `The CSV could not be read, so nothing was stored: ${details.map((d) => d.message).join('; ')}`, HttpStatus.BAD_REQUEST, details);
+      throw new AppException(
+        'CSV_INVALID',
+        `The CSV could not be read, so nothing was stored: ${details.map((d) => d.message).join('; ')}`,
+        HttpStatus.BAD_REQUEST,
+        details,
+      );
     }
     return this.addCell(auth, id, { version: dto.version, position: dto.position, cell: parsed.cell as unknown as Record<string, unknown> });
   }
@@ -363,7 +478,12 @@ export class SheetsService {
       return { touched: new Set([cell.id]), edited: new Set([cell.id]) };
     });
     for (const cell of withdrawn) {
-      await this.audit.record('agreement-withdrawn', { firmId: auth.session.firm.id, userId: auth.session.user.id, subjectId: id, detail: { cell, reason: 'edited after the checker agreed it' } });
+      await this.audit.record('agreement-withdrawn', {
+        firmId: auth.session.firm.id,
+        userId: auth.session.user.id,
+        subjectId: id,
+        detail: { cell, reason: 'edited after the checker agreed it' },
+      });
     }
     return result;
   }

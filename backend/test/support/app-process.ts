@@ -26,6 +26,8 @@ export async function ready(base: string): Promise<void> {
 
 /** A process's resident memory in MB (Linux's /proc). */
 export function residentMb(pid: number): number {
-  const line = readFileSync(`/proc/${pid}/status`, 'utf8').split('\n').find((l) => l.startsWith('VmRSS:'));
+  const line = readFileSync(`/proc/${pid}/status`, 'utf8')
+    .split('\n')
+    .find((l) => l.startsWith('VmRSS:'));
   return Number(/(\d+)/.exec(line ?? '')?.[1] ?? NaN) / 1024;
 }

@@ -87,7 +87,6 @@ export const MATRIX: Record<string, Allowed> = {
   'POST /api/firm/certificate': ['owner'],
 };
 
-
 /** Ids of one firm's resources, by the kind of resource a path names. */
 export interface ResourceIds {
   project: string;

@@ -93,7 +93,11 @@ describe('calc cells', () => {
 
   it('says where a name used too early is defined', () => {
     const r = calc('P = V_s * I_s', 'V_s = 400 V\nI_s = 10 A');
-    expect(cell(r).errors[0]).toEqual({ line: 1, column: 5, message: 'V_s is used before it is defined: it is defined at cell 2, line 1; move this line below it' });
+    expect(cell(r).errors[0]).toEqual({
+      line: 1,
+      column: 5,
+      message: 'V_s is used before it is defined: it is defined at cell 2, line 1; move this line below it',
+    });
   });
 
   it('reads a unit name as the unit until the variable is defined, and warns', () => {
@@ -168,7 +172,12 @@ describe('safety of expressions', () => {
 
 describe('check cells', () => {
   const check = (source: string, condition: string) =>
-    evaluateSheet({ cells: [{ kind: 'calc', source }, { kind: 'check', condition, basis: 'test' }] }).cells[1] as CheckResult;
+    evaluateSheet({
+      cells: [
+        { kind: 'calc', source },
+        { kind: 'check', condition, basis: 'test' },
+      ],
+    }).cells[1] as CheckResult;
 
   it('passes a <= check with utilisation actual / limit', () => {
     const r = check('I = 27 A\nI_rated = 25 A', 'I <= 1.35 * I_rated');

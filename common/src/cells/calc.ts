@@ -83,7 +83,12 @@ function angularByName(name: string, value: unknown, line: number, warnings: Dia
   if (!isAngularName(name)) return value;
   const kind = frequencyKind(value);
   if (kind === 'rate') return asFrequencyKind(value as never, 'angular');
-  if (kind === 'cyclic') warnings.push({ line, column: 1, message: `${name} is named like an angular frequency but holds a frequency in Hz; for the angular frequency write 2 pi times it` });
+  if (kind === 'cyclic')
+    warnings.push({
+      line,
+      column: 1,
+      message: `${name} is named like an angular frequency but holds a frequency in Hz; for the angular frequency write 2 pi times it`,
+    });
   return value;
 }
 
@@ -121,7 +126,12 @@ export function evaluateCalcCell(cell: CalcCell, cellIndex: number, scope: Sheet
         }
       }
       const previous = scope.origin.get(name);
-      if (previous) result.warnings.push({ line: lineNo, column: 1, message: `${name} was defined before (${describePlace(previous)}); from here on it means this new value` });
+      if (previous)
+        result.warnings.push({
+          line: lineNo,
+          column: 1,
+          message: `${name} was defined before (${describePlace(previous)}); from here on it means this new value`,
+        });
       if (!target) value = angularByName(name, value, lineNo, result.warnings);
       const formatted = formatValue(value, display, target);
       // Typeset before binding: the formula's own name may be read on its right-hand side.
@@ -154,9 +164,12 @@ function conventionOf(expression: MathNode, mathScope: Map<string, unknown>): { 
     } catch {
       return { convention };
     }
-    return { convention: `${sense} (${sense === 'lagging' ? 'Q > 0: the current lags the voltage' : sense === 'leading' ? 'Q < 0: the current leads the voltage' : 'Q = 0'}); ${convention}` };
+    return {
+      convention: `${sense} (${sense === 'lagging' ? 'Q > 0: the current lags the voltage' : sense === 'leading' ? 'Q < 0: the current leads the voltage' : 'Q = 0'}); ${convention}`,
+    };
   }
-  if (call.name === 'power_factor') return { convention: `${convention}; from P and |S| alone the sense (leading or lagging) is unknown: pass the complex power S for it` };
+  if (call.name === 'power_factor')
+    return { convention: `${convention}; from P and |S| alone the sense (leading or lagging) is unknown: pass the complex power S for it` };
   return { convention };
 }
 
@@ -175,4 +188,3 @@ export function lineTex(name: string, expression: MathNode, scope: SheetScope, d
   })}`;
   return { formula, working, result: `${lhs} = ${displayTex(shown)}` };
 }
-

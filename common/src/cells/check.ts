@@ -69,7 +69,8 @@ export function evaluateCheckCell(cell: CheckCell, cellIndex: number, scope: She
         const u = kind === 'actual/limit' ? a / l : l / a;
         result.utilization = Number.isFinite(u) ? u : null;
         result.margin = result.utilization === null ? null : 1 - result.utilization;
-        if (l <= 0 && kind === 'actual/limit') result.warnings.push({ line: 1, column: 1, message: 'the limit is zero or negative, so the utilisation has no meaning' });
+        if (l <= 0 && kind === 'actual/limit')
+          result.warnings.push({ line: 1, column: 1, message: 'the limit is zero or negative, so the utilisation has no meaning' });
       }
     } else {
       const value = evaluateNode(node, node.compile(), mathScope, source, 1);

@@ -10,7 +10,12 @@ function contractCell(r: CellResult): Record<string, unknown> {
   const base = { kind: r.kind, status: r.status };
   switch (r.kind) {
     case 'calc':
-      return { ...base, values: Object.fromEntries(Object.entries(r.values).map(([k, v]) => [k, { si: v.si, display: v.display }])), errors: r.errors, warnings: r.warnings };
+      return {
+        ...base,
+        values: Object.fromEntries(Object.entries(r.values).map(([k, v]) => [k, { si: v.si, display: v.display }])),
+        errors: r.errors,
+        warnings: r.warnings,
+      };
     case 'check':
       return { ...base, pass: r.pass, utilization: r.utilization, errors: r.errors, warnings: r.warnings };
     case 'table':

@@ -7,7 +7,9 @@ const line = (r: CalcResult, name: string) => r.lines.find((l) => l.name === nam
 
 describe('the conventions of the trade functions, said beside their results', () => {
   it('says whether a power factor leads or lags, from the sign of Q (S = V·I*)', () => {
-    const r = run('S_ind = complex_power(230 V, phasor(10 A, -30 deg))\npf_ind = power_factor(S_ind)\npf_cap = power_factor(complex_power(230 V, phasor(10 A, 30 deg)))\npf_z = power_factor(3 ohm + 4j ohm)\npf_ps = power_factor(2 kW, 2.5 kVA)');
+    const r = run(
+      'S_ind = complex_power(230 V, phasor(10 A, -30 deg))\npf_ind = power_factor(S_ind)\npf_cap = power_factor(complex_power(230 V, phasor(10 A, 30 deg)))\npf_z = power_factor(3 ohm + 4j ohm)\npf_ps = power_factor(2 kW, 2.5 kVA)',
+    );
     expect(r.errors).toEqual([]);
     expect(line(r, 'pf_ind').convention).toMatch(/^lagging/);
     expect(line(r, 'pf_cap').convention).toMatch(/^leading/);

@@ -27,7 +27,11 @@ export function convertTo(value: unknown, target: string): unknown {
   if (same(from, to)) return (value as MathUnit).to(target);
   const kinds = [frequencyKind(value), frequencyKind(targetUnit)];
   if (kinds.includes('angular') && kinds.includes('cyclic')) {
-    throw new Error(kinds[0] === 'angular' ? `this is an angular frequency (rad/s), not a frequency: divide by 2 pi to show it in ${target}` : `this is a frequency (Hz), not an angular frequency: multiply by 2 pi to show it in ${target}`);
+    throw new Error(
+      kinds[0] === 'angular'
+        ? `this is an angular frequency (rad/s), not a frequency: divide by 2 pi to show it in ${target}`
+        : `this is a frequency (Hz), not an angular frequency: multiply by 2 pi to show it in ${target}`,
+    );
   }
   if (same(withoutAngle(from), withoutAngle(to))) {
     const bare = dropRidingAngle(value as MathUnit);

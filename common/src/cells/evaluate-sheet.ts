@@ -42,7 +42,12 @@ export interface SheetEvaluation {
 /** Identifies a value for the cache: its SI value, its dimensions and the units it is shown in. */
 const fingerprint = (v: unknown): string => {
   if (typeof v === 'number' || typeof v === 'boolean') return `${typeof v}:${v}`;
-  const u = v as { value?: unknown; dimensions?: number[]; units?: { unit: { name: string }; prefix: { name: string }; power: number }[]; toArray?: () => unknown[] };
+  const u = v as {
+    value?: unknown;
+    dimensions?: number[];
+    units?: { unit: { name: string }; prefix: { name: string }; power: number }[];
+    toArray?: () => unknown[];
+  };
   if (u && u.units && u.dimensions) {
     const value = u.value as { re?: number; im?: number } | number | null;
     return `u:${typeof value === 'number' ? value : value ? `${value.re},${value.im}` : 'null'}:${u.dimensions.join(',')}:${u.units.map((x) => `${x.prefix.name}${x.unit.name}^${x.power}`).join(' ')}`;
@@ -55,8 +60,19 @@ const fingerprint = (v: unknown): string => {
  * What a cell can see of a name: its value, where it was defined, where it failed, and every place the
  * sheet defines it (for "defined later" and "defined before" messages).
  */
-function printOf(name: string, values: Map<string, unknown>, origin: Map<string, Place>, failed: Map<string, Place>, definitions: Map<string, Place[]>): string {
-  return JSON.stringify([values.has(name) ? fingerprint(values.get(name)) : '', origin.get(name) ?? null, failed.get(name) ?? null, definitions.get(name) ?? []]);
+function printOf(
+  name: string,
+  values: Map<string, unknown>,
+  origin: Map<string, Place>,
+  failed: Map<string, Place>,
+  definitions: Map<string, Place[]>,
+): string {
+  return JSON.stringify([
+    values.has(name) ? fingerprint(values.get(name)) : '',
+    origin.get(name) ?? null,
+    failed.get(name) ?? null,
+    definitions.get(name) ?? [],
+  ]);
 }
 
 /** Where every name of the sheet is defined, for "used before it is defined" errors. */
@@ -105,7 +121,12 @@ function evaluateCell(cell: Cell, index: number, scope: SheetScope, display: Dis
  * that no result computed from an older version of the sheet stays on screen as if it were current.
  */
 export function unevaluatedResults(count: number, reason: string): CellResult[] {
-  return Array.from({ length: count }, () => ({ kind: 'unevaluated' as const, status: 'error' as const, errors: [{ line: 1, column: 1, message: `Not evaluated: ${reason}` }], warnings: [] }));
+  return Array.from({ length: count }, () => ({
+    kind: 'unevaluated' as const,
+    status: 'error' as const,
+    errors: [{ line: 1, column: 1, message: `Not evaluated: ${reason}` }],
+    warnings: [],
+  }));
 }
 
 /**

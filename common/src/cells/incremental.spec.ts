@@ -11,9 +11,22 @@ import { evaluateSheet } from './evaluate-sheet';
 // Lines that define, read, redefine and fail names in different orders, so that edits move where a
 // name is defined, make it fail, or make a later definition appear.
 const LINES = [
-  'R = 10 ohm', 'R = 12 ohm', 'X = 5 ohm', 'X = 2 * pi * 50 Hz * 20 mH', 'Z = R + j * X', 'Z = sqrt(R^2 + X^2)',
-  'I = 230 V / Z', 'I = 230 V / abs(Z) to mA', 'P = abs(I)^2 * R to W', 'Q = P / 0', 'R = unknown_name * 2',
-  'X = 3 V', 'Z = R +', 'k = 2', 'I = k * 1 A', 'P = k * R',
+  'R = 10 ohm',
+  'R = 12 ohm',
+  'X = 5 ohm',
+  'X = 2 * pi * 50 Hz * 20 mH',
+  'Z = R + j * X',
+  'Z = sqrt(R^2 + X^2)',
+  'I = 230 V / Z',
+  'I = 230 V / abs(Z) to mA',
+  'P = abs(I)^2 * R to W',
+  'Q = P / 0',
+  'R = unknown_name * 2',
+  'X = 3 V',
+  'Z = R +',
+  'k = 2',
+  'I = k * 1 A',
+  'P = k * R',
 ];
 const line = fc.constantFrom(...LINES);
 const calc = fc.array(line, { minLength: 1, maxLength: 3 }).map((ls): Cell => ({ kind: 'calc', source: ls.join('\n') }));
@@ -55,7 +68,11 @@ describe('incremental evaluation', () => {
   }, 600_000);
 
   it('reuses the cells an edit cannot affect', () => {
-    const cells: Cell[] = [{ kind: 'calc', source: 'R = 10 ohm' }, { kind: 'calc', source: 'k = 2' }, { kind: 'calc', source: 'P = k * R' }];
+    const cells: Cell[] = [
+      { kind: 'calc', source: 'R = 10 ohm' },
+      { kind: 'calc', source: 'k = 2' },
+      { kind: 'calc', source: 'P = k * R' },
+    ];
     const first = evaluateSheet({ cells });
     const again = evaluateSheet({ cells: [cells[0], { kind: 'calc', source: 'k = 3' }, cells[2]] }, first.cache);
     expect(again.evaluated).toEqual([1, 2]);

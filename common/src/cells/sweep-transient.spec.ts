@@ -9,7 +9,14 @@ describe('sweep cells', () => {
     const r = evaluateSheet({
       cells: [
         { kind: 'calc', source: rlc },
-        { kind: 'sweep', variable: 'f', from: '10 Hz', to: '100 Hz', points: 10, outputs: ['E0 / (R + j (2 pi f L - 1 / (2 pi f C)))', 'abs(E0 / (R + j (2 pi f L - 1 / (2 pi f C))))'] },
+        {
+          kind: 'sweep',
+          variable: 'f',
+          from: '10 Hz',
+          to: '100 Hz',
+          points: 10,
+          outputs: ['E0 / (R + j (2 pi f L - 1 / (2 pi f C)))', 'abs(E0 / (R + j (2 pi f L - 1 / (2 pi f C))))'],
+        },
       ],
     }).cells[1] as SweepResult;
     expect(r.status).toBe('ok');
@@ -26,7 +33,8 @@ describe('sweep cells', () => {
   });
 
   it('falls back from the fast paths where real arithmetic cannot follow (square root of a negative)', () => {
-    const r = evaluateSheet({ cells: [{ kind: 'sweep', variable: 'x', from: '-4', to: '4', points: 3, outputs: ['sqrt(x)', 'x^2 - 1'] }] }).cells[0] as SweepResult;
+    const r = evaluateSheet({ cells: [{ kind: 'sweep', variable: 'x', from: '-4', to: '4', points: 3, outputs: ['sqrt(x)', 'x^2 - 1'] }] })
+      .cells[0] as SweepResult;
     expect(r.status).toBe('ok');
     expect(r.outputs[0]).toMatchObject({ complex: true, values: [0, 0, 2], im: [2, 0, 0] });
     expect(r.outputs[1].values).toEqual([15, -1, 15]);
@@ -34,7 +42,10 @@ describe('sweep cells', () => {
 
   it('uses the circuit functions in a sweep', () => {
     const r = evaluateSheet({
-      cells: [{ kind: 'calc', source: rlc }, { kind: 'sweep', variable: 'f', from: '10 Hz', to: '100 Hz', points: 5, outputs: ['rlc_amplitude(E0, R, L, C, 2 pi f)'] }],
+      cells: [
+        { kind: 'calc', source: rlc },
+        { kind: 'sweep', variable: 'f', from: '10 Hz', to: '100 Hz', points: 5, outputs: ['rlc_amplitude(E0, R, L, C, 2 pi f)'] },
+      ],
     }).cells[1] as SweepResult;
     expect(r.outputs[0].unit).toBe('A');
     r.variable!.values.forEach((f, k) => {
@@ -44,12 +55,18 @@ describe('sweep cells', () => {
   });
 
   it('spaces a logarithmic sweep by equal ratios', () => {
-    const r = evaluateSheet({ cells: [{ kind: 'sweep', variable: 'f', from: '1 Hz', to: '1 kHz', points: 4, spacing: 'log', outputs: ['2 f'] }] }).cells[0] as SweepResult;
+    const r = evaluateSheet({ cells: [{ kind: 'sweep', variable: 'f', from: '1 Hz', to: '1 kHz', points: 4, spacing: 'log', outputs: ['2 f'] }] })
+      .cells[0] as SweepResult;
     expect(r.variable?.values.map((v) => Math.round(v * 1e9) / 1e9)).toEqual([1, 10, 100, 1000]);
   });
 
   it('checks units once and reports a mismatch in an output', () => {
-    const r = evaluateSheet({ cells: [{ kind: 'calc', source: rlc }, { kind: 'sweep', variable: 'f', from: '1 Hz', to: '2 Hz', points: 3, outputs: ['R + f'] }] }).cells[1] as SweepResult;
+    const r = evaluateSheet({
+      cells: [
+        { kind: 'calc', source: rlc },
+        { kind: 'sweep', variable: 'f', from: '1 Hz', to: '2 Hz', points: 3, outputs: ['R + f'] },
+      ],
+    }).cells[1] as SweepResult;
     expect(r.status).toBe('error');
     expect(r.errors[0].message).toMatch(/cannot add an? resistance or impedance and a frequency/);
   });
@@ -106,7 +123,13 @@ describe('transient cells', () => {
 });
 
 describe('incremental evaluation', () => {
-  const sheet = (r: string) => ({ cells: [{ kind: 'calc' as const, source: `R = ${r}` }, { kind: 'calc' as const, source: 'x = 2' }, { kind: 'calc' as const, source: 'P = R * 1 A^2' }] });
+  const sheet = (r: string) => ({
+    cells: [
+      { kind: 'calc' as const, source: `R = ${r}` },
+      { kind: 'calc' as const, source: 'x = 2' },
+      { kind: 'calc' as const, source: 'P = R * 1 A^2' },
+    ],
+  });
 
   it('evaluates only the changed cell and the cells below that read what changed', () => {
     const first = evaluateSheet(sheet('10 ohm'));
@@ -119,8 +142,21 @@ describe('incremental evaluation', () => {
   });
 
   it('re-evaluates a cell when a name it read as a unit becomes a variable above', () => {
-    const a = evaluateSheet({ cells: [{ kind: 'calc', source: 'y = 1' }, { kind: 'calc', source: 'q = 5 C' }] });
-    const b = evaluateSheet({ cells: [{ kind: 'calc', source: 'C = 2' }, { kind: 'calc', source: 'q = 5 C' }] }, a.cache);
+    const a = evaluateSheet({
+      cells: [
+        { kind: 'calc', source: 'y = 1' },
+        { kind: 'calc', source: 'q = 5 C' },
+      ],
+    });
+    const b = evaluateSheet(
+      {
+        cells: [
+          { kind: 'calc', source: 'C = 2' },
+          { kind: 'calc', source: 'q = 5 C' },
+        ],
+      },
+      a.cache,
+    );
     expect(b.evaluated).toEqual([0, 1]);
     expect((b.cells[1] as { values: Record<string, { si: unknown }> }).values.q.si).toBe(10);
   });

@@ -40,7 +40,11 @@ function stripUnits(node: MathNode, isVariable: (n: string) => boolean): MathNod
 
 /** A number, a mathjs Complex or a plain {re, im} pair, as a pair. */
 const pair = (v: unknown): { re: number; im: number } =>
-  typeof v === 'number' ? { re: v, im: 0 } : isComplex(v) || (v && typeof (v as { re?: unknown }).re === 'number') ? { re: (v as { re: number }).re, im: (v as { im: number }).im } : { re: Number(v), im: 0 };
+  typeof v === 'number'
+    ? { re: v, im: 0 }
+    : isComplex(v) || (v && typeof (v as { re?: unknown }).re === 'number')
+      ? { re: (v as { re: number }).re, im: (v as { im: number }).im }
+      : { re: Number(v), im: 0 };
 
 function seriesOf(name: string, values: unknown[], unit: string): SeriesData {
   const pairs = values.map(pair);
@@ -48,7 +52,7 @@ function seriesOf(name: string, values: unknown[], unit: string): SeriesData {
   return { name, unit, values: pairs.map((p) => p.re) };
 }
 
-export function evaluateSweepCell(cell: SweepCell, cellIndex: number, scope: SheetScope, display: DisplayOptions): SweepResult {
+export function evaluateSweepCell(cell: SweepCell, cellIndex: number, scope: SheetScope, _display: DisplayOptions): SweepResult {
   const result: SweepResult = { kind: 'sweep', status: 'ok', outputs: [], errors: [], warnings: [] };
   const place = { cell: cellIndex, line: 1 };
   try {
@@ -121,7 +125,9 @@ export function evaluateSweepCell(cell: SweepCell, cellIndex: number, scope: She
       if (kernel) {
         try {
           const out = kernel(pointArray);
-          series = out.complex ? { name: text, unit, complex: true, values: Array.from(out.re), im: Array.from(out.im) } : { name: text, unit, values: Array.from(out.re) };
+          series = out.complex
+            ? { name: text, unit, complex: true, values: Array.from(out.re), im: Array.from(out.im) }
+            : { name: text, unit, values: Array.from(out.re) };
         } catch (err) {
           if (err !== KERNEL_FALLBACK) throw err;
         }

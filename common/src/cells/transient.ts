@@ -110,7 +110,15 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
       let v = evalAtUnits(n, t);
       // A bare unit (the V of "100 V") has no value of its own: give it one, in SI.
       if (isUnit(v) && (v as unknown as { value: unknown }).value === null) v = math.multiply(1, v as never);
-      return isUnit(v) ? (() => { try { return angleValue(v); } catch { return (v as unknown as { value: number }).value; } })() : Number(v);
+      return isUnit(v)
+        ? (() => {
+            try {
+              return angleValue(v);
+            } catch {
+              return (v as unknown as { value: number }).value;
+            }
+          })()
+        : Number(v);
     };
 
     const { alpha, omega0, dampingCase } = dampingOf({ R, L, C });
@@ -158,7 +166,8 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
         result.warnings.push({
           line: 1,
           column: 1,
-          message: 'R = 0 and the source is at the resonant frequency: the current grows in proportion to time without bound and has no steady state; the solution is given over this span only',
+          message:
+            'R = 0 and the source is at the resonant frequency: the current grows in proportion to time without bound and has no steady state; the solution is given over this span only',
         });
       }
     } else {
@@ -175,7 +184,11 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
     result.peakCurrent = result.peaks.current.peak.value;
     result.peakTime = result.peaks.current.peak.time;
     if (current.peak.t === span) {
-      result.warnings.push({ line: 1, column: 1, message: 'the largest current is at the end of the span, so it may be larger later: lengthen the span to find the peak' });
+      result.warnings.push({
+        line: 1,
+        column: 1,
+        message: 'the largest current is at the end of the span, so it may be larger later: lengthen the span to find the peak',
+      });
     }
   } catch (err) {
     result.status = 'error';
@@ -186,7 +199,10 @@ export function evaluateTransientCell(cell: TransientCell, cellIndex: number, sc
 
 /** The largest value, the smallest and the largest magnitude, each with its time, in `unit` (value × factor). */
 function extremaResult({ max, min, peak }: ReturnType<typeof summarise>, unit: string, factor: number, display: DisplayOptions): ExtremaResult {
-  const shown = (p: { t: number; value: number }) => ({ value: formatValue(math.unit(p.value * factor, unit), display), time: formatValue(math.unit(p.t, 's'), display) });
+  const shown = (p: { t: number; value: number }) => ({
+    value: formatValue(math.unit(p.value * factor, unit), display),
+    time: formatValue(math.unit(p.t, 's'), display),
+  });
   return { peak: shown(peak), max: shown(max), min: shown(min) };
 }
 
@@ -195,7 +211,11 @@ function extremaResult({ max, min, peak }: ReturnType<typeof summarise>, unit: s
  * capacitor voltage E0 with no current; for E0 sin(ωt + θ), the amplitudes of current E0/Z, charge
  * E0/(ωZ) and capacitor voltage E0/(ωCZ), and the delay angle. None at resonance without damping.
  */
-function steadyState(form: SourceForm, { R, L, C }: { R: number; L: number; C: number }, display: DisplayOptions): Record<string, ReturnType<typeof formatValue>> | undefined {
+function steadyState(
+  form: SourceForm,
+  { R, L, C }: { R: number; L: number; C: number },
+  display: DisplayOptions,
+): Record<string, ReturnType<typeof formatValue>> | undefined {
   if (form.kind === 'constant') {
     return {
       q_ss: formatValue(math.unit(C * form.E0, 'C'), display),

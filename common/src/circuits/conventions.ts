@@ -17,8 +17,10 @@ export const RESULT_CONVENTIONS: Partial<Record<CircuitFunctionName, string>> = 
   real_power: RMS_POWER,
   reactive_power: `${RMS_POWER}; Q > 0 is inductive (lagging)`,
   power_factor: 'P/|S| = cos φ',
-  bank_reactive_power: 'of one capacitor, with V the rms voltage across it (Q = 2πf·C·V²): per phase of a star bank with V = V_LL/√3, or of a delta bank with V = V_LL; the three-phase total is 3 times this',
-  bank_capacitance: 'of one capacitor, for the reactive power Q on it and V the rms voltage across it: per phase of a star bank give Q/3 and V_LL/√3, of a delta bank Q/3 and V_LL',
+  bank_reactive_power:
+    'of one capacitor, with V the rms voltage across it (Q = 2πf·C·V²): per phase of a star bank with V = V_LL/√3, or of a delta bank with V = V_LL; the three-phase total is 3 times this',
+  bank_capacitance:
+    'of one capacitor, for the reactive power Q on it and V the rms voltage across it: per phase of a star bank give Q/3 and V_LL/√3, of a delta bank Q/3 and V_LL',
   line_current_3ph: 'rms line current of a balanced three-phase load, |S|/(√3·V_LL)',
   power_3ph: 'balanced three-phase, √3·V_LL·I_L·pf with rms V_LL and I_L',
   apparent_power_3ph: 'balanced three-phase, √3·V_LL·I_L with rms V_LL and I_L',

@@ -177,8 +177,7 @@ export const circuitFunctions = {
     return quantity(Math.sqrt(3) * real(Vll, 'voltage', 'V_LL') * real(I, 'current', 'I_L') * p, 'W');
   },
   apparent_power_3ph: (Vll: unknown, I: unknown) => quantity(Math.sqrt(3) * real(Vll, 'voltage', 'V_LL') * real(I, 'current', 'I_L'), 'VA'),
-  line_current_3ph: (S: unknown, Vll: unknown) =>
-    quantity(magnitudeOnly(S, 'S') / (Math.sqrt(3) * positive(real(Vll, 'voltage', 'V_LL'), 'V_LL')), 'A'),
+  line_current_3ph: (S: unknown, Vll: unknown) => quantity(magnitudeOnly(S, 'S') / (Math.sqrt(3) * positive(real(Vll, 'voltage', 'V_LL'), 'V_LL')), 'A'),
 
   // Capacitor banks
   bank_reactive_power: (Cap: unknown, V: unknown, f: unknown) =>
@@ -248,14 +247,17 @@ const rootSumSquare = (xs: number[]) => Math.sqrt(xs.reduce((acc, x) => acc + x 
 /** A real magnitude where a complex value would be ambiguous (|S| of a complex power must be asked for). */
 function magnitudeOnly(x: unknown, what: string): number {
   const v = si(x, 'power', what);
-  if (typeof v !== 'number') throw new Error(`${what} must be the apparent power |S|, a real value in VA; this one is a complex power: pass abs(${what}) if its magnitude is meant`);
+  if (typeof v !== 'number')
+    throw new Error(`${what} must be the apparent power |S|, a real value in VA; this one is a complex power: pass abs(${what}) if its magnitude is meant`);
   return nonNegative(v, what);
 }
 
 /** rms and peak convert one sinusoid; a spectrum has a total rms (total_rms), not one per element. */
 function sinusoid(x: unknown, fn: string, convert: (x: unknown) => unknown): unknown {
   if (math.isMatrix(x) || Array.isArray(x)) {
-    throw new Error(`${fn} converts the value of one sinusoid; for a spectrum use total_rms(v) (the square root of the sum of squares), or write v ${fn === 'rms' ? '/' : '*'} sqrt(2) to convert every element`);
+    throw new Error(
+      `${fn} converts the value of one sinusoid; for a spectrum use total_rms(v) (the square root of the sum of squares), or write v ${fn === 'rms' ? '/' : '*'} sqrt(2) to convert every element`,
+    );
   }
   return convert(x);
 }
@@ -265,7 +267,8 @@ function sinusoid(x: unknown, fn: string, convert: (x: unknown) => unknown): unk
  * with its first element (for its unit); at most `maxOrder` orders where a definition counts only those.
  */
 function harmonics(spectrum: unknown, fn: string, maxOrder = Infinity): { first: unknown; magnitudes: number[] } {
-  if (!(math.isMatrix(spectrum) || Array.isArray(spectrum))) throw new Error(`${fn} takes a spectrum: the rms values [X_1, X_2, X_3, …] of the fundamental and each harmonic`);
+  if (!(math.isMatrix(spectrum) || Array.isArray(spectrum)))
+    throw new Error(`${fn} takes a spectrum: the rms values [X_1, X_2, X_3, …] of the fundamental and each harmonic`);
   const values = ((math.isMatrix(spectrum) ? (spectrum as { toArray(): unknown[] }).toArray() : spectrum) as unknown[]).flat(Infinity) as unknown[];
   if (values.length === 0) throw new Error(`${fn} needs at least one value`);
   if (values.length > maxOrder) throw new Error(`${fn} counts harmonics up to the ${maxOrder}th (IEEE Std 519-2014, 3.1): give at most ${maxOrder} values`);

@@ -199,7 +199,13 @@ export function summarise(points: Extremum[]): { max: Extremum; min: Extremum; p
  * its steps; with `extrema`, also finds the extrema of i and q inside every step from the dense output
  * (where no closed form gives them). The solver's steps do not depend on `points`, so neither do the extrema.
  */
-export function numericSolution(p: RlcParameters, E: (t: number) => number, span: number, points: number, options: { tolerance?: number; deadline?: number; extrema?: boolean } = {}): NumericSolution {
+export function numericSolution(
+  p: RlcParameters,
+  E: (t: number) => number,
+  span: number,
+  points: number,
+  options: { tolerance?: number; deadline?: number; extrema?: boolean } = {},
+): NumericSolution {
   const { R, L, C } = p;
   // Scale charge so the solver's absolute tolerance means the same for µC and kC circuits.
   let Emax = 0;
@@ -221,34 +227,41 @@ export function numericSolution(p: RlcParameters, E: (t: number) => number, span
   let evaluations = 0;
   const f = (x: number, y: number[]) => {
     evaluations++;
-    if (options.deadline !== undefined && (evaluations & 1023) === 0 && Date.now() > options.deadline) throw new Error('the transient took longer than the time allowed for an evaluation');
+    if (options.deadline !== undefined && (evaluations & 1023) === 0 && Date.now() > options.deadline)
+      throw new Error('the transient took longer than the time allowed for an evaluation');
     return [y[1], (E(x) / scale - R * y[1] - y[0] / C) / L];
   };
   let last = { q: p.q0, i: p.i0 };
-  const out = solver.solve(f, 0, [p.q0 / scale, p.i0 / scale], span, (_n: number, x0: number, x1: number, y: number[], dense?: (c: number, x: number) => number) => {
-    if (dense && x1 > x0) {
-      if (options.extrema) {
-        const qAt = (x: number) => dense(0, x) * scale;
-        const iAt = (x: number) => dense(1, x) * scale;
-        extremaIn(x0, x1, iAt, (x) => E(x) - R * iAt(x) - qAt(x) / C, iPoints);
-        extremaIn(x0, x1, qAt, iAt, qPoints);
-      }
-      grid.push(x1);
-    }
-    while (next < points && t[next] <= x1 + 1e-15 * span) {
-      const tk = Math.min(t[next], x1);
+  const out = solver.solve(
+    f,
+    0,
+    [p.q0 / scale, p.i0 / scale],
+    span,
+    (_n: number, x0: number, x1: number, y: number[], dense?: (c: number, x: number) => number) => {
       if (dense && x1 > x0) {
-        q[next] = dense(0, tk) * scale;
-        i[next] = dense(1, tk) * scale;
-      } else {
-        q[next] = y[0] * scale;
-        i[next] = y[1] * scale;
+        if (options.extrema) {
+          const qAt = (x: number) => dense(0, x) * scale;
+          const iAt = (x: number) => dense(1, x) * scale;
+          extremaIn(x0, x1, iAt, (x) => E(x) - R * iAt(x) - qAt(x) / C, iPoints);
+          extremaIn(x0, x1, qAt, iAt, qPoints);
+        }
+        grid.push(x1);
       }
-      next++;
-    }
-    last = { q: y[0] * scale, i: y[1] * scale };
-    return undefined;
-  });
+      while (next < points && t[next] <= x1 + 1e-15 * span) {
+        const tk = Math.min(t[next], x1);
+        if (dense && x1 > x0) {
+          q[next] = dense(0, tk) * scale;
+          i[next] = dense(1, tk) * scale;
+        } else {
+          q[next] = y[0] * scale;
+          i[next] = y[1] * scale;
+        }
+        next++;
+      }
+      last = { q: y[0] * scale, i: y[1] * scale };
+      return undefined;
+    },
+  );
   if (out.outcome !== 0) throw new Error('the numeric solver did not reach the end of the time span (the circuit may be too stiff for this span)');
   iPoints.push({ t: span, value: last.i });
   qPoints.push({ t: span, value: last.q });

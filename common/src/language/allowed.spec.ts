@@ -39,10 +39,17 @@ describe('the language allows what it lists', () => {
   });
 
   it('refuses method and property calls, and a value cannot be changed by a later line or cell', () => {
-    expect(errorOf('a = [1, 2, 3]\nn = size(a.resize([1]))')).toMatch(/calling a method on a value \(\.resize\(…\)\) is not part of the sheet language: use the function form, for example resize\(x, …\)/);
+    expect(errorOf('a = [1, 2, 3]\nn = size(a.resize([1]))')).toMatch(
+      /calling a method on a value \(\.resize\(…\)\) is not part of the sheet language: use the function form, for example resize\(x, …\)/,
+    );
     expect(errorOf('a = [1, 2, 3]\nn = a.size')).toMatch(/reading a property of a value/);
     expect(errorOf('x = 2 V\ny = x.value')).toMatch(/reading a property of a value/);
-    const sheet = evaluateSheet({ cells: [{ kind: 'calc', source: 'a = [1, 2, 3]\nn = size(a.resize([1]))' }, { kind: 'calc', source: 's = sum(a)\nr = resize(a, [1])\nt = sum(a)' }] });
+    const sheet = evaluateSheet({
+      cells: [
+        { kind: 'calc', source: 'a = [1, 2, 3]\nn = size(a.resize([1]))' },
+        { kind: 'calc', source: 's = sum(a)\nr = resize(a, [1])\nt = sum(a)' },
+      ],
+    });
     const second = sheet.cells[1] as CalcResult;
     expect(second.values.s.si).toBe(6);
     expect(second.values.r.si).toEqual([1]);

@@ -7,7 +7,14 @@ const RUNAWAY = 'M = ones(200, 200)\nP = M * M * M * M * M * M * M * M * M * M *
 describe('the soft deadline of an evaluation', () => {
   it('stops a runaway sheet soon after its deadline, and says so', () => {
     const started = Date.now();
-    const outcome = runWithDeadline(Date.now() + 200, () => evaluateSheet({ cells: [{ kind: 'calc', source: RUNAWAY }, { kind: 'check', condition: '1 < 2' }] }));
+    const outcome = runWithDeadline(Date.now() + 200, () =>
+      evaluateSheet({
+        cells: [
+          { kind: 'calc', source: RUNAWAY },
+          { kind: 'check', condition: '1 < 2' },
+        ],
+      }),
+    );
     expect(outcome.passed).toBe(true);
     // One matrix product past the deadline at most (common practice: a cooperative deadline checked between operations).
     expect(Date.now() - started).toBeLessThan(1500);

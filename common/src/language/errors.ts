@@ -51,22 +51,52 @@ export function kindOf(value: unknown): string {
 }
 
 const OPERATION: Record<string, string> = {
-  add: 'add', subtract: 'subtract', unaryMinus: 'negate', smaller: 'compare', larger: 'compare', smallerEq: 'compare',
-  largerEq: 'compare', equal: 'compare', unequal: 'compare', compare: 'compare',
+  add: 'add',
+  subtract: 'subtract',
+  unaryMinus: 'negate',
+  smaller: 'compare',
+  larger: 'compare',
+  smallerEq: 'compare',
+  largerEq: 'compare',
+  equal: 'compare',
+  unequal: 'compare',
+  compare: 'compare',
 };
 
 /** mathjs's internal names of the operators, as a reader knows them. */
 const FUNCTION_NAMES: Record<string, string> = {
-  addScalar: '+', add: '+', subtractScalar: '−', subtract: '−', multiplyScalar: '×', multiply: '×', divideScalar: '/', divide: '/',
-  unaryMinus: 'negation (−)', unaryPlus: '+', pow: '^', dotPow: '.^', dotMultiply: '.*', dotDivide: './', smaller: '<', larger: '>',
-  smallerEq: '<=', largerEq: '>=', equal: '==', unequal: '!=', mod: 'mod',
+  addScalar: '+',
+  add: '+',
+  subtractScalar: '−',
+  subtract: '−',
+  multiplyScalar: '×',
+  multiply: '×',
+  divideScalar: '/',
+  divide: '/',
+  unaryMinus: 'negation (−)',
+  unaryPlus: '+',
+  pow: '^',
+  dotPow: '.^',
+  dotMultiply: '.*',
+  dotDivide: './',
+  smaller: '<',
+  larger: '>',
+  smallerEq: '<=',
+  largerEq: '>=',
+  equal: '==',
+  unequal: '!=',
+  mod: 'mod',
 };
 
 /** Rewrites a mathjs error for a reader; `operands` are the values at the failing operator, if known. */
 export function explain(err: unknown, context: { fn?: string; operands?: unknown[] } = {}): string {
   const raw = err instanceof Error ? err.message : String(err);
   const op = context.fn ? OPERATION[context.fn] : undefined;
-  if ((/Units do not match|different base|Cannot compare units/.test(raw) || (op && /Unit/.test(raw))) && context.operands?.length === 2 && kindOf(context.operands[0]) !== kindOf(context.operands[1])) {
+  if (
+    (/Units do not match|different base|Cannot compare units/.test(raw) || (op && /Unit/.test(raw))) &&
+    context.operands?.length === 2 &&
+    kindOf(context.operands[0]) !== kindOf(context.operands[1])
+  ) {
     const [a, b] = context.operands.map(kindOf);
     const verb = op ?? 'combine';
     return `cannot ${verb} ${a} and ${b}: the two sides have different dimensions`;
@@ -78,7 +108,8 @@ export function explain(err: unknown, context: { fn?: string; operands?: unknown
   m = /Undefined function (\S+)/.exec(raw);
   if (m) return `unknown function ${m[1]}`;
   m = /Unexpected type of argument in function (\w+) \(expected: ([^,]+(?:,[^,]+)*?), actual: (\w+)/.exec(raw);
-  if (m) return `${FUNCTION_NAMES[m[1]] ? `the operation ${FUNCTION_NAMES[m[1]]}` : `the function ${m[1]}`} cannot take ${m[3] === 'Unit' ? 'a quantity with units' : `a ${m[3].toLowerCase()}`} there`;
+  if (m)
+    return `${FUNCTION_NAMES[m[1]] ? `the operation ${FUNCTION_NAMES[m[1]]}` : `the function ${m[1]}`} cannot take ${m[3] === 'Unit' ? 'a quantity with units' : `a ${m[3].toLowerCase()}`} there`;
   m = /Too many arguments in function (\w+) \(expected: (\d+)/.exec(raw);
   if (m) return `the function ${m[1]} takes at most ${m[2]} argument${m[2] === '1' ? '' : 's'}`;
   m = /Too few arguments in function (\w+) \(expected: \w+, index: (\d+)/.exec(raw);

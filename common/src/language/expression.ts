@@ -10,7 +10,11 @@ import { isBuiltin, math, parse, Unit } from './instance';
 import { ALLOWED_CONSTANTS, ALLOWED_FUNCTIONS, ALLOWED_NODES, ALLOWED_OPERATORS } from './allowed';
 import { REFUSED_NAMES } from './math';
 
-const SYNTAX_WORDS: Record<string, string> = { ObjectNode: 'an object { … }', BlockNode: 'several statements on one line', FunctionAssignmentNode: 'defining a function' };
+const SYNTAX_WORDS: Record<string, string> = {
+  ObjectNode: 'an object { … }',
+  BlockNode: 'several statements on one line',
+  FunctionAssignmentNode: 'defining a function',
+};
 const methodName = (accessor: AnyNode): string | undefined => {
   const index = accessor.index as AnyNode | undefined;
   const dim = (index?.dimensions as AnyNode[] | undefined)?.[0];
@@ -125,21 +129,27 @@ export function checkNames(node: MathNode, source: string, scope: SheetScope, pl
     const name = n.type === 'SymbolNode' ? String((n as AnyNode).name) : '';
     if (REFUSED_NAMES.has(name)) throw new EngineError(`${name} is not available in a sheet`, place.line, columnOf(n));
     if (n.type === 'FunctionAssignmentNode') throw new EngineError('defining functions is not part of the language', place.line, columnOf(n));
-    if (n.type === 'AssignmentNode' && n !== node) throw new EngineError('an assignment inside an expression is not allowed: write one definition a line', place.line, columnOf(n));
-    if (!ALLOWED_NODES.has(n.type)) throw new EngineError(`${SYNTAX_WORDS[n.type] ?? 'this kind of expression'} is not part of the sheet language`, place.line, columnOf(n));
+    if (n.type === 'AssignmentNode' && n !== node)
+      throw new EngineError('an assignment inside an expression is not allowed: write one definition a line', place.line, columnOf(n));
+    if (!ALLOWED_NODES.has(n.type))
+      throw new EngineError(`${SYNTAX_WORDS[n.type] ?? 'this kind of expression'} is not part of the sheet language`, place.line, columnOf(n));
     const a = n as AnyNode;
     if (n.type === 'FunctionNode' && (a.fn as AnyNode).type !== 'SymbolNode') {
       const method = (a.fn as AnyNode).type === 'AccessorNode' ? methodName(a.fn as AnyNode) : undefined;
       throw new EngineError(
-        method ? `calling a method on a value (.${method}(…)) is not part of the sheet language: use the function form, for example ${method}(x, …), which leaves x unchanged` : 'only a function named directly can be called, for example sqrt(x)',
+        method
+          ? `calling a method on a value (.${method}(…)) is not part of the sheet language: use the function form, for example ${method}(x, …), which leaves x unchanged`
+          : 'only a function named directly can be called, for example sqrt(x)',
         place.line,
         columnOf(n),
       );
     }
     if ((n.type === 'AccessorNode' || n.type === 'IndexNode') && (n.type === 'IndexNode' ? a.dotNotation : (a.index as AnyNode).dotNotation)) {
-      if (!(parent?.type === 'FunctionNode' && path === 'fn')) throw new EngineError('reading a property of a value (x.name) is not part of the sheet language: index a matrix with x[k]', place.line, columnOf(n));
+      if (!(parent?.type === 'FunctionNode' && path === 'fn'))
+        throw new EngineError('reading a property of a value (x.name) is not part of the sheet language: index a matrix with x[k]', place.line, columnOf(n));
     }
-    if (n.type === 'OperatorNode' && !ALLOWED_OPERATORS.has(String(a.fn))) throw new EngineError(`the operator ${String(a.op)} is not part of the sheet language`, place.line, columnOf(n));
+    if (n.type === 'OperatorNode' && !ALLOWED_OPERATORS.has(String(a.fn)))
+      throw new EngineError(`the operator ${String(a.op)} is not part of the sheet language`, place.line, columnOf(n));
   });
   for (const fn of functionsOf(node)) {
     const f = fn.fn as AnyNode;
@@ -147,7 +157,12 @@ export function checkNames(node: MathNode, source: string, scope: SheetScope, pl
     const name = String(f.name);
     if (scope.has(name) && typeof scope.values.get(name) === 'function') continue;
     if (ALLOWED_FUNCTIONS.has(name) && typeof (math as unknown as Record<string, unknown>)[name] === 'function') continue;
-    if (isBuiltin(name)) throw new EngineError(`the function ${name} is not part of the sheet language (LANGUAGE.md lists the functions a sheet may call)`, place.line, columnOf(fn));
+    if (isBuiltin(name))
+      throw new EngineError(
+        `the function ${name} is not part of the sheet language (LANGUAGE.md lists the functions a sheet may call)`,
+        place.line,
+        columnOf(fn),
+      );
     throw new EngineError(`unknown function ${name}`, place.line, columnOf(fn));
   }
   for (const sym of symbolsOf(node)) {
@@ -158,14 +173,23 @@ export function checkNames(node: MathNode, source: string, scope: SheetScope, pl
     const later = scope.definedLater(name, place);
     const isUnit = Unit.isValuelessUnit(name);
     if (later && !isUnit) {
-      throw new EngineError(`${name} is used before it is defined: it is defined at ${describePlace(later)}; move this line below it`, place.line, columnOf(sym));
+      throw new EngineError(
+        `${name} is used before it is defined: it is defined at ${describePlace(later)}; move this line below it`,
+        place.line,
+        columnOf(sym),
+      );
     }
     if (later && isUnit) {
-      warnings.push({ line: place.line, column: columnOf(sym), message: `${name} here means the unit ${name}; the variable ${name} is only defined later, at ${describePlace(later)}` });
+      warnings.push({
+        line: place.line,
+        column: columnOf(sym),
+        message: `${name} here means the unit ${name}; the variable ${name} is only defined later, at ${describePlace(later)}`,
+      });
       continue;
     }
     if (isUnit || ALLOWED_CONSTANTS.has(name)) continue;
-    if (ALLOWED_FUNCTIONS.has(name)) throw new EngineError(`${name} is a function: call it with its arguments, for example ${name}(x)`, place.line, columnOf(sym));
+    if (ALLOWED_FUNCTIONS.has(name))
+      throw new EngineError(`${name} is a function: call it with its arguments, for example ${name}(x)`, place.line, columnOf(sym));
     if (isBuiltin(name)) throw new EngineError(`${name} is not part of the sheet language`, place.line, columnOf(sym));
     throw new EngineError(`unknown name ${name}: it is not defined above, and it is not a unit, constant or function`, place.line, columnOf(sym));
   }
@@ -173,7 +197,14 @@ export function checkNames(node: MathNode, source: string, scope: SheetScope, pl
 }
 
 /** Evaluates a checked expression; on failure, says which operator or function failed and where. */
-export function evaluateNode(node: MathNode, compiled: { evaluate(scope?: unknown): unknown }, mathScope: Map<string, unknown>, source: string, line: number, offset = 0): unknown {
+export function evaluateNode(
+  node: MathNode,
+  compiled: { evaluate(scope?: unknown): unknown },
+  mathScope: Map<string, unknown>,
+  source: string,
+  line: number,
+  offset = 0,
+): unknown {
   try {
     return compiled.evaluate(mathScope);
   } catch (err) {
@@ -214,7 +245,14 @@ export function locateFailure(root: MathNode, scope: Map<string, unknown>, sourc
   };
   descend(root);
   const c = culprit as AnyNode;
-  const fnName = c.type === 'OperatorNode' ? String(c.fn) : c.type === 'RelationalNode' ? String((c.conditionals as string[])[0]) : c.type === 'FunctionNode' ? String((c.fn as AnyNode).name) : undefined;
+  const fnName =
+    c.type === 'OperatorNode'
+      ? String(c.fn)
+      : c.type === 'RelationalNode'
+        ? String((c.conditionals as string[])[0])
+        : c.type === 'FunctionNode'
+          ? String((c.fn as AnyNode).name)
+          : undefined;
   let message = explain(error, { fn: fnName, operands });
   if (c.type === 'FunctionNode' && !message.includes(String((c.fn as AnyNode).name))) message = `in ${String((c.fn as AnyNode).name)}: ${message}`;
   return new EngineError(message, line, columns.get(culprit) ?? offset + 1);

@@ -119,9 +119,26 @@ function rangeStringNumbers(text: string): number[] {
 }
 
 /** Element-wise and matrix operations whose result can be larger than either operand (broadcasting, outer products). */
-const COMBINING = ['multiply', 'divide', 'dotMultiply', 'dotDivide', 'dotPow', 'pow', 'mod', 'and', 'or', 'xor', 'atan2', 'hypot', 'nthRoot', 'gcd', 'lcm'] as const;
+const COMBINING = [
+  'multiply',
+  'divide',
+  'dotMultiply',
+  'dotDivide',
+  'dotPow',
+  'pow',
+  'mod',
+  'and',
+  'or',
+  'xor',
+  'atan2',
+  'hypot',
+  'nthRoot',
+  'gcd',
+  'lcm',
+] as const;
 
-const sizeArgs = (args: unknown[]) => args.flatMap((a) => (Array.isArray(a) ? a : math.isMatrix(a) ? (a.toArray() as unknown[]) : [a])).filter((a) => typeof a === 'number') as number[];
+const sizeArgs = (args: unknown[]) =>
+  args.flatMap((a) => (Array.isArray(a) ? a : math.isMatrix(a) ? (a.toArray() as unknown[]) : [a])).filter((a) => typeof a === 'number') as number[];
 
 function unitValueAs(u: MathUnit, fn: (v: unknown) => unknown): MathUnit {
   return withValue(u, fn((u as unknown as { value: unknown }).value));
@@ -173,7 +190,8 @@ math.import(
       const strings = args.filter((a): a is string => typeof a === 'string');
       if (strings.length === args.length || strings.length === args.length - 1) {
         const length = strings.reduce((n, a) => n + a.length, 0);
-        if (length > MAX_STRING_LENGTH) throw new Error(`a string of ${length.toLocaleString('en')} characters is longer than the limit of ${MAX_STRING_LENGTH.toLocaleString('en')}`);
+        if (length > MAX_STRING_LENGTH)
+          throw new Error(`a string of ${length.toLocaleString('en')} characters is longer than the limit of ${MAX_STRING_LENGTH.toLocaleString('en')}`);
       }
       checkSize([args.reduce((n: number, a) => n + (dimsOf(a) ? countOf(a) : 0), 0)]);
       return origConcat(...args);
@@ -238,10 +256,48 @@ math.import({ j: math.complex(0, 1) }, { override: false });
  * checked instead (language/expression.ts), before anything is evaluated.
  */
 export const DISABLED_FUNCTIONS = [
-  'import', 'createUnit', 'evaluate', 'parse', 'simplify', 'simplifyConstant', 'simplifyCore', 'derivative',
-  'resolve', 'compile', 'parser', 'rationalize', 'leafCount', 'symbolicEqual', 'help',
+  'import',
+  'createUnit',
+  'evaluate',
+  'parse',
+  'simplify',
+  'simplifyConstant',
+  'simplifyCore',
+  'derivative',
+  'resolve',
+  'compile',
+  'parser',
+  'rationalize',
+  'leafCount',
+  'symbolicEqual',
+  'help',
 ] as const;
-export const REFUSED_NAMES = new Set<string>([...DISABLED_FUNCTIONS, 'typed', 'config', 'chain', 'reviver', 'replacer', 'format', 'print', 'Unit', 'Complex', 'Node', 'SymbolNode', 'FunctionNode', 'Parser', 'Help', 'ResultSet', 'Chain', 'Matrix', 'DenseMatrix', 'SparseMatrix', 'Range', 'Index', 'splitUnit', 'createUnitClass']);
+export const REFUSED_NAMES = new Set<string>([
+  ...DISABLED_FUNCTIONS,
+  'typed',
+  'config',
+  'chain',
+  'reviver',
+  'replacer',
+  'format',
+  'print',
+  'Unit',
+  'Complex',
+  'Node',
+  'SymbolNode',
+  'FunctionNode',
+  'Parser',
+  'Help',
+  'ResultSet',
+  'Chain',
+  'Matrix',
+  'DenseMatrix',
+  'SparseMatrix',
+  'Range',
+  'Index',
+  'splitUnit',
+  'createUnitClass',
+]);
 
 export function disableUnsafeFunctions(instance: MathJsInstance): void {
   const disabled: Record<string, () => never> = {};

@@ -31,7 +31,11 @@ export function compileSweepKernel(node: MathNode, variable: string, scope: Map<
     const fn = compileNumeric(m);
     if (!fn) throw new Unsupported();
     const v: Num = fn(scope, NaN);
-    return typeof v === 'number' ? { kind: 'r', v: literal(v) } : v.im === 0 ? { kind: 'r', v: literal(v.re) } : { kind: 'c', re: literal(v.re), im: literal(v.im) };
+    return typeof v === 'number'
+      ? { kind: 'r', v: literal(v) }
+      : v.im === 0
+        ? { kind: 'r', v: literal(v.re) }
+        : { kind: 'c', re: literal(v.re), im: literal(v.im) };
   };
   const real = (code: string): Part => {
     const t = temp();
@@ -111,7 +115,18 @@ export function compileSweepKernel(node: MathNode, variable: string, scope: Map<
         const args = (n.args as MathNode[]).map(gen);
         if (args.length !== 1) throw new Unsupported();
         const [a] = args;
-        const mathFn: Record<string, string> = { sin: 'Math.sin', cos: 'Math.cos', tan: 'Math.tan', atan: 'Math.atan', exp: 'Math.exp', log: 'Math.log', log10: 'Math.log10', sinh: 'Math.sinh', cosh: 'Math.cosh', tanh: 'Math.tanh' };
+        const mathFn: Record<string, string> = {
+          sin: 'Math.sin',
+          cos: 'Math.cos',
+          tan: 'Math.tan',
+          atan: 'Math.atan',
+          exp: 'Math.exp',
+          log: 'Math.log',
+          log10: 'Math.log10',
+          sinh: 'Math.sinh',
+          cosh: 'Math.cosh',
+          tanh: 'Math.tanh',
+        };
         if (a.kind === 'r' && mathFn[name]) return real(`${mathFn[name]}(${a.v})`);
         if (a.kind === 'r' && name === 'sqrt') {
           lines.push(`if (${a.v} < 0) throw fallback;`);

@@ -41,10 +41,23 @@ const pow = (a: Num, b: Num): Num | undefined => {
   }
   return undefined;
 };
-const real = (f: (x: number) => number) => (a: Num): Num | undefined => (typeof a === 'number' ? f(a) : undefined);
+const real =
+  (f: (x: number) => number) =>
+  (a: Num): Num | undefined =>
+    typeof a === 'number' ? f(a) : undefined;
 const FUNCTIONS: Record<string, (a: Num) => Num | undefined> = {
-  sin: real(Math.sin), cos: real(Math.cos), tan: real(Math.tan), atan: real(Math.atan), asin: real(Math.asin), acos: real(Math.acos),
-  exp: real(Math.exp), log: real(Math.log), log10: real(Math.log10), sinh: real(Math.sinh), cosh: real(Math.cosh), tanh: real(Math.tanh),
+  sin: real(Math.sin),
+  cos: real(Math.cos),
+  tan: real(Math.tan),
+  atan: real(Math.atan),
+  asin: real(Math.asin),
+  acos: real(Math.acos),
+  exp: real(Math.exp),
+  log: real(Math.log),
+  log10: real(Math.log10),
+  sinh: real(Math.sinh),
+  cosh: real(Math.cosh),
+  tanh: real(Math.tanh),
   sqrt: (a) => (typeof a === 'number' ? (a >= 0 ? Math.sqrt(a) : undefined) : undefined),
   abs: (a) => (typeof a === 'number' ? Math.abs(a) : Math.hypot(a.re, a.im)),
   re: (a) => cx(a).re,
@@ -103,12 +116,21 @@ export function compileNumeric(node: MathNode, variable?: string): NumericFn | u
         if (args.length !== 2) throw new Unsupported();
         const [a, b] = args;
         switch (fn) {
-          case 'add': return (v, x) => add(a(v, x), b(v, x));
-          case 'subtract': return (v, x) => sub(a(v, x), b(v, x));
-          case 'multiply': case 'dotMultiply': return (v, x) => mul(a(v, x), b(v, x));
-          case 'divide': case 'dotDivide': return (v, x) => div(a(v, x), b(v, x));
-          case 'pow': case 'dotPow': return (v, x) => need(pow(a(v, x), b(v, x)));
-          default: throw new Unsupported();
+          case 'add':
+            return (v, x) => add(a(v, x), b(v, x));
+          case 'subtract':
+            return (v, x) => sub(a(v, x), b(v, x));
+          case 'multiply':
+          case 'dotMultiply':
+            return (v, x) => mul(a(v, x), b(v, x));
+          case 'divide':
+          case 'dotDivide':
+            return (v, x) => div(a(v, x), b(v, x));
+          case 'pow':
+          case 'dotPow':
+            return (v, x) => need(pow(a(v, x), b(v, x)));
+          default:
+            throw new Unsupported();
         }
       }
       case 'FunctionNode': {

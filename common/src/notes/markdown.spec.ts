@@ -18,8 +18,25 @@ describe('notes as Markdown with maths (markdown-it 14.3.3, CommonMark)', () => 
   it('reads headings, emphasis, lists, quotes, code and rules (CommonMark 0.31, sections 4 and 6)', () => {
     const blocks = parseNote('# Title $X_L$\n\nSome **bold**, *italic* and `code`.\n\n1. one\n2. two\n\n- a\n- b\n\n> quoted\n\n    indented code\n\n---');
     expect(blocks.map((b) => b.kind)).toEqual(['heading', 'paragraph', 'list', 'list', 'paragraph', 'code', 'rule']);
-    expect(blocks[0]).toEqual({ kind: 'heading', level: 1, inlines: [{ kind: 'text', text: 'Title ' }, { kind: 'maths', tex: 'X_L' }] });
-    expect(blocks[1]).toMatchObject({ inlines: [{ text: 'Some ' }, { text: 'bold', strong: true }, { text: ', ' }, { text: 'italic', emphasis: true }, { text: ' and ' }, { text: 'code', code: true }, { text: '.' }] });
+    expect(blocks[0]).toEqual({
+      kind: 'heading',
+      level: 1,
+      inlines: [
+        { kind: 'text', text: 'Title ' },
+        { kind: 'maths', tex: 'X_L' },
+      ],
+    });
+    expect(blocks[1]).toMatchObject({
+      inlines: [
+        { text: 'Some ' },
+        { text: 'bold', strong: true },
+        { text: ', ' },
+        { text: 'italic', emphasis: true },
+        { text: ' and ' },
+        { text: 'code', code: true },
+        { text: '.' },
+      ],
+    });
     expect(blocks[2]).toMatchObject({ ordered: true, start: 1, items: [[{ text: 'one' }], [{ text: 'two' }]] });
     expect(blocks[3]).toMatchObject({ ordered: false, items: [[{ text: 'a' }], [{ text: 'b' }]] });
     expect(blocks[4]).toMatchObject({ quote: true, inlines: [{ text: 'quoted' }] });
@@ -30,7 +47,13 @@ describe('notes as Markdown with maths (markdown-it 14.3.3, CommonMark)', () => 
     const link = p.kind === 'paragraph' ? p.inlines.find((r) => r.kind === 'link') : undefined;
     expect(link).toEqual({ kind: 'link', text: 'the datasheet', address: 'https://example.com/ds.pdf' });
     expect(linkText(link as { text: string; address: string })).toBe('the datasheet (https://example.com/ds.pdf)');
-    expect(p.kind === 'paragraph' && p.inlines.filter((r) => r.kind === 'text').map((r) => (r as { text: string }).text).join('')).toContain('<a href="javascript:alert(1)">x</a>');
+    expect(
+      p.kind === 'paragraph' &&
+        p.inlines
+          .filter((r) => r.kind === 'text')
+          .map((r) => (r as { text: string }).text)
+          .join(''),
+    ).toContain('<a href="javascript:alert(1)">x</a>');
   });
 
   it('keeps an escaped dollar as a dollar', () => {

@@ -106,7 +106,8 @@ function inlinesOf(tokens: Token[] | null, budget: { maths: number }): NoteInlin
   let link: { address: string; text: string } | undefined;
   const text = (t: string, code = false) => {
     if (link) link.text += t;
-    else if (t) out.push({ kind: 'text', text: t, ...(strong ? { strong: true } : {}), ...(emphasis ? { emphasis: true } : {}), ...(code ? { code: true } : {}) });
+    else if (t)
+      out.push({ kind: 'text', text: t, ...(strong ? { strong: true } : {}), ...(emphasis ? { emphasis: true } : {}), ...(code ? { code: true } : {}) });
   };
   for (const t of tokens ?? []) {
     switch (t.type) {

@@ -29,14 +29,26 @@ export function scaleFor(values: number[], range: [number, number], log: boolean
     hi += d;
   }
   const pad = (hi - lo) * padFraction;
-  return scaleLinear().domain([lo - pad, hi + pad]).range(range).nice();
+  return scaleLinear()
+    .domain([lo - pad, hi + pad])
+    .range(range)
+    .nice();
 }
 
 /** Engineering-style tick text: 1k, 2.5m, 100 and so on, with few digits. */
 export function tickText(v: number): string {
   if (v === 0) return '0';
   const a = Math.abs(v);
-  const prefixes: [number, string][] = [[1e9, 'G'], [1e6, 'M'], [1e3, 'k'], [1, ''], [1e-3, 'm'], [1e-6, 'µ'], [1e-9, 'n'], [1e-12, 'p']];
+  const prefixes: [number, string][] = [
+    [1e9, 'G'],
+    [1e6, 'M'],
+    [1e3, 'k'],
+    [1, ''],
+    [1e-3, 'm'],
+    [1e-6, 'µ'],
+    [1e-9, 'n'],
+    [1e-12, 'p'],
+  ];
   const [factor, p] = prefixes.find(([f]) => a >= f) ?? prefixes[prefixes.length - 1];
   const scaled = v / factor;
   return `${Number(scaled.toPrecision(3))}${p}`;

@@ -65,10 +65,28 @@ export function sweepChart(result: SweepResult, options: ChartOptions = {}): str
     const finite = all.filter(Number.isFinite);
     const wide = positive && finite.length > 0 && Math.max(...finite) / Math.min(...finite) > 100;
     const y = scaleFor(all, [top + panelH, top], !panel.phase && wide, 0.05);
-    const label = panel.phase ? 'phase [deg]' : axisLabel(panel.series.length === 1 ? (panel.series[0].complex ? `|${shortName(panel.series[0].name)}|` : shortName(panel.series[0].name)) : panel.series.some((s) => s.complex) ? 'magnitude' : 'value', panel.unit);
+    const label = panel.phase
+      ? 'phase [deg]'
+      : axisLabel(
+          panel.series.length === 1
+            ? panel.series[0].complex
+              ? `|${shortName(panel.series[0].name)}|`
+              : shortName(panel.series[0].name)
+            : panel.series.some((s) => s.complex)
+              ? 'magnitude'
+              : 'value',
+          panel.unit,
+        );
     out.push(...drawAxes(frame, x, y, axisLabel(v.name, v.unit), label));
     ys.forEach((vals, i) => out.push(el('path', { d: path(v.values, vals, x, y), fill: 'none', stroke: TRACE[i % TRACE.length], 'stroke-width': 1.6 })));
-    if (panel.series.length > 1) out.push(...legend(left + 10, top + 12, panel.series.map((s, i) => ({ label: shortName(s.name), colour: TRACE[i % TRACE.length] }))));
+    if (panel.series.length > 1)
+      out.push(
+        ...legend(
+          left + 10,
+          top + 12,
+          panel.series.map((s, i) => ({ label: shortName(s.name), colour: TRACE[i % TRACE.length] })),
+        ),
+      );
   });
   return svgDocument(W, height, `Response against ${v.name}`, out);
 }
@@ -86,12 +104,26 @@ export function transientChart(result: TransientResult): string | null {
   if (result.currentSteady) series.push({ s: result.currentSteady, colour: PLOT_COLOURS.copper, dash: '5 3', label: 'steady periodic part' });
   if (result.currentTransient) series.push({ s: result.currentTransient, colour: PLOT_COLOURS.grey, dash: '2 2', label: 'transient part' });
   const x = scaleFor(t.values, [left, left + frame.width], false);
-  const y = scaleFor(series.flatMap((s) => s.s.values), [frame.top + frame.height, frame.top], false, 0.05);
+  const y = scaleFor(
+    series.flatMap((s) => s.s.values),
+    [frame.top + frame.height, frame.top],
+    false,
+    0.05,
+  );
   const out = drawAxes(frame, x, y, axisLabel('t', t.unit), axisLabel('i', i.unit));
   const [y0, y1] = y.domain();
   if (y0 < 0 && y1 > 0) out.push(el('line', { x1: left, x2: left + frame.width, y1: y(0), y2: y(0), stroke: PLOT_COLOURS.grey, 'stroke-width': 0.8 }));
-  for (const s of series) out.push(el('path', { d: path(t.values, s.s.values, x, y), fill: 'none', stroke: s.colour, 'stroke-width': s.dash ? 1.2 : 1.6, 'stroke-dasharray': s.dash }));
-  out.push(...legend(left + frame.width - 170, frame.top + 12, series.map((s) => ({ label: s.label, colour: s.colour, dash: s.dash }))));
+  for (const s of series)
+    out.push(
+      el('path', { d: path(t.values, s.s.values, x, y), fill: 'none', stroke: s.colour, 'stroke-width': s.dash ? 1.2 : 1.6, 'stroke-dasharray': s.dash }),
+    );
+  out.push(
+    ...legend(
+      left + frame.width - 170,
+      frame.top + 12,
+      series.map((s) => ({ label: s.label, colour: s.colour, dash: s.dash })),
+    ),
+  );
   return svgDocument(W, frame.top + frame.height + 46, 'Current against time', out);
 }
 
@@ -153,7 +185,11 @@ export function phasorDiagram(phasors: Phasor[]): string {
     el('line', { x1: c, x2: c, y1: c - radius - 10, y2: c + radius + 10, stroke: PLOT_COLOURS.grey, 'stroke-width': 0.8 }),
     text(c + radius + 12, c + 4, 'Re'),
     text(c + 4, c - radius - 12, 'Im'),
-    el('defs', {}, [el('marker', { id: 'aw-arrow', viewBox: '0 0 10 10', refX: 9, refY: 5, markerWidth: 7, markerHeight: 7, orient: 'auto-start-reverse' }, [el('path', { d: 'M0,0 L10,5 L0,10 z', fill: 'context-stroke' })])]),
+    el('defs', {}, [
+      el('marker', { id: 'aw-arrow', viewBox: '0 0 10 10', refX: 9, refY: 5, markerWidth: 7, markerHeight: 7, orient: 'auto-start-reverse' }, [
+        el('path', { d: 'M0,0 L10,5 L0,10 z', fill: 'context-stroke' }),
+      ]),
+    ]),
   ];
   phasors.forEach((p, i) => {
     const m = maxByUnit.get(p.value.siUnit) || 1;
@@ -178,7 +214,15 @@ export function calcFigures(result: CalcResult): CalcFigure[] {
   const figures: CalcFigure[] = [];
   for (const z of all.filter(isImpedance)) {
     const [mag, ang] = polar([z.value.display, z.value.displayAlt ?? ''].find((d) => d.includes('∠')) ?? '');
-    figures.push({ kind: 'impedance-triangle', svg: impedanceTriangle(z.name, z.re, z.im, { R: `${Number(z.re.toPrecision(4))} Ω`, X: `${Number(z.im.toPrecision(4))} Ω`, Z: mag ?? `${Number(Math.hypot(z.re, z.im).toPrecision(4))} Ω`, phi: ang ?? `${((Math.atan2(z.im, z.re) * 180) / Math.PI).toFixed(1)}°` }) });
+    figures.push({
+      kind: 'impedance-triangle',
+      svg: impedanceTriangle(z.name, z.re, z.im, {
+        R: `${Number(z.re.toPrecision(4))} Ω`,
+        X: `${Number(z.im.toPrecision(4))} Ω`,
+        Z: mag ?? `${Number(Math.hypot(z.re, z.im).toPrecision(4))} Ω`,
+        phi: ang ?? `${((Math.atan2(z.im, z.re) * 180) / Math.PI).toFixed(1)}°`,
+      }),
+    });
   }
   const others = all.filter((p) => !isImpedance(p));
   if (others.length) figures.push({ kind: 'phasors', svg: phasorDiagram(others) });

@@ -4,7 +4,16 @@ import { CELL_KINDS } from '../sheet/sheet-format';
 import { checkPresentation, KIND_LABELS } from './presentation';
 
 const check = (pass: boolean | null, utilization: number | null, severity: 'mandatory' | 'advisory' = 'mandatory'): CheckResult =>
-  ({ kind: 'check', status: 'ok', errors: [], warnings: [], pass, utilization, margin: utilization === null ? null : 1 - utilization, severity }) as CheckResult;
+  ({
+    kind: 'check',
+    status: 'ok',
+    errors: [],
+    warnings: [],
+    pass,
+    utilization,
+    margin: utilization === null ? null : 1 - utilization,
+    severity,
+  }) as CheckResult;
 
 describe('the presentation shared by the screen and the package', () => {
   it('names every cell kind', () => {

@@ -6,7 +6,15 @@ import type { CellKind } from '../sheet/sheet-format';
 import type { CheckResult } from '../cells/types';
 
 /** Every kind's name; a new kind does not compile until it has one. */
-export const KIND_LABELS: Record<CellKind, string> = { note: 'Note', calc: 'Calculation', check: 'Check', sweep: 'Sweep', transient: 'Transient', table: 'Table', figure: 'Figure' };
+export const KIND_LABELS: Record<CellKind, string> = {
+  note: 'Note',
+  calc: 'Calculation',
+  check: 'Check',
+  sweep: 'Sweep',
+  transient: 'Transient',
+  table: 'Table',
+  figure: 'Figure',
+};
 
 export const kindLabel = (kind: string) => KIND_LABELS[kind as CellKind] ?? kind;
 

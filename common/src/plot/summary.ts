@@ -29,9 +29,16 @@ export function transientSummary(r: TransientResult): SummaryRow[] {
   rows.push(...extremaRows('current', 'i', r.peaks?.current), ...extremaRows('capacitor voltage', 'v_C = q/C', r.peaks?.capacitorVoltage));
   const s = r.steady;
   if (s?.q_ss) rows.push({ label: 'Steady state', text: `q = ${s.q_ss.display}, v_C = ${s.v_C_ss.display}, i = ${s.i_ss.display}` });
-  if (s?.I_ss) rows.push({ label: 'Steady state (amplitudes)', text: `i: ${s.I_ss.display}; q: ${s.Q_ss.display}; v_C: ${s.V_C_ss.display}; delay angle φ = ${s.phi.display}` });
+  if (s?.I_ss)
+    rows.push({
+      label: 'Steady state (amplitudes)',
+      text: `i: ${s.I_ss.display}; q: ${s.Q_ss.display}; v_C: ${s.V_C_ss.display}; delay angle φ = ${s.phi.display}`,
+    });
   if (r.peaks) {
-    const agreement = r.analytic?.available && r.maxRelativeDeviation !== undefined ? `; the numeric solution agrees with the analytic one within ${(r.maxRelativeDeviation * 100).toExponential(1)} % of the peak` : '';
+    const agreement =
+      r.analytic?.available && r.maxRelativeDeviation !== undefined
+        ? `; the numeric solution agrees with the analytic one within ${(r.maxRelativeDeviation * 100).toExponential(1)} % of the peak`
+        : '';
     rows.push({
       label: 'Method',
       text: `${r.peaks.from === 'analytic' ? 'extrema from the analytic solution' : 'extrema from the solver’s dense output'}, by root-finding the slope; ${r.solver ? `solver ${r.solver.name} ${r.solver.version}, ${r.solver.steps} steps` : ''}${agreement}`,

@@ -58,7 +58,14 @@ export function diffCells(before: SnapshotCell[], after: SnapshotCell[]): CellDi
     seen.add(c.id);
     if (!prior) {
       const results = Object.entries(resultValues(c.results)).map(([name, v]) => ({ name, before: null, after: v }));
-      return { id: c.id, kind: c.kind, status: 'added', position, inputs: Object.entries(c.fields).map(([field, v]) => ({ field, before: undefined, after: v })), results };
+      return {
+        id: c.id,
+        kind: c.kind,
+        status: 'added',
+        position,
+        inputs: Object.entries(c.fields).map(([field, v]) => ({ field, before: undefined, after: v })),
+        results,
+      };
     }
     const fields = new Set([...Object.keys(prior.fields), ...Object.keys(c.fields), 'kind']);
     const inputs = [...fields].flatMap((field) => {
@@ -74,7 +81,14 @@ export function diffCells(before: SnapshotCell[], after: SnapshotCell[]): CellDi
   });
   before.forEach((c, position) => {
     if (!seen.has(c.id)) {
-      out.push({ id: c.id, kind: c.kind, status: 'removed', position, inputs: Object.entries(c.fields).map(([field, v]) => ({ field, before: v, after: undefined })), results: Object.entries(resultValues(c.results)).map(([name, v]) => ({ name, before: v, after: null })) });
+      out.push({
+        id: c.id,
+        kind: c.kind,
+        status: 'removed',
+        position,
+        inputs: Object.entries(c.fields).map(([field, v]) => ({ field, before: v, after: undefined })),
+        results: Object.entries(resultValues(c.results)).map(([name, v]) => ({ name, before: v, after: null })),
+      });
     }
   });
   return out;

@@ -16,7 +16,12 @@ export function canonicalJson(value: unknown): string {
     if (Array.isArray(v)) return v.map(canon);
     if (v && typeof v === 'object') {
       const o = v as Record<string, unknown>;
-      return Object.fromEntries(Object.keys(o).filter((k) => o[k] !== undefined).sort().map((k) => [k, canon(o[k])]));
+      return Object.fromEntries(
+        Object.keys(o)
+          .filter((k) => o[k] !== undefined)
+          .sort()
+          .map((k) => [k, canon(o[k])]),
+      );
     }
     return v;
   };

@@ -63,7 +63,15 @@ export interface SheetFacts {
 /** The rulebook's facts of a sheet as the API gives it (the app's view), with its named co-preparers. */
 export function factsOfSheet(sheet: SheetDto): SheetFacts & { coPreparerIds: string[] } {
   const { state, preparer, checker, approver, openQueries } = sheet;
-  return { state, preparer, checker, approver, openQueries, authors: new Map(sheet.authorIds.map((id) => [id, ''])), coPreparerIds: sheet.coPreparers.map((p) => p.id) };
+  return {
+    state,
+    preparer,
+    checker,
+    approver,
+    openQueries,
+    authors: new Map(sheet.authorIds.map((id) => [id, ''])),
+    coPreparerIds: sheet.coPreparers.map((p) => p.id),
+  };
 }
 
 /** Who wants to act. */
@@ -95,13 +103,22 @@ export interface Refusal {
 
 const is = (actor: Actor, person: Person | null | undefined) => !!person && person.id === actor.id;
 const notYours = (message: string): Refusal => ({ code: WorkflowCode.NotYours, kind: 'forbidden', message });
-const preparedIt = (doing: string): Refusal => ({ code: WorkflowCode.NotIndependent, kind: 'forbidden', message: `You prepared this sheet, so you cannot ${doing}: checking and approval are done by someone else.` });
+const preparedIt = (doing: string): Refusal => ({
+  code: WorkflowCode.NotIndependent,
+  kind: 'forbidden',
+  message: `You prepared this sheet, so you cannot ${doing}: checking and approval are done by someone else.`,
+});
 
 /**
  * Independent checking (common practice): the checker is none of the revision's authors; the approver is
  * none of them and not the checker.
  */
-export function independenceRefusal(role: 'checker' | 'approver', person: { id: string; name?: string }, authors: ReadonlyMap<string, string>, checkerId?: string): Refusal | undefined {
+export function independenceRefusal(
+  role: 'checker' | 'approver',
+  person: { id: string; name?: string },
+  authors: ReadonlyMap<string, string>,
+  checkerId?: string,
+): Refusal | undefined {
   const name = person.name ?? authors.get(person.id) ?? 'This person';
   if (authors.has(person.id)) {
     return {
@@ -112,7 +129,12 @@ export function independenceRefusal(role: 'checker' | 'approver', person: { id: 
     };
   }
   if (role === 'approver' && person.id === checkerId) {
-    return { code: WorkflowCode.NotIndependent, kind: 'invalid', message: 'The checker cannot also approve it: the approver is a third person.', details: [{ field: 'approverId', message: 'the checker cannot approve the sheet they checked' }] };
+    return {
+      code: WorkflowCode.NotIndependent,
+      kind: 'invalid',
+      message: 'The checker cannot also approve it: the approver is a third person.',
+      details: [{ field: 'approverId', message: 'the checker cannot approve the sheet they checked' }],
+    };
   }
   return undefined;
 }
@@ -120,7 +142,11 @@ export function independenceRefusal(role: 'checker' | 'approver', person: { id: 
 /** Refuses `doing` unless the sheet is in one of the states `from` (moves, and the checker's work on queries). */
 export function stateRefusal(state: SheetState, from: readonly SheetState[], doing: string): Refusal | undefined {
   if (from.includes(state)) return undefined;
-  return { code: WorkflowCode.OutOfTurn, kind: 'conflict', message: `You cannot ${doing}: the sheet is ${STATE_WORDS[state]}, and this needs it ${from.map((s) => STATE_WORDS[s]).join(' or ')}.` };
+  return {
+    code: WorkflowCode.OutOfTurn,
+    kind: 'conflict',
+    message: `You cannot ${doing}: the sheet is ${STATE_WORDS[state]}, and this needs it ${from.map((s) => STATE_WORDS[s]).join(' or ')}.`,
+  };
 }
 
 /** Refuses `doing` to anyone but the sheet's assigned checker. */
@@ -128,14 +154,14 @@ export function checkerRefusal(sheet: Pick<SheetFacts, 'checker'>, actor: Actor,
   return is(actor, sheet.checker) ? undefined : notYours(`Only the sheet's assigned checker${sheet.checker ? ` (${sheet.checker.name})` : ''} can ${doing}.`);
 }
 
-
 /**
  * Whether `actor` may make `move` on a sheet now, and if not, why (the first rule that fails, in the
  * order a person would want to hear them). For `request-check`, `choice` is the checker and approver asked for.
  */
 export function refusalOf(move: WorkflowMove, sheet: SheetFacts, actor: Actor, choice: { checkerId?: string; approverId?: string } = {}): Refusal | undefined {
   const roles = MOVES[move].roles;
-  if (!roles.some((r) => actor.roles.includes(r))) return notYours(`Only ${roles.map((r) => `an ${r}`.replace(/^an ([^aeiou])/, 'a $1')).join(' or ')} can ${MOVES[move].doing}.`);
+  if (!roles.some((r) => actor.roles.includes(r)))
+    return notYours(`Only ${roles.map((r) => `an ${r}`.replace(/^an ([^aeiou])/, 'a $1')).join(' or ')} can ${MOVES[move].doing}.`);
   const state = stateRefusal(sheet.state, MOVES[move].from, MOVES[move].doing);
   if (state) return state;
   switch (move) {
@@ -158,7 +184,11 @@ export function refusalOf(move: WorkflowMove, sheet: SheetFacts, actor: Actor, c
       if (independent) return independent;
       if (sheet.openQueries > 0) {
         const n = sheet.openQueries;
-        return { code: WorkflowCode.OpenQueries, kind: 'conflict', message: `The check cannot pass while ${n} ${n === 1 ? 'query is' : 'queries are'} not closed.` };
+        return {
+          code: WorkflowCode.OpenQueries,
+          kind: 'conflict',
+          message: `The check cannot pass while ${n} ${n === 1 ? 'query is' : 'queries are'} not closed.`,
+        };
       }
       return undefined;
     }
@@ -166,12 +196,14 @@ export function refusalOf(move: WorkflowMove, sheet: SheetFacts, actor: Actor, c
     case 'issue': {
       if (is(actor, sheet.preparer)) return preparedIt(move === 'approve' ? 'approve it' : 'issue it');
       if (move === 'approve' && sheet.approver && !is(actor, sheet.approver)) return notYours(`The sheet is to be approved by ${sheet.approver.name}.`);
-      if (move === 'issue' && !is(actor, sheet.approver)) return notYours(`Only the approver${sheet.approver ? ` (${sheet.approver.name})` : ''} can issue the sheet.`);
+      if (move === 'issue' && !is(actor, sheet.approver))
+        return notYours(`Only the approver${sheet.approver ? ` (${sheet.approver.name})` : ''} can issue the sheet.`);
       return independenceRefusal('approver', { id: actor.id, name: actor.name }, sheet.authors, sheet.checker?.id);
     }
     case 'return-to-checker': {
       const isOwner = actor.roles.includes('owner');
-      if (!isOwner && sheet.approver && !is(actor, sheet.approver)) return notYours(`Only the sheet's approver (${sheet.approver.name}) or an owner can return it to the checker.`);
+      if (!isOwner && sheet.approver && !is(actor, sheet.approver))
+        return notYours(`Only the sheet's approver (${sheet.approver.name}) or an owner can return it to the checker.`);
       return independenceRefusal('approver', { id: actor.id, name: actor.name }, sheet.authors, sheet.checker?.id);
     }
     case 'new-revision':
@@ -189,16 +221,28 @@ export function allowedMoves(sheet: SheetFacts, actor: Actor): WorkflowMove[] {
  * state, and the actor a sheet editor who is its preparer or a co-preparer the preparer named for this
  * revision — never its checker or approver, who raise queries instead.
  */
-export function editRefusal(sheet: Pick<SheetFacts, 'state' | 'preparer' | 'checker' | 'approver'> & { coPreparerIds: readonly string[] }, actor: Actor): Refusal | undefined {
-  if (!isEditable(sheet.state)) return { code: WorkflowCode.ReadOnly, kind: 'conflict', message: `The sheet is ${sheet.state.replace('-', ' ')} and can no longer be edited.` };
+export function editRefusal(
+  sheet: Pick<SheetFacts, 'state' | 'preparer' | 'checker' | 'approver'> & { coPreparerIds: readonly string[] },
+  actor: Actor,
+): Refusal | undefined {
+  if (!isEditable(sheet.state))
+    return { code: WorkflowCode.ReadOnly, kind: 'conflict', message: `The sheet is ${sheet.state.replace('-', ' ')} and can no longer be edited.` };
   if (!SHEET_EDITORS.some((r) => actor.roles.includes(r))) return notYours('Only an owner or an engineer can change a sheet.');
   if (is(actor, sheet.preparer)) return undefined;
   if (is(actor, sheet.checker) || is(actor, sheet.approver)) {
-    return { code: WorkflowCode.NotIndependent, kind: 'forbidden', message: "You are this sheet's checker or approver, so you do not edit it: raise a query for the preparer instead." };
+    return {
+      code: WorkflowCode.NotIndependent,
+      kind: 'forbidden',
+      message: "You are this sheet's checker or approver, so you do not edit it: raise a query for the preparer instead.",
+    };
   }
   if (sheet.coPreparerIds.includes(actor.id)) return undefined;
   const p = sheet.preparer.name;
-  return { code: WorkflowCode.NotPreparer, kind: 'forbidden', message: `Only this sheet's preparers change it: ${p}, and the co-preparers ${p} names. Ask to be named co-preparer (then you cannot check or approve this revision).` };
+  return {
+    code: WorkflowCode.NotPreparer,
+    kind: 'forbidden',
+    message: `Only this sheet's preparers change it: ${p}, and the co-preparers ${p} names. Ask to be named co-preparer (then you cannot check or approve this revision).`,
+  };
 }
 
 export const mayEdit = (sheet: Parameters<typeof editRefusal>[0], actor: Actor) => !editRefusal(sheet, actor);

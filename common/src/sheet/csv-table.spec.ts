@@ -5,7 +5,14 @@ describe('csvToTableCell', () => {
   it('reads a header with units and rows of numbers', () => {
     expect(csvToTableCell('h, I_h [A]\n1, 100\n5, 12.5\n')).toEqual({
       ok: true,
-      cell: { kind: 'table', columns: [{ name: 'h' }, { name: 'I_h', unit: 'A' }], rows: [[1, 100], [5, 12.5]] },
+      cell: {
+        kind: 'table',
+        columns: [{ name: 'h' }, { name: 'I_h', unit: 'A' }],
+        rows: [
+          [1, 100],
+          [5, 12.5],
+        ],
+      },
     });
   });
 

@@ -26,7 +26,8 @@ function overlongLine(text: string): Problem | undefined {
   for (let line = 1; start <= text.length; line++) {
     let end = text.indexOf('\n', start);
     if (end < 0) end = text.length;
-    if (end - start > MAX_CSV_LINE) return { line, message: `is ${(end - start).toLocaleString('en')} characters long; a line may hold at most ${MAX_CSV_LINE.toLocaleString('en')}` };
+    if (end - start > MAX_CSV_LINE)
+      return { line, message: `is ${(end - start).toLocaleString('en')} characters long; a line may hold at most ${MAX_CSV_LINE.toLocaleString('en')}` };
     start = end + 1;
   }
   return undefined;

@@ -22,20 +22,24 @@ export const settingsSchema = z.looseObject({
   complexForm: z.enum(['polar', 'rectangular'], { error: 'complexForm must be "polar" or "rectangular"' }).optional(),
 });
 
-export const noteCellSchema = z.looseObject({ kind: z.literal('note'), text: text('A note cell\'s text') });
-export const calcCellSchema = z.looseObject({ kind: z.literal('calc'), source: text('A calc cell\'s source') });
+export const noteCellSchema = z.looseObject({ kind: z.literal('note'), text: text("A note cell's text") });
+export const calcCellSchema = z.looseObject({ kind: z.literal('calc'), source: text("A calc cell's source") });
 export const checkCellSchema = z.looseObject({
   kind: z.literal('check'),
-  condition: text('A check cell\'s condition'),
-  basis: text('A check cell\'s basis').optional(),
+  condition: text("A check cell's condition"),
+  basis: text("A check cell's basis").optional(),
   severity: z.enum(['mandatory', 'advisory'], { error: 'severity must be "mandatory" or "advisory"' }).optional(),
 });
 export const sweepCellSchema = z.looseObject({
   kind: z.literal('sweep'),
-  variable: text('A sweep cell\'s variable'),
-  from: text('A sweep cell\'s start'),
-  to: text('A sweep cell\'s end'),
-  points: z.number({ error: 'points must be a number' }).int('points must be a whole number').min(2, 'points must be at least 2').max(20000, 'points must be at most 20 000'),
+  variable: text("A sweep cell's variable"),
+  from: text("A sweep cell's start"),
+  to: text("A sweep cell's end"),
+  points: z
+    .number({ error: 'points must be a number' })
+    .int('points must be a whole number')
+    .min(2, 'points must be at least 2')
+    .max(20000, 'points must be at most 20 000'),
   spacing: z.enum(['linear', 'log'], { error: 'spacing must be "linear" or "log"' }).optional(),
   outputs: z.array(text('A sweep output'), { error: 'outputs must be a list of expressions' }).min(1, 'a sweep needs at least one output'),
 });
@@ -90,10 +94,7 @@ export interface SheetProblem {
 export type SheetParseResult = { ok: true; sheet: SheetFile } | { ok: false; problems: SheetProblem[] };
 
 function formatPath(path: readonly PropertyKey[]): string {
-  return path.reduce<string>(
-    (acc, key) => (typeof key === 'number' ? `${acc}[${key}]` : acc ? `${acc}.${String(key)}` : String(key)),
-    '',
-  );
+  return path.reduce<string>((acc, key) => (typeof key === 'number' ? `${acc}[${key}]` : acc ? `${acc}.${String(key)}` : String(key)), '');
 }
 
 /** Validates a parsed JSON value against the sheet format; every problem is reported with its place. */

@@ -7,9 +7,43 @@ import type { MathNode } from 'mathjs';
 import { Unit } from '../language/math';
 
 const GREEK = new Set([
-  'alpha', 'beta', 'gamma', 'delta', 'epsilon', 'varepsilon', 'zeta', 'eta', 'theta', 'vartheta', 'iota', 'kappa', 'lambda', 'mu', 'nu', 'xi',
-  'pi', 'rho', 'sigma', 'tau', 'upsilon', 'phi', 'varphi', 'chi', 'psi', 'omega', 'Gamma', 'Delta', 'Theta', 'Lambda', 'Xi', 'Pi', 'Sigma',
-  'Upsilon', 'Phi', 'Psi', 'Omega',
+  'alpha',
+  'beta',
+  'gamma',
+  'delta',
+  'epsilon',
+  'varepsilon',
+  'zeta',
+  'eta',
+  'theta',
+  'vartheta',
+  'iota',
+  'kappa',
+  'lambda',
+  'mu',
+  'nu',
+  'xi',
+  'pi',
+  'rho',
+  'sigma',
+  'tau',
+  'upsilon',
+  'phi',
+  'varphi',
+  'chi',
+  'psi',
+  'omega',
+  'Gamma',
+  'Delta',
+  'Theta',
+  'Lambda',
+  'Xi',
+  'Pi',
+  'Sigma',
+  'Upsilon',
+  'Phi',
+  'Psi',
+  'Omega',
 ]);
 
 function namePart(part: string): string {
@@ -55,7 +89,18 @@ export function displayTex(display: string): string {
 }
 
 /** Characters a display or a string may hold that mean something to LaTeX, as math-mode symbols. */
-const MATH_ESCAPES: Record<string, string> = { '\\': '\\backslash ', '{': '\\{', '}': '\\}', $: '\\$', '&': '\\&', '%': '\\%', '#': '\\#', _: '\\_', '~': '\\sim ', '^': '\\hat{}' };
+const MATH_ESCAPES: Record<string, string> = {
+  '\\': '\\backslash ',
+  '{': '\\{',
+  '}': '\\}',
+  $: '\\$',
+  '&': '\\&',
+  '%': '\\%',
+  '#': '\\#',
+  _: '\\_',
+  '~': '\\sim ',
+  '^': '\\hat{}',
+};
 // A lone ^ or ~ cannot start a command once backslashes and braces are escaped, and units use ^.
 const escapeMath = (text: string) => text.replace(/[\\{}$&%#_]/g, (c) => MATH_ESCAPES[c]).replace(/[\u0000-\u001F\u007F]/g, '');
 
@@ -111,12 +156,35 @@ export interface TexContext {
 type AnyNode = MathNode & Record<string, unknown>;
 
 const FUNCTION_TEX: Record<string, string> = {
-  sin: '\\sin', cos: '\\cos', tan: '\\tan', exp: '\\exp', log: '\\ln', ln: '\\ln', log10: '\\log_{10}', arg: '\\arg',
-  atan: '\\arctan', asin: '\\arcsin', acos: '\\arccos', sinh: '\\sinh', cosh: '\\cosh', tanh: '\\tanh',
+  sin: '\\sin',
+  cos: '\\cos',
+  tan: '\\tan',
+  exp: '\\exp',
+  log: '\\ln',
+  ln: '\\ln',
+  log10: '\\log_{10}',
+  arg: '\\arg',
+  atan: '\\arctan',
+  asin: '\\arcsin',
+  acos: '\\arccos',
+  sinh: '\\sinh',
+  cosh: '\\cosh',
+  tanh: '\\tanh',
 };
 const BINARY_TEX: Record<string, string> = {
-  add: '+', subtract: '-', multiply: '\\cdot ', dotMultiply: '\\cdot ', smaller: '<', smallerEq: '\\le ', larger: '>', largerEq: '\\ge ',
-  equal: '=', unequal: '\\ne ', and: '\\wedge ', or: '\\vee ', xor: '\\veebar ',
+  add: '+',
+  subtract: '-',
+  multiply: '\\cdot ',
+  dotMultiply: '\\cdot ',
+  smaller: '<',
+  smallerEq: '\\le ',
+  larger: '>',
+  largerEq: '\\ge ',
+  equal: '=',
+  unequal: '\\ne ',
+  and: '\\wedge ',
+  or: '\\vee ',
+  xor: '\\veebar ',
 };
 
 function numberTex(value: unknown): string {

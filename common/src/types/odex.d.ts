@@ -9,6 +9,12 @@ declare module 'odex' {
     maxSteps: number;
     initialStepSize: number;
     denseOutput: boolean;
-    solve(f: Derivative, x: number, y0: number[], xEnd: number, solOut?: OutputFunction): { y: number[]; outcome: number; nStep: number; xEnd: number; nAccept: number; nReject: number; nEval: number };
+    solve(
+      f: Derivative,
+      x: number,
+      y0: number[],
+      xEnd: number,
+      solOut?: OutputFunction,
+    ): { y: number[]; outcome: number; nStep: number; xEnd: number; nAccept: number; nReject: number; nEval: number };
   }
 }

@@ -30,7 +30,37 @@ export interface FormattedValue {
 const ANGLE = 7; // index of ANGLE in mathjs's BASE_DIMENSIONS
 
 /** Preferred coherent SI units, in order; the first with the value's dimension is used. */
-const PREFERRED = ['A', 'V', 'ohm', 'S', 'F', 'H', 'Hz', 's', 'W', 'J', 'C', 'Wb', 'T', 'N', 'Pa', 'm', 'kg', 'K', 'mol', 'cd', 'rad', 'm^2', 'm^3', 'm/s', 'V/m', 'A/m', 'ohm m', 'F/m', 'H/m'];
+const PREFERRED = [
+  'A',
+  'V',
+  'ohm',
+  'S',
+  'F',
+  'H',
+  'Hz',
+  's',
+  'W',
+  'J',
+  'C',
+  'Wb',
+  'T',
+  'N',
+  'Pa',
+  'm',
+  'kg',
+  'K',
+  'mol',
+  'cd',
+  'rad',
+  'm^2',
+  'm^3',
+  'm/s',
+  'V/m',
+  'A/m',
+  'ohm m',
+  'F/m',
+  'H/m',
+];
 const POWER_UNITS = new Set(['W', 'VA', 'var', 'VAR']);
 const NO_PREFIX = new Set(['kg', 'K', 'rad', 'deg', 'mol', 'cd', 'm^2', 'm^3', 'm/s', 'ohm m']);
 
@@ -67,8 +97,23 @@ export function siUnitName(u: MathUnit): string | undefined {
 }
 
 const ENGINEERING_PREFIXES: [number, string][] = [
-  [-24, 'y'], [-21, 'z'], [-18, 'a'], [-15, 'f'], [-12, 'p'], [-9, 'n'], [-6, 'u'], [-3, 'm'], [0, ''],
-  [3, 'k'], [6, 'M'], [9, 'G'], [12, 'T'], [15, 'P'], [18, 'E'], [21, 'Z'], [24, 'Y'],
+  [-24, 'y'],
+  [-21, 'z'],
+  [-18, 'a'],
+  [-15, 'f'],
+  [-12, 'p'],
+  [-9, 'n'],
+  [-6, 'u'],
+  [-3, 'm'],
+  [0, ''],
+  [3, 'k'],
+  [6, 'M'],
+  [9, 'G'],
+  [12, 'T'],
+  [15, 'P'],
+  [18, 'E'],
+  [21, 'Z'],
+  [24, 'Y'],
 ];
 
 /** Text of a number to n significant digits, without exponent notation inside [1e-3, 1e6). */
@@ -207,4 +252,3 @@ export function formatValue(value: unknown, options: DisplayOptions = DEFAULT_DI
   }
   return { si: siForm(value), siUnit: '', display: String(value), unit: '' };
 }
-

@@ -25,11 +25,28 @@ export type Dimension = keyof typeof DIMENSIONS;
 
 const ANGLE = 7;
 const NAMES: Record<Dimension, string> = {
-  none: 'a plain number', current: 'a current', voltage: 'a voltage', impedance: 'an impedance', capacitance: 'a capacitance',
-  inductance: 'an inductance', frequency: 'a frequency', time: 'a time', power: 'a power', charge: 'a charge',
+  none: 'a plain number',
+  current: 'a current',
+  voltage: 'a voltage',
+  impedance: 'an impedance',
+  capacitance: 'a capacitance',
+  inductance: 'an inductance',
+  frequency: 'a frequency',
+  time: 'a time',
+  power: 'a power',
+  charge: 'a charge',
 };
 const SI_UNIT: Record<Dimension, string> = {
-  none: '', current: 'A', voltage: 'V', impedance: 'ohm', capacitance: 'F', inductance: 'H', frequency: 'Hz', time: 's', power: 'W', charge: 'C',
+  none: '',
+  current: 'A',
+  voltage: 'V',
+  impedance: 'ohm',
+  capacitance: 'F',
+  inductance: 'H',
+  frequency: 'Hz',
+  time: 's',
+  power: 'W',
+  charge: 'C',
 };
 
 export function dimensionsOf(u: MathUnit): number[] {

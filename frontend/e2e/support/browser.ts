@@ -4,7 +4,16 @@ import { chromium, type Browser, type Page } from 'playwright-core';
 export async function launchBrowser(): Promise<Browser> {
   return chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
-    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    args: [
+      '--headless',
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+    ],
   });
 }
 
@@ -31,7 +40,11 @@ export function collectPageErrors(page: Page): string[] {
  * Registers the hooks of a browser test file: one browser for the file, a fresh context and page per
  * test (no cookies carried over). Read `session.page` and `session.errors` inside a test.
  */
-export function useBrowserPage(hooks: { beforeAll: (fn: () => Promise<void>) => void; afterAll: (fn: () => Promise<void>) => void; beforeEach: (fn: () => Promise<void>) => void }) {
+export function useBrowserPage(hooks: {
+  beforeAll: (fn: () => Promise<void>) => void;
+  afterAll: (fn: () => Promise<void>) => void;
+  beforeEach: (fn: () => Promise<void>) => void;
+}) {
   const session = {} as { browser: Browser; context?: import('playwright-core').BrowserContext; page: Page; errors: string[] };
   hooks.beforeAll(async () => {
     session.browser = await launchBrowser();

@@ -20,7 +20,11 @@ export async function newSheetFromTemplate(page: Page, template: string, sheetNu
   await page.getByRole('button', { name: 'Create the project' }).click();
   await page.waitForURL(/\/projects\/[0-9a-f-]{36}$/);
   // The creator is on the new project's team.
-  await page.getByTestId('project-team').getByText(/Engineer|Owner/).first().waitFor();
+  await page
+    .getByTestId('project-team')
+    .getByText(/Engineer|Owner/)
+    .first()
+    .waitFor();
   await page.getByRole('button', { name: 'New sheet' }).click();
   await page.getByLabel('Sheet number').fill(sheetNumber);
   await page.getByLabel('Start from').click();

@@ -5,7 +5,12 @@ import { AppProviders } from './providers';
 import { routes } from './router';
 
 const health = { status: 'ok', version: '0', engineVersion: '0', checks: { database: 'up', mail: 'up', objectStore: 'up' } };
-const me = (roles: string[]) => ({ user: { id: 'u1', email: 'probe@test.example', name: 'Probe Person' }, firm: { id: 'f1', name: 'Probe Consulting' }, roles, csrfToken: 'c' });
+const me = (roles: string[]) => ({
+  user: { id: 'u1', email: 'probe@test.example', name: 'Probe Person' },
+  firm: { id: 'f1', name: 'Probe Consulting' },
+  roles,
+  csrfToken: 'c',
+});
 
 /** A fake server: health, who is signed in (or 401), and empty lists. */
 function serve(roles: string[] | null) {
@@ -13,8 +18,32 @@ function serve(roles: string[] | null) {
     'fetch',
     vi.fn(async (url: string) => {
       if (url.endsWith('/api/health')) return new Response(JSON.stringify(health));
-      if (url.endsWith('/api/auth/me')) return roles ? new Response(JSON.stringify(me(roles))) : new Response(JSON.stringify({ statusCode: 401, code: 'UNAUTHENTICATED', message: 'Sign in to continue.' }), { status: 401 });
-      if (url.endsWith('/api/sheets/s1')) return new Response(JSON.stringify({ id: 's1', projectId: 'p1', number: 'C-1', title: 'Probe sheet', settings: {}, state: 'being-prepared', version: 1, engineVersion: '0', preparer: { id: 'u1', name: 'Probe Person' }, checker: null, approver: null, revisionCode: 'A', revisionNumber: 1, openQueries: 0, coPreparers: [], authorIds: ['u1'], cells: [] }));
+      if (url.endsWith('/api/auth/me'))
+        return roles
+          ? new Response(JSON.stringify(me(roles)))
+          : new Response(JSON.stringify({ statusCode: 401, code: 'UNAUTHENTICATED', message: 'Sign in to continue.' }), { status: 401 });
+      if (url.endsWith('/api/sheets/s1'))
+        return new Response(
+          JSON.stringify({
+            id: 's1',
+            projectId: 'p1',
+            number: 'C-1',
+            title: 'Probe sheet',
+            settings: {},
+            state: 'being-prepared',
+            version: 1,
+            engineVersion: '0',
+            preparer: { id: 'u1', name: 'Probe Person' },
+            checker: null,
+            approver: null,
+            revisionCode: 'A',
+            revisionNumber: 1,
+            openQueries: 0,
+            coPreparers: [],
+            authorIds: ['u1'],
+            cells: [],
+          }),
+        );
       return new Response('[]');
     }),
   );
@@ -60,7 +89,7 @@ describe('routes', () => {
     expect((await screen.findByTestId('firm-and-roles')).textContent).toBe('Probe Consulting · Engineer, Checker');
   });
 
-  it('keeps a client out of the firm\'s pages', async () => {
+  it("keeps a client out of the firm's pages", async () => {
     serve(['client']);
     renderAt('/projects');
     expect(await screen.findByText(/do not give access to that page/)).toBeTruthy();

@@ -19,7 +19,7 @@ import { ProfilePage } from '../routes/profile';
 import { RegisterPage } from '../routes/register';
 import { ConfirmRegistrationPage } from '../routes/confirm-registration';
 import { ResetPasswordPage } from '../routes/reset-password';
-import { RequireAuth } from '../features/auth/components/require-auth';
+import { RequireAuth } from '../features/auth';
 import { MEMBER_ROLES } from '@ampwright/common/review/workflow';
 
 const MEMBERS = [...MEMBER_ROLES];
@@ -38,14 +38,70 @@ export const routes: RouteObject[] = [
       { path: 'reset-password', element: <ResetPasswordPage /> },
       { path: 'accept-invitation', element: <AcceptInvitationPage /> },
       { path: 'no-access', element: <NoAccessPage /> },
-      { path: 'profile', element: <RequireAuth><ProfilePage /></RequireAuth> },
-      { path: 'members', element: <RequireAuth roles={MEMBERS}><MembersPage /></RequireAuth> },
-      { path: 'projects', element: <RequireAuth roles={MEMBERS}><ProjectsPage /></RequireAuth> },
-      { path: 'projects/:projectId', element: <RequireAuth roles={MEMBERS}><ProjectPage /></RequireAuth> },
-      { path: 'projects/:projectId/sheets/:sheetId', element: <RequireAuth roles={MEMBERS}><SheetPage /></RequireAuth> },
-      { path: 'projects/:projectId/sheets/:sheetId/history', element: <RequireAuth roles={MEMBERS}><SheetHistoryPage /></RequireAuth> },
-      { path: 'notifications', element: <RequireAuth><NotificationsPage /></RequireAuth> },
-      { path: 'portal', element: <RequireAuth><PortalPage /></RequireAuth> },
+      {
+        path: 'profile',
+        element: (
+          <RequireAuth>
+            <ProfilePage />
+          </RequireAuth>
+        ),
+      },
+      {
+        path: 'members',
+        element: (
+          <RequireAuth roles={MEMBERS}>
+            <MembersPage />
+          </RequireAuth>
+        ),
+      },
+      {
+        path: 'projects',
+        element: (
+          <RequireAuth roles={MEMBERS}>
+            <ProjectsPage />
+          </RequireAuth>
+        ),
+      },
+      {
+        path: 'projects/:projectId',
+        element: (
+          <RequireAuth roles={MEMBERS}>
+            <ProjectPage />
+          </RequireAuth>
+        ),
+      },
+      {
+        path: 'projects/:projectId/sheets/:sheetId',
+        element: (
+          <RequireAuth roles={MEMBERS}>
+            <SheetPage />
+          </RequireAuth>
+        ),
+      },
+      {
+        path: 'projects/:projectId/sheets/:sheetId/history',
+        element: (
+          <RequireAuth roles={MEMBERS}>
+            <SheetHistoryPage />
+          </RequireAuth>
+        ),
+      },
+      {
+        path: 'notifications',
+        element: (
+          <RequireAuth>
+            <NotificationsPage />
+          </RequireAuth>
+        ),
+      },
+      {
+        path: 'portal',
+        element: (
+          <RequireAuth>
+            <PortalPage />
+          </RequireAuth>
+        ),
+      },
       { path: 'verify', element: <VerifyPage /> },
       { path: '*', element: <NotFoundPage /> },
     ],

@@ -2,7 +2,10 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { ApiError, api } from './api-client';
 
 function respond(status: number, body: unknown) {
-  vi.stubGlobal('fetch', vi.fn(async () => new Response(typeof body === 'string' ? body : JSON.stringify(body), { status })));
+  vi.stubGlobal(
+    'fetch',
+    vi.fn(async () => new Response(typeof body === 'string' ? body : JSON.stringify(body), { status })),
+  );
 }
 
 describe('api client', () => {
@@ -13,8 +16,13 @@ describe('api client', () => {
     await expect(api.get('/health')).resolves.toEqual({ status: 'ok' });
   });
 
-  it('throws an ApiError carrying the server\'s code, message and field details', async () => {
-    respond(400, { statusCode: 400, code: 'VALIDATION_FAILED', message: 'title must not be empty', details: [{ field: 'title', message: 'title must not be empty' }] });
+  it("throws an ApiError carrying the server's code, message and field details", async () => {
+    respond(400, {
+      statusCode: 400,
+      code: 'VALIDATION_FAILED',
+      message: 'title must not be empty',
+      details: [{ field: 'title', message: 'title must not be empty' }],
+    });
     const error = await api.post('/projects', {}).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(ApiError);
     expect(error).toMatchObject({ status: 400, code: 'VALIDATION_FAILED', details: [{ field: 'title' }] });
@@ -26,7 +34,12 @@ describe('api client', () => {
   });
 
   it('turns a network failure into a readable error', async () => {
-    vi.stubGlobal('fetch', vi.fn(async () => { throw new TypeError('Failed to fetch'); }));
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async () => {
+        throw new TypeError('Failed to fetch');
+      }),
+    );
     await expect(api.get('/health')).rejects.toMatchObject({ code: 'NETWORK', status: 0 });
   });
 });

@@ -3,7 +3,7 @@ import { useQuery } from '@tanstack/react-query';
 import { useNavigate, useSearchParams } from 'react-router-dom';
 import { FormCard } from '../components/forms/form-card';
 import { useForm } from '../components/forms/use-form';
-import { acceptSchema, MIN_PASSWORD_LENGTH, useAcceptInvitation } from '../features/auth/api/auth-mutations';
+import { acceptSchema, MIN_PASSWORD_LENGTH, useAcceptInvitation } from '../features/auth';
 import { api } from '../lib/api-client';
 
 interface Preview {
@@ -17,7 +17,11 @@ export function AcceptInvitationPage() {
   const [params] = useSearchParams();
   const token = params.get('token') ?? '';
   const navigate = useNavigate();
-  const preview = useQuery({ queryKey: ['invitation', token], queryFn: () => api.get<Preview>(`/invitations/preview?token=${encodeURIComponent(token)}`), enabled: token.length >= 20 });
+  const preview = useQuery({
+    queryKey: ['invitation', token],
+    queryFn: () => api.get<Preview>(`/invitations/preview?token=${encodeURIComponent(token)}`),
+    enabled: token.length >= 20,
+  });
   const form = useForm(acceptSchema, { token, name: '', password: '' });
   const accept = useAcceptInvitation();
   const submit = () => {
@@ -34,10 +38,32 @@ export function AcceptInvitationPage() {
       intro={`${p.email} is invited as ${p.roles.join(', ')}. ${p.hasAccount ? 'Enter the password of your existing account to accept.' : 'Choose a password to accept.'}`}
       error={form.formError}
       onSubmit={submit}
-      actions={<Button type="submit" variant="contained" disabled={accept.isPending}>Accept the invitation</Button>}
+      actions={
+        <Button type="submit" variant="contained" disabled={accept.isPending}>
+          Accept the invitation
+        </Button>
+      }
     >
-      <TextField label="Your name" autoComplete="name" value={form.values.name} onChange={(e) => form.set('name', e.target.value)} error={!!form.errors.name} helperText={form.errors.name} required autoFocus />
-      <TextField label="Password" type="password" autoComplete={p.hasAccount ? 'current-password' : 'new-password'} value={form.values.password} onChange={(e) => form.set('password', e.target.value)} error={!!form.errors.password} helperText={form.errors.password || `At least ${MIN_PASSWORD_LENGTH} characters`} required />
+      <TextField
+        label="Your name"
+        autoComplete="name"
+        value={form.values.name}
+        onChange={(e) => form.set('name', e.target.value)}
+        error={!!form.errors.name}
+        helperText={form.errors.name}
+        required
+        autoFocus
+      />
+      <TextField
+        label="Password"
+        type="password"
+        autoComplete={p.hasAccount ? 'current-password' : 'new-password'}
+        value={form.values.password}
+        onChange={(e) => form.set('password', e.target.value)}
+        error={!!form.errors.password}
+        helperText={form.errors.password || `At least ${MIN_PASSWORD_LENGTH} characters`}
+        required
+      />
     </FormCard>
   );
 }

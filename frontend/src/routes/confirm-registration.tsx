@@ -1,7 +1,7 @@
 import { Alert, CircularProgress, Link as MuiLink } from '@mui/material';
 import { useEffect, useRef } from 'react';
 import { Link, useNavigate, useSearchParams } from 'react-router-dom';
-import { useConfirmRegistration } from '../features/auth/api/auth-mutations';
+import { useConfirmRegistration } from '../features/auth';
 
 /** The page the registration e-mail links to: it makes the firm and signs its owner in. */
 export function ConfirmRegistrationPage() {
@@ -17,7 +17,14 @@ export function ConfirmRegistrationPage() {
   if (confirm.isError) {
     return (
       <Alert severity="error">
-        {confirm.error.message} <MuiLink component={Link} to="/register">Register</MuiLink> · <MuiLink component={Link} to="/sign-in">Sign in</MuiLink>
+        {confirm.error.message}{' '}
+        <MuiLink component={Link} to="/register">
+          Register
+        </MuiLink>{' '}
+        ·{' '}
+        <MuiLink component={Link} to="/sign-in">
+          Sign in
+        </MuiLink>
       </Alert>
     );
   }

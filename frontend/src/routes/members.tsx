@@ -1,12 +1,39 @@
-import { CertificatePanel } from '../features/packages/components/certificate-panel';
-import { Alert, Button, Checkbox, Chip, FormControlLabel, FormGroup, FormHelperText, Paper, Stack, Table, TableBody, TableCell, TableHead, TableRow, TextField, Typography } from '@mui/material';
+import { CertificatePanel } from '../features/packages';
+import {
+  Alert,
+  Button,
+  Checkbox,
+  Chip,
+  FormControlLabel,
+  FormGroup,
+  FormHelperText,
+  Paper,
+  Stack,
+  Table,
+  TableBody,
+  TableCell,
+  TableHead,
+  TableRow,
+  TextField,
+  Typography,
+} from '@mui/material';
 import { useState } from 'react';
 import { FormCard } from '../components/forms/form-card';
 import { useForm } from '../components/forms/use-form';
 import { PageHeading } from '../components/layout/page-heading';
 import { ROLES } from '@ampwright/common/review/workflow';
-import { useMe, type Role } from '../features/auth/api/get-me';
-import { inviteSchema, ROLE_LABELS, useInvitations, useInvite, useMembers, useRemoveMember, useRevokeInvitation, useUpdateRoles, type Member } from '../features/members/api/members';
+import { useMe, type Role } from '../features/auth';
+import {
+  inviteSchema,
+  ROLE_LABELS,
+  useInvitations,
+  useInvite,
+  useMembers,
+  useRemoveMember,
+  useRevokeInvitation,
+  useUpdateRoles,
+  type Member,
+} from '../features/members';
 
 const ALL_ROLES: Role[] = [...ROLES];
 
@@ -17,7 +44,14 @@ function RoleBoxes({ value, onChange, disabled }: { value: Role[]; onChange: (ro
         <FormControlLabel
           key={role}
           label={ROLE_LABELS[role]}
-          control={<Checkbox size="small" checked={value.includes(role)} disabled={disabled} onChange={(e) => onChange(e.target.checked ? [...value, role] : value.filter((r) => r !== role))} />}
+          control={
+            <Checkbox
+              size="small"
+              checked={value.includes(role)}
+              disabled={disabled}
+              onChange={(e) => onChange(e.target.checked ? [...value, role] : value.filter((r) => r !== role))}
+            />
+          }
         />
       ))}
     </FormGroup>
@@ -34,16 +68,35 @@ function MemberRow({ member, canManage, isSelf }: { member: Member; canManage: b
     <TableRow>
       <TableCell>
         <Typography sx={{ fontWeight: 600 }}>{member.user.name}</Typography>
-        <Typography variant="body2" color="text.secondary">{member.user.email}</Typography>
+        <Typography variant="body2" color="text.secondary">
+          {member.user.email}
+        </Typography>
       </TableCell>
       <TableCell>
-        {canManage ? <RoleBoxes value={roles} onChange={setRoles} /> : <Stack direction="row" spacing={0.5}>{member.roles.map((r) => <Chip key={r} size="small" label={ROLE_LABELS[r]} />)}</Stack>}
+        {canManage ? (
+          <RoleBoxes value={roles} onChange={setRoles} />
+        ) : (
+          <Stack direction="row" spacing={0.5}>
+            {member.roles.map((r) => (
+              <Chip key={r} size="small" label={ROLE_LABELS[r]} />
+            ))}
+          </Stack>
+        )}
         {error && <FormHelperText error>{error}</FormHelperText>}
       </TableCell>
       {canManage && (
         <TableCell align="right" sx={{ whiteSpace: 'nowrap' }}>
-          <Button size="small" disabled={!changed || update.isPending} onClick={() => update.mutate({ id: member.id, roles })}>Save roles</Button>
-          <Button size="small" color="error" disabled={isSelf || remove.isPending} onClick={() => window.confirm(`Remove ${member.user.name} from the firm?`) && remove.mutate(member.id)}>Remove</Button>
+          <Button size="small" disabled={!changed || update.isPending} onClick={() => update.mutate({ id: member.id, roles })}>
+            Save roles
+          </Button>
+          <Button
+            size="small"
+            color="error"
+            disabled={isSelf || remove.isPending}
+            onClick={() => window.confirm(`Remove ${member.user.name} from the firm?`) && remove.mutate(member.id)}
+          >
+            Remove
+          </Button>
         </TableCell>
       )}
     </TableRow>
@@ -58,8 +111,26 @@ function InviteForm() {
     if (body) invite.mutate(body, { onSuccess: () => form.set('email', ''), onError: form.showError });
   };
   return (
-    <FormCard title="Invite someone" intro="They receive an e-mail with a link to set their password. A client sees only issued packages of their projects." error={form.formError} onSubmit={submit} actions={<Button type="submit" variant="contained" color="secondary" disabled={invite.isPending}>Send the invitation</Button>}>
-      <TextField label="E-mail address" type="email" value={form.values.email} onChange={(e) => form.set('email', e.target.value)} error={!!form.errors.email} helperText={form.errors.email} required />
+    <FormCard
+      title="Invite someone"
+      intro="They receive an e-mail with a link to set their password. A client sees only issued packages of their projects."
+      error={form.formError}
+      onSubmit={submit}
+      actions={
+        <Button type="submit" variant="contained" color="secondary" disabled={invite.isPending}>
+          Send the invitation
+        </Button>
+      }
+    >
+      <TextField
+        label="E-mail address"
+        type="email"
+        value={form.values.email}
+        onChange={(e) => form.set('email', e.target.value)}
+        error={!!form.errors.email}
+        helperText={form.errors.email}
+        required
+      />
       <div>
         <RoleBoxes value={form.values.roles} onChange={(r) => form.set('roles', r)} />
         {form.errors.roles && <FormHelperText error>{form.errors.roles}</FormHelperText>}
@@ -89,7 +160,9 @@ export function MembersPage() {
             </TableRow>
           </TableHead>
           <TableBody>
-            {members.data?.map((m) => <MemberRow key={`${m.id}:${m.roles.join()}`} member={m} canManage={isOwner} isSelf={m.user.id === me?.user.id} />)}
+            {members.data?.map((m) => (
+              <MemberRow key={`${m.id}:${m.roles.join()}`} member={m} canManage={isOwner} isSelf={m.user.id === me?.user.id} />
+            ))}
           </TableBody>
         </Table>
       </Paper>
@@ -97,15 +170,22 @@ export function MembersPage() {
       {isOwner && <CertificatePanel />}
       {isOwner && !!invitations.data?.length && (
         <Paper sx={{ p: 2 }}>
-          <Typography variant="h4" gutterBottom>Invitations</Typography>
+          <Typography variant="h4" gutterBottom>
+            Invitations
+          </Typography>
           {invitations.data.map((i) => {
             const open = !i.acceptedAt && !i.revokedAt && new Date(i.expiresAt) >= new Date();
             return (
               <Stack key={i.id} direction="row" spacing={1} sx={{ alignItems: 'center' }}>
                 <Typography variant="body2">
-                  {i.email} — {i.roles.map((r) => ROLE_LABELS[r]).join(', ')} — {i.acceptedAt ? 'accepted' : i.revokedAt ? 'withdrawn' : open ? `open until ${new Date(i.expiresAt).toLocaleDateString()}` : 'expired'}
+                  {i.email} — {i.roles.map((r) => ROLE_LABELS[r]).join(', ')} —{' '}
+                  {i.acceptedAt ? 'accepted' : i.revokedAt ? 'withdrawn' : open ? `open until ${new Date(i.expiresAt).toLocaleDateString()}` : 'expired'}
                 </Typography>
-                {open && <Button size="small" disabled={revoke.isPending} onClick={() => revoke.mutate(i.id)} aria-label={`Withdraw the invitation of ${i.email}`}>Withdraw</Button>}
+                {open && (
+                  <Button size="small" disabled={revoke.isPending} onClick={() => revoke.mutate(i.id)} aria-label={`Withdraw the invitation of ${i.email}`}>
+                    Withdraw
+                  </Button>
+                )}
               </Stack>
             );
           })}

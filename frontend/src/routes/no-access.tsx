@@ -5,7 +5,9 @@ export function NoAccessPage() {
   return (
     <Stack spacing={2} sx={{ maxWidth: 560 }}>
       <Alert severity="warning">Your roles in this firm do not give access to that page. The firm's owner can change your roles.</Alert>
-      <Button component={Link} to="/" sx={{ alignSelf: 'flex-start' }}>Go to the start page</Button>
+      <Button component={Link} to="/" sx={{ alignSelf: 'flex-start' }}>
+        Go to the start page
+      </Button>
     </Stack>
   );
 }

@@ -4,8 +4,8 @@ import { Link, useNavigate } from 'react-router-dom';
 import { FormCard } from '../components/forms/form-card';
 import { useForm } from '../components/forms/use-form';
 import { PageHeading } from '../components/layout/page-heading';
-import { useMe } from '../features/auth/api/get-me';
-import { projectSchema, useCreateProject, useProjects, type Project } from '../features/projects/api/projects';
+import { useMe } from '../features/auth';
+import { projectSchema, useCreateProject, useProjects, type Project } from '../features/projects';
 
 type SortKey = 'jobNumber' | 'title' | 'clientOrganisation' | 'updatedAt';
 
@@ -15,13 +15,40 @@ function NewProjectForm({ onDone }: { onDone: () => void }) {
   const create = useCreateProject();
   const submit = () => {
     const body = form.validate();
-    if (body) create.mutate(body, { onSuccess: (p) => { onDone(); navigate(`/projects/${p.id}`); }, onError: form.showError });
+    if (body)
+      create.mutate(body, {
+        onSuccess: (p) => {
+          onDone();
+          navigate(`/projects/${p.id}`);
+        },
+        onError: form.showError,
+      });
   };
   const field = (key: 'jobNumber' | 'title' | 'clientOrganisation' | 'site', label: string) => (
-    <TextField key={key} label={label} value={form.values[key]} onChange={(e) => form.set(key, e.target.value)} error={!!form.errors[key]} helperText={form.errors[key]} required />
+    <TextField
+      key={key}
+      label={label}
+      value={form.values[key]}
+      onChange={(e) => form.set(key, e.target.value)}
+      error={!!form.errors[key]}
+      helperText={form.errors[key]}
+      required
+    />
   );
   return (
-    <FormCard title="New project" error={form.formError} onSubmit={submit} actions={<><Button type="submit" variant="contained" disabled={create.isPending}>Create the project</Button><Button onClick={onDone}>Cancel</Button></>}>
+    <FormCard
+      title="New project"
+      error={form.formError}
+      onSubmit={submit}
+      actions={
+        <>
+          <Button type="submit" variant="contained" disabled={create.isPending}>
+            Create the project
+          </Button>
+          <Button onClick={onDone}>Cancel</Button>
+        </>
+      }
+    >
       {field('jobNumber', 'Job number')}
       {field('title', 'Title')}
       {field('clientOrganisation', 'Client organisation')}
@@ -46,7 +73,13 @@ export function ProjectsPage() {
   }, [projects.data, filter, sort]);
   const header = (key: SortKey, label: string) => (
     <TableCell sortDirection={sort.key === key ? (sort.desc ? 'desc' : 'asc') : false}>
-      <TableSortLabel active={sort.key === key} direction={sort.key === key && sort.desc ? 'desc' : 'asc'} onClick={() => setSort({ key, desc: sort.key === key ? !sort.desc : false })}>{label}</TableSortLabel>
+      <TableSortLabel
+        active={sort.key === key}
+        direction={sort.key === key && sort.desc ? 'desc' : 'asc'}
+        onClick={() => setSort({ key, desc: sort.key === key ? !sort.desc : false })}
+      >
+        {label}
+      </TableSortLabel>
     </TableCell>
   );
   return (
@@ -54,7 +87,11 @@ export function ProjectsPage() {
       <PageHeading overline={me?.firm.name}>Projects</PageHeading>
       <Stack direction="row" spacing={2} sx={{ alignItems: 'center' }}>
         <TextField size="small" label="Filter" value={filter} onChange={(e) => setFilter(e.target.value)} />
-        {canCreate && !creating && <Button variant="contained" color="secondary" onClick={() => setCreating(true)}>New project</Button>}
+        {canCreate && !creating && (
+          <Button variant="contained" color="secondary" onClick={() => setCreating(true)}>
+            New project
+          </Button>
+        )}
       </Stack>
       {creating && <NewProjectForm onDone={() => setCreating(false)} />}
       {projects.isError && <Alert severity="error">{projects.error.message}</Alert>}
@@ -73,7 +110,11 @@ export function ProjectsPage() {
           <TableBody>
             {rows.map((p) => (
               <TableRow key={p.id} hover>
-                <TableCell><MuiLink component={Link} to={`/projects/${p.id}`}>{p.jobNumber}</MuiLink></TableCell>
+                <TableCell>
+                  <MuiLink component={Link} to={`/projects/${p.id}`}>
+                    {p.jobNumber}
+                  </MuiLink>
+                </TableCell>
                 <TableCell>{p.title}</TableCell>
                 <TableCell>{p.clientOrganisation}</TableCell>
                 {internal && <TableCell>{p.sheetCount}</TableCell>}
@@ -82,7 +123,9 @@ export function ProjectsPage() {
               </TableRow>
             ))}
             {projects.isSuccess && rows.length === 0 && (
-              <TableRow><TableCell colSpan={6}>{filter ? 'No project matches the filter.' : 'No projects yet.'}</TableCell></TableRow>
+              <TableRow>
+                <TableCell colSpan={6}>{filter ? 'No project matches the filter.' : 'No projects yet.'}</TableCell>
+              </TableRow>
             )}
           </TableBody>
         </Table>

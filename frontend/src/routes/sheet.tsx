@@ -3,15 +3,15 @@ import { useMemo, useState } from 'react';
 import { useParams } from 'react-router-dom';
 import { CautionNotice } from '../components/layout/caution-notice';
 import { PageHeading } from '../components/layout/page-heading';
-import { actorOf, useMe } from '../features/auth/api/get-me';
+import { actorOf, useMe } from '../features/auth';
 import { EDITABLE_STATES, editRefusal, factsOfSheet, WorkflowCode } from '@ampwright/common/review/workflow';
-import { useSheetQueries } from '../features/review/api/review';
-import { CellReview, type ReviewContext } from '../features/review/components/cell-review';
-import { WorkflowBar } from '../features/review/components/workflow-bar';
-import { STATE_LABELS, useSaveAsTemplate, useSheet } from '../features/sheets/api/sheets';
-import { AttachmentsPanel } from '../features/sheets/components/attachments-panel';
-import type { ReviewSlot } from '../features/sheets/editor/cell-frame';
-import { SheetEditor } from '../features/sheets/editor/sheet-editor';
+import { useSheetQueries } from '../features/review';
+import { CellReview, type ReviewContext } from '../features/review';
+import { WorkflowBar } from '../features/review';
+import { STATE_LABELS, useSaveAsTemplate, useSheet } from '../features/sheets';
+import { AttachmentsPanel } from '../features/sheets';
+import type { ReviewSlot } from '../features/sheets';
+import { SheetEditor } from '../features/sheets';
 
 /**
  * A sheet: its review bar, then its cells, edited and evaluated in place by those who may (the
@@ -27,11 +27,19 @@ export function SheetPage() {
   const s = sheet.data;
   const uid = me?.user.id;
   const review: ReviewContext = useMemo(
-    () => ({ sheetId, checking: !!s && s.state === 'with-checker' && s.checker?.id === uid, answering: !!s && EDITABLE_STATES.includes(s.state) && s.preparer.id === uid }),
+    () => ({
+      sheetId,
+      checking: !!s && s.state === 'with-checker' && s.checker?.id === uid,
+      answering: !!s && EDITABLE_STATES.includes(s.state) && s.preparer.id === uid,
+    }),
     [sheetId, s, uid],
   );
   // The route composes the editor and the review: each cell's queries are drawn beside it.
-  const Review: ReviewSlot = useMemo(() => ({ cell, queries: q }) => <CellReview cell={cell} queries={q} ctx={review} />, [review]);
+  const Review: ReviewSlot = useMemo(
+    () =>
+      ({ cell, queries: q }) => <CellReview cell={cell} queries={q} ctx={review} />,
+    [review],
+  );
   if (sheet.isPending) return <CircularProgress aria-label="Loading" />;
   if (sheet.isError) return <Alert severity="error">{sheet.error.message}</Alert>;
   if (!s || !me) return null;
@@ -46,17 +54,47 @@ export function SheetPage() {
       <PageHeading overline={`Sheet ${s.number}`}>{s.title}</PageHeading>
       <WorkflowBar sheet={s} me={me} />
       <Stack direction="row" spacing={1} sx={{ alignItems: 'center', flexWrap: 'wrap' }}>
-        <Typography variant="body2" color="text.secondary">Version {s.version}{s.engineVersion ? ` · engine ${s.engineVersion}` : ''}</Typography>
-        <Button size="small" href={`/api/sheets/${s.id}/export`} download={`${s.number}.json`}>Export as a sheet file</Button>
-        {mayEdit && <Button size="small" disabled={saveTemplate.isPending} onClick={() => saveTemplate.mutate({ sheetId: s.id })}>Save as a template</Button>}
-        <FormControlLabel control={<Switch size="small" checked={openOnly} onChange={(e) => setOpenOnly(e.target.checked)} />} label="Only cells with open queries" />
+        <Typography variant="body2" color="text.secondary">
+          Version {s.version}
+          {s.engineVersion ? ` · engine ${s.engineVersion}` : ''}
+        </Typography>
+        <Button size="small" href={`/api/sheets/${s.id}/export`} download={`${s.number}.json`}>
+          Export as a sheet file
+        </Button>
+        {mayEdit && (
+          <Button size="small" disabled={saveTemplate.isPending} onClick={() => saveTemplate.mutate({ sheetId: s.id })}>
+            Save as a template
+          </Button>
+        )}
+        <FormControlLabel
+          control={<Switch size="small" checked={openOnly} onChange={(e) => setOpenOnly(e.target.checked)} />}
+          label="Only cells with open queries"
+        />
       </Stack>
-      {saveTemplate.isSuccess && <Alert severity="success" onClose={() => saveTemplate.reset()}>Saved as the firm template “{saveTemplate.data.title}”: new sheets can start from it.</Alert>}
-      {saveTemplate.isError && <Alert severity="error" onClose={() => saveTemplate.reset()}>{saveTemplate.error.message}</Alert>}
-      {mayEdit && !reviewing && refusal?.code === WorkflowCode.ReadOnly && <Alert severity="info">This sheet is {STATE_LABELS[s.state].toLowerCase()} and can no longer be edited.</Alert>}
-      {!reviewing && refusal?.code === WorkflowCode.NotPreparer && <Alert severity="info">{s.preparer.name} prepares this sheet: only they and the co-preparers they name edit it.</Alert>}
-      {reviewing && EDITABLE_STATES.includes(s.state) && <Alert severity="info">You review this sheet, so you do not edit it: raise queries on its cells for the preparer.</Alert>}
-      {editable && <Typography variant="caption" color="text.secondary">Changes are saved and evaluated as you type. Keys: Ctrl+Enter evaluates now, Alt+Enter adds a cell below, Alt+↑ and Alt+↓ move between cells.</Typography>}
+      {saveTemplate.isSuccess && (
+        <Alert severity="success" onClose={() => saveTemplate.reset()}>
+          Saved as the firm template “{saveTemplate.data.title}”: new sheets can start from it.
+        </Alert>
+      )}
+      {saveTemplate.isError && (
+        <Alert severity="error" onClose={() => saveTemplate.reset()}>
+          {saveTemplate.error.message}
+        </Alert>
+      )}
+      {mayEdit && !reviewing && refusal?.code === WorkflowCode.ReadOnly && (
+        <Alert severity="info">This sheet is {STATE_LABELS[s.state].toLowerCase()} and can no longer be edited.</Alert>
+      )}
+      {!reviewing && refusal?.code === WorkflowCode.NotPreparer && (
+        <Alert severity="info">{s.preparer.name} prepares this sheet: only they and the co-preparers they name edit it.</Alert>
+      )}
+      {reviewing && EDITABLE_STATES.includes(s.state) && (
+        <Alert severity="info">You review this sheet, so you do not edit it: raise queries on its cells for the preparer.</Alert>
+      )}
+      {editable && (
+        <Typography variant="caption" color="text.secondary">
+          Changes are saved and evaluated as you type. Keys: Ctrl+Enter evaluates now, Alt+Enter adds a cell below, Alt+↑ and Alt+↓ move between cells.
+        </Typography>
+      )}
       <CautionNotice />
       {queries.isError && <Alert severity="error">The queries could not be loaded: {queries.error.message}</Alert>}
       <SheetEditor sheet={s} editable={editable} queries={queries.data ?? []} Review={Review} checking={review.checking} openOnly={openOnly} />

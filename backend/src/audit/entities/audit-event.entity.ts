@@ -2,10 +2,31 @@ import { randomUUID } from 'node:crypto';
 import { Entity, Index, Opt, PrimaryKey, Property } from '@mikro-orm/core';
 
 export type AuditType =
-  | 'sign-in' | 'sign-in-failed' | 'sign-out' | 'registration-requested' | 'firm-registered' | 'role-changed' | 'member-removed'
-  | 'invitation-sent' | 'invitation-accepted' | 'invitation-revoked' | 'password-reset-requested' | 'password-reset'
-  | 'check-requested' | 'sheet-returned' | 'sheet-returned-to-checker' | 'check-passed' | 'sheet-approved' | 'revision-issued' | 'revision-started'
-  | 'query-raised' | 'query-replied' | 'query-closed' | 'cell-agreed' | 'agreement-withdrawn' | 'co-preparers-named';
+  | 'sign-in'
+  | 'sign-in-failed'
+  | 'sign-out'
+  | 'registration-requested'
+  | 'firm-registered'
+  | 'role-changed'
+  | 'member-removed'
+  | 'invitation-sent'
+  | 'invitation-accepted'
+  | 'invitation-revoked'
+  | 'password-reset-requested'
+  | 'password-reset'
+  | 'check-requested'
+  | 'sheet-returned'
+  | 'sheet-returned-to-checker'
+  | 'check-passed'
+  | 'sheet-approved'
+  | 'revision-issued'
+  | 'revision-started'
+  | 'query-raised'
+  | 'query-replied'
+  | 'query-closed'
+  | 'cell-agreed'
+  | 'agreement-withdrawn'
+  | 'co-preparers-named';
 
 /** Who did what and when. Ids, not references, so the record outlives what it names. */
 @Entity({ tableName: 'audit_event' })

@@ -6,7 +6,7 @@ import { AllExceptionsFilter } from './all-exceptions.filter';
 describe(AllExceptionsFilter.name, () => {
   const filter = new AllExceptionsFilter();
 
-  it('keeps a feature exception\'s code, message and details', () => {
+  it("keeps a feature exception's code, message and details", () => {
     const body = filter.toBody(new AppException('SHEET_LOCKED', 'The sheet is approved and read-only.', 409, [{ message: 'x' }]));
     expect(body).toEqual({ statusCode: 409, code: 'SHEET_LOCKED', message: 'The sheet is approved and read-only.', details: [{ message: 'x' }] });
   });
@@ -21,7 +21,7 @@ describe(AllExceptionsFilter.name, () => {
     expect(body.code).toBe(ErrorCode.PayloadTooLarge);
   });
 
-  it('never shows an unknown error\'s text to the caller', () => {
+  it("never shows an unknown error's text to the caller", () => {
     const body = filter.toBody(new TypeError('cannot read x of undefined'));
     expect(body.statusCode).toBe(500);
     expect(body.message).not.toMatch(/undefined/);

@@ -76,7 +76,8 @@ export class AuthGuard implements CanActivate {
     const csrf = req.get(CSRF_HEADER);
 
     if (rule.kind === 'public') {
-      if (mutating && !csrf) throw new AppException('CSRF_FAILED', 'The request is missing its anti-forgery header. Reload the page and try again.', HttpStatus.FORBIDDEN);
+      if (mutating && !csrf)
+        throw new AppException('CSRF_FAILED', 'The request is missing its anti-forgery header. Reload the page and try again.', HttpStatus.FORBIDDEN);
       await this.attach(req).catch(() => undefined);
       return true;
     }
@@ -123,7 +124,14 @@ export class AuthGuard implements CanActivate {
     }
     this.em.map(User, { id: row.user_id, email: row.u_email, name: row.u_name, password_hash: row.u_password_hash, created_at: row.u_created_at });
     this.em.map(Firm, { id: row.firm_id, name: row.f_name, created_at: row.f_created_at });
-    const session = this.em.map(Session, { token_hash: row.token_hash, user_id: row.user_id, firm_id: row.firm_id, csrf_token: row.csrf_token, created_at: row.created_at, expires_at: row.expires_at });
+    const session = this.em.map(Session, {
+      token_hash: row.token_hash,
+      user_id: row.user_id,
+      firm_id: row.firm_id,
+      csrf_token: row.csrf_token,
+      created_at: row.created_at,
+      expires_at: row.expires_at,
+    });
     const roles = (typeof row.m_roles === 'string' ? JSON.parse(row.m_roles) : row.m_roles) as Role[];
     const membership = this.em.map(Membership, { id: row.m_id, firm_id: row.firm_id, user_id: row.user_id, roles, created_at: row.m_created_at });
     req.auth = { session, membership, roles: membership.roles };

@@ -41,9 +41,18 @@ export class SharedThrottlerStorage implements ThrottlerStorage {
       blockedIn = blockDuration * 1000;
     }
     if (Math.random() < 0.01) {
-      await em.execute('delete from throttle_counter where expires_at < now(3) - interval 1 hour and (blocked_until is null or blocked_until < now(3)) limit 500', [], 'run');
+      await em.execute(
+        'delete from throttle_counter where expires_at < now(3) - interval 1 hour and (blocked_until is null or blocked_until < now(3)) limit 500',
+        [],
+        'run',
+      );
     }
-    return { totalHits: row.hits, timeToExpire: Math.max(0, Math.ceil(Number(row.expires_in) / 1e6)), isBlocked: blockedIn > 0, timeToBlockExpire: Math.max(0, Math.ceil(blockedIn / 1e6)) };
+    return {
+      totalHits: row.hits,
+      timeToExpire: Math.max(0, Math.ceil(Number(row.expires_in) / 1e6)),
+      isBlocked: blockedIn > 0,
+      timeToBlockExpire: Math.max(0, Math.ceil(blockedIn / 1e6)),
+    };
   }
 
   /** The longest wait, in whole seconds, that any of these counters is blocked for (0: none is). */

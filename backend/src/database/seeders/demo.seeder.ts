@@ -56,7 +56,16 @@ export const DEMO_JOB_NUMBER = 'NE-2417';
 async function seedKestrelRidge(em: EntityManager, firm: Firm): Promise<string[]> {
   if (await em.findOne(Project, { firm, jobNumber: DEMO_JOB_NUMBER })) return [];
   const people = Object.fromEntries(await Promise.all(DEMO_PEOPLE.map(async (p) => [p.email.split('@')[0], await em.findOneOrFail(User, { email: p.email })])));
-  const project = new Project(firm, { jobNumber: DEMO_JOB_NUMBER, title: 'Main switchboard power-factor correction', clientOrganisation: 'Kestrel Ridge Cold Storage', site: 'Kestrel Ridge distribution centre, 400 V 50 Hz plant' }, people.engineer);
+  const project = new Project(
+    firm,
+    {
+      jobNumber: DEMO_JOB_NUMBER,
+      title: 'Main switchboard power-factor correction',
+      clientOrganisation: 'Kestrel Ridge Cold Storage',
+      site: 'Kestrel Ridge distribution centre, 400 V 50 Hz plant',
+    },
+    people.engineer,
+  );
   em.persist([project, new ProjectClient(project, people.client)]);
   const dir = resolve(__dirname, '..', '..', '..', '..', 'templates');
   const states: SheetState[] = ['being-prepared', 'with-checker', 'being-prepared', 'checked', 'being-prepared', 'being-prepared'];

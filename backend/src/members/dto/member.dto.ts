@@ -2,7 +2,9 @@ import { ArrayMinSize, ArrayUnique, IsArray, IsIn } from 'class-validator';
 import { ROLES, type Role } from '../../core/roles';
 
 export class UpdateRolesDto {
-  @IsArray() @ArrayMinSize(1, { message: 'roles must name at least one role' }) @ArrayUnique()
+  @IsArray()
+  @ArrayMinSize(1, { message: 'roles must name at least one role' })
+  @ArrayUnique()
   @IsIn(ROLES, { each: true, message: `each role must be one of ${ROLES.join(', ')}` })
   roles: Role[];
 }

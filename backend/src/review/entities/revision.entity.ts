@@ -63,7 +63,24 @@ export class Revision {
   @Property({ length: 200, nullable: true })
   pdfObjectKey?: string;
 
-  constructor(sheet: Sheet, fields: Pick<Revision, 'number' | 'code' | 'snapshot' | 'snapshotSha256' | 'engineVersion' | 'preparedBy' | 'checkedBy' | 'approvedBy' | 'checkRequestedAt' | 'checkedAt' | 'approvedAt' | 'issuedAt'>) {
+  constructor(
+    sheet: Sheet,
+    fields: Pick<
+      Revision,
+      | 'number'
+      | 'code'
+      | 'snapshot'
+      | 'snapshotSha256'
+      | 'engineVersion'
+      | 'preparedBy'
+      | 'checkedBy'
+      | 'approvedBy'
+      | 'checkRequestedAt'
+      | 'checkedAt'
+      | 'approvedAt'
+      | 'issuedAt'
+    >,
+  ) {
     this.sheet = sheet;
     Object.assign(this, fields);
   }

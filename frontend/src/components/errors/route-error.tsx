@@ -11,8 +11,12 @@ export function RouteError() {
       <Alert severity="error">{message}</Alert>
       <Typography color="text.secondary">Nothing you saved is affected. Reload the page, or go back to your projects.</Typography>
       <Stack direction="row" spacing={1}>
-        <Button variant="contained" onClick={() => window.location.reload()}>Reload</Button>
-        <Button component={Link} to="/projects">Projects</Button>
+        <Button variant="contained" onClick={() => window.location.reload()}>
+          Reload
+        </Button>
+        <Button component={Link} to="/projects">
+          Projects
+        </Button>
       </Stack>
     </Stack>
   );

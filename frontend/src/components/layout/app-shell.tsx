@@ -1,10 +1,10 @@
 import { AppBar, Box, Button, Chip, Container, Stack, Toolbar, Tooltip, Typography } from '@mui/material';
 import { NavLink, Outlet, useNavigate } from 'react-router-dom';
-import { useSignOut } from '../../features/auth/api/auth-mutations';
-import { isMember, useMe } from '../../features/auth/api/get-me';
-import { ROLE_LABELS } from '../../features/members/api/members';
-import { useHealth } from '../../features/health/api/get-health';
-import { useNotifications } from '../../features/review/api/review';
+import { useSignOut } from '../../features/auth';
+import { isMember, useMe } from '../../features/auth';
+import { ROLE_LABELS } from '../../features/members';
+import { useHealth } from '../../features/health';
+import { useNotifications } from '../../features/review';
 import { palette } from '../../app/theme';
 
 const NAV = [
@@ -27,10 +27,12 @@ function Account() {
     );
   }
   return (
-    <Stack direction="row" spacing={1} sx={{ alignItems: "center" }} data-testid="account">
+    <Stack direction="row" spacing={1} sx={{ alignItems: 'center' }} data-testid="account">
       <Unread />
       <Box sx={{ textAlign: 'right', lineHeight: 1.1 }}>
-        <Typography component={NavLink} to="/profile" variant="body2" sx={{ color: '#fff', textDecoration: 'none', fontWeight: 600, display: 'block' }}>{me.user.name}</Typography>
+        <Typography component={NavLink} to="/profile" variant="body2" sx={{ color: '#fff', textDecoration: 'none', fontWeight: 600, display: 'block' }}>
+          {me.user.name}
+        </Typography>
         <Typography variant="caption" sx={{ color: 'rgba(255,255,255,0.75)' }} data-testid="firm-and-roles">
           {me.firm.name} · {me.roles.map((r) => ROLE_LABELS[r]).join(', ')}
         </Typography>
@@ -56,12 +58,28 @@ function Unread() {
 function ServiceStatus() {
   const { data, isError } = useHealth();
   const state = isError ? 'unreachable' : data?.status;
-  const label = state === 'ok' ? 'Server ready' : state === 'degraded' ? 'Server degraded' : state === 'down' ? 'Database down' : state === 'unreachable' ? 'Server unreachable' : 'Connecting';
+  const label =
+    state === 'ok'
+      ? 'Server ready'
+      : state === 'degraded'
+        ? 'Server degraded'
+        : state === 'down'
+          ? 'Database down'
+          : state === 'unreachable'
+            ? 'Server unreachable'
+            : 'Connecting';
   const colour = state === 'ok' ? palette.pass : state ? palette.fail : palette.inkLight;
-  const detail = data ? `database ${data.checks.database}, mail ${data.checks.mail}, files ${data.checks.objectStore}; app ${data.version}, engine ${data.engineVersion}` : '';
+  const detail = data
+    ? `database ${data.checks.database}, mail ${data.checks.mail}, files ${data.checks.objectStore}; app ${data.version}, engine ${data.engineVersion}`
+    : '';
   return (
     <Tooltip title={detail}>
-      <Chip size="small" label={label} data-testid="service-status" sx={{ bgcolor: 'transparent', color: '#fff', border: `1px solid ${colour}`, '& .MuiChip-label': { px: 1 } }} />
+      <Chip
+        size="small"
+        label={label}
+        data-testid="service-status"
+        sx={{ bgcolor: 'transparent', color: '#fff', border: `1px solid ${colour}`, '& .MuiChip-label': { px: 1 } }}
+      />
     </Tooltip>
   );
 }
@@ -74,7 +92,10 @@ export function AppShell() {
       <AppBar position="static">
         <Toolbar variant="dense" sx={{ gap: 3 }}>
           <Typography component={NavLink} to="/" variant="h4" sx={{ color: '#fff', textDecoration: 'none', letterSpacing: '0.02em' }}>
-            Amp<Box component="span" sx={{ color: palette.copperLight }}>wright</Box>
+            Amp
+            <Box component="span" sx={{ color: palette.copperLight }}>
+              wright
+            </Box>
           </Typography>
           <Stack direction="row" component="nav" aria-label="Main" spacing={0.5} sx={{ flexGrow: 1 }}>
             {nav.map((item) => (

@@ -4,8 +4,14 @@ import type { ReactNode } from 'react';
 export function PageHeading({ overline, children }: { overline?: string; children: ReactNode }) {
   return (
     <>
-      {overline && <Typography variant="overline" color="secondary">{overline}</Typography>}
-      <Typography variant="h1" gutterBottom>{children}</Typography>
+      {overline && (
+        <Typography variant="overline" color="secondary">
+          {overline}
+        </Typography>
+      )}
+      <Typography variant="h1" gutterBottom>
+        {children}
+      </Typography>
     </>
   );
 }

@@ -13,14 +13,18 @@ const newPassword = z.string().min(MIN_PASSWORD_LENGTH, `Use at least ${MIN_PASS
 
 export const signInSchema = z.object({ email, password: z.string().min(1, 'Enter your password') });
 export const registerSchema = z.object({
-  firmName: z.string().trim().min(2, 'Enter the firm\'s name'),
+  firmName: z.string().trim().min(2, "Enter the firm's name"),
   name: z.string().trim().min(1, 'Enter your name'),
   email,
   password: newPassword,
 });
 export const forgotSchema = z.object({ email });
 export const resetSchema = z.object({ token: z.string().min(20, 'This link is not complete'), password: newPassword });
-export const acceptSchema = z.object({ token: z.string().min(20, 'This link is not complete'), name: z.string().trim().min(1, 'Enter your name'), password: newPassword });
+export const acceptSchema = z.object({
+  token: z.string().min(20, 'This link is not complete'),
+  name: z.string().trim().min(1, 'Enter your name'),
+  password: newPassword,
+});
 export const profileSchema = z.object({ name: z.string().trim().min(1, 'Enter your name') });
 
 function useSignedIn() {
@@ -59,7 +63,8 @@ export function useSignOut() {
   });
 }
 
-export const useForgotPassword = () => useMutation({ mutationFn: (body: z.infer<typeof forgotSchema>) => api.post<{ message: string }>('/auth/forgot-password', body) });
+export const useForgotPassword = () =>
+  useMutation({ mutationFn: (body: z.infer<typeof forgotSchema>) => api.post<{ message: string }>('/auth/forgot-password', body) });
 export const useResetPassword = () => useMutation({ mutationFn: (body: z.infer<typeof resetSchema>) => api.post<void>('/auth/reset-password', body) });
 
 export function useAcceptInvitation() {

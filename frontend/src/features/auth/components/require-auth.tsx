@@ -12,7 +12,7 @@ export function RequireAuth({ roles, children }: { roles?: Role[]; children: Rea
   const location = useLocation();
   if (isPending) {
     return (
-      <Stack sx={{ alignItems: "center", py: 6 }}>
+      <Stack sx={{ alignItems: 'center', py: 6 }}>
         <CircularProgress aria-label="Loading" />
       </Stack>
     );

@@ -8,7 +8,6 @@ export const healthKeys = { all: ['health'] as const };
 
 export const getHealth = (signal?: AbortSignal) => api.get<Health>('/health', { signal, acceptStatus: [503] });
 
-export const healthQueryOptions = () =>
-  queryOptions({ queryKey: healthKeys.all, queryFn: ({ signal }) => getHealth(signal), refetchInterval: 30_000 });
+export const healthQueryOptions = () => queryOptions({ queryKey: healthKeys.all, queryFn: ({ signal }) => getHealth(signal), refetchInterval: 30_000 });
 
 export const useHealth = () => useQuery(healthQueryOptions());

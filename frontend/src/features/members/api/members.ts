@@ -2,7 +2,7 @@ import { ROLES } from '@ampwright/common/review/workflow';
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
-import type { Role } from '../../auth/api/get-me';
+import type { Role } from '../../auth';
 
 export interface Member {
   id: string;
@@ -24,7 +24,8 @@ export const memberKeys = { all: ['members'] as const, invitations: ['invitation
 export const membersQueryOptions = () => queryOptions({ queryKey: memberKeys.all, queryFn: ({ signal }) => api.get<Member[]>('/members', { signal }) });
 export const useMembers = () => useQuery(membersQueryOptions());
 
-export const invitationsQueryOptions = () => queryOptions({ queryKey: memberKeys.invitations, queryFn: ({ signal }) => api.get<Invitation[]>('/invitations', { signal }) });
+export const invitationsQueryOptions = () =>
+  queryOptions({ queryKey: memberKeys.invitations, queryFn: ({ signal }) => api.get<Invitation[]>('/invitations', { signal }) });
 export const useInvitations = (enabled: boolean) => useQuery({ ...invitationsQueryOptions(), enabled });
 
 export const ROLE_LABELS: Record<Role, string> = { owner: 'Owner', engineer: 'Engineer', checker: 'Checker', approver: 'Approver', client: 'Client' };
@@ -39,7 +40,10 @@ export const inviteSchema = z
 /** The owner withdraws an invitation not yet accepted: its link stops working. */
 export function useRevokeInvitation() {
   const qc = useQueryClient();
-  return useMutation({ mutationFn: (id: string) => api.delete<Invitation>(`/invitations/${id}`), onSuccess: () => qc.invalidateQueries({ queryKey: memberKeys.invitations }) });
+  return useMutation({
+    mutationFn: (id: string) => api.delete<Invitation>(`/invitations/${id}`),
+    onSuccess: () => qc.invalidateQueries({ queryKey: memberKeys.invitations }),
+  });
 }
 
 export function useInvite() {

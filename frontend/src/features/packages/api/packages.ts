@@ -17,7 +17,10 @@ export const usePackageStatus = (revisionId: string) =>
 
 export function useRetryPackage(revisionId: string) {
   const qc = useQueryClient();
-  return useMutation({ mutationFn: () => api.post<PackageStatus>(`/revisions/${revisionId}/package/retry`), onSuccess: (s) => qc.setQueryData(['revisions', revisionId, 'package'], s) });
+  return useMutation({
+    mutationFn: () => api.post<PackageStatus>(`/revisions/${revisionId}/package/retry`),
+    onSuccess: (s) => qc.setQueryData(['revisions', revisionId, 'package'], s),
+  });
 }
 
 export const usePortal = () => useQuery({ queryKey: ['portal'], queryFn: ({ signal }) => api.get<PortalRevision[]>('/portal/revisions', { signal }) });
@@ -32,9 +35,11 @@ export function useVerify() {
   });
 }
 
-export const useCertificate = () => useQuery({ queryKey: ['firm', 'certificate'], queryFn: ({ signal }) => api.get<CertificateView | null>('/firm/certificate', { signal }) });
+export const useCertificate = () =>
+  useQuery({ queryKey: ['firm', 'certificate'], queryFn: ({ signal }) => api.get<CertificateView | null>('/firm/certificate', { signal }) });
 
-export const usePackageSettings = () => useQuery({ queryKey: ['firm', 'package-settings'], queryFn: ({ signal }) => api.get<PackageSettingsDto>('/firm/package-settings', { signal }) });
+export const usePackageSettings = () =>
+  useQuery({ queryKey: ['firm', 'package-settings'], queryFn: ({ signal }) => api.get<PackageSettingsDto>('/firm/package-settings', { signal }) });
 
 export function useSetPackageSettings() {
   const qc = useQueryClient();

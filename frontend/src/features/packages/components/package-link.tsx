@@ -6,16 +6,33 @@ export function PackageLink({ revisionId, canRetry = false }: { revisionId: stri
   const status = usePackageStatus(revisionId);
   const retry = useRetryPackage(revisionId);
   const s = status.data;
-  if (status.isError) return <Typography variant="caption" color="error">{status.error.message}</Typography>;
+  if (status.isError)
+    return (
+      <Typography variant="caption" color="error">
+        {status.error.message}
+      </Typography>
+    );
   if (!s) return null;
   if (s.status === 'done') {
     return (
-      <Button size="small" variant="outlined" href={`/api/revisions/${revisionId}/package`} download data-testid="package-download">Download the signed PDF</Button>
+      <Button size="small" variant="outlined" href={`/api/revisions/${revisionId}/package`} download data-testid="package-download">
+        Download the signed PDF
+      </Button>
     );
   }
   if (s.status === 'failed' || s.status === 'none') {
     return (
-      <Alert severity="error" sx={{ py: 0 }} action={canRetry ? <Button size="small" onClick={() => retry.mutate()}>Try again</Button> : undefined}>
+      <Alert
+        severity="error"
+        sx={{ py: 0 }}
+        action={
+          canRetry ? (
+            <Button size="small" onClick={() => retry.mutate()}>
+              Try again
+            </Button>
+          ) : undefined
+        }
+      >
         The package could not be made{s.error ? `: ${s.error}` : ''}.
       </Alert>
     );

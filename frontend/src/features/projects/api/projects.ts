@@ -13,7 +13,8 @@ export const projectKeys = {
 export const projectsQueryOptions = () => queryOptions({ queryKey: projectKeys.all, queryFn: ({ signal }) => api.get<Project[]>('/projects', { signal }) });
 export const useProjects = () => useQuery(projectsQueryOptions());
 
-export const projectQueryOptions = (id: string) => queryOptions({ queryKey: projectKeys.one(id), queryFn: ({ signal }) => api.get<Project>(`/projects/${id}`, { signal }) });
+export const projectQueryOptions = (id: string) =>
+  queryOptions({ queryKey: projectKeys.one(id), queryFn: ({ signal }) => api.get<Project>(`/projects/${id}`, { signal }) });
 export const useProject = (id: string) => useQuery(projectQueryOptions(id));
 
 const text = (what: string, max: number) => z.string().trim().min(1, `Enter the ${what}`).max(max, `At most ${max} characters`);
@@ -32,7 +33,10 @@ export function useCreateProject() {
   });
 }
 
-export const useProjectPeople = (id: string) => useQuery(queryOptions({ queryKey: [...projectKeys.one(id), 'people'], queryFn: ({ signal }) => api.get<ProjectPeopleDto>(`/projects/${id}/people`, { signal }) }));
+export const useProjectPeople = (id: string) =>
+  useQuery(
+    queryOptions({ queryKey: [...projectKeys.one(id), 'people'], queryFn: ({ signal }) => api.get<ProjectPeopleDto>(`/projects/${id}/people`, { signal }) }),
+  );
 
 export function useSetProjectMembers(id: string) {
   const queryClient = useQueryClient();

@@ -23,20 +23,49 @@ function Thread({ q, ctx }: { q: QueryDto; ctx: ReviewContext }) {
   return (
     <Box data-testid="query" sx={{ borderLeft: `3px solid ${q.status === 'closed' ? palette.rule : palette.caution}`, pl: 1.5, py: 0.5 }}>
       <Stack direction="row" spacing={1} sx={{ alignItems: 'center' }}>
-        <Chip size="small" color={STATUS_COLOUR[q.status]} label={q.status === 'open' ? 'Open' : q.status === 'answered' ? 'Answered' : 'Closed'} data-testid="query-status" />
-        <Typography variant="caption" color="text.secondary">{q.line ? `Line ${q.line} · ` : ''}raised by {q.raisedBy}{q.closedBy ? ` · closed by ${q.closedBy}` : ''}</Typography>
+        <Chip
+          size="small"
+          color={STATUS_COLOUR[q.status]}
+          label={q.status === 'open' ? 'Open' : q.status === 'answered' ? 'Answered' : 'Closed'}
+          data-testid="query-status"
+        />
+        <Typography variant="caption" color="text.secondary">
+          {q.line ? `Line ${q.line} · ` : ''}raised by {q.raisedBy}
+          {q.closedBy ? ` · closed by ${q.closedBy}` : ''}
+        </Typography>
       </Stack>
       {q.messages.map((m) => (
-        <Typography key={m.id} variant="body2" sx={{ mt: 0.5 }}><strong>{m.author}:</strong> {m.text}</Typography>
+        <Typography key={m.id} variant="body2" sx={{ mt: 0.5 }}>
+          <strong>{m.author}:</strong> {m.text}
+        </Typography>
       ))}
       {mayReply && (
         <Stack direction="row" spacing={1} sx={{ mt: 0.5 }}>
           <TextField size="small" label={ctx.answering ? 'Answer' : 'Reply'} value={text} onChange={(e) => setText(e.target.value)} sx={{ flex: 1 }} />
-          <Button size="small" disabled={!text.trim() || reply.isPending} onClick={() => reply.mutate({ id: q.id, text: text.trim() }, { onSuccess: () => setText('') })}>Send</Button>
-          {ctx.checking && <Button size="small" color="success" disabled={close.isPending} onClick={() => close.mutate({ id: q.id, note: text.trim() || undefined }, { onSuccess: () => setText('') })}>Close the query</Button>}
+          <Button
+            size="small"
+            disabled={!text.trim() || reply.isPending}
+            onClick={() => reply.mutate({ id: q.id, text: text.trim() }, { onSuccess: () => setText('') })}
+          >
+            Send
+          </Button>
+          {ctx.checking && (
+            <Button
+              size="small"
+              color="success"
+              disabled={close.isPending}
+              onClick={() => close.mutate({ id: q.id, note: text.trim() || undefined }, { onSuccess: () => setText('') })}
+            >
+              Close the query
+            </Button>
+          )}
         </Stack>
       )}
-      {(reply.isError || close.isError) && <Alert severity="error" sx={{ mt: 0.5 }}>{(reply.error ?? close.error)?.message}</Alert>}
+      {(reply.isError || close.isError) && (
+        <Alert severity="error" sx={{ mt: 0.5 }}>
+          {(reply.error ?? close.error)?.message}
+        </Alert>
+      )}
     </Box>
   );
 }
@@ -56,21 +85,58 @@ export function CellReview({ cell, queries, ctx }: { cell: CellDto; queries: Que
         {cell.changedAfterAgreement && <Chip size="small" color="warning" label="Changed since the checker agreed it" data-testid="changed-after-agreement" />}
         {ctx.checking && (
           <>
-            <Button size="small" onClick={() => setRaising((r) => !r)}>Raise a query</Button>
-            <Button size="small" color="success" onClick={() => agreement.mutate({ cellId: cell.id, agreed: !cell.agreedBy })}>{cell.agreedBy ? 'Withdraw agreement' : 'Agree this cell'}</Button>
+            <Button size="small" onClick={() => setRaising((r) => !r)}>
+              Raise a query
+            </Button>
+            <Button size="small" color="success" onClick={() => agreement.mutate({ cellId: cell.id, agreed: !cell.agreedBy })}>
+              {cell.agreedBy ? 'Withdraw agreement' : 'Agree this cell'}
+            </Button>
           </>
         )}
       </Stack>
       {raising && (
         <Stack direction={{ xs: 'column', sm: 'row' }} spacing={1} sx={{ mb: 1 }}>
           <TextField size="small" label="Query" value={text} onChange={(e) => setText(e.target.value)} sx={{ flex: 1 }} autoFocus />
-          {lines > 1 && <TextField size="small" label="Line (optional)" value={line} onChange={(e) => setLine(e.target.value.replace(/\D/g, ''))} sx={{ width: 130 }} helperText={`1 to ${lines}`} />}
-          <Button variant="contained" size="small" disabled={!text.trim() || raise.isPending} onClick={() => raise.mutate({ cellId: cell.id, text: text.trim(), ...(line ? { line: Number(line) } : {}) }, { onSuccess: () => (setText(''), setLine(''), setRaising(false)) })}>Raise</Button>
+          {lines > 1 && (
+            <TextField
+              size="small"
+              label="Line (optional)"
+              value={line}
+              onChange={(e) => setLine(e.target.value.replace(/\D/g, ''))}
+              sx={{ width: 130 }}
+              helperText={`1 to ${lines}`}
+            />
+          )}
+          <Button
+            variant="contained"
+            size="small"
+            disabled={!text.trim() || raise.isPending}
+            onClick={() =>
+              raise.mutate(
+                { cellId: cell.id, text: text.trim(), ...(line ? { line: Number(line) } : {}) },
+                { onSuccess: () => (setText(''), setLine(''), setRaising(false)) },
+              )
+            }
+          >
+            Raise
+          </Button>
         </Stack>
       )}
-      {raise.isError && <Alert severity="error" sx={{ mb: 1 }}>{raise.error.message}</Alert>}
-      {agreement.isError && <Alert severity="error" sx={{ mb: 1 }}>{agreement.error.message}</Alert>}
-      <Stack spacing={1}>{queries.map((q) => <Thread key={q.id} q={q} ctx={ctx} />)}</Stack>
+      {raise.isError && (
+        <Alert severity="error" sx={{ mb: 1 }}>
+          {raise.error.message}
+        </Alert>
+      )}
+      {agreement.isError && (
+        <Alert severity="error" sx={{ mb: 1 }}>
+          {agreement.error.message}
+        </Alert>
+      )}
+      <Stack spacing={1}>
+        {queries.map((q) => (
+          <Thread key={q.id} q={q} ctx={ctx} />
+        ))}
+      </Stack>
     </Box>
   );
 }

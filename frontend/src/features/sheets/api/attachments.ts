@@ -7,7 +7,9 @@ export type Attachment = AttachmentDto;
 export const attachmentKeys = { ofSheet: (sheetId: string) => ['sheets', sheetId, 'attachments'] as const };
 
 export const useAttachments = (sheetId: string) =>
-  useQuery(queryOptions({ queryKey: attachmentKeys.ofSheet(sheetId), queryFn: ({ signal }) => api.get<Attachment[]>(`/sheets/${sheetId}/attachments`, { signal }) }));
+  useQuery(
+    queryOptions({ queryKey: attachmentKeys.ofSheet(sheetId), queryFn: ({ signal }) => api.get<Attachment[]>(`/sheets/${sheetId}/attachments`, { signal }) }),
+  );
 
 /**
  * An upload with its progress: fetch cannot report upload progress, so this one request goes

@@ -6,15 +6,47 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { sheetKeys } from './sheets';
 import { EditConflict, mergeContents, mergeSave, sameCell, useCellChange } from './sheet-editing';
 
-const cell = (id: string, position: number, source: string, changedBy = 'A'): CellDto => ({ id, position, kind: 'calc', fields: { source }, results: null, changedBy, changedAt: '2026-01-01T00:00:00.000Z', agreedBy: null, changedAfterAgreement: false });
-const sheet = (version: number, cells: CellDto[]): SheetDto => ({ id: 's1', projectId: 'p1', number: 'C-1', title: 'T', settings: {}, state: 'being-prepared', version, engineVersion: null, preparer: { id: 'u', name: 'A' }, checker: null, approver: null, revisionCode: 'A', revisionNumber: 1, openQueries: 0, coPreparers: [], authorIds: ['u'], cells });
+const cell = (id: string, position: number, source: string, changedBy = 'A'): CellDto => ({
+  id,
+  position,
+  kind: 'calc',
+  fields: { source },
+  results: null,
+  changedBy,
+  changedAt: '2026-01-01T00:00:00.000Z',
+  agreedBy: null,
+  changedAfterAgreement: false,
+});
+const sheet = (version: number, cells: CellDto[]): SheetDto => ({
+  id: 's1',
+  projectId: 'p1',
+  number: 'C-1',
+  title: 'T',
+  settings: {},
+  state: 'being-prepared',
+  version,
+  engineVersion: null,
+  preparer: { id: 'u', name: 'A' },
+  checker: null,
+  approver: null,
+  revisionCode: 'A',
+  revisionNumber: 1,
+  openQueries: 0,
+  coPreparers: [],
+  authorIds: ['u'],
+  cells,
+});
 
 describe('mergeSave', () => {
   it('replaces changed cells, drops removed ones, adds new ones in position order and raises the version', () => {
     const before = sheet(3, [cell('a', 0, 'x = 1'), cell('b', 1, 'y = 2'), cell('c', 2, 'z = 3')]);
     const after = mergeSave(before, { version: 4, changed: [cell('b', 0, 'y = 5'), cell('n', 1, 'n = 1')], removed: ['a'] });
     expect(after.version).toBe(4);
-    expect(after.cells.map((c) => [c.id, c.position])).toEqual([['b', 0], ['n', 1], ['c', 2]]);
+    expect(after.cells.map((c) => [c.id, c.position])).toEqual([
+      ['b', 0],
+      ['n', 1],
+      ['c', 2],
+    ]);
     expect(after.cells[0].fields.source).toBe('y = 5');
     expect(after.cells[2]).toBe(before.cells[2]); // untouched cells keep their identity, so they do not re-render
   });
@@ -26,10 +58,17 @@ const contents = (version: number, cells: CellDto[]): SheetContentsDto => ({ ver
 describe('mergeContents', () => {
   it('takes the order and content of a stale answer, keeping the results of cells whose content is unchanged', () => {
     const result = { kind: 'calc', status: 'ok', errors: [], warnings: [] } as unknown as CellResult;
-    const before = sheet(3, [{ ...cell('a', 0, 'x = 1'), results: result }, { ...cell('b', 1, 'y = 2'), results: result }]);
+    const before = sheet(3, [
+      { ...cell('a', 0, 'x = 1'), results: result },
+      { ...cell('b', 1, 'y = 2'), results: result },
+    ]);
     const after = mergeContents(before, contents(5, [cell('b', 0, 'y = 2'), cell('a', 1, 'x = 8', 'B'), cell('n', 2, 'n = 1', 'B')]));
     expect(after.version).toBe(5);
-    expect(after.cells.map((c) => [c.id, c.fields.source, c.results])).toEqual([['b', 'y = 2', result], ['a', 'x = 8', null], ['n', 'n = 1', null]]);
+    expect(after.cells.map((c) => [c.id, c.fields.source, c.results])).toEqual([
+      ['b', 'y = 2', result],
+      ['a', 'x = 8', null],
+      ['n', 'n = 1', null],
+    ]);
     expect(after.title).toBe('T');
   });
 });
@@ -44,11 +83,14 @@ describe('sameCell', () => {
 /** Answers of a fake server, in order; each request's body is recorded. */
 function serverAnswers(...answers: { status: number; body: unknown }[]) {
   const sent: { url: string; body: unknown }[] = [];
-  vi.stubGlobal('fetch', vi.fn(async (url: string, init: RequestInit) => {
-    sent.push({ url, body: init.body ? JSON.parse(String(init.body)) : undefined });
-    const a = answers.shift()!;
-    return new Response(JSON.stringify(a.body), { status: a.status, headers: { 'Content-Type': 'application/json' } });
-  }));
+  vi.stubGlobal(
+    'fetch',
+    vi.fn(async (url: string, init: RequestInit) => {
+      sent.push({ url, body: init.body ? JSON.parse(String(init.body)) : undefined });
+      const a = answers.shift()!;
+      return new Response(JSON.stringify(a.body), { status: a.status, headers: { 'Content-Type': 'application/json' } });
+    }),
+  );
   return sent;
 }
 
@@ -70,7 +112,9 @@ describe('useCellChange after someone else saved', () => {
       { status: 200, body: { version: 6, changed: [cell('a', 0, 'x = 2')], removed: [] } },
     );
     const { client, result } = setup(sheet(4, [cell('a', 0, 'x = 1'), cell('b', 1, 'y = 2')]));
-    await act(() => result.current.mutateAsync({ type: 'update', cellId: 'a', cell: { kind: 'calc', source: 'x = 2' }, base: { kind: 'calc', source: 'x = 1' } }));
+    await act(() =>
+      result.current.mutateAsync({ type: 'update', cellId: 'a', cell: { kind: 'calc', source: 'x = 2' }, base: { kind: 'calc', source: 'x = 1' } }),
+    );
     expect(sent.map((s) => (s.body as { version: number }).version)).toEqual([4, 5]);
     const cached = client.getQueryData<SheetDto>(sheetKeys.one('s1'))!;
     expect(cached.version).toBe(6);

@@ -22,7 +22,15 @@ export const cellBody = (c: Pick<CellDto, 'kind' | 'fields'>): CellBody => ({ ..
 /** Whether two cells hold the same content (key order does not matter). */
 export function sameCell(a: Record<string, unknown>, b: Record<string, unknown>): boolean {
   const canon = (v: unknown): unknown =>
-    Array.isArray(v) ? v.map(canon) : v && typeof v === 'object' ? Object.fromEntries(Object.keys(v).sort().map((k) => [k, canon((v as Record<string, unknown>)[k])])) : v;
+    Array.isArray(v)
+      ? v.map(canon)
+      : v && typeof v === 'object'
+        ? Object.fromEntries(
+            Object.keys(v)
+              .sort()
+              .map((k) => [k, canon((v as Record<string, unknown>)[k])]),
+          )
+        : v;
   return JSON.stringify(canon(a)) === JSON.stringify(canon(b));
 }
 
@@ -37,7 +45,11 @@ export type CellChange =
 /** Someone else changed (or deleted) the same cell: the user's text is kept, theirs is shown. */
 export class EditConflict extends Error {
   constructor(readonly theirs: CellDto | null) {
-    super(theirs ? `${theirs.changedBy ?? 'Someone'} changed this cell while you were editing it. Your text is kept; choose which to keep.` : 'Someone deleted this cell while you were editing it. Your text is kept; you can add it again as a new cell.');
+    super(
+      theirs
+        ? `${theirs.changedBy ?? 'Someone'} changed this cell while you were editing it. Your text is kept; choose which to keep.`
+        : 'Someone deleted this cell while you were editing it. Your text is kept; you can add it again as a new cell.',
+    );
     this.name = 'EditConflict';
   }
 }
@@ -106,7 +118,7 @@ export function useCellChange(sheetId: string) {
       const theirs = (err.body as { current?: SheetContentsDto } | undefined)?.current;
       if (!theirs) throw err;
       queryClient.setQueryData<SheetDto>(key, (s) => (s ? mergeContents(s, theirs) : s));
-      const target = 'cellId' in change ? theirs.cells.find((c) => c.id === change.cellId) ?? null : null;
+      const target = 'cellId' in change ? (theirs.cells.find((c) => c.id === change.cellId) ?? null) : null;
       if (change.type === 'update' && (!target || !sameCell(cellBody(target), change.base))) throw new EditConflict(target);
       if (change.type === 'delete' && !target) {
         void queryClient.invalidateQueries({ queryKey: key });

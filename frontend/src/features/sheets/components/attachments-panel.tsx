@@ -35,19 +35,35 @@ export function AttachmentsPanel({ sheetId, editable }: { sheetId: string; edita
   return (
     <Paper component="section" aria-label="Attachments" sx={{ p: 2 }}>
       <Stack direction="row" spacing={2} sx={{ alignItems: 'center', mb: 1 }}>
-        <Typography variant="h3" component="h2" sx={{ fontSize: '1.1rem' }}>Attachments</Typography>
+        <Typography variant="h3" component="h2" sx={{ fontSize: '1.1rem' }}>
+          Attachments
+        </Typography>
         {editable && (
           <>
-            <Button size="small" variant="outlined" onClick={() => input.current?.click()} disabled={upload.isPending}>Upload a file</Button>
+            <Button size="small" variant="outlined" onClick={() => input.current?.click()} disabled={upload.isPending}>
+              Upload a file
+            </Button>
             <input ref={input} type="file" hidden onChange={onFile} data-testid="attachment-input" />
           </>
         )}
       </Stack>
       {upload.isPending && <LinearProgress variant="determinate" value={progress * 100} aria-label="Upload progress" sx={{ mb: 1 }} />}
-      {(tooLarge || upload.isError) && <Alert severity="error" sx={{ mb: 1 }}>{tooLarge ?? upload.error?.message}</Alert>}
-      {remove.isError && <Alert severity="error" sx={{ mb: 1 }}>{remove.error.message}</Alert>}
+      {(tooLarge || upload.isError) && (
+        <Alert severity="error" sx={{ mb: 1 }}>
+          {tooLarge ?? upload.error?.message}
+        </Alert>
+      )}
+      {remove.isError && (
+        <Alert severity="error" sx={{ mb: 1 }}>
+          {remove.error.message}
+        </Alert>
+      )}
       {list.isError && <Alert severity="error">{list.error.message}</Alert>}
-      {list.data && list.data.length === 0 && <Typography variant="body2" color="text.secondary">No attachments. Datasheets, drawings and site records can be kept here (PDF, images, Office documents, ZIP, CSV or text, up to 25 MB).</Typography>}
+      {list.data && list.data.length === 0 && (
+        <Typography variant="body2" color="text.secondary">
+          No attachments. Datasheets, drawings and site records can be kept here (PDF, images, Office documents, ZIP, CSV or text, up to 25 MB).
+        </Typography>
+      )}
       {list.data && list.data.length > 0 && (
         <Box sx={{ overflowX: 'auto' }}>
           <Table size="small" aria-label="Attachment list">
@@ -64,12 +80,26 @@ export function AttachmentsPanel({ sheetId, editable }: { sheetId: string; edita
             <TableBody>
               {list.data.map((a) => (
                 <TableRow key={a.id}>
-                  <TableCell><Link href={`/api/attachments/${a.id}/download`} download={a.fileName}>{a.fileName}</Link></TableCell>
+                  <TableCell>
+                    <Link href={`/api/attachments/${a.id}/download`} download={a.fileName}>
+                      {a.fileName}
+                    </Link>
+                  </TableCell>
                   <TableCell>{a.mediaType}</TableCell>
                   <TableCell align="right">{formatSize(a.size)}</TableCell>
-                  <TableCell sx={{ fontFamily: monoFont, fontSize: 11 }} title={a.sha256}>{a.sha256.slice(0, 16)}…</TableCell>
-                  <TableCell>{a.uploadedBy ?? '—'}, {new Date(a.createdAt).toLocaleString()}</TableCell>
-                  {editable && <TableCell><Button size="small" color="error" onClick={() => remove.mutate(a.id)}>Remove</Button></TableCell>}
+                  <TableCell sx={{ fontFamily: monoFont, fontSize: 11 }} title={a.sha256}>
+                    {a.sha256.slice(0, 16)}…
+                  </TableCell>
+                  <TableCell>
+                    {a.uploadedBy ?? '—'}, {new Date(a.createdAt).toLocaleString()}
+                  </TableCell>
+                  {editable && (
+                    <TableCell>
+                      <Button size="small" color="error" onClick={() => remove.mutate(a.id)}>
+                        Remove
+                      </Button>
+                    </TableCell>
+                  )}
                 </TableRow>
               ))}
             </TableBody>

@@ -26,7 +26,24 @@ export function Problems({ errors, warnings }: { errors: Diagnostic[]; warnings:
 }
 
 export function SourceText({ text }: { text: string }) {
-  return <Box component="pre" sx={{ fontFamily: monoFont, fontSize: 13, bgcolor: palette.paper, p: 1, m: 0, mb: 1, overflowX: 'auto', border: `1px solid ${palette.rule}`, whiteSpace: 'pre' }}>{text || ' '}</Box>;
+  return (
+    <Box
+      component="pre"
+      sx={{
+        fontFamily: monoFont,
+        fontSize: 13,
+        bgcolor: palette.paper,
+        p: 1,
+        m: 0,
+        mb: 1,
+        overflowX: 'auto',
+        border: `1px solid ${palette.rule}`,
+        whiteSpace: 'pre',
+      }}
+    >
+      {text || ' '}
+    </Box>
+  );
 }
 
 function CalcResults({ result }: { result: CalcResult }) {
@@ -35,13 +52,34 @@ function CalcResults({ result }: { result: CalcResult }) {
     <Box>
       {result.lines.map((line) =>
         line.tex ? (
-          <Box key={line.line} data-testid={`line-${line.name}`} sx={{ display: 'grid', gridTemplateColumns: { md: '1fr 1.4fr 0.8fr' }, gap: 2, alignItems: 'baseline', py: 0.5, borderBottom: `1px dotted ${palette.rule}` }}>
+          <Box
+            key={line.line}
+            data-testid={`line-${line.name}`}
+            sx={{
+              display: 'grid',
+              gridTemplateColumns: { md: '1fr 1.4fr 0.8fr' },
+              gap: 2,
+              alignItems: 'baseline',
+              py: 0.5,
+              borderBottom: `1px dotted ${palette.rule}`,
+            }}
+          >
             <Box>
               <Tex>{line.tex.formula}</Tex>
-              {line.description && <Typography variant="caption" color="text.secondary" sx={{ display: 'block' }}>{line.description}</Typography>}
-              {line.convention && <Typography variant="caption" color="text.secondary" sx={{ display: 'block' }} data-testid={`convention-${line.name}`}>{line.convention}</Typography>}
+              {line.description && (
+                <Typography variant="caption" color="text.secondary" sx={{ display: 'block' }}>
+                  {line.description}
+                </Typography>
+              )}
+              {line.convention && (
+                <Typography variant="caption" color="text.secondary" sx={{ display: 'block' }} data-testid={`convention-${line.name}`}>
+                  {line.convention}
+                </Typography>
+              )}
             </Box>
-            <Box sx={{ color: 'text.secondary', overflowX: 'auto' }}><Tex>{line.tex.working}</Tex></Box>
+            <Box sx={{ color: 'text.secondary', overflowX: 'auto' }}>
+              <Tex>{line.tex.working}</Tex>
+            </Box>
             <Box sx={{ fontWeight: 600 }} data-testid={`result-${line.name}`} title={line.value?.displayAlt}>
               <Tex>{line.tex.result}</Tex>
             </Box>
@@ -50,7 +88,9 @@ function CalcResults({ result }: { result: CalcResult }) {
       )}
       {figures.length > 0 && (
         <Stack direction="row" spacing={2} sx={{ flexWrap: 'wrap', mt: 1 }}>
-          {figures.map((f, i) => <SvgFigure key={i} svg={f.svg} label={f.kind === 'impedance-triangle' ? 'Impedance triangle' : 'Phasor diagram'} />)}
+          {figures.map((f, i) => (
+            <SvgFigure key={i} svg={f.svg} label={f.kind === 'impedance-triangle' ? 'Impedance triangle' : 'Phasor diagram'} />
+          ))}
         </Stack>
       )}
     </Box>
@@ -68,14 +108,29 @@ function CheckResults({ result, basis }: { result: CheckResult; basis?: string }
         {p.advisory && <Chip size="small" variant="outlined" label="Advisory" />}
         {result.tex && <Tex>{result.tex.formula}</Tex>}
       </Stack>
-      {result.tex?.working && <Box sx={{ color: 'text.secondary', mb: 1 }}><Tex>{result.tex.working}</Tex></Box>}
-      {p.utilisation && (
-        <Box sx={{ maxWidth: 420 }}>
-          <LinearProgress variant="determinate" value={p.utilisation.fraction * 100} color={TONE_COLOUR[p.utilisation.band] as 'success' | 'warning' | 'error'} aria-label="Utilisation" />
-          <Typography variant="caption" data-testid="utilisation">{p.utilisation.text}</Typography>
+      {result.tex?.working && (
+        <Box sx={{ color: 'text.secondary', mb: 1 }}>
+          <Tex>{result.tex.working}</Tex>
         </Box>
       )}
-      {!!basis && <Typography variant="body2" color="text.secondary">Basis: {basis}</Typography>}
+      {p.utilisation && (
+        <Box sx={{ maxWidth: 420 }}>
+          <LinearProgress
+            variant="determinate"
+            value={p.utilisation.fraction * 100}
+            color={TONE_COLOUR[p.utilisation.band] as 'success' | 'warning' | 'error'}
+            aria-label="Utilisation"
+          />
+          <Typography variant="caption" data-testid="utilisation">
+            {p.utilisation.text}
+          </Typography>
+        </Box>
+      )}
+      {!!basis && (
+        <Typography variant="body2" color="text.secondary">
+          Basis: {basis}
+        </Typography>
+      )}
     </Box>
   );
 }
@@ -86,10 +141,23 @@ export function TableView({ fields }: { fields: Record<string, unknown> }) {
   return (
     <Table size="small" sx={{ width: 'auto' }} aria-label="Table">
       <TableHead>
-        <TableRow>{columns.map((c, j) => <TableCell key={j}>{c.name}{c.unit ? ` [${c.unit}]` : ''}</TableCell>)}</TableRow>
+        <TableRow>
+          {columns.map((c, j) => (
+            <TableCell key={j}>
+              {c.name}
+              {c.unit ? ` [${c.unit}]` : ''}
+            </TableCell>
+          ))}
+        </TableRow>
       </TableHead>
       <TableBody>
-        {rows.map((r, i) => <TableRow key={i}>{r.map((v, j) => <TableCell key={j}>{String(v ?? '')}</TableCell>)}</TableRow>)}
+        {rows.map((r, i) => (
+          <TableRow key={i}>
+            {r.map((v, j) => (
+              <TableCell key={j}>{String(v ?? '')}</TableCell>
+            ))}
+          </TableRow>
+        ))}
       </TableBody>
     </Table>
   );
@@ -99,7 +167,9 @@ function SweepResults({ result, logX }: { result: SweepResult; logX: boolean }) 
   const svg = useMemo(() => sweepChart(result, { logX }), [result, logX]);
   return (
     <Box>
-      <Typography variant="body2">{result.variable?.values.length ?? 0} points of {result.variable?.name}</Typography>
+      <Typography variant="body2">
+        {result.variable?.values.length ?? 0} points of {result.variable?.name}
+      </Typography>
       {svg && <SvgFigure svg={svg} label="Frequency response" />}
     </Box>
   );
@@ -114,7 +184,9 @@ function TransientResults({ result }: { result: TransientResult }) {
         <TableBody>
           {rows.map((r) => (
             <TableRow key={r.label}>
-              <TableCell component="th" scope="row" sx={{ fontWeight: 600, verticalAlign: 'top' }}>{r.label}</TableCell>
+              <TableCell component="th" scope="row" sx={{ fontWeight: 600, verticalAlign: 'top' }}>
+                {r.label}
+              </TableCell>
               <TableCell>{r.text}</TableCell>
             </TableRow>
           ))}
@@ -146,4 +218,3 @@ export function CellResults({ kind, fields, result }: { kind: string; fields: Re
     </Box>
   );
 }
-

@@ -5,5 +5,13 @@ import { Box } from '@mui/material';
  * (common/src/plot/svg.ts), so it is safe to put into the page as it is.
  */
 export function SvgFigure({ svg, label }: { svg: string; label: string }) {
-  return <Box component="figure" role="figure" aria-label={label} sx={{ m: 0, my: 1, maxWidth: '100%', overflowX: 'auto', '& svg': { maxWidth: '100%', height: 'auto' } }} dangerouslySetInnerHTML={{ __html: svg }} />;
+  return (
+    <Box
+      component="figure"
+      role="figure"
+      aria-label={label}
+      sx={{ m: 0, my: 1, maxWidth: '100%', overflowX: 'auto', '& svg': { maxWidth: '100%', height: 'auto' } }}
+      dangerouslySetInnerHTML={{ __html: svg }}
+    />
+  );
 }

@@ -59,7 +59,8 @@ export const calcHighlighting = syntaxHighlighting(
   ]),
 );
 
-const toOptions = (entries: { label: string; detail: string }[], type: string, boost = 0): Completion[] => entries.map((e) => ({ label: e.label, detail: e.detail, type, boost }));
+const toOptions = (entries: { label: string; detail: string }[], type: string, boost = 0): Completion[] =>
+  entries.map((e) => ({ label: e.label, detail: e.detail, type, boost }));
 const FUNCTION_OPTIONS = toOptions(LANGUAGE_FUNCTIONS, 'function');
 const CONSTANT_OPTIONS = toOptions(LANGUAGE_CONSTANTS, 'constant');
 const KEYWORD_OPTIONS = LANGUAGE_KEYWORDS.map((k) => ({ label: k, type: 'keyword', detail: 'convert the result, e.g. to mA' }));
@@ -77,7 +78,9 @@ export function calcCompletion(scopeNames: () => { label: string; detail?: strin
         const unitLikely = /(\d|\))\s*$/.test(before) || /\bto\s+$/.test(before);
         const here = namesDefinedIn(context.state.doc.toString()).map((label) => ({ label, detail: 'this cell' }));
         const seen = new Set<string>();
-        const scope = [...here, ...scopeNames()].filter((n) => !seen.has(n.label) && seen.add(n.label)).map((n) => ({ label: n.label, detail: n.detail ?? 'in scope', type: 'variable', boost: unitLikely ? 0 : 2 }));
+        const scope = [...here, ...scopeNames()]
+          .filter((n) => !seen.has(n.label) && seen.add(n.label))
+          .map((n) => ({ label: n.label, detail: n.detail ?? 'in scope', type: 'variable', boost: unitLikely ? 0 : 2 }));
         const units = toOptions(LANGUAGE_UNITS, 'unit', unitLikely ? 3 : -1);
         return { from: word.from, options: [...scope, ...units, ...FUNCTION_OPTIONS, ...CONSTANT_OPTIONS, ...KEYWORD_OPTIONS], validFor: /^[A-Za-z0-9_]*$/ };
       },

@@ -17,20 +17,73 @@ export interface KindEditorProps extends EditorKeys {
 const str = (v: unknown) => (typeof v === 'string' ? v : v === undefined || v === null ? '' : String(v));
 
 export function CalcEditor(p: KindEditorProps) {
-  return <CodeEditor label={`${p.label} source`} value={str(p.value.source)} onChange={(source) => p.onChange({ ...p.value, source })} errors={p.errors} warnings={p.warnings} scopeNames={p.scopeNames} autoFocus onEvaluate={p.onEvaluate} onAddBelow={p.onAddBelow} onPrevious={p.onPrevious} onNext={p.onNext} placeholder="R = 12 ohm   # one statement a line" />;
+  return (
+    <CodeEditor
+      label={`${p.label} source`}
+      value={str(p.value.source)}
+      onChange={(source) => p.onChange({ ...p.value, source })}
+      errors={p.errors}
+      warnings={p.warnings}
+      scopeNames={p.scopeNames}
+      autoFocus
+      onEvaluate={p.onEvaluate}
+      onAddBelow={p.onAddBelow}
+      onPrevious={p.onPrevious}
+      onNext={p.onNext}
+      placeholder="R = 12 ohm   # one statement a line"
+    />
+  );
 }
 
 export function NoteEditor(p: KindEditorProps) {
-  return <TextField label="Note (headings with #, maths between $ signs)" multiline minRows={3} fullWidth autoFocus value={str(p.value.text)} onChange={(e) => p.onChange({ ...p.value, text: e.target.value })} slotProps={{ htmlInput: { style: { fontFamily: monoFont, fontSize: 13 } } }} />;
+  return (
+    <TextField
+      label="Note (headings with #, maths between $ signs)"
+      multiline
+      minRows={3}
+      fullWidth
+      autoFocus
+      value={str(p.value.text)}
+      onChange={(e) => p.onChange({ ...p.value, text: e.target.value })}
+      slotProps={{ htmlInput: { style: { fontFamily: monoFont, fontSize: 13 } } }}
+    />
+  );
 }
 
 export function CheckEditor(p: KindEditorProps) {
   return (
     <Stack spacing={1.5}>
-      <CodeEditor label={`${p.label} condition`} singleLine value={str(p.value.condition)} onChange={(condition) => p.onChange({ ...p.value, condition })} errors={p.errors} warnings={p.warnings} scopeNames={p.scopeNames} autoFocus onEvaluate={p.onEvaluate} onAddBelow={p.onAddBelow} onPrevious={p.onPrevious} onNext={p.onNext} placeholder="I_rms <= 1.35 * I_rated" />
+      <CodeEditor
+        label={`${p.label} condition`}
+        singleLine
+        value={str(p.value.condition)}
+        onChange={(condition) => p.onChange({ ...p.value, condition })}
+        errors={p.errors}
+        warnings={p.warnings}
+        scopeNames={p.scopeNames}
+        autoFocus
+        onEvaluate={p.onEvaluate}
+        onAddBelow={p.onAddBelow}
+        onPrevious={p.onPrevious}
+        onNext={p.onNext}
+        placeholder="I_rms <= 1.35 * I_rated"
+      />
       <Stack direction={{ xs: 'column', sm: 'row' }} spacing={1.5}>
-        <TextField label="Basis (where the limit comes from)" size="small" fullWidth value={str(p.value.basis)} onChange={(e) => p.onChange({ ...p.value, basis: e.target.value })} />
-        <TextField select label="Severity" size="small" sx={{ minWidth: 160 }} value={str(p.value.severity) || 'mandatory'} onChange={(e) => p.onChange({ ...p.value, severity: e.target.value })}>
+        <TextField
+          label="Basis (where the limit comes from)"
+          size="small"
+          fullWidth
+          value={str(p.value.basis)}
+          onChange={(e) => p.onChange({ ...p.value, basis: e.target.value })}
+        />
+        <TextField
+          select
+          label="Severity"
+          size="small"
+          sx={{ minWidth: 160 }}
+          value={str(p.value.severity) || 'mandatory'}
+          onChange={(e) => p.onChange({ ...p.value, severity: e.target.value })}
+        >
           <MenuItem value="mandatory">Mandatory</MenuItem>
           <MenuItem value="advisory">Advisory</MenuItem>
         </TextField>
@@ -51,24 +104,68 @@ export function SweepEditor(p: KindEditorProps) {
         <TextField label="From" size="small" value={str(p.value.from)} onChange={(e) => set('from', e.target.value)} />
         <TextField label="To" size="small" value={str(p.value.to)} onChange={(e) => set('to', e.target.value)} />
         <TextField label="Points" size="small" value={str(p.value.points)} onChange={(e) => set('points', toInt(e.target.value))} helperText="2 to 20 000" />
-        <TextField select label="Spacing" size="small" sx={{ minWidth: 130 }} value={str(p.value.spacing) || 'linear'} onChange={(e) => set('spacing', e.target.value)}>
+        <TextField
+          select
+          label="Spacing"
+          size="small"
+          sx={{ minWidth: 130 }}
+          value={str(p.value.spacing) || 'linear'}
+          onChange={(e) => set('spacing', e.target.value)}
+        >
           <MenuItem value="linear">Linear</MenuItem>
           <MenuItem value="log">Logarithmic</MenuItem>
         </TextField>
       </Stack>
-      <CodeEditor label={`${p.label} outputs`} value={outputs.join('\n')} onChange={(text) => set('outputs', text.split('\n').filter((l) => l.trim() !== ''))} errors={p.errors} warnings={p.warnings} scopeNames={p.scopeNames} onEvaluate={p.onEvaluate} onAddBelow={p.onAddBelow} onPrevious={p.onPrevious} onNext={p.onNext} placeholder="One expression a line" />
+      <CodeEditor
+        label={`${p.label} outputs`}
+        value={outputs.join('\n')}
+        onChange={(text) =>
+          set(
+            'outputs',
+            text.split('\n').filter((l) => l.trim() !== ''),
+          )
+        }
+        errors={p.errors}
+        warnings={p.warnings}
+        scopeNames={p.scopeNames}
+        onEvaluate={p.onEvaluate}
+        onAddBelow={p.onAddBelow}
+        onPrevious={p.onPrevious}
+        onNext={p.onNext}
+        placeholder="One expression a line"
+      />
     </Stack>
   );
 }
 
-const TRANSIENT_FIELDS: [string, string][] = [['R', 'R'], ['L', 'L'], ['C', 'C'], ['source', 'Source E(t)'], ['q0', 'q0 (initial charge)'], ['i0', 'i0 (initial current)'], ['span', 'Time span']];
+const TRANSIENT_FIELDS: [string, string][] = [
+  ['R', 'R'],
+  ['L', 'L'],
+  ['C', 'C'],
+  ['source', 'Source E(t)'],
+  ['q0', 'q0 (initial charge)'],
+  ['i0', 'i0 (initial current)'],
+  ['span', 'Time span'],
+];
 
 export function TransientEditor(p: KindEditorProps) {
   const set = (k: string, v: unknown) => p.onChange({ ...p.value, [k]: v });
   return (
     <Box sx={{ display: 'grid', gridTemplateColumns: { xs: '1fr', sm: 'repeat(4, 1fr)' }, gap: 1.5 }}>
       {TRANSIENT_FIELDS.map(([k, label], i) => (
-        <TextField key={k} label={label} size="small" autoFocus={i === 0} value={str(p.value[k])} onChange={(e) => (e.target.value === '' && (k === 'q0' || k === 'i0') ? p.onChange(Object.fromEntries(Object.entries(p.value).filter(([x]) => x !== k)) as CellBody) : set(k, e.target.value))} slotProps={{ htmlInput: { style: { fontFamily: monoFont } } }} />
+        <TextField
+          key={k}
+          label={label}
+          size="small"
+          autoFocus={i === 0}
+          value={str(p.value[k])}
+          onChange={(e) =>
+            e.target.value === '' && (k === 'q0' || k === 'i0')
+              ? p.onChange(Object.fromEntries(Object.entries(p.value).filter(([x]) => x !== k)) as CellBody)
+              : set(k, e.target.value)
+          }
+          slotProps={{ htmlInput: { style: { fontFamily: monoFont } } }}
+        />
       ))}
       <TextField label="Points" size="small" value={str(p.value.points)} onChange={(e) => set('points', toInt(e.target.value))} />
     </Box>
@@ -76,7 +173,16 @@ export function TransientEditor(p: KindEditorProps) {
 }
 
 export function FigureEditor(p: KindEditorProps) {
-  return <TextField label="Caption" size="small" fullWidth autoFocus value={str(p.value.caption)} onChange={(e) => p.onChange({ ...p.value, caption: e.target.value })} />;
+  return (
+    <TextField
+      label="Caption"
+      size="small"
+      fullWidth
+      autoFocus
+      value={str(p.value.caption)}
+      onChange={(e) => p.onChange({ ...p.value, caption: e.target.value })}
+    />
+  );
 }
 
 type Column = { name: string; unit?: string };
@@ -87,8 +193,16 @@ export function TableEditor(p: KindEditorProps) {
   const columns = (Array.isArray(p.value.columns) ? p.value.columns : []) as Column[];
   const rows = (Array.isArray(p.value.rows) ? p.value.rows : []) as (number | string | null)[][];
   const set = (cols: Column[], rs: (number | string | null)[][]) => p.onChange({ ...p.value, columns: cols, rows: rs });
-  const setColumn = (j: number, patch: Partial<Column>) => set(columns.map((c, k) => (k === j ? { ...c, ...patch } : c)), rows);
-  const setCell = (i: number, j: number, v: string) => set(columns, rows.map((r, k) => (k === i ? columns.map((_, m) => (m === j ? cellValue(v) : r[m] ?? null)) : r)));
+  const setColumn = (j: number, patch: Partial<Column>) =>
+    set(
+      columns.map((c, k) => (k === j ? { ...c, ...patch } : c)),
+      rows,
+    );
+  const setCell = (i: number, j: number, v: string) =>
+    set(
+      columns,
+      rows.map((r, k) => (k === i ? columns.map((_, m) => (m === j ? cellValue(v) : (r[m] ?? null))) : r)),
+    );
   return (
     <Box sx={{ overflowX: 'auto' }}>
       <Box component="table" sx={{ borderCollapse: 'collapse', '& td, & th': { p: 0.25, verticalAlign: 'top' } }} aria-label="Table grid">
@@ -97,9 +211,34 @@ export function TableEditor(p: KindEditorProps) {
             {columns.map((c, j) => (
               <th key={j}>
                 <Stack spacing={0.5}>
-                  <TextField size="small" label="Name" value={c.name} onChange={(e) => setColumn(j, { name: e.target.value })} sx={{ width: 120 }} slotProps={{ htmlInput: { 'aria-label': `Column ${j + 1} name` } }} />
-                  <TextField size="small" label="Unit" value={c.unit ?? ''} onChange={(e) => setColumn(j, { unit: e.target.value || undefined })} sx={{ width: 120 }} slotProps={{ htmlInput: { 'aria-label': `Column ${j + 1} unit` } }} />
-                  <Button size="small" color="inherit" onClick={() => set(columns.filter((_, k) => k !== j), rows.map((r) => r.filter((_, k) => k !== j)))}>Remove column</Button>
+                  <TextField
+                    size="small"
+                    label="Name"
+                    value={c.name}
+                    onChange={(e) => setColumn(j, { name: e.target.value })}
+                    sx={{ width: 120 }}
+                    slotProps={{ htmlInput: { 'aria-label': `Column ${j + 1} name` } }}
+                  />
+                  <TextField
+                    size="small"
+                    label="Unit"
+                    value={c.unit ?? ''}
+                    onChange={(e) => setColumn(j, { unit: e.target.value || undefined })}
+                    sx={{ width: 120 }}
+                    slotProps={{ htmlInput: { 'aria-label': `Column ${j + 1} unit` } }}
+                  />
+                  <Button
+                    size="small"
+                    color="inherit"
+                    onClick={() =>
+                      set(
+                        columns.filter((_, k) => k !== j),
+                        rows.map((r) => r.filter((_, k) => k !== j)),
+                      )
+                    }
+                  >
+                    Remove column
+                  </Button>
                 </Stack>
               </th>
             ))}
@@ -110,12 +249,29 @@ export function TableEditor(p: KindEditorProps) {
             <tr key={i}>
               {columns.map((_, j) => (
                 <td key={j}>
-                  <TextField size="small" value={r[j] === null || r[j] === undefined ? '' : String(r[j])} onChange={(e) => setCell(i, j, e.target.value)} sx={{ width: 120 }} slotProps={{ htmlInput: { 'aria-label': `Row ${i + 1}, ${columns[j].name}`, style: { fontFamily: monoFont } } }} />
+                  <TextField
+                    size="small"
+                    value={r[j] === null || r[j] === undefined ? '' : String(r[j])}
+                    onChange={(e) => setCell(i, j, e.target.value)}
+                    sx={{ width: 120 }}
+                    slotProps={{ htmlInput: { 'aria-label': `Row ${i + 1}, ${columns[j].name}`, style: { fontFamily: monoFont } } }}
+                  />
                 </td>
               ))}
               <td>
                 <Tooltip title="Remove this row">
-                  <IconButton size="small" aria-label={`Remove row ${i + 1}`} onClick={() => set(columns, rows.filter((_, k) => k !== i))}>×</IconButton>
+                  <IconButton
+                    size="small"
+                    aria-label={`Remove row ${i + 1}`}
+                    onClick={() =>
+                      set(
+                        columns,
+                        rows.filter((_, k) => k !== i),
+                      )
+                    }
+                  >
+                    ×
+                  </IconButton>
                 </Tooltip>
               </td>
             </tr>
@@ -123,8 +279,20 @@ export function TableEditor(p: KindEditorProps) {
         </tbody>
       </Box>
       <Stack direction="row" spacing={1} sx={{ mt: 1 }}>
-        <Button size="small" onClick={() => set(columns, [...rows, columns.map(() => null)])} disabled={!columns.length}>Add row</Button>
-        <Button size="small" onClick={() => set([...columns, { name: `x${columns.length + 1}` }], rows.map((r) => [...r, null]))}>Add column</Button>
+        <Button size="small" onClick={() => set(columns, [...rows, columns.map(() => null)])} disabled={!columns.length}>
+          Add row
+        </Button>
+        <Button
+          size="small"
+          onClick={() =>
+            set(
+              [...columns, { name: `x${columns.length + 1}` }],
+              rows.map((r) => [...r, null]),
+            )
+          }
+        >
+          Add column
+        </Button>
       </Stack>
     </Box>
   );

@@ -50,8 +50,10 @@ export type ReviewSlot = ComponentType<{ cell: CellDto; queries: QueryDto[] }>;
 function sourceOf(value: CellBody): string {
   if (value.kind === 'calc') return String(value.source ?? '');
   if (value.kind === 'check') return String(value.condition ?? '');
-  if (value.kind === 'sweep') return `${value.variable} from ${value.from} to ${value.to}, ${value.points} points (${value.spacing ?? 'linear'})\n${((value.outputs as string[]) ?? []).join('\n')}`;
-  if (value.kind === 'transient') return `R = ${value.R}, L = ${value.L}, C = ${value.C}, E(t) = ${value.source}, over ${value.span}${value.q0 ? `, q0 = ${value.q0}` : ''}${value.i0 ? `, i0 = ${value.i0}` : ''}`;
+  if (value.kind === 'sweep')
+    return `${value.variable} from ${value.from} to ${value.to}, ${value.points} points (${value.spacing ?? 'linear'})\n${((value.outputs as string[]) ?? []).join('\n')}`;
+  if (value.kind === 'transient')
+    return `R = ${value.R}, L = ${value.L}, C = ${value.C}, E(t) = ${value.source}, over ${value.span}${value.q0 ? `, q0 = ${value.q0}` : ''}${value.i0 ? `, i0 = ${value.i0}` : ''}`;
   return '';
 }
 
@@ -59,10 +61,14 @@ export function AddCellMenu({ onAdd, onImportCsv, label = 'Add a cell' }: { onAd
   const [anchor, setAnchor] = useState<HTMLElement | null>(null);
   return (
     <>
-      <Button size="small" onClick={(e) => setAnchor(e.currentTarget)} aria-haspopup="menu">{label}</Button>
+      <Button size="small" onClick={(e) => setAnchor(e.currentTarget)} aria-haspopup="menu">
+        {label}
+      </Button>
       <Menu anchorEl={anchor} open={!!anchor} onClose={() => setAnchor(null)}>
         {Object.entries(KIND_LABELS).map(([kind, name]) => (
-          <MenuItem key={kind} onClick={() => (setAnchor(null), onAdd(kind))}>{name}</MenuItem>
+          <MenuItem key={kind} onClick={() => (setAnchor(null), onAdd(kind))}>
+            {name}
+          </MenuItem>
         ))}
         <MenuItem onClick={() => (setAnchor(null), onImportCsv())}>Table from a CSV file…</MenuItem>
       </Menu>
@@ -85,10 +91,19 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
   };
   const onKeyDown = (e: React.KeyboardEvent) => {
     if (e.defaultPrevented) return;
-    if ((e.ctrlKey || e.metaKey) && e.key === 'Enter') (e.preventDefault(), keys.onEvaluate());
-    else if (e.altKey && e.key === 'Enter') (e.preventDefault(), keys.onAddBelow());
-    else if (e.altKey && e.key === 'ArrowUp') (e.preventDefault(), keys.onPrevious());
-    else if (e.altKey && e.key === 'ArrowDown') (e.preventDefault(), keys.onNext());
+    const action =
+      (e.ctrlKey || e.metaKey) && e.key === 'Enter'
+        ? keys.onEvaluate
+        : e.altKey && e.key === 'Enter'
+          ? keys.onAddBelow
+          : e.altKey && e.key === 'ArrowUp'
+            ? keys.onPrevious
+            : e.altKey && e.key === 'ArrowDown'
+              ? keys.onNext
+              : undefined;
+    if (!action) return;
+    e.preventDefault();
+    action();
   };
   const failed = r?.status === 'error';
   const checkFailed = r?.kind === 'check' && r.pass === false;
@@ -98,37 +113,109 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
       aria-label={`Cell ${index + 1}: ${kindLabel(cell.kind)}`}
       data-cell-id={cell.id}
       onKeyDown={onKeyDown}
-      sx={{ p: 2, borderLeft: `3px solid ${failed || checkFailed ? palette.fail : cell.kind === 'check' ? palette.copper : palette.ink}`, ...(cell.changedAfterAgreement && markChangedAfterAgreement ? { bgcolor: '#fff6e5' } : {}), outline: active ? `1px solid ${palette.inkLight}` : undefined, contentVisibility: active ? undefined : 'auto', containIntrinsicSize: 'auto 160px' }}
+      sx={{
+        p: 2,
+        borderLeft: `3px solid ${failed || checkFailed ? palette.fail : cell.kind === 'check' ? palette.copper : palette.ink}`,
+        ...(cell.changedAfterAgreement && markChangedAfterAgreement ? { bgcolor: '#fff6e5' } : {}),
+        outline: active ? `1px solid ${palette.inkLight}` : undefined,
+        contentVisibility: active ? undefined : 'auto',
+        containIntrinsicSize: 'auto 160px',
+      }}
     >
       <Stack direction="row" spacing={1} sx={{ alignItems: 'center', mb: 1, flexWrap: 'wrap' }}>
-        <Typography variant="overline" color="text.secondary">{index + 1} · {kindLabel(cell.kind)}</Typography>
-        {editable && <Chip size="small" variant="outlined" label={SAVE_LABELS[d.state]} color={d.state === 'saved' ? 'default' : d.state === 'saving' || d.state === 'unsaved' ? 'primary' : 'error'} data-testid="save-state" />}
+        <Typography variant="overline" color="text.secondary">
+          {index + 1} · {kindLabel(cell.kind)}
+        </Typography>
+        {editable && (
+          <Chip
+            size="small"
+            variant="outlined"
+            label={SAVE_LABELS[d.state]}
+            color={d.state === 'saved' ? 'default' : d.state === 'saving' || d.state === 'unsaved' ? 'primary' : 'error'}
+            data-testid="save-state"
+          />
+        )}
         <Box sx={{ flex: 1 }} />
         {editable && (
           <>
-            {!active && Editor && <Button size="small" onClick={() => actions.activate(cell.id)}>Edit</Button>}
-            {active && <Button size="small" onClick={() => (d.flush(), actions.activate(null))}>Done</Button>}
-            <Tooltip title="Move up"><span><Button size="small" disabled={index === 0} onClick={() => actions.move(cell.id, index - 1)} aria-label="Move up">↑</Button></span></Tooltip>
-            <Tooltip title="Move down"><span><Button size="small" disabled={index === count - 1} onClick={() => actions.move(cell.id, index + 1)} aria-label="Move down">↓</Button></span></Tooltip>
+            {!active && Editor && (
+              <Button size="small" onClick={() => actions.activate(cell.id)}>
+                Edit
+              </Button>
+            )}
+            {active && (
+              <Button size="small" onClick={() => (d.flush(), actions.activate(null))}>
+                Done
+              </Button>
+            )}
+            <Tooltip title="Move up">
+              <span>
+                <Button size="small" disabled={index === 0} onClick={() => actions.move(cell.id, index - 1)} aria-label="Move up">
+                  ↑
+                </Button>
+              </span>
+            </Tooltip>
+            <Tooltip title="Move down">
+              <span>
+                <Button size="small" disabled={index === count - 1} onClick={() => actions.move(cell.id, index + 1)} aria-label="Move down">
+                  ↓
+                </Button>
+              </span>
+            </Tooltip>
             <AddCellMenu label="Add below" onAdd={(kind) => actions.add(index + 1, kind)} onImportCsv={() => actions.importCsv(index + 1)} />
-            <Button size="small" color="error" onClick={() => actions.remove(cell)}>Delete</Button>
+            <Button size="small" color="error" onClick={() => actions.remove(cell)}>
+              Delete
+            </Button>
           </>
         )}
       </Stack>
       {d.conflict && (
-        <Alert severity="warning" sx={{ mb: 1 }} action={<Stack direction="row" spacing={1}><Button size="small" onClick={() => d.resolve('mine')}>Keep mine</Button><Button size="small" onClick={() => d.resolve('theirs')}>Take theirs</Button></Stack>}>
+        <Alert
+          severity="warning"
+          sx={{ mb: 1 }}
+          action={
+            <Stack direction="row" spacing={1}>
+              <Button size="small" onClick={() => d.resolve('mine')}>
+                Keep mine
+              </Button>
+              <Button size="small" onClick={() => d.resolve('theirs')}>
+                Take theirs
+              </Button>
+            </Stack>
+          }
+        >
           {d.conflict.message}
           {d.conflict.theirs && <SourceText text={sourceOf(cellBody(d.conflict.theirs)) || String(d.conflict.theirs.fields.text ?? '')} />}
         </Alert>
       )}
       {d.state === 'failed' && !d.conflict && (
-        <Alert severity="error" sx={{ mb: 1 }} action={<Button size="small" onClick={d.retry}>Retry</Button>}>
+        <Alert
+          severity="error"
+          sx={{ mb: 1 }}
+          action={
+            <Button size="small" onClick={d.retry}>
+              Retry
+            </Button>
+          }
+        >
           Your change was not saved: {d.error?.message}. The text is kept here.
         </Alert>
       )}
-      {d.invalid && <Alert severity="error" sx={{ mb: 1 }}>{d.invalid}</Alert>}
+      {d.invalid && (
+        <Alert severity="error" sx={{ mb: 1 }}>
+          {d.invalid}
+        </Alert>
+      )}
       {editing ? (
-        <Editor value={d.value} onChange={d.edit} errors={d.dirty ? [] : (r?.errors ?? [])} warnings={d.dirty ? [] : (r?.warnings ?? [])} scopeNames={() => actions.scopeBefore(index)} label={`Cell ${index + 1}`} {...keys} />
+        <Editor
+          value={d.value}
+          onChange={d.edit}
+          errors={d.dirty ? [] : (r?.errors ?? [])}
+          warnings={d.dirty ? [] : (r?.warnings ?? [])}
+          scopeNames={() => actions.scopeBefore(index)}
+          label={`Cell ${index + 1}`}
+          {...keys}
+        />
       ) : (
         <Box onClick={editable && Editor ? () => actions.activate(cell.id) : undefined} sx={{ cursor: editable && Editor ? 'text' : undefined }}>
           {cell.kind === 'note' && <NoteText text={String(d.value.text ?? '')} />}
@@ -137,7 +224,11 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
           {source && <SourceText text={source} />}
         </Box>
       )}
-      {editing && cell.kind === 'note' && <Box sx={{ mt: 1 }}><NoteText text={String(d.value.text ?? '')} /></Box>}
+      {editing && cell.kind === 'note' && (
+        <Box sx={{ mt: 1 }}>
+          <NoteText text={String(d.value.text ?? '')} />
+        </Box>
+      )}
       <Box sx={{ opacity: stale ? 0.55 : 1, transition: 'opacity 120ms', mt: 1 }} aria-busy={stale} data-testid="cell-results">
         <CellResults kind={cell.kind} fields={cell.fields} result={r} />
       </Box>

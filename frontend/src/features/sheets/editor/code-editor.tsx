@@ -4,7 +4,7 @@ import { lintGutter, setDiagnostics } from '@codemirror/lint';
 import { EditorState, type Extension } from '@codemirror/state';
 import { EditorView, keymap, placeholder as cmPlaceholder } from '@codemirror/view';
 import { Box } from '@mui/material';
-import { useEffect, useRef } from 'react';
+import { useEffect, useLayoutEffect, useRef } from 'react';
 import type { Diagnostic } from '@ampwright/common';
 import { monoFont, palette } from '../../../app/theme';
 import { calcCompletion, calcHighlighting, calcLanguage, toCmDiagnostics } from './calc-language';
@@ -45,7 +45,10 @@ export function CodeEditor(props: CodeEditorProps) {
   const host = useRef<HTMLDivElement>(null);
   const view = useRef<EditorView | null>(null);
   const latest = useRef(props);
-  latest.current = props;
+  // The editor's handlers read the latest props; set after each render, before the browser paints.
+  useLayoutEffect(() => {
+    latest.current = props;
+  });
 
   useEffect(() => {
     const keys = keymap.of([

@@ -4,7 +4,7 @@
  * Alt-Up / Alt-Down move between cells.
  */
 import { Alert, Box, Button, Snackbar, Stack, Typography } from '@mui/material';
-import { useCallback, useMemo, useRef, useState } from 'react';
+import { useCallback, useLayoutEffect, useMemo, useRef, useState } from 'react';
 import type { CellDto, CellKind, QueryDto, SheetDto } from '@ampwright/common';
 import { cellBody, useCellChange } from '../api/sheet-editing';
 import { AddCellMenu, CellFrame, type CellActions, type ReviewSlot } from './cell-frame';
@@ -22,7 +22,21 @@ function scopeOf(cells: CellDto[], position: number) {
 const NO_QUERIES: QueryDto[] = [];
 
 /** `Review` draws a cell's review beside it (given by the route); `checking` marks cells changed after the checker agreed them. */
-export function SheetEditor({ sheet, editable, queries, Review, checking, openOnly = false }: { sheet: SheetDto; editable: boolean; queries: QueryDto[]; Review?: ReviewSlot; checking: boolean; openOnly?: boolean }) {
+export function SheetEditor({
+  sheet,
+  editable,
+  queries,
+  Review,
+  checking,
+  openOnly = false,
+}: {
+  sheet: SheetDto;
+  editable: boolean;
+  queries: QueryDto[];
+  Review?: ReviewSlot;
+  checking: boolean;
+  openOnly?: boolean;
+}) {
   const byCell = useMemo(() => {
     const m = new Map<string, QueryDto[]>();
     for (const q of queries) if (q.cellId) m.set(q.cellId, [...(m.get(q.cellId) ?? []), q]);
@@ -36,7 +50,9 @@ export function SheetEditor({ sheet, editable, queries, Review, checking, openOn
   const csvInput = useRef<HTMLInputElement>(null);
   const csvPosition = useRef(0);
   const cellsRef = useRef(sheet.cells);
-  cellsRef.current = sheet.cells;
+  useLayoutEffect(() => {
+    cellsRef.current = sheet.cells;
+  });
 
   const report = (err: Error) => setNotice(err.message);
 
@@ -55,7 +71,10 @@ export function SheetEditor({ sheet, editable, queries, Review, checking, openOn
       add: (position, kind) => {
         const before = new Set(cellsRef.current.map((c) => c.id));
         // Open the new cell (the one cell of the answer that was not there before) for editing.
-        change.mutate({ type: 'add', position, cell: NEW_CELLS[kind as CellKind] ?? NEW_CELLS.calc }, { onSuccess: (result) => setActiveId(result.changed.find((c) => !before.has(c.id))?.id ?? null), onError: report });
+        change.mutate(
+          { type: 'add', position, cell: NEW_CELLS[kind as CellKind] ?? NEW_CELLS.calc },
+          { onSuccess: (result) => setActiveId(result.changed.find((c) => !before.has(c.id))?.id ?? null), onError: report },
+        );
       },
       importCsv: (position) => {
         csvPosition.current = position;
@@ -88,25 +107,64 @@ export function SheetEditor({ sheet, editable, queries, Review, checking, openOn
     const file = e.target.files?.[0];
     e.target.value = '';
     if (!file) return;
-    change.mutate({ type: 'import-csv', position: csvPosition.current, file }, { onSuccess: () => setNotice(`${file.name} imported as a table.`), onError: report });
+    change.mutate(
+      { type: 'import-csv', position: csvPosition.current, file },
+      { onSuccess: () => setNotice(`${file.name} imported as a table.`), onError: report },
+    );
   };
 
   return (
     <Stack spacing={2} data-testid="sheet-editor">
       {shown.map((cell) => (
-        <CellFrame key={cell.id} sheetId={sheet.id} cell={cell} index={cell.position} count={sheet.cells.length} active={activeId === cell.id} editable={editable} actions={actions} queries={byCell.get(cell.id) ?? NO_QUERIES} Review={Review} markChangedAfterAgreement={checking} />
+        <CellFrame
+          key={cell.id}
+          sheetId={sheet.id}
+          cell={cell}
+          index={cell.position}
+          count={sheet.cells.length}
+          active={activeId === cell.id}
+          editable={editable}
+          actions={actions}
+          queries={byCell.get(cell.id) ?? NO_QUERIES}
+          Review={Review}
+          markChangedAfterAgreement={checking}
+        />
       ))}
       {openOnly && shown.length === 0 && <Typography color="text.secondary">No cell has an open query.</Typography>}
       {sheet.cells.length === 0 && <Typography color="text.secondary">This sheet has no cells yet.</Typography>}
-      {change.isError && <Alert severity="error" onClose={() => change.reset()}>{change.error.message}</Alert>}
+      {change.isError && (
+        <Alert severity="error" onClose={() => change.reset()}>
+          {change.error.message}
+        </Alert>
+      )}
       {editable && (
         <Box component="nav" aria-label="Sheet tools" sx={{ display: 'flex', gap: 1, flexWrap: 'wrap' }}>
-          <AddCellMenu label="Add a cell at the end" onAdd={(kind) => actions.add(sheet.cells.length, kind)} onImportCsv={() => actions.importCsv(sheet.cells.length)} />
-          {deleted.length > 0 && <Button size="small" onClick={restore}>Restore the last deleted cell</Button>}
+          <AddCellMenu
+            label="Add a cell at the end"
+            onAdd={(kind) => actions.add(sheet.cells.length, kind)}
+            onImportCsv={() => actions.importCsv(sheet.cells.length)}
+          />
+          {deleted.length > 0 && (
+            <Button size="small" onClick={restore}>
+              Restore the last deleted cell
+            </Button>
+          )}
           <input ref={csvInput} type="file" accept=".csv,text/csv" hidden onChange={onCsv} data-testid="csv-input" />
         </Box>
       )}
-      <Snackbar open={!!notice} autoHideDuration={6000} onClose={() => setNotice(null)} message={notice} action={deleted.length > 0 && notice?.endsWith('deleted.') ? <Button color="secondary" size="small" onClick={restore}>Undo</Button> : undefined} />
+      <Snackbar
+        open={!!notice}
+        autoHideDuration={6000}
+        onClose={() => setNotice(null)}
+        message={notice}
+        action={
+          deleted.length > 0 && notice?.endsWith('deleted.') ? (
+            <Button color="secondary" size="small" onClick={restore}>
+              Undo
+            </Button>
+          ) : undefined
+        }
+      />
     </Stack>
   );
 }

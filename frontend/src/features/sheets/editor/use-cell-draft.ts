@@ -22,6 +22,8 @@ export function useCellDraft(sheetId: string, cell: CellDto) {
   const draftRef = useRef<CellBody | null>(null);
   // The content the server holds (or will hold, once the queued saves are through) for this cell.
   const base = useRef<CellBody>(server);
+  // Follows the server while nothing is being edited or saved; read by this render's comparisons.
+  // eslint-disable-next-line react-hooks/refs -- the base must be current within this render, not after it
   if (draft === null && !change.isPending && !sameCell(base.current, server)) base.current = server;
   const timer = useRef<ReturnType<typeof setTimeout>>(undefined);
 
@@ -70,9 +72,11 @@ export function useCellDraft(sheetId: string, cell: CellDto) {
   );
 
   useEffect(() => () => clearTimeout(timer.current), []);
-  useBeforeUnload(useCallback((e) => {
-    if (draftRef.current) e.preventDefault();
-  }, []));
+  useBeforeUnload(
+    useCallback((e) => {
+      if (draftRef.current) e.preventDefault();
+    }, []),
+  );
 
   /** Settle a conflict: keep the user's text (saved over theirs) or take theirs. */
   const resolve = (keep: 'mine' | 'theirs') => {

@@ -1,0 +1,2 @@
+/** The health feature's public face. */
+export * from './api/get-health';

@@ -1,0 +1,2 @@
+/** The members feature's public face: the firm's people and invitations. */
+export * from './api/members';

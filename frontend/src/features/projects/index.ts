@@ -1,0 +1,3 @@
+/** The projects feature's public face. */
+export * from './api/projects';
+export { ProjectPeople } from './components/project-people';
