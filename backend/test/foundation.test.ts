@@ -9,7 +9,7 @@ import { MailService } from '../src/mail/mail.service';
 import { readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { DEMO_FIRM_NAME, DEMO_JOB_NUMBER, seedDemo } from '../src/database/seeders/demo.seeder';
-import { Project, ProjectClient } from '../src/projects/entities/project.entity';
+import { Project, ProjectPerson } from '../src/projects/entities/project.entity';
 import { Cell } from '../src/sheets/entities/cell.entity';
 import { Sheet } from '../src/sheets/entities/sheet.entity';
 import { createTestApp, waitForMail } from './support/test-app';
@@ -70,7 +70,7 @@ describe('the app against MariaDB and the fakes', () => {
     expect(new Set(sheets.map((s) => s.state)).size).toBeGreaterThan(1);
     const cells = await em.find(Cell, { sheet: { $in: sheets } });
     expect(cells.every((c) => c.results && (c.results as { status: string }).status === 'ok')).toBe(true);
-    expect(await em.count(ProjectClient, { project, user: { email: 'client@kestrelridge.example' } })).toBe(1);
+    expect(await em.count(ProjectPerson, { project, user: { email: 'client@kestrelridge.example' }, standing: 'client' })).toBe(1);
   });
 
   it('delivers e-mail through the SMTP sink', async () => {

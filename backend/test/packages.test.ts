@@ -6,7 +6,7 @@ import { join } from 'node:path';
 import type { INestApplication } from '@nestjs/common';
 import { EntityManager } from '@mikro-orm/core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ProjectClient } from '../src/projects/entities/project.entity';
+import { ProjectPerson } from '../src/projects/entities/project.entity';
 import { makeSelfSignedP12 } from '../src/packages/signing';
 import { evaluateSheet } from '@ampwright/common';
 import { buildPackageInWorker } from '../src/packages/build-in-worker';
@@ -53,8 +53,8 @@ describe('signed packages, the client portal and verification', () => {
     ).body;
     const em = app.get(EntityManager).fork();
     em.persist([
-      new ProjectClient(em.getReference('Project', project.id) as never, em.getReference('User', client.user.id) as never),
-      new ProjectClient(em.getReference('Project', other.id) as never, em.getReference('User', otherClient.user.id) as never),
+      new ProjectPerson(em.getReference('Project', project.id) as never, em.getReference('User', client.user.id) as never, 'client'),
+      new ProjectPerson(em.getReference('Project', other.id) as never, em.getReference('User', otherClient.user.id) as never, 'client'),
     ]);
     await em.flush();
     const sheet = (

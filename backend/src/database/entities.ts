@@ -12,7 +12,7 @@ import { Session } from '../auth/entities/session.entity';
 import { Firm } from '../firms/entities/firm.entity';
 import { Membership } from '../firms/entities/membership.entity';
 import { Invitation } from '../invitations/entities/invitation.entity';
-import { Project, ProjectClient, ProjectMember } from '../projects/entities/project.entity';
+import { Project, ProjectPerson } from '../projects/entities/project.entity';
 import { Cell } from '../sheets/entities/cell.entity';
 import { SheetAuthor } from '../sheets/entities/sheet-author.entity';
 import { Sheet } from '../sheets/entities/sheet.entity';
@@ -30,8 +30,7 @@ export const ENTITIES = [
   Invitation,
   AuditEvent,
   Project,
-  ProjectClient,
-  ProjectMember,
+  ProjectPerson,
   Sheet,
   SheetAuthor,
   Cell,

@@ -9,7 +9,7 @@ import type { Environment } from '../config/environment';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import { hashToken, type AuthContext } from '../core/guards/auth.guard';
 import { Membership } from '../firms/entities/membership.entity';
-import { Project, ProjectClient } from '../projects/entities/project.entity';
+import { Project, ProjectPerson } from '../projects/entities/project.entity';
 import { MailService } from '../mail/mail.service';
 import { mailTemplates } from '../mail/mail-templates';
 import { User } from '../users/entities/user.entity';
@@ -143,7 +143,7 @@ export class InvitationsService {
     // A client is given the projects they were invited to (those that are still the firm's).
     if (invitation.roles.includes('client') && invitation.projectIds.length) {
       const projects = await this.em.find(Project, { id: { $in: invitation.projectIds }, firm: invitation.firm });
-      for (const project of projects) this.em.persist(new ProjectClient(project, user));
+      for (const project of projects) this.em.persist(new ProjectPerson(project, user, 'client'));
     }
     await this.em.flush();
     await this.sessions.open(user, invitation.firm, res);

@@ -14,7 +14,7 @@ import type { Environment } from '../config/environment';
 import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { ObjectStoreService } from '../files/object-store.service';
-import { ProjectClient } from '../projects/entities/project.entity';
+import { ProjectPerson } from '../projects/entities/project.entity';
 import { Revision } from '../review/entities/revision.entity';
 import type { RevisionSnapshot } from '../review/revisions.service';
 import { RevisionsService } from '../review/revisions.service';
@@ -211,7 +211,10 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
   private async findRevision(auth: AuthContext, id: string): Promise<Revision> {
     const isClient = auth.roles.includes('client');
     const where = isClient
-      ? { id, sheet: { project: { id: { $in: (await this.em.find(ProjectClient, { user: auth.session.user })).map((c) => c.project.id) } } } }
+      ? {
+          id,
+          sheet: { project: { id: { $in: (await this.em.find(ProjectPerson, { user: auth.session.user, standing: 'client' })).map((c) => c.project.id) } } },
+        }
       : { id, sheet: { project: { firm: auth.session.firm } } };
     const r = await this.em.findOne(Revision, where, { populate: ['sheet', 'sheet.project'] });
     if (!r) throw new AppException(ErrorCode.NotFound, 'No such revision.', HttpStatus.NOT_FOUND);
@@ -260,7 +263,7 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
 
   /** For a client: the issued revisions of the projects they were invited to, nothing else. */
   async portal(auth: AuthContext): Promise<PortalRevision[]> {
-    const projectIds = (await this.em.find(ProjectClient, { user: auth.session.user })).map((c) => c.project.id);
+    const projectIds = (await this.em.find(ProjectPerson, { user: auth.session.user, standing: 'client' })).map((c) => c.project.id);
     if (!projectIds.length) return [];
     const rows = await this.em.find(
       Revision,

@@ -7,7 +7,7 @@ import { AppException, ErrorCode } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { Sheet } from '../sheets/entities/sheet.entity';
 import type { CreateProjectDto, ProjectResponseDto, UpdateProjectDto } from './dto/project.dto';
-import { Project, ProjectClient, ProjectMember } from './entities/project.entity';
+import { Project, ProjectPerson } from './entities/project.entity';
 import { ProjectErrorCode } from '@ampwright/common';
 
 export { ProjectErrorCode };
@@ -45,7 +45,8 @@ export class ProjectsService {
 
   async find(auth: AuthContext, id: string): Promise<Project> {
     const project = await this.em.findOne(Project, { id, firm: auth.session.firm });
-    const visible = project && (!auth.roles.includes('client') || (await this.em.count(ProjectClient, { project, user: auth.session.user })) > 0);
+    const visible =
+      project && (!auth.roles.includes('client') || (await this.em.count(ProjectPerson, { project, user: auth.session.user, standing: 'client' })) > 0);
     if (!project || !visible) throw new AppException(ErrorCode.NotFound, 'No such project.', HttpStatus.NOT_FOUND);
     return project;
   }
@@ -54,7 +55,7 @@ export class ProjectsService {
     const where = auth.roles.includes('client')
       ? {
           firm: auth.session.firm,
-          id: { $in: (await this.em.find(ProjectClient, { user: auth.session.user }, { populate: ['project'] })).map((c) => c.project.id) },
+          id: { $in: (await this.em.find(ProjectPerson, { user: auth.session.user, standing: 'client' }, { populate: ['project'] })).map((c) => c.project.id) },
         }
       : { firm: auth.session.firm };
     const projects = await this.em.find(Project, where, { orderBy: { jobNumber: 'asc' } });
@@ -80,7 +81,7 @@ export class ProjectsService {
 
   async create(auth: AuthContext, dto: CreateProjectDto): Promise<ProjectResponseDto> {
     const project = new Project(auth.session.firm, dto, auth.session.user);
-    this.em.persist(new ProjectMember(project, this.em.getReference(User, auth.session.user.id)));
+    this.em.persist(new ProjectPerson(project, this.em.getReference(User, auth.session.user.id), 'team'));
     await this.save(() => this.em.persist(project).flush(), dto.jobNumber);
     return this.toResponse(project, auth);
   }
@@ -107,11 +108,11 @@ export class ProjectsService {
   /** The project's team (members of the firm) and its invited clients. */
   async people(auth: AuthContext, id: string): Promise<ProjectPeopleDto> {
     const project = await this.find(auth, id);
-    const team = await this.em.find(ProjectMember, { project }, { populate: ['user'], orderBy: { user: { name: 'asc' } } });
+    const team = await this.em.find(ProjectPerson, { project, standing: 'team' }, { populate: ['user'], orderBy: { user: { name: 'asc' } } });
     const roles = new Map(
       (await this.em.find(Membership, { firm: auth.session.firm, user: { $in: team.map((t) => t.user.id) } })).map((m) => [m.user.id, m.roles]),
     );
-    const clients = await this.em.find(ProjectClient, { project }, { populate: ['user'], orderBy: { user: { name: 'asc' } } });
+    const clients = await this.em.find(ProjectPerson, { project, standing: 'client' }, { populate: ['user'], orderBy: { user: { name: 'asc' } } });
     return {
       members: team.map((t) => ({ id: t.user.id, name: t.user.name, email: t.user.email, roles: roles.get(t.user.id) ?? [] })),
       clients: clients.map((c) => ({ id: c.user.id, name: c.user.name, email: c.user.email })),
@@ -132,8 +133,8 @@ export class ProjectsService {
         bad.map(() => ({ field: 'userIds', message: 'not a member of the firm' })),
       );
     await this.em.transactional(async (em) => {
-      await em.nativeDelete(ProjectMember, { project: project.id });
-      for (const u of new Set(userIds)) em.persist(new ProjectMember(em.getReference(Project, project.id), em.getReference(User, u)));
+      await em.nativeDelete(ProjectPerson, { project: project.id, standing: 'team' });
+      for (const u of new Set(userIds)) em.persist(new ProjectPerson(em.getReference(Project, project.id), em.getReference(User, u), 'team'));
     });
     return this.people(auth, id);
   }

@@ -13,7 +13,7 @@ import type { AuthContext } from '../core/guards/auth.guard';
 import type { Role } from '../core/roles';
 import { Membership } from '../firms/entities/membership.entity';
 import { NotificationsService, type NoticeTarget } from '../notifications/notifications.service';
-import { ProjectClient } from '../projects/entities/project.entity';
+import { ProjectPerson } from '../projects/entities/project.entity';
 import { Sheet } from '../sheets/entities/sheet.entity';
 import { SheetsService } from '../sheets/sheets.service';
 import { User } from '../users/entities/user.entity';
@@ -207,7 +207,7 @@ export class WorkflowService {
       `Issued: ${sheet.number} revision ${revision.code}`,
       `Sheet ${sheet.number} "${sheet.title}" was issued as revision ${revision.code}.`,
     );
-    const clients = await this.em.find(ProjectClient, { project: sheet.project.id }, { populate: ['user'] });
+    const clients = await this.em.find(ProjectPerson, { project: sheet.project.id, standing: 'client' }, { populate: ['user'] });
     const firm = sheet.project.firm.name;
     const targets: NoticeTarget[] = clients.map((c) => ({
       user: c.user,

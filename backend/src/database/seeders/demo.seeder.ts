@@ -3,7 +3,7 @@ import { join, resolve } from 'node:path';
 import type { EntityManager } from '@mikro-orm/mariadb';
 import { evaluateSheet, parseSheetJson } from '@ampwright/common';
 import { hash } from 'bcrypt';
-import { Project, ProjectClient } from '../../projects/entities/project.entity';
+import { Project, ProjectPerson } from '../../projects/entities/project.entity';
 import { type SheetState } from '../../sheets/entities/sheet.entity';
 import { sheetFromFile } from '../../sheets/sheet-file';
 import type { Role } from '../../core/roles';
@@ -66,7 +66,7 @@ async function seedKestrelRidge(em: EntityManager, firm: Firm): Promise<string[]
     },
     people.engineer,
   );
-  em.persist([project, new ProjectClient(project, people.client)]);
+  em.persist([project, new ProjectPerson(project, people.client, 'client')]);
   const dir = resolve(__dirname, '..', '..', '..', '..', 'templates');
   const states: SheetState[] = ['being-prepared', 'with-checker', 'being-prepared', 'checked', 'being-prepared', 'being-prepared'];
   readdirSync(dir)

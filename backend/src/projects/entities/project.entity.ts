@@ -41,10 +41,16 @@ export class Project {
   }
 }
 
-/** A client invited to a project. */
-@Entity({ tableName: 'project_client' })
-@Unique({ properties: ['project', 'user'] })
-export class ProjectClient {
+/** How a person stands on a project: on its team (a member of the firm), or its client (reads its issued revisions). */
+export type ProjectStanding = 'team' | 'client';
+
+/**
+ * A person linked to a project: a member of the firm on its team (its preparers, checkers and approver), or
+ * a client invited to it. One entity for both links (they differ only in `standing`).
+ */
+@Entity({ tableName: 'project_person' })
+@Unique({ properties: ['project', 'user', 'standing'] })
+export class ProjectPerson {
   @PrimaryKey({ type: 'uuid' })
   id: string & Opt = randomUUID();
 
@@ -54,27 +60,12 @@ export class ProjectClient {
   @ManyToOne(() => User, { deleteRule: 'cascade' })
   user: User;
 
-  constructor(project: Project, user: User) {
+  @Property({ length: 10 })
+  standing: ProjectStanding;
+
+  constructor(project: Project, user: User, standing: ProjectStanding) {
     this.project = project;
     this.user = user;
-  }
-}
-
-/** A member of the firm on a project's team (its preparers, checkers and approver). */
-@Entity({ tableName: 'project_member' })
-@Unique({ properties: ['project', 'user'] })
-export class ProjectMember {
-  @PrimaryKey({ type: 'uuid' })
-  id: string & Opt = randomUUID();
-
-  @ManyToOne(() => Project, { deleteRule: 'cascade' })
-  project: Project;
-
-  @ManyToOne(() => User, { deleteRule: 'cascade' })
-  user: User;
-
-  constructor(project: Project, user: User) {
-    this.project = project;
-    this.user = user;
+    this.standing = standing;
   }
 }
