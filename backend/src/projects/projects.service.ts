@@ -31,18 +31,12 @@ export class ProjectsService {
     };
   }
 
-  /** A project the caller may see: any of the firm's for a member, an invited one for a client; else 404. */
-  /** Queries not closed over the project's sheets, each for the revision it is being prepared as. */
-  private async openQueries(p: Project): Promise<number> {
-    const rows = await this.em
-      .getConnection()
-      .execute<{ n: number }[]>(
-        'select count(*) as n from cell_query q join sheet s on s.id = q.sheet_id where s.project_id = ? and q.status <> ? and q.revision_number = s.revision_number',
-        [p.id, 'closed'],
-      );
-    return Number(rows[0]?.n ?? 0);
+  /** Queries not closed over the project's sheets (the rule is SheetRepository's). */
+  private openQueries(p: Project): Promise<number> {
+    return this.em.getRepository(Sheet).openQueriesOfProject(p.id);
   }
 
+  /** A project the caller may see: any of the firm's for a member, an invited one for a client; else 404. */
   async find(auth: AuthContext, id: string): Promise<Project> {
     const project = await this.em.findOne(Project, { id, firm: auth.session.firm });
     const visible =

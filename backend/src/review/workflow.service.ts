@@ -19,7 +19,6 @@ import { SheetsService } from '../sheets/sheets.service';
 import { User } from '../users/entities/user.entity';
 import { mailTemplates } from '../mail/mail-templates';
 import type { NoteDto, RequestCheckDto } from './dto/review.dto';
-import { CellQuery } from './entities/cell-query.entity';
 import { Revision } from './entities/revision.entity';
 import { PackageJob } from '../packages/entities/package-job.entity';
 import { notIndependent } from '../sheets/sheet-authors';
@@ -125,7 +124,7 @@ export class WorkflowService {
 
   async passCheck(auth: AuthContext, id: string) {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
-      const open = await em.count(CellQuery, { sheet: s, revisionNumber: s.revisionNumber, status: { $ne: 'closed' } });
+      const open = await em.getRepository(Sheet).openQueriesOf(s.id);
       requireMove('pass', auth, factsOf(s, await notIndependent(em, s), open));
       s.state = 'checked';
       s.checkedAt = new Date();

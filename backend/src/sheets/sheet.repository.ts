@@ -137,6 +137,12 @@ const peopleOf = (r: PeopleRow) => ({
   approver: who(r.approver_id, r.approver_name),
 });
 
+/**
+ * The open-query rule, written once: a query of sheet `s` is open while it is not closed and belongs to the
+ * revision the sheet is being prepared as (queries of an issued revision stay with it). Alias `q` for cell_query.
+ */
+const OPEN_QUERY = "q.sheet_id = s.id and q.revision_number = s.revision_number and q.status <> 'closed'";
+
 const placeholders = (n: number) => Array.from({ length: n }, () => '?').join(', ');
 
 export class SheetRepository extends EntityRepository<Sheet> {
@@ -170,7 +176,7 @@ export class SheetRepository extends EntityRepository<Sheet> {
   async view(firmId: string, id: string): Promise<SheetDto | null> {
     const [s] = await this.em.execute<SheetRow[]>(
       `select s.id, s.project_id, s.number, s.title, s.settings, s.state, s.version, s.engine_version, s.revision_number, ${PEOPLE_COLUMNS},
-              (select count(*) from cell_query q where q.sheet_id = s.id and q.revision_number = s.revision_number and q.status <> 'closed') as open_queries,
+              (select count(*) from cell_query q where ${OPEN_QUERY}) as open_queries,
               (select json_arrayagg(json_object('id', a.user_id, 'name', au2.name, 'named', a.named)) from sheet_author a join app_user au2 on au2.id = a.user_id
                 where a.sheet_id = s.id and a.revision_number = s.revision_number) as authors
          ${SHEET_OF_FIRM}`,
@@ -325,11 +331,28 @@ export class SheetRepository extends EntityRepository<Sheet> {
     const counts = new Map<string, number>();
     if (!sheetIds.length) return counts;
     const rows = await this.em.execute<{ sheet_id: string; open: number | string }[]>(
-      `select q.sheet_id, count(*) as open from cell_query q join sheet s on s.id = q.sheet_id and s.revision_number = q.revision_number
-        where q.sheet_id in (${sheetIds.map(() => '?').join(', ')}) and q.status <> 'closed' group by q.sheet_id`,
+      `select s.id as sheet_id, count(*) as open from sheet s join cell_query q on ${OPEN_QUERY}
+        where s.id in (${placeholders(sheetIds.length)}) group by s.id`,
       [...sheetIds],
     );
     for (const r of rows) counts.set(r.sheet_id, Number(r.open));
     return counts;
+  }
+
+  /** Open queries of one sheet (in the caller's transaction: the pass of a check counts them under the lock). */
+  async openQueriesOf(sheetId: string): Promise<number> {
+    const [row] = await this.em.execute<{ n: number | string }[]>(`select count(*) as n from sheet s join cell_query q on ${OPEN_QUERY} where s.id = ?`, [
+      sheetId,
+    ]);
+    return Number(row?.n ?? 0);
+  }
+
+  /** Open queries over a project's sheets. */
+  async openQueriesOfProject(projectId: string): Promise<number> {
+    const [row] = await this.em.execute<{ n: number | string }[]>(
+      `select count(*) as n from sheet s join cell_query q on ${OPEN_QUERY} where s.project_id = ?`,
+      [projectId],
+    );
+    return Number(row?.n ?? 0);
   }
 }
