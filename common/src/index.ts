@@ -66,4 +66,13 @@ export {
   type WorkflowMove,
 } from './review/workflow';
 export { CAUTION_TEXT, CAUTION_SHORT } from './api/cautions';
-export { ErrorCode, AuthErrorCode, MemberErrorCode, InvitationErrorCode, ProjectErrorCode, SheetErrorCode, EvaluationErrorCode } from './api/error-codes';
+export {
+  ErrorCode,
+  AuthErrorCode,
+  MemberErrorCode,
+  InvitationErrorCode,
+  ProjectErrorCode,
+  PackageErrorCode,
+  SheetErrorCode,
+  EvaluationErrorCode,
+} from './api/error-codes';

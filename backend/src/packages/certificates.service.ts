@@ -10,6 +10,7 @@ import { FirmCertificate } from './entities/firm-certificate.entity';
 import { EvaluationService } from '../evaluation/evaluation.service';
 import { makeSelfSignedP12, openSecret, readP12, sealSecret } from './signing';
 import { randomBytes } from 'node:crypto';
+import { PackageErrorCode } from '@ampwright/common';
 
 export type CertificateView = CertificateDto;
 
@@ -65,7 +66,7 @@ export class CertificatesService {
     // Opened in an evaluation process with a deadline: a hostile file's key iterations never run here.
     const opened = await this.evaluation.readCertificate(auth.session.firm.id, file.buffer, password);
     if (!opened.ok) {
-      throw new AppException('CERTIFICATE_REFUSED', `The certificate was refused: ${opened.problem}`, HttpStatus.BAD_REQUEST, [
+      throw new AppException(PackageErrorCode.CertificateRefused, `The certificate was refused: ${opened.problem}`, HttpStatus.BAD_REQUEST, [
         { field: opened.problem.includes('password') ? 'password' : 'file', message: opened.problem },
       ]);
     }

@@ -22,6 +22,7 @@ import { CertificatesService } from './certificates.service';
 import { PackageJob } from './entities/package-job.entity';
 import { buildPackageInWorker } from './build-in-worker';
 import { REVISION_KEY } from './package-pdf';
+import { PackageErrorCode } from '@ampwright/common';
 
 export type PackageStatus = PackageStatusDto;
 export type PortalRevision = PortalRevisionDto;
@@ -256,7 +257,7 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
   async download(auth: AuthContext, revisionId: string): Promise<{ body: Buffer; fileName: string; sha256: string }> {
     const r = await this.findRevision(auth, revisionId);
     if (!r.pdfObjectKey || !r.pdfSha256)
-      throw new AppException('PACKAGE_NOT_READY', 'The package of this revision is still being made; try again in a moment.', HttpStatus.CONFLICT);
+      throw new AppException(PackageErrorCode.NotReady, 'The package of this revision is still being made; try again in a moment.', HttpStatus.CONFLICT);
     const body = await this.store.get(r.pdfObjectKey);
     return { body, fileName: `${r.sheet.project.jobNumber}-${r.sheet.number}-rev${r.code}.pdf`.replace(/[^A-Za-z0-9._-]/g, '_'), sha256: r.pdfSha256 };
   }

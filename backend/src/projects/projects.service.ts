@@ -91,7 +91,7 @@ export class ProjectsService {
     const project = await this.find(auth, id);
     if (await this.em.count(Sheet, { project, $or: [{ state: 'issued' }, { revisionNumber: { $gt: 1 } }] })) {
       throw new AppException(
-        'PROJECT_HAS_ISSUED_SHEETS',
+        ProjectErrorCode.HasIssuedSheets,
         'This project has issued sheets, which are kept for good: it cannot be deleted.',
         HttpStatus.CONFLICT,
       );

@@ -452,7 +452,7 @@ export class SheetsService {
     if (!parsed.ok) {
       const details = parsed.problems.map((p) => ({ field: 'file', message: `line ${p.line}: ${p.message}` }));
       throw new AppException(
-        'CSV_INVALID',
+        SheetErrorCode.CsvInvalid,
         `The CSV could not be read, so nothing was stored: ${details.map((d) => d.message).join('; ')}`,
         HttpStatus.BAD_REQUEST,
         details,

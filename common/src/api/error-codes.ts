@@ -18,6 +18,8 @@ export enum ErrorCode {
   TooManyRequests = 'TOO_MANY_REQUESTS',
   ServiceUnavailable = 'SERVICE_UNAVAILABLE',
   Internal = 'INTERNAL_ERROR',
+  /** A state-changing request without the anti-forgery header or token. */
+  CsrfFailed = 'CSRF_FAILED',
 }
 
 export enum AuthErrorCode {
@@ -41,6 +43,12 @@ export enum InvitationErrorCode {
 
 export enum ProjectErrorCode {
   JobNumberTaken = 'JOB_NUMBER_TAKEN',
+  HasIssuedSheets = 'PROJECT_HAS_ISSUED_SHEETS',
+}
+
+export enum PackageErrorCode {
+  NotReady = 'PACKAGE_NOT_READY',
+  CertificateRefused = 'CERTIFICATE_REFUSED',
 }
 
 export enum SheetErrorCode {
@@ -52,6 +60,7 @@ export enum SheetErrorCode {
   NotIndependent = WorkflowCode.NotIndependent,
   NotPreparer = WorkflowCode.NotPreparer,
   HasRevisions = 'SHEET_HAS_REVISIONS',
+  CsvInvalid = 'CSV_INVALID',
 }
 
 export enum EvaluationErrorCode {

@@ -77,7 +77,7 @@ export class AuthGuard implements CanActivate {
 
     if (rule.kind === 'public') {
       if (mutating && !csrf)
-        throw new AppException('CSRF_FAILED', 'The request is missing its anti-forgery header. Reload the page and try again.', HttpStatus.FORBIDDEN);
+        throw new AppException(ErrorCode.CsrfFailed, 'The request is missing its anti-forgery header. Reload the page and try again.', HttpStatus.FORBIDDEN);
       await this.attach(req).catch(() => undefined);
       return true;
     }
@@ -85,7 +85,7 @@ export class AuthGuard implements CanActivate {
     const auth = await this.attach(req);
     if (!auth) throw new AppException(ErrorCode.Unauthenticated, 'Sign in to continue.', HttpStatus.UNAUTHORIZED);
     if (mutating && (!csrf || !sameToken(csrf, auth.session.csrfToken))) {
-      throw new AppException('CSRF_FAILED', 'The request is missing its anti-forgery token. Reload the page and try again.', HttpStatus.FORBIDDEN);
+      throw new AppException(ErrorCode.CsrfFailed, 'The request is missing its anti-forgery token. Reload the page and try again.', HttpStatus.FORBIDDEN);
     }
     if (rule.kind === 'roles' && !rule.roles.some((r) => auth.roles.includes(r))) {
       throw new AppException(ErrorCode.Forbidden, `This needs one of the roles: ${rule.roles.join(', ')}.`, HttpStatus.FORBIDDEN);
