@@ -1,27 +1,14 @@
 import { Alert, Button, CircularProgress, TextField } from '@mui/material';
-import { useQuery } from '@tanstack/react-query';
 import { useNavigate, useSearchParams } from 'react-router-dom';
 import { FormCard } from '../components/forms/form-card';
 import { useForm } from '../components/forms/use-form';
-import { acceptSchema, MIN_PASSWORD_LENGTH, useAcceptInvitation } from '../features/auth';
-import { api } from '../lib/api-client';
-
-interface Preview {
-  firm: string;
-  email: string;
-  roles: string[];
-  hasAccount: boolean;
-}
+import { acceptSchema, MIN_PASSWORD_LENGTH, useAcceptInvitation, useInvitationPreview } from '../features/auth';
 
 export function AcceptInvitationPage() {
   const [params] = useSearchParams();
   const token = params.get('token') ?? '';
   const navigate = useNavigate();
-  const preview = useQuery({
-    queryKey: ['invitation', token],
-    queryFn: () => api.get<Preview>(`/invitations/preview?token=${encodeURIComponent(token)}`),
-    enabled: token.length >= 20,
-  });
+  const preview = useInvitationPreview(token);
   const form = useForm(acceptSchema, { token, name: '', password: '' });
   const accept = useAcceptInvitation();
   const submit = () => {

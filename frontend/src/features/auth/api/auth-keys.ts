@@ -1,1 +1,2 @@
-export const authKeys = { me: ['auth', 'me'] as const };
+/** Every query key of this feature. */
+export const authKeys = { me: ['auth', 'me'] as const, invitation: (token: string) => ['invitation', token] as const };

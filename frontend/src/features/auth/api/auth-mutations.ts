@@ -1,4 +1,4 @@
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api, setCsrfToken } from '../../../lib/api-client';
 import { authKeys } from './auth-keys';
@@ -66,6 +66,21 @@ export function useSignOut() {
 export const useForgotPassword = () =>
   useMutation({ mutationFn: (body: z.infer<typeof forgotSchema>) => api.post<{ message: string }>('/auth/forgot-password', body) });
 export const useResetPassword = () => useMutation({ mutationFn: (body: z.infer<typeof resetSchema>) => api.post<void>('/auth/reset-password', body) });
+
+/** What an invitation link offers (firm, address, roles, whether the address has an account); asked only for a whole token. */
+export interface InvitationPreview {
+  firm: string;
+  email: string;
+  roles: string[];
+  hasAccount: boolean;
+}
+
+export const useInvitationPreview = (token: string) =>
+  useQuery({
+    queryKey: authKeys.invitation(token),
+    queryFn: () => api.get<InvitationPreview>(`/invitations/preview?token=${encodeURIComponent(token)}`),
+    enabled: token.length >= 20,
+  });
 
 export function useAcceptInvitation() {
   const queryClient = useQueryClient();

@@ -8,6 +8,7 @@ export type Project = ProjectDto;
 export const projectKeys = {
   all: ['projects'] as const,
   one: (id: string) => ['projects', id] as const,
+  people: (id: string) => ['projects', id, 'people'] as const,
 };
 
 export const projectsQueryOptions = () => queryOptions({ queryKey: projectKeys.all, queryFn: ({ signal }) => api.get<Project[]>('/projects', { signal }) });
@@ -34,9 +35,7 @@ export function useCreateProject() {
 }
 
 export const useProjectPeople = (id: string) =>
-  useQuery(
-    queryOptions({ queryKey: [...projectKeys.one(id), 'people'], queryFn: ({ signal }) => api.get<ProjectPeopleDto>(`/projects/${id}/people`, { signal }) }),
-  );
+  useQuery(queryOptions({ queryKey: projectKeys.people(id), queryFn: ({ signal }) => api.get<ProjectPeopleDto>(`/projects/${id}/people`, { signal }) }));
 
 export function useSetProjectMembers(id: string) {
   const queryClient = useQueryClient();

@@ -45,7 +45,7 @@ export const useNotifications = (enabled: boolean) =>
 function useInvalidateReview(sheetId: string) {
   const qc = useQueryClient();
   return () => {
-    void qc.invalidateQueries({ queryKey: ['sheets', sheetId] });
+    void qc.invalidateQueries({ queryKey: sheetKeys.one(sheetId) }); // and everything under it: queries, revisions, history
     void qc.invalidateQueries({ queryKey: projectKeys.all });
     void qc.invalidateQueries({ queryKey: reviewKeys.notifications });
   };
