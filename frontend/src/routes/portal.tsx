@@ -2,8 +2,7 @@ import { Alert, Paper, Table, TableBody, TableCell, TableHead, TableRow, Typogra
 import { CautionNotice } from '../components/layout/caution-notice';
 import { PageHeading } from '../components/layout/page-heading';
 import { monoFont } from '../app/theme';
-import { usePortal } from '../features/packages';
-import { PackageLink } from '../features/packages';
+import { PackageLink, usePortal } from '../features/packages';
 
 /** For clients: the issued revisions of the projects they were invited to, with their signed packages. */
 export function PortalPage() {

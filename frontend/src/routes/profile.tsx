@@ -2,8 +2,7 @@ import { Alert, Button, Chip, Stack, TextField, Typography } from '@mui/material
 import { FormCard } from '../components/forms/form-card';
 import { useForm } from '../components/forms/use-form';
 import { PageHeading } from '../components/layout/page-heading';
-import { profileSchema, useUpdateProfile } from '../features/auth';
-import { useMe } from '../features/auth';
+import { profileSchema, useMe, useUpdateProfile } from '../features/auth';
 import { ROLE_LABELS } from '../features/members';
 
 export function ProfilePage() {

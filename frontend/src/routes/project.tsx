@@ -16,12 +16,11 @@ import {
 } from '@mui/material';
 import { useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
-import { ProjectPeople } from '../features/projects';
+import { ProjectPeople, useProject } from '../features/projects';
 import { FormCard } from '../components/forms/form-card';
 import { useForm } from '../components/forms/use-form';
 import { PageHeading } from '../components/layout/page-heading';
 import { useMe } from '../features/auth';
-import { useProject } from '../features/projects';
 import { newSheetSchema, STATE_LABELS, useCreateSheet, useProjectSheets, useTemplates } from '../features/sheets';
 
 function NewSheetForm({ projectId, onDone }: { projectId: string; onDone: () => void }) {

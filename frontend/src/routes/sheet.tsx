@@ -5,13 +5,8 @@ import { CautionNotice } from '../components/layout/caution-notice';
 import { PageHeading } from '../components/layout/page-heading';
 import { actorOf, useMe } from '../features/auth';
 import { EDITABLE_STATES, editRefusal, factsOfSheet, WorkflowCode } from '@ampwright/common/review/workflow';
-import { useSheetQueries } from '../features/review';
-import { CellReview, type ReviewContext } from '../features/review';
-import { WorkflowBar } from '../features/review';
-import { STATE_LABELS, useSaveAsTemplate, useSheet } from '../features/sheets';
-import { AttachmentsPanel } from '../features/sheets';
-import type { ReviewSlot } from '../features/sheets';
-import { SheetEditor } from '../features/sheets';
+import { CellReview, type ReviewContext, useSheetQueries, WorkflowBar } from '../features/review';
+import { AttachmentsPanel, type ReviewSlot, SheetEditor, STATE_LABELS, useSaveAsTemplate, useSheet } from '../features/sheets';
 
 /**
  * A sheet: its review bar, then its cells, edited and evaluated in place by those who may (the

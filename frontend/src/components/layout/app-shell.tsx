@@ -1,7 +1,6 @@
 import { AppBar, Box, Button, Chip, Container, Stack, Toolbar, Tooltip, Typography } from '@mui/material';
 import { NavLink, Outlet, useNavigate } from 'react-router-dom';
-import { useSignOut } from '../../features/auth';
-import { isMember, useMe } from '../../features/auth';
+import { isMember, useMe, useSignOut } from '../../features/auth';
 import { ROLE_LABELS } from '../../features/members';
 import { useHealth } from '../../features/health';
 import { useNotifications } from '../../features/review';
