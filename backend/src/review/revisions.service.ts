@@ -106,11 +106,9 @@ export class RevisionsService {
     }
     const cells = await em.find(Cell, { sheet }, { orderBy: { position: 'asc' } });
     const file = this.sheets.toFile(sheet, cells);
-    // Evaluated afresh, so the snapshot's results are exactly what this engine gives for this sheet.
-    const outcome = fresh;
     // What was checked is what is issued: the fresh results must be the ones stored, which the checker saw.
     const stable = (v: unknown) => canonicalJson(JSON.parse(JSON.stringify(v ?? null)));
-    const drifted = cells.map((c, k) => ({ position: k + 1, same: stable(c.results) === stable(outcome.cells[k]) })).filter((c) => !c.same);
+    const drifted = cells.map((c, k) => ({ position: k + 1, same: stable(c.results) === stable(fresh.cells[k]) })).filter((c) => !c.same);
     if (drifted.length) {
       const list = drifted.map((c) => c.position).join(', ');
       throw new AppException(
@@ -141,8 +139,8 @@ export class RevisionsService {
       sheetNumber: sheet.number,
       sheet: file,
       cellIds: cells.map((c) => c.id),
-      results: outcome.cells as CellResult[],
-      engineVersion: outcome.engineVersion,
+      results: fresh.cells,
+      engineVersion: fresh.engineVersion,
       people: { preparedBy: sheet.preparer.name, checkedBy: sheet.checker!.name, approvedBy: sheet.approver!.name },
       dates: {
         checkRequestedAt: iso(sheet.checkRequestedAt),
@@ -159,7 +157,7 @@ export class RevisionsService {
       code,
       snapshot: JSON.parse(canonicalJson(snapshot)),
       snapshotSha256: sha256Of(snapshot),
-      engineVersion: outcome.engineVersion,
+      engineVersion: fresh.engineVersion,
       preparedBy: sheet.preparer,
       checkedBy: sheet.checker!,
       approvedBy: sheet.approver!,

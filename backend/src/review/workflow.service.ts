@@ -36,20 +36,14 @@ export class WorkflowService {
   ) {}
 
   /** Runs `act` on the sheet locked for update, then records the event and tells people. */
-  private async locked<T>(
-    auth: AuthContext,
-    id: string,
-    act: (sheet: Sheet, em: EntityManager) => Promise<T>,
-    options: { readOnly?: boolean } = {},
-  ): Promise<{ sheet: Sheet; out: T }> {
+  private async locked<T>(auth: AuthContext, id: string, act: (sheet: Sheet, em: EntityManager) => Promise<T>): Promise<{ sheet: Sheet; out: T }> {
     await this.sheets.findReadable(auth, id);
     let sheet!: Sheet;
     let out!: T;
     await this.em.transactional(async (em) => {
-      sheet = await em.findOneOrFail(Sheet, { id }, { lockMode: options.readOnly ? undefined : LockMode.PESSIMISTIC_WRITE });
+      sheet = await em.findOneOrFail(Sheet, { id }, { lockMode: LockMode.PESSIMISTIC_WRITE });
       await em.populate(sheet, ['preparer', 'checker', 'approver', 'project', 'project.firm']);
       out = await act(sheet, em);
-      if (options.readOnly) return;
       sheet.version += 1;
       await em.flush();
     });
@@ -188,7 +182,9 @@ export class WorkflowService {
    * and that the sheet is still at the version evaluated.
    */
   async issue(auth: AuthContext, id: string) {
-    await this.locked(auth, id, async (s, em) => requireMove('issue', auth, factsOf(s, await notIndependent(em, s))), { readOnly: true });
+    // Refused before the evaluation when the rulebook says no now; checked again under the lock.
+    const current = await this.sheets.findReadable(auth, id);
+    requireMove('issue', auth, factsOf(current, await notIndependent(this.em, current)));
     const fresh = await this.revisions.evaluateForIssue(auth, id);
     const { sheet, out: revision } = await this.locked(auth, id, async (s, em) => {
       requireMove('issue', auth, factsOf(s, await notIndependent(em, s)));

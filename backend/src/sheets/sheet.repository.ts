@@ -143,6 +143,10 @@ const peopleOf = (r: PeopleRow) => ({
  */
 const OPEN_QUERY = "q.sheet_id = s.id and q.revision_number = s.revision_number and q.status <> 'closed'";
 
+/** A sheet's cells (bound: sheet id) in order, with who changed and who agreed each. */
+const CELLS_OF_SHEET = `from cell c left join app_user cu on cu.id = c.changed_by_id left join app_user au on au.id = c.agreed_by_id
+  where c.sheet_id = ? order by c.position`;
+
 const placeholders = (n: number) => Array.from({ length: n }, () => '?').join(', ');
 
 export class SheetRepository extends EntityRepository<Sheet> {
@@ -204,9 +208,8 @@ export class SheetRepository extends EntityRepository<Sheet> {
   /** The cells of a sheet as the API shows them, in order, read in one query; without results if asked. */
   async cellViews(sheetId: string, options: { results?: boolean } = {}): Promise<CellDto[]> {
     const rows = await this.em.execute<CellRow[]>(
-      `select c.id, c.position, c.kind, c.fields, ${options.results === false ? '' : 'c.results, '}c.changed_at, c.changed_after_agreement, cu.name as changed_by, au.name as agreed_by
-         from cell c left join app_user cu on cu.id = c.changed_by_id left join app_user au on au.id = c.agreed_by_id
-        where c.sheet_id = ? order by c.position`,
+      `select c.id, c.position, c.kind, c.fields, ${options.results === false ? '' : 'c.results, '}c.changed_at, c.changed_after_agreement,
+              cu.name as changed_by, au.name as agreed_by ${CELLS_OF_SHEET}`,
       [sheetId],
     );
     return rows.map(rowView);
@@ -229,17 +232,11 @@ export class SheetRepository extends EntityRepository<Sheet> {
     return raised > 0;
   }
 
-  async stateOf(sheetId: string): Promise<SheetState | undefined> {
-    const [row] = await this.em.execute<{ state: SheetState }[]>('select state from sheet where id = ?', [sheetId]);
-    return row?.state;
-  }
-
   /** A sheet's cells in order as a save changes them, without their results, in one query. */
   async cellRecords(sheetId: string): Promise<CellRecord[]> {
     const rows = await this.em.execute<(CellRow & { changed_by_id: string | null; agreed_by_id: string | null; agreed_at: Date | string | null })[]>(
-      `select c.id, c.position, c.kind, c.fields, c.changed_at, c.changed_after_agreement, c.changed_by_id, cu.name as changed_by, c.agreed_by_id, au.name as agreed_by, c.agreed_at
-         from cell c left join app_user cu on cu.id = c.changed_by_id left join app_user au on au.id = c.agreed_by_id
-        where c.sheet_id = ? order by c.position`,
+      `select c.id, c.position, c.kind, c.fields, c.changed_at, c.changed_after_agreement, c.changed_by_id, cu.name as changed_by,
+              c.agreed_by_id, au.name as agreed_by, c.agreed_at ${CELLS_OF_SHEET}`,
       [sheetId],
     );
     return rows.map((r) => ({
@@ -268,13 +265,11 @@ export class SheetRepository extends EntityRepository<Sheet> {
         [c.kind, JSON.stringify(c.fields), c.changedById, c.changedAt, c.agreedById, c.agreedAt, c.changedAfterAgreement, sheetId, c.id],
       );
     }
-    for (let k = 0; k < writes.moved.length; k += BATCH) {
-      const batch = writes.moved.slice(k, k + BATCH);
-      await run(
-        `update cell set position = case id ${batch.map(() => 'when ? then ?').join(' ')} end where sheet_id = ? and id in (${placeholders(batch.length)})`,
-        [...batch.flatMap((c) => [c.id, c.position]), sheetId, ...batch.map((c) => c.id)],
-      );
-    }
+    await this.setByCell(
+      sheetId,
+      'position',
+      writes.moved.map((c) => [c.id, c.position]),
+    );
     for (const c of writes.inserted) {
       await run('insert into cell (id, sheet_id, position, kind, fields, changed_by_id, changed_at, changed_after_agreement) values (?, ?, ?, ?, ?, ?, ?, ?)', [
         c.id,
@@ -286,6 +281,18 @@ export class SheetRepository extends EntityRepository<Sheet> {
         c.changedAt,
         c.changedAfterAgreement,
       ]);
+    }
+  }
+
+  /** Sets one column of many cells of a sheet, each to its own value, in batches of one statement each. */
+  private async setByCell(sheetId: string, column: 'position' | 'results', values: [string, unknown][]): Promise<void> {
+    for (let k = 0; k < values.length; k += BATCH) {
+      const batch = values.slice(k, k + BATCH);
+      await this.em.execute(
+        `update cell set ${column} = case id ${batch.map(() => 'when ? then ?').join(' ')} end where sheet_id = ? and id in (${placeholders(batch.length)})`,
+        [...batch.flat(), sheetId, ...batch.map(([id]) => id)],
+        'run',
+      );
     }
   }
 
@@ -302,21 +309,18 @@ export class SheetRepository extends EntityRepository<Sheet> {
    */
   async storeResults(sheetId: string, store: ResultsToStore): Promise<ReadonlySet<string> | null> {
     return this.em.transactional(async (em) => {
-      const [row] = await em.execute<{ version: number; results_version: number | null; engine_version: string | null }[]>(
-        'select version, results_version, engine_version from sheet where id = ? for update',
+      const [row] = await em.execute<{ version: number; results_version: number | null }[]>(
+        'select version, results_version from sheet where id = ? for update',
         [sheetId],
       );
       if (row?.version !== store.version) return null;
       const subset = store.only && row.results_version === store.only.basedOn;
       const ids = subset ? [...store.only!.ids].filter((id) => store.results.has(id)) : [...store.results.keys()];
-      for (let k = 0; k < ids.length; k += BATCH) {
-        const batch = ids.slice(k, k + BATCH);
-        await em.execute(
-          `update cell set results = case id ${batch.map(() => 'when ? then ?').join(' ')} end where sheet_id = ? and id in (${batch.map(() => '?').join(', ')})`,
-          [...batch.flatMap((id) => [id, JSON.stringify(store.results.get(id) ?? null)]), sheetId, ...batch],
-          'run',
-        );
-      }
+      await this.setByCell(
+        sheetId,
+        'results',
+        ids.map((id) => [id, JSON.stringify(store.results.get(id) ?? null)]),
+      );
       await em.execute(
         'update sheet set results_version = ?, engine_version = coalesce(?, engine_version) where id = ?',
         [store.version, store.engineVersion, sheetId],

@@ -53,11 +53,10 @@ function setup(evaluation: Partial<SheetOutcome> & { ok: boolean }, options: { r
   const repository = {
     heading: vi.fn(async () => sheet),
     raiseVersion: vi.fn(async () => options.raised ?? true),
-    stateOf: vi.fn(async () => options.state ?? 'being-prepared'),
     cellRecords: vi.fn(async () => cells),
     writeCells: vi.fn(async () => undefined),
     writeHeading: vi.fn(async () => undefined),
-    contents: vi.fn(async () => ({ version: 5, state: 'being-prepared', cells: [] })),
+    contents: vi.fn(async () => ({ version: 5, state: options.state ?? 'being-prepared', cells: [] })),
     storeResults: vi.fn(async (_id: string, store: ResultsToStore) => new Set(store.only ? store.only.ids : store.results.keys())),
   };
   const txEm = { findOneOrFail: vi.fn(async () => sheet), flush: vi.fn(async () => undefined), getReference: vi.fn((_e: unknown, id: string) => ({ id })) };

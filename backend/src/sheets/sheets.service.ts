@@ -272,58 +272,58 @@ export class SheetsService {
    * lock; and the results of the cells it re-evaluated stored while the sheet is still at that version.
    */
   private async change(auth: AuthContext, id: string, version: number, apply: Change): Promise<SaveResult> {
-    const sheet = await timed('db', async () => {
-      const heading = await this.repository.heading(auth.session.firm.id, id);
-      if (!heading) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
-      await this.assertMayEdit(auth, heading);
-      return heading;
-    });
+    const sheet = await timed('db', () => this.editableHeading(auth, id));
     // A place in the firm's evaluation queue is held before anything is written: a firm whose queue is
     // full is told so (429) and its change is not saved, rather than saved and left unevaluated.
     return this.evaluation.holding(auth.session.firm.id, (reservation) => this.changeHolding(sheet, auth, version, apply, reservation));
   }
 
+  /** A sheet the caller may change, read as a save needs it (one query, no entities); 404 or the rulebook's refusal otherwise. */
+  private async editableHeading(auth: AuthContext, id: string): Promise<SheetHeadingRow> {
+    const heading = await this.repository.heading(auth.session.firm.id, id);
+    if (!heading) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
+    await this.assertMayEdit(auth, heading);
+    return heading;
+  }
+
   private async changeHolding(found: SheetHeadingRow, auth: AuthContext, version: number, apply: Change, reservation: Reservation): Promise<SaveResult> {
     const actor = auth.session.user;
     const saved = await timed('db', () =>
-      this.em
-        .transactional(async (em) => {
-          if (!(await this.repository.raiseVersion(found.id, version, EDITABLE))) {
-            const state = await this.repository.stateOf(found.id);
-            if (state) this.assertEditable(state);
-            throw new AppException(
-              SheetErrorCode.StaleVersion,
-              'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.',
-              HttpStatus.CONFLICT,
-            );
-          }
-          // What was read before is what the version raised from, unless that read saw an older version
-          // (then it is read again, under the row lock now held).
-          const sheet = found.version === version ? found : (await this.repository.heading(auth.session.firm.id, found.id))!;
-          if (actor.id !== sheet.preparer.id) await recordEdit(em, sheet.id, sheet.revisionNumber, actor.id);
-          const cells = await this.repository.cellRecords(sheet.id);
-          const placed = new Map(cells.map((c) => [c.id, c.position]));
-          const heading: Heading = { title: sheet.title, settings: sheet.settings };
-          const applied = apply(heading, cells);
-          const removed = new Set(applied.removed ?? []);
-          const inserted = applied.inserted ?? [];
-          const kept = cells.filter((c) => !removed.has(c.id));
-          await this.repository.writeCells(sheet.id, {
-            inserted,
-            edited: kept.filter((c) => applied.edited?.has(c.id)),
-            moved: kept.filter((c) => placed.get(c.id) !== c.position),
-            removed: [...removed],
-          });
-          if (heading.title !== sheet.title || heading.settings !== sheet.settings) await this.repository.writeHeading(sheet.id, heading);
-          const now = [...kept, ...inserted].sort((a, b) => a.position - b.position);
-          return { file: this.toFile({ extra: sheet.extra, ...heading }, now), applied, cells: now };
-        })
-        .catch(async (err) => {
-          if (err instanceof AppException && err.code === SheetErrorCode.StaleVersion) {
-            throw new AppException(SheetErrorCode.StaleVersion, err.message, HttpStatus.CONFLICT, undefined, await this.repository.contents(found.id));
-          }
-          throw err;
-        }),
+      this.em.transactional(async (em) => {
+        if (!(await this.repository.raiseVersion(found.id, version, EDITABLE))) {
+          // Not raised: the sheet left preparation (read-only), was deleted, or someone else saved first.
+          const current = await this.repository.contents(found.id);
+          if (!current) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
+          this.assertEditable(current.state);
+          throw new AppException(
+            SheetErrorCode.StaleVersion,
+            'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.',
+            HttpStatus.CONFLICT,
+            undefined,
+            current,
+          );
+        }
+        // What was read before is what the version raised from, unless that read saw an older version
+        // (then it is read again, under the row lock now held).
+        const sheet = found.version === version ? found : (await this.repository.heading(auth.session.firm.id, found.id))!;
+        if (actor.id !== sheet.preparer.id) await recordEdit(em, sheet.id, sheet.revisionNumber, actor.id);
+        const cells = await this.repository.cellRecords(sheet.id);
+        const placed = new Map(cells.map((c) => [c.id, c.position]));
+        const heading: Heading = { title: sheet.title, settings: sheet.settings };
+        const applied = apply(heading, cells);
+        const removed = new Set(applied.removed ?? []);
+        const inserted = applied.inserted ?? [];
+        const kept = cells.filter((c) => !removed.has(c.id));
+        await this.repository.writeCells(sheet.id, {
+          inserted,
+          edited: kept.filter((c) => applied.edited?.has(c.id)),
+          moved: kept.filter((c) => placed.get(c.id) !== c.position),
+          removed: [...removed],
+        });
+        if (heading.title !== sheet.title || heading.settings !== sheet.settings) await this.repository.writeHeading(sheet.id, heading);
+        const now = [...kept, ...inserted].sort((a, b) => a.position - b.position);
+        return { file: this.toFile({ extra: sheet.extra, ...heading }, now), applied, cells: now };
+      }),
     );
     const { file, applied, cells } = saved;
     const { results, written } = await this.evaluateAndStore(found.id, file, cells, version + 1, {
@@ -439,7 +439,7 @@ export class SheetsService {
         { field: 'file', message: 'no file was sent' },
       ]);
     // Nothing is parsed for a sheet the caller may not change; the parsing itself runs in an evaluation process.
-    await this.findEditable(auth, id);
+    await this.editableHeading(auth, id);
     const parsed = await this.evaluation.parseCsv(auth.session.firm.id, file.buffer);
     if ('binary' in parsed) {
       throw new AppException(
