@@ -23,18 +23,32 @@ export type {
 } from './api/projects';
 export { MAX_PASSWORD_BYTES, MIN_PASSWORD_LENGTH } from './api/accounts';
 export { PALETTE } from './plot/palette';
+export { sweepChart, transientChart, calcFigures, type CalcFigure } from './plot/index';
 export {
-  sweepChart,
-  transientChart,
-  calcFigures,
-  transientSummary,
+  CELL_KIND_REGISTRY,
   KIND_LABELS,
   kindLabel,
+  kindFacts,
+  newCellFields,
+  presentCell,
+  cellInputs,
+  resultFigures,
+  type CellKindDefinition,
+  type CellOf,
+  type FieldsOf,
+  type ResultOf,
+} from './cells/kinds';
+export {
   checkPresentation,
-  type CalcFigure,
+  transientSummary,
+  CAUTION_UTILISATION,
+  type BlockOf,
+  type BlockType,
+  type CheckPresentation,
+  type PresentationBlock,
   type SummaryRow,
   type Tone,
-} from './plot/index';
+} from './cells/presentation';
 export type { QueryDto, QueryMessageDto, QueryStatus, RevisionSummaryDto, DiffDto, HistoryEventDto, NotificationDto } from './api/review';
 export { diffCells, type CellDiff, type SnapshotCell } from './review/diff';
 export { revisionCode, canonicalJson } from './review/revision-code';

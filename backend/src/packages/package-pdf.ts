@@ -13,21 +13,18 @@ import {
   CAUTION_SHORT,
   CAUTION_TEXT,
   PALETTE,
-  calcFigures,
-  type CellKind,
-  checkPresentation,
+  cellInputs,
+  kindFacts,
   kindLabel,
-  type Tone,
-  sweepChart,
-  transientChart,
-  transientSummary,
-  type CalcResult,
+  presentCell,
+  type BlockOf,
+  type BlockType,
   type CellResult,
-  type CheckResult,
+  type LineResult,
+  type PresentationBlock,
   type QueryDto,
   type RevisionSummaryDto,
-  type SweepResult,
-  type TransientResult,
+  type Tone,
 } from '@ampwright/common';
 import type { RevisionSnapshot } from '../review/revisions.service';
 import { drawNote } from './note-pdf';
@@ -53,7 +50,7 @@ export interface PackageInput {
 }
 
 const { ink: INK, copper: COPPER, text: TEXT, muted: MUTED, rule: RULE, pass: PASS, fail: FAIL, caution: CAUTION } = PALETTE;
-/** The colour of each tone of common/plot/presentation.ts. */
+/** The colour of each tone of common/cells/presentation.ts. */
 const TONE: Record<Tone, string> = { pass: PASS, caution: CAUTION, fail: FAIL, none: MUTED };
 
 const fontDir = (pkg: string) => join(dirname(require.resolve(`${pkg}/package.json`)), 'fonts', 'complete', 'woff');
@@ -215,46 +212,28 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
   doc.y += (cells.length + 3) * 13;
   if (doc.y > bottom()) doc.addPage();
 
-  type Cell = Record<string, unknown> & { kind: string };
-  /** How each kind of cell is drawn: a new kind does not compile until it is drawn here. */
-  const DRAW: Record<CellKind, (cell: Cell, result: CellResult | null) => void> = {
-    note: (cell) =>
-      drawNote({ doc, left: M, width: width(), ensure, colours: { text: TEXT, muted: MUTED, heading: INK, rule: RULE } }, String(cell.text ?? '')),
-    calc: (_cell, result) => result?.kind === 'calc' && drawCalc(result),
-    check: (cell, result) => result?.kind === 'check' && drawCheck(result, cell),
-    sweep: (cell, result) => {
-      if (result?.kind !== 'sweep') return;
-      para(
-        `${cell.variable} from ${cell.from} to ${cell.to}, ${cell.points} points (${cell.spacing ?? 'linear'}); outputs: ${((cell.outputs as string[]) ?? []).join('; ')}`,
-        { size: 9, colour: MUTED },
-      );
-      const svg = sweepChart(result as SweepResult, { logX: cell.spacing === 'log' });
-      if (svg) svgFigure(svg, width());
-    },
-    transient: (cell, result) => {
-      if (result?.kind !== 'transient') return;
-      const t = result as TransientResult;
-      para(`R = ${cell.R}, L = ${cell.L}, C = ${cell.C}, E(t) = ${cell.source}, from q0 = ${cell.q0 || '0'}, i0 = ${cell.i0 || '0'}, over ${cell.span}.`, {
-        size: 9,
-      });
-      for (const row of transientSummary(t)) para(`${row.label}: ${row.text}`, { size: 9 });
-      const svg = transientChart(t);
-      if (svg) svgFigure(svg, width());
-    },
-    table: (cell) => drawTable(cell),
-    figure: (cell) => para(String(cell.caption ?? ''), { font: 'italic' }),
+  /** How each block of a cell's presentation (common/cells/presentation.ts) is drawn on paper; the screen draws the same blocks. */
+  const DRAW: { [T in BlockType]: (block: BlockOf<T>) => void } = {
+    note: (b) => drawNote({ doc, left: M, width: width(), ensure, colours: { text: TEXT, muted: MUTED, heading: INK, rule: RULE } }, b.text),
+    lines: (b) => drawLines(b.lines),
+    outcome: (b) => drawOutcome(b),
+    rows: (b) => b.rows.forEach((row) => para(`${row.label}: ${row.text}`, { size: 9 })),
+    figure: (b) => svgFigure(b.svg, b.small ? width() * 0.6 : width()),
+    sentence: (b) => para(b.text, b.style === 'caption' ? { font: 'italic' } : b.style === 'muted' ? { size: 9, colour: MUTED } : { size: 9 }),
+    table: (b) => drawTable(b),
   };
+  const draw = (block: PresentationBlock) => (DRAW[block.type] as (b: PresentationBlock) => void)(block);
 
   // The cells.
   doc.addPage();
   cells.forEach((fileCell, i) => {
-    const cell = fileCell as Record<string, unknown> & { kind: string };
+    const { kind, ...fields } = fileCell as Record<string, unknown> & { kind: string };
     const result = (snap.results[i] ?? null) as CellResult | null;
     ensure(40);
     entries.push({
-      label: `Cell ${i + 1}: ${kindLabel(cell.kind).toLowerCase()}${
-        cell.kind === 'note'
-          ? ` — ${String(cell.text ?? '')
+      label: `Cell ${i + 1}: ${kindLabel(kind).toLowerCase()}${
+        kind === 'note'
+          ? ` — ${String(fields.text ?? '')
               .split('\n')[0]
               .replace(/^#+\s*/, '')
               .slice(0, 60)}`
@@ -267,7 +246,7 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
       .font('bold')
       .fontSize(8)
       .fillColor(MUTED)
-      .text(`${i + 1} · ${kindLabel(cell.kind).toUpperCase()}`, M, doc.y, { characterSpacing: 0.8 });
+      .text(`${i + 1} · ${kindLabel(kind).toUpperCase()}`, M, doc.y, { characterSpacing: 0.8 });
     doc
       .moveTo(M, doc.y + 1)
       .lineTo(M + width(), doc.y + 1)
@@ -275,14 +254,15 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
       .strokeColor(RULE)
       .stroke();
     doc.moveDown(0.4);
-    DRAW[cell.kind as CellKind]?.(cell, result);
+    if (kindFacts(kind).inputsInPackage && result) para(cellInputs(kind, fields).replace(/\n/g, '; '), { size: 9, colour: MUTED });
+    presentCell(kind, fields, result).forEach(draw);
     if (result && result.errors.length)
       for (const e of result.errors) para(`Error, line ${e.line}, column ${e.column}: ${e.message}`, { colour: FAIL, size: 9 });
     input.onProgress?.(((i + 1) / cells.length) * 0.9);
   });
 
-  function drawCalc(result: CalcResult) {
-    for (const line of result.lines) {
+  function drawLines(lines: LineResult[]) {
+    for (const line of lines) {
       if (!line.tex) continue;
       const f = texToSvgSize(line.tex.formula, 10.5);
       ensure(Math.max(f, 14) + 30);
@@ -309,7 +289,6 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
       }
       doc.moveDown(0.35);
     }
-    for (const fig of calcFigures(result)) svgFigure(fig.svg, width() * 0.6);
   }
 
   function texToSvgSize(source: string, size: number): number {
@@ -320,20 +299,19 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
     }
   }
 
-  function drawCheck(result: CheckResult, cell: Record<string, unknown>) {
+  function drawOutcome({ check: p, formula, working }: BlockOf<'outcome'>) {
     ensure(70);
     const y = doc.y;
-    const p = checkPresentation(result);
     doc.rect(M, y, 64, 16).fillColor(TONE[p.tone]).fill();
     doc
       .font('bold')
       .fontSize(9)
       .fillColor('#ffffff')
       .text(p.outcome.toUpperCase(), M, y + 4, { width: 64, align: 'center' });
-    if (result.tex) tex(result.tex.formula, M + 76, y + 1, width() - 76);
+    if (formula) tex(formula, M + 76, y + 1, width() - 76);
     doc.y = y + 22;
-    if (result.tex?.working) {
-      const w = tex(result.tex.working, M + 14, doc.y, width() - 14, 9);
+    if (working) {
+      const w = tex(working, M + 14, doc.y, width() - 14, 9);
       doc.y += w.h + 4;
     }
     if (p.utilisation) {
@@ -353,12 +331,9 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
         .text(`${p.utilisation.text}${p.advisory ? ' (advisory)' : ''}`, M + 24 + barW, doc.y - 2);
       doc.moveDown(0.2);
     }
-    if (cell.basis) para(`Basis: ${String(cell.basis)}`, { size: 9, colour: MUTED });
   }
 
-  function drawTable(cell: Record<string, unknown>) {
-    const columns = (cell.columns as { name: string; unit?: string }[]) ?? [];
-    const rows = (cell.rows as unknown[][]) ?? [];
+  function drawTable({ columns, rows }: BlockOf<'table'>) {
     const colW = Math.min(110, width() / Math.max(1, columns.length));
     const row = (values: string[], font: string) => {
       ensure(14);
@@ -376,11 +351,7 @@ export function buildPackagePdf(input: PackageInput): Promise<Buffer> {
       columns.map((c) => (c.unit ? `${c.name} [${c.unit}]` : c.name)),
       'bold',
     );
-    for (const r of rows)
-      row(
-        r.map((v) => (v === null || v === undefined ? '' : String(v))),
-        'mono',
-      );
+    for (const r of rows) row(r, 'mono');
     doc.moveDown(0.3);
   }
 

@@ -65,17 +65,19 @@ export interface ResultsToStore {
 
 const parsedJson = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);
 
-const rowView = (r: CellRow): CellDto => ({
-  id: r.id,
-  position: r.position,
-  kind: r.kind,
-  fields: parsedJson(r.fields) as Record<string, unknown>,
-  results: (parsedJson(r.results ?? null) as CellResult | null) ?? null,
-  changedBy: r.changed_by,
-  changedAt: new Date(r.changed_at).toISOString(),
-  agreedBy: r.agreed_by,
-  changedAfterAgreement: !!r.changed_after_agreement,
-});
+// A stored cell was validated against its kind's schema when it was written, so its row is the typed cell.
+const rowView = (r: CellRow): CellDto =>
+  ({
+    id: r.id,
+    position: r.position,
+    kind: r.kind,
+    fields: parsedJson(r.fields) as Record<string, unknown>,
+    results: (parsedJson(r.results ?? null) as CellResult | null) ?? null,
+    changedBy: r.changed_by,
+    changedAt: new Date(r.changed_at).toISOString(),
+    agreedBy: r.agreed_by,
+    changedAfterAgreement: !!r.changed_after_agreement,
+  }) as CellDto;
 
 /** The co-preparers, and everyone who may not check or approve the revision (preparer, co-preparers, editors). */
 function authorFields(preparerId: string, raw: unknown): Pick<SheetDto, 'coPreparers' | 'authorIds'> {

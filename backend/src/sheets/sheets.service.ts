@@ -336,17 +336,20 @@ export class SheetsService {
     const shown = cells.filter((c) => applied.touched.has(c.id) || written.has(c.id));
     return {
       version: version + 1,
-      changed: shown.map((c) => ({
-        id: c.id,
-        position: c.position,
-        kind: c.kind,
-        fields: c.fields,
-        results: results.get(c.id) ?? null,
-        changedBy: c.changedBy,
-        changedAt: c.changedAt.toISOString(),
-        agreedBy: c.agreedBy,
-        changedAfterAgreement: c.changedAfterAgreement,
-      })),
+      changed: shown.map(
+        (c) =>
+          ({
+            id: c.id,
+            position: c.position,
+            kind: c.kind,
+            fields: c.fields,
+            results: results.get(c.id) ?? null,
+            changedBy: c.changedBy,
+            changedAt: c.changedAt.toISOString(),
+            agreedBy: c.agreedBy,
+            changedAfterAgreement: c.changedAfterAgreement,
+          }) as CellDto,
+      ),
       removed: applied.removed ?? [],
     };
   }

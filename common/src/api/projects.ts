@@ -1,5 +1,7 @@
 /** Bodies of the projects and sheets API, shared by the server that builds them and the app that reads them. */
+import type { FieldsOf } from '../cells/kinds';
 import type { CellResult } from '../cells/types';
+import type { CellKind } from '../sheet/sheet-format';
 
 export type SheetState = 'being-prepared' | 'with-checker' | 'checked' | 'approved' | 'issued';
 
@@ -28,12 +30,12 @@ export interface SheetSummaryDto {
   updatedAt: string;
 }
 
-export interface CellDto {
+interface CellDtoBase<K extends CellKind> {
   id: string;
   position: number;
-  kind: string;
-  /** The cell as in the sheet file, without `kind`. */
-  fields: Record<string, unknown>;
+  kind: K;
+  /** The cell as in the sheet file, without `kind` (typed by its kind; fields this version does not know are kept). */
+  fields: FieldsOf<K>;
   /** What the server computed when the sheet was last saved. */
   results: CellResult | null;
   changedBy: string | null;
@@ -43,6 +45,9 @@ export interface CellDto {
   /** Edited after the checker agreed it: shown to the checker. */
   changedAfterAgreement: boolean;
 }
+
+/** A cell of a sheet: a union over the kinds, so `kind` narrows `fields`. */
+export type CellDto = { [K in CellKind]: CellDtoBase<K> }[CellKind];
 
 export interface SheetDto {
   id: string;

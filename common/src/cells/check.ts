@@ -6,7 +6,7 @@ import type { MathNode } from 'mathjs';
 import type { CheckCell } from '../sheet/sheet-format';
 import { EngineError } from '../language/errors';
 import { checkNames, evaluateNode, parseExpression, valueNames } from '../language/expression';
-import { isComplex, isUnit } from '../language/instance';
+import { isComplex, isUnit } from '../language/math';
 import { displayTex, expressionTex } from '../tex/tex';
 import { formatValue, type DisplayOptions } from '../units/display';
 import { dropRidingAngle } from '../units/quantities';

@@ -1,5 +1,5 @@
 import type { Unit as MathUnit } from 'mathjs';
-import { isUnit, math } from '../language/instance';
+import { isUnit, math } from '../language/math';
 import { dimensionsOf, dropRidingAngle, frequencyKind, withoutAngle } from '../units/quantities';
 import { kindOf } from '../language/errors';
 

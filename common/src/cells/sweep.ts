@@ -8,7 +8,7 @@ import type { MathNode } from 'mathjs';
 import type { SweepCell } from '../sheet/sheet-format';
 import { EngineError } from '../language/errors';
 import { checkNames, evaluateNode, parseExpression, valueNames } from '../language/expression';
-import { isComplex, isUnit, math, Unit } from '../language/instance';
+import { isComplex, isUnit, math, Unit } from '../language/math';
 import { siUnitName, type DisplayOptions } from '../units/display';
 import { withNumericMode } from '../units/quantities';
 import { compileNumeric, NumericFallback } from '../language/numeric';

@@ -1,6 +1,6 @@
 /** The table cell: named columns with units; each column becomes a vector the cells below can use. */
 import type { TableCell } from '../sheet/sheet-format';
-import { math } from '../language/instance';
+import { math } from '../language/math';
 import { formatValue, type DisplayOptions } from '../units/display';
 import type { SheetScope } from './scope';
 import type { TableResult } from './types';

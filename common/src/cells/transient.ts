@@ -7,7 +7,7 @@ import type { MathNode } from 'mathjs';
 import type { TransientCell } from '../sheet/sheet-format';
 import { EngineError } from '../language/errors';
 import { checkNames, evaluateNode, parseExpression, valueNames } from '../language/expression';
-import { isUnit, math } from '../language/instance';
+import { isUnit, math } from '../language/math';
 import { analyticSolution, dampingOf, extremaOnGrid, numericSolution, summarise, type Extremum, type SourceForm } from '../circuits/transient';
 import { formatValue, type DisplayOptions } from '../units/display';
 import { angleValue } from '../circuits/functions';

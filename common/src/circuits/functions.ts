@@ -3,8 +3,14 @@
  * dimension) and returns one in coherent SI. Formulas and sources are listed in common/LANGUAGE.md;
  * the reference checks in reference-checks/ compare them with outside sources.
  */
-import { math } from '../language/math';
+import type { MathJsInstance } from 'mathjs';
 import { frequencyKind, quantity, real, si, type Scalar } from '../units/quantities';
+
+/** The language's instance, handed over by language/math.ts when it registers these functions (see units/quantities.ts). */
+let math: MathJsInstance;
+export function useInstance(instance: MathJsInstance): void {
+  math = instance;
+}
 
 type C = { re: number; im: number };
 const c = (x: Scalar): C => (typeof x === 'number' ? { re: x, im: 0 } : x);

@@ -6,9 +6,8 @@
 import type { MathNode } from 'mathjs';
 import { describePlace, type Place, type SheetScope } from '../cells/scope';
 import { EngineError, explain, type Diagnostic } from './errors';
-import { isBuiltin, math, parse, Unit } from './instance';
 import { ALLOWED_CONSTANTS, ALLOWED_FUNCTIONS, ALLOWED_NODES, ALLOWED_OPERATORS } from './allowed';
-import { REFUSED_NAMES } from './math';
+import { isBuiltin, math, parse, REFUSED_NAMES, Unit } from './math';
 
 const SYNTAX_WORDS: Record<string, string> = {
   ObjectNode: 'an object { … }',
@@ -70,7 +69,7 @@ const isPi = (n: MathNode) => n.type === 'SymbolNode' && (n as AnyNode).name ===
 
 /**
  * A product with the factors 2 and pi anywhere in it (`2 f pi`) is read as `2 pi f`, so that 2π meets
- * the frequency first and makes it an angular frequency (see instance.ts). Only scalar factors move.
+ * the frequency first and makes it an angular frequency (see math.ts). Only scalar factors move.
  */
 export function groupTwoPi(node: MathNode): MathNode {
   if (node.filter(isPi).length === 0) return node;

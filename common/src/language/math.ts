@@ -3,11 +3,22 @@
  * power), `j` joins `i` as the imaginary unit, functions that reject a Unit are taught to accept one,
  * and everything that could reach outside a sheet (import, createUnit, evaluate, parse, ...) is
  * disabled inside expressions, as mathjs's security notes advise. Host code keeps its own references.
+ * Then the finished language: the trade's functions, operators that drop a radian riding along with another
+ * dimension (so rad/s·H adds to Ω), and the 2π rules of angular frequency.
+ *
+ * This is the one module of the instance: import `math` (and `parse`, `Unit`, `isUnit`, ...) from here.
+ * The two modules its set-up uses (units/quantities.ts, circuits/functions.ts) are handed the instance
+ * instead of importing it, so there is no import cycle (load-order.spec.ts loads each module first).
  */
-import { checkDeadline } from './deadline';
 import { all, create, type MathJsInstance, type MathNode, type Unit as MathUnit } from 'mathjs';
+import { circuitFunctions, useInstance as handToFunctions } from '../circuits/functions';
+import { asFrequencyKind, dropRidingAngle, frequencyKind, isAnglePower, useInstance as handToQuantities, withValue } from '../units/quantities';
+import { checkDeadline } from './deadline';
 
 export const math: MathJsInstance = create(all, { number: 'number', precision: 64 });
+// The modules the set-up below uses get the instance first; they never import this module.
+handToQuantities(math);
+handToFunctions(math);
 
 // Host references, taken before the expression-level functions are disabled.
 export const parse = math.parse.bind(math) as (expr: string) => MathNode;
@@ -20,12 +31,7 @@ export const Unit = math.Unit as unknown as {
   parse(s: string): MathUnit;
 };
 export const isUnit = (x: unknown): x is MathUnit => math.isUnit(x);
-/** A copy of a Unit with another value (mathjs keeps a Unit's value in SI, whatever its prefix). */
-export function withValue(u: MathUnit, value: unknown): MathUnit {
-  const out = u.clone();
-  (out as unknown as { value: unknown }).value = value;
-  return out;
-}
+export { withValue };
 export const isComplex = (x: unknown): x is { re: number; im: number } => math.isComplex(x);
 
 // mathjs defines VAR as an imaginary multiple of W; reactive power in this trade is a real quantity.
@@ -218,7 +224,7 @@ math.import(
 
 /**
  * A rule applied to the result of a binary multiply or divide (the 2π rule of angular frequency, set in
- * instance.ts), inside the same wrapper as the size check so that it adds no layer to every operation.
+ * below), inside the same wrapper as the size check so that it adds no layer to every operation.
  */
 export const operatorRules: { multiply?: (a: unknown, b: unknown, out: unknown) => unknown; divide?: (a: unknown, b: unknown, out: unknown) => unknown } = {};
 
@@ -307,4 +313,84 @@ export function disableUnsafeFunctions(instance: MathJsInstance): void {
     };
   }
   instance.import(disabled, { override: true });
+}
+
+// The finished language.
+const ANGLE = 7;
+const dims = (u: MathUnit) => (u as unknown as { dimensions: number[] }).dimensions;
+const isPureAngle = (u: MathUnit) => dims(u).every((x, i) => x === (i === ANGLE ? 1 : 0));
+const isDimensionless = (u: MathUnit) => dims(u).every((x) => x === 0);
+const asRadians = (value: unknown) => withValue(math.unit('rad') as MathUnit, value);
+
+/** Operators that treat the radian as 1 (SI Brochure): rad·Ω meets Ω, and a plain number meets an angle. */
+const withRidingAngleDropped = (name: 'add' | 'subtract' | 'smaller' | 'larger' | 'smallerEq' | 'largerEq' | 'equal' | 'unequal') => {
+  const original = math[name] as (a: unknown, b: unknown) => unknown;
+  const plainAsAngle = (x: unknown, other: MathUnit) => (isPureAngle(other) ? asRadians(x) : x);
+  // rad², rad⁻¹, ... alone (the (2 pi f)² L C of a filter) is a plain number.
+  const plainIfAnglePower = (u: MathUnit): unknown => (isAnglePower(u) ? (u as unknown as { value: unknown }).value : u);
+  return typed(name, {
+    'Unit, Unit': (a: MathUnit, b: MathUnit) => {
+      if (isAnglePower(a) || isAnglePower(b)) return (math[name] as (x: unknown, y: unknown) => unknown)(plainIfAnglePower(a), plainIfAnglePower(b));
+      if (isPureAngle(a) && isDimensionless(b)) return original(a, asRadians((b as unknown as { value: unknown }).value));
+      if (isPureAngle(b) && isDimensionless(a)) return original(asRadians((a as unknown as { value: unknown }).value), b);
+      return original(dropRidingAngle(a), dropRidingAngle(b));
+    },
+    'number | Complex, Unit': (a: unknown, b: MathUnit) => (isAnglePower(b) ? original(a, plainIfAnglePower(b)) : original(plainAsAngle(a, b), b)),
+    'Unit, number | Complex': (a: MathUnit, b: unknown) => (isAnglePower(a) ? original(plainIfAnglePower(a), b) : original(a, plainAsAngle(b, a))),
+    'any, any': (a: unknown, b: unknown) => {
+      checkCombined([a, b]);
+      return original(a, b);
+    },
+  });
+};
+
+math.import(
+  {
+    add: withRidingAngleDropped('add'),
+    subtract: withRidingAngleDropped('subtract'),
+    smaller: withRidingAngleDropped('smaller'),
+    larger: withRidingAngleDropped('larger'),
+    smallerEq: withRidingAngleDropped('smallerEq'),
+    largerEq: withRidingAngleDropped('largerEq'),
+    equal: withRidingAngleDropped('equal'),
+    unequal: withRidingAngleDropped('unequal'),
+  },
+  { override: true },
+);
+const TWO_PI = 2 * Math.PI;
+const isTwoPi = (x: unknown) => typeof x === 'number' && Math.abs(x - TWO_PI) <= 4 * Number.EPSILON * TWO_PI;
+const isTime = (u: MathUnit) => dims(u).every((x, i) => x === (i === 2 ? 1 : 0));
+
+/*
+ * 2π keeps angular frequency apart from frequency (operatorRules, applied in math.ts's wrappers):
+ * 2π times a frequency (or 2π over a time) is an angular frequency in rad/s; an angular frequency (or
+ * any s⁻¹) over 2π, or one over 2π times a time (1 / (2 pi sqrt(L C))), is a frequency in Hz.
+ */
+
+/** Marks 2π times a time (2 pi sqrt(L C)): a period, one over which is a frequency in Hz. */
+const PERIOD = Symbol('period');
+const overPeriod = (out: unknown, divisor: MathUnit) =>
+  (divisor as unknown as Record<symbol, boolean>)[PERIOD] && frequencyKind(out) === 'rate' ? asFrequencyKind(out as MathUnit, 'cyclic') : out;
+operatorRules.multiply = (a, b, out) => {
+  const [n, u] = typeof a === 'number' ? [a, b] : [b, a];
+  if (!isTwoPi(n) || !isUnit(u)) return out;
+  const kind = frequencyKind(u);
+  if (kind === 'cyclic' || kind === 'rate') return asFrequencyKind(out as MathUnit, 'angular');
+  if (isTime(u as MathUnit)) (out as Record<symbol, boolean>)[PERIOD] = true;
+  return out;
+};
+operatorRules.divide = (a, b, out) => {
+  if (!isUnit(b)) {
+    const kind = isUnit(a) && isTwoPi(b) ? frequencyKind(a) : undefined;
+    return kind === 'angular' || kind === 'rate' ? asFrequencyKind(out as MathUnit, 'cyclic') : out;
+  }
+  if (typeof a === 'number' && isTwoPi(a) && isTime(b as MathUnit)) return asFrequencyKind(out as MathUnit, 'angular');
+  return overPeriod(out, b as MathUnit);
+};
+math.import(circuitFunctions, { override: false });
+disableUnsafeFunctions(math);
+
+/** Names the language gives meaning to (functions and constants), so they are not "unknown". */
+export function isBuiltin(name: string): boolean {
+  return Object.prototype.hasOwnProperty.call(math, name) || name in circuitFunctions;
 }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { evaluateSheet } from '../cells/evaluate-sheet';
-import { math } from './instance';
+import { math } from './math';
 import { LANGUAGE_FUNCTIONS, LANGUAGE_UNITS, namesDefinedIn } from './vocabulary';
 
 describe('the completion vocabulary', () => {

@@ -4,7 +4,8 @@
  * (kept across revisions); results are compared by their displayed value, so a change in the last
  * shown digit counts and noise below it does not.
  */
-import type { CellResult, FormattedValue } from '../cells/types';
+import { resultFigures } from '../cells/kinds';
+import type { CellResult } from '../cells/types';
 
 export interface SnapshotCell {
   id: string;
@@ -35,19 +36,6 @@ export interface CellDiff {
   results: ResultChange[];
 }
 
-function resultValues(r: CellResult | null): Record<string, string> {
-  if (!r) return {};
-  const out: Record<string, string> = {};
-  if ('values' in r && r.values) for (const [k, v] of Object.entries(r.values as Record<string, FormattedValue>)) out[k] = v.display;
-  if (r.kind === 'check') {
-    out.outcome = r.pass === true ? 'pass' : r.pass === false ? 'fail' : 'not evaluated';
-    if (r.utilization !== null) out.utilisation = `${(r.utilization * 100).toFixed(1)} %`;
-  }
-  if (r.kind === 'transient' && r.peakCurrent) out['peak current'] = r.peakCurrent.display;
-  if (r.status === 'error') out.errors = r.errors.map((e) => e.message).join('; ');
-  return out;
-}
-
 const same = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
 
 export function diffCells(before: SnapshotCell[], after: SnapshotCell[]): CellDiff[] {
@@ -57,7 +45,7 @@ export function diffCells(before: SnapshotCell[], after: SnapshotCell[]): CellDi
     const prior = old.get(c.id)?.c;
     seen.add(c.id);
     if (!prior) {
-      const results = Object.entries(resultValues(c.results)).map(([name, v]) => ({ name, before: null, after: v }));
+      const results = Object.entries(resultFigures(c.kind, c.results)).map(([name, v]) => ({ name, before: null, after: v }));
       return {
         id: c.id,
         kind: c.kind,
@@ -73,8 +61,8 @@ export function diffCells(before: SnapshotCell[], after: SnapshotCell[]): CellDi
       const b = field === 'kind' ? c.kind : c.fields[field];
       return same(a, b) ? [] : [{ field, before: a, after: b }];
     });
-    const ra = resultValues(prior.results);
-    const rb = resultValues(c.results);
+    const ra = resultFigures(prior.kind, prior.results);
+    const rb = resultFigures(c.kind, c.results);
     const names = [...new Set([...Object.keys(ra), ...Object.keys(rb)])];
     const results = names.flatMap((name) => (ra[name] === rb[name] ? [] : [{ name, before: ra[name] ?? null, after: rb[name] ?? null }]));
     return { id: c.id, kind: c.kind, status: inputs.length || results.length ? 'changed' : 'same', position, inputs, results };
@@ -87,7 +75,7 @@ export function diffCells(before: SnapshotCell[], after: SnapshotCell[]): CellDi
         status: 'removed',
         position,
         inputs: Object.entries(c.fields).map(([field, v]) => ({ field, before: v, after: undefined })),
-        results: Object.entries(resultValues(c.results)).map(([name, v]) => ({ name, before: v, after: null })),
+        results: Object.entries(resultFigures(c.kind, c.results)).map(([name, v]) => ({ name, before: v, after: null })),
       });
     }
   });

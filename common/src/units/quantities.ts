@@ -4,8 +4,23 @@
  * mathjs as a dimension of their own; in SI they are 1 (SI Brochure, 9th ed., 2.3.3), so where an
  * angle multiplies another quantity it is dropped (rad/s·H is Ω).
  */
-import type { Unit as MathUnit } from 'mathjs';
-import { isComplex, isUnit, math, withValue } from '../language/math';
+import { isComplex, isUnit, type MathJsInstance, type Unit as MathUnit } from 'mathjs';
+
+/**
+ * The language's instance, handed over by language/math.ts as it sets itself up (`useInstance`). This module
+ * never imports that one, so there is no import cycle and no order of loading in which either is half made.
+ */
+let math: MathJsInstance;
+export function useInstance(instance: MathJsInstance): void {
+  math = instance;
+}
+
+/** A copy of a Unit with another value (mathjs keeps a Unit's value in SI, whatever its prefix). */
+export function withValue(u: MathUnit, value: unknown): MathUnit {
+  const out = u.clone();
+  (out as unknown as { value: unknown }).value = value;
+  return out;
+}
 
 export type Scalar = number | { re: number; im: number };
 
@@ -139,11 +154,13 @@ export function frequencyKind(x: unknown): FrequencyKind | undefined {
   return parts.length === 1 && parts[0].power === 1 && parts[0].unit.name === 'Hz' ? 'cyclic' : 'rate';
 }
 
-const FREQUENCY_UNITS = { angular: math.unit('rad/s') as MathUnit, cyclic: math.unit('Hz') as MathUnit };
+// Made on first use, once the instance is handed over.
+let frequencyUnits: Record<'angular' | 'cyclic', MathUnit> | undefined;
+const FREQUENCY_UNITS = () => (frequencyUnits ??= { angular: math.unit('rad/s') as MathUnit, cyclic: math.unit('Hz') as MathUnit });
 
 /** The same SI value as an angular frequency (rad/s) or a frequency (Hz). */
 export function asFrequencyKind(x: MathUnit, kind: 'angular' | 'cyclic'): MathUnit {
-  return withValue(FREQUENCY_UNITS[kind], (x as unknown as { value: unknown }).value);
+  return withValue(FREQUENCY_UNITS()[kind], (x as unknown as { value: unknown }).value);
 }
 
 /** Only the angle, to a power other than 0 and 1 (rad², rad⁻¹): a plain number, the radian being 1. */

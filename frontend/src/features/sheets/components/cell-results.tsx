@@ -1,9 +1,10 @@
-/** What the server computed for a cell: typeset lines, check outcomes, charts and tables. */
+/** What a cell shows on screen: the blocks of its presentation (typeset lines, check outcomes, charts, tables, notes) and its problems. */
 import { Alert, Box, Chip, LinearProgress, Stack, Table, TableBody, TableCell, TableHead, TableRow, Typography } from '@mui/material';
-import { useMemo, type ReactNode } from 'react';
-import type { CalcResult, CellKind, CellResult, CheckResult, Diagnostic, SweepResult, TransientResult } from '@ampwright/common';
-import { calcFigures, checkPresentation, sweepChart, transientChart, transientSummary } from '@ampwright/common/plot/index';
+import { Fragment, useMemo, type ReactNode } from 'react';
+import type { BlockOf, BlockType, CellResult, Diagnostic, PresentationBlock } from '@ampwright/common';
+import { presentCell } from '@ampwright/common/cells/kinds';
 import { monoFont, palette } from '../../../app/theme';
+import { NoteText } from './note-text';
 import { SvgFigure } from './svg-figure';
 import { Tex } from './tex';
 
@@ -46,11 +47,10 @@ export function SourceText({ text }: { text: string }) {
   );
 }
 
-function CalcResults({ result }: { result: CalcResult }) {
-  const figures = useMemo(() => calcFigures(result), [result]);
+function Lines({ lines }: BlockOf<'lines'>) {
   return (
     <Box>
-      {result.lines.map((line) =>
+      {lines.map((line) =>
         line.tex ? (
           <Box
             key={line.line}
@@ -86,31 +86,23 @@ function CalcResults({ result }: { result: CalcResult }) {
           </Box>
         ) : null,
       )}
-      {figures.length > 0 && (
-        <Stack direction="row" spacing={2} sx={{ flexWrap: 'wrap', mt: 1 }}>
-          {figures.map((f, i) => (
-            <SvgFigure key={i} svg={f.svg} label={f.kind === 'impedance-triangle' ? 'Impedance triangle' : 'Phasor diagram'} />
-          ))}
-        </Stack>
-      )}
     </Box>
   );
 }
 
 const TONE_COLOUR = { pass: 'success', caution: 'warning', fail: 'error', none: 'default' } as const;
 
-function CheckResults({ result, basis }: { result: CheckResult; basis?: string }) {
-  const p = checkPresentation(result);
+function Outcome({ check: p, formula, working }: BlockOf<'outcome'>) {
   return (
     <Box>
       <Stack direction="row" spacing={1} sx={{ alignItems: 'center', mb: 1 }}>
         <Chip size="small" label={p.outcome} color={TONE_COLOUR[p.tone]} data-testid="check-outcome" />
         {p.advisory && <Chip size="small" variant="outlined" label="Advisory" />}
-        {result.tex && <Tex>{result.tex.formula}</Tex>}
+        {formula && <Tex>{formula}</Tex>}
       </Stack>
-      {result.tex?.working && (
+      {working && (
         <Box sx={{ color: 'text.secondary', mb: 1 }}>
-          <Tex>{result.tex.working}</Tex>
+          <Tex>{working}</Tex>
         </Box>
       )}
       {p.utilisation && (
@@ -126,18 +118,11 @@ function CheckResults({ result, basis }: { result: CheckResult; basis?: string }
           </Typography>
         </Box>
       )}
-      {!!basis && (
-        <Typography variant="body2" color="text.secondary">
-          Basis: {basis}
-        </Typography>
-      )}
     </Box>
   );
 }
 
-export function TableView({ fields }: { fields: Record<string, unknown> }) {
-  const columns = (fields.columns as { name: string; unit?: string }[]) ?? [];
-  const rows = (fields.rows as unknown[][]) ?? [];
+function TableBlock({ columns, rows }: BlockOf<'table'>) {
   return (
     <Table size="small" sx={{ width: 'auto' }} aria-label="Table">
       <TableHead>
@@ -154,7 +139,7 @@ export function TableView({ fields }: { fields: Record<string, unknown> }) {
         {rows.map((r, i) => (
           <TableRow key={i}>
             {r.map((v, j) => (
-              <TableCell key={j}>{String(v ?? '')}</TableCell>
+              <TableCell key={j}>{v}</TableCell>
             ))}
           </TableRow>
         ))}
@@ -163,58 +148,67 @@ export function TableView({ fields }: { fields: Record<string, unknown> }) {
   );
 }
 
-function SweepResults({ result, logX }: { result: SweepResult; logX: boolean }) {
-  const svg = useMemo(() => sweepChart(result, { logX }), [result, logX]);
+function Rows({ label, rows }: BlockOf<'rows'>) {
   return (
-    <Box>
-      <Typography variant="body2">
-        {result.variable?.values.length ?? 0} points of {result.variable?.name}
+    <Table size="small" sx={{ width: 'auto', mb: 1 }} aria-label={label}>
+      <TableBody>
+        {rows.map((r) => (
+          <TableRow key={r.label}>
+            <TableCell component="th" scope="row" sx={{ fontWeight: 600, verticalAlign: 'top' }}>
+              {r.label}
+            </TableCell>
+            <TableCell>{r.text}</TableCell>
+          </TableRow>
+        ))}
+      </TableBody>
+    </Table>
+  );
+}
+
+/** How each block of a cell's presentation (common/cells/presentation.ts) is drawn on screen; the package draws the same blocks. */
+const BLOCK_VIEWS: { [T in BlockType]: (block: BlockOf<T>) => ReactNode } = {
+  note: (b) => <NoteText text={b.text} />,
+  lines: (b) => <Lines {...b} />,
+  outcome: (b) => <Outcome {...b} />,
+  rows: (b) => <Rows {...b} />,
+  figure: (b) => <SvgFigure svg={b.svg} label={b.label} />,
+  sentence: (b) =>
+    b.style === 'caption' ? (
+      <Typography variant="body2">{b.text}</Typography>
+    ) : (
+      <Typography variant="body2" color={b.style === 'muted' ? 'text.secondary' : undefined}>
+        {b.text}
       </Typography>
-      {svg && <SvgFigure svg={svg} label="Frequency response" />}
-    </Box>
-  );
-}
-
-function TransientResults({ result }: { result: TransientResult }) {
-  const svg = useMemo(() => transientChart(result), [result]);
-  const rows = useMemo(() => transientSummary(result), [result]);
-  return (
-    <Box>
-      <Table size="small" sx={{ width: 'auto', mb: 1 }} aria-label="Transient results">
-        <TableBody>
-          {rows.map((r) => (
-            <TableRow key={r.label}>
-              <TableCell component="th" scope="row" sx={{ fontWeight: 600, verticalAlign: 'top' }}>
-                {r.label}
-              </TableCell>
-              <TableCell>{r.text}</TableCell>
-            </TableRow>
-          ))}
-        </TableBody>
-      </Table>
-      {svg && <SvgFigure svg={svg} label="Transient current" />}
-    </Box>
-  );
-}
-
-/** The results of one cell, as stored by the server. */
-/** What each kind of cell shows of its results (notes, tables and figures show their fields instead): a new kind does not compile until it is here. */
-const RESULT_VIEWS: Record<CellKind, (fields: Record<string, unknown>, result: CellResult) => ReactNode> = {
-  calc: (_f, r) => r.kind === 'calc' && <CalcResults result={r} />,
-  check: (f, r) => r.kind === 'check' && <CheckResults result={r} basis={f.basis as string | undefined} />,
-  sweep: (f, r) => r.kind === 'sweep' && <SweepResults result={r} logX={f.spacing === 'log'} />,
-  transient: (_f, r) => r.kind === 'transient' && <TransientResults result={r} />,
-  note: () => null,
-  table: () => null,
-  figure: () => null,
+    ),
+  table: (b) => <TableBlock {...b} />,
 };
 
-export function CellResults({ kind, fields, result }: { kind: string; fields: Record<string, unknown>; result: CellResult | null }) {
-  if (!result) return null;
+/** A cell's presentation blocks, drawn in order; small figures side by side. */
+export function Presentation({ blocks }: { blocks: PresentationBlock[] }) {
+  const small = blocks.filter((b) => b.type === 'figure' && b.small);
+  return (
+    <>
+      {blocks.map((b, i) =>
+        b.type === 'figure' && b.small ? null : <Fragment key={i}>{(BLOCK_VIEWS[b.type] as (block: PresentationBlock) => ReactNode)(b)}</Fragment>,
+      )}
+      {small.length > 0 && (
+        <Stack direction="row" spacing={2} sx={{ flexWrap: 'wrap', mt: 1 }}>
+          {small.map((b, i) => (
+            <Fragment key={i}>{BLOCK_VIEWS.figure(b as BlockOf<'figure'>)}</Fragment>
+          ))}
+        </Stack>
+      )}
+    </>
+  );
+}
+
+/** What a cell shows from its fields and the results the server stored, then its problems. */
+export function CellPresentation({ kind, fields, result }: { kind: string; fields: Record<string, unknown>; result: CellResult | null }) {
+  const blocks = useMemo(() => presentCell(kind, fields, result), [kind, fields, result]);
   return (
     <Box>
-      {RESULT_VIEWS[kind as CellKind]?.(fields, result)}
-      <Problems errors={result.errors} warnings={result.warnings} />
+      <Presentation blocks={blocks} />
+      {result && <Problems errors={result.errors} warnings={result.warnings} />}
     </Box>
   );
 }

@@ -308,14 +308,3 @@ export const KIND_EDITORS: Record<CellKind, (p: KindEditorProps) => React.ReactE
   table: TableEditor,
   figure: FigureEditor,
 };
-
-/** What a new cell of each kind starts with. */
-export const NEW_CELLS: Record<CellKind, CellBody> = {
-  calc: { kind: 'calc', source: '' },
-  note: { kind: 'note', text: '' },
-  check: { kind: 'check', condition: '', basis: '', severity: 'mandatory' },
-  sweep: { kind: 'sweep', variable: 'f', from: '10 Hz', to: '1 kHz', points: 200, spacing: 'log', outputs: ['f'] },
-  transient: { kind: 'transient', R: '1 ohm', L: '1 mH', C: '100 uF', source: '10 V', span: '20 ms' },
-  table: { kind: 'table', columns: [{ name: 'x' }], rows: [[null]] },
-  figure: { kind: 'figure', caption: '' },
-};

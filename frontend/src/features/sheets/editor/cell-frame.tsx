@@ -1,12 +1,10 @@
 /** One cell on the sheet: its header with the save state and tools, its editor or source, and its results. */
 import { Alert, Box, Button, Chip, Menu, MenuItem, Paper, Stack, Tooltip, Typography } from '@mui/material';
-import { memo, useState, type ComponentType } from 'react';
+import { memo, useDeferredValue, useState, type ComponentType } from 'react';
 import type { CellDto, CellKind, QueryDto } from '@ampwright/common';
 import { palette } from '../../../app/theme';
-import { KIND_LABELS, kindLabel } from '@ampwright/common/plot/index';
-import { CellResults, SourceText, TableView } from '../components/cell-results';
-import { NoteText } from '../components/note-text';
-import { cellBody, type CellBody } from '../api/sheet-editing';
+import { cellInputs, KIND_LABELS, kindFacts, kindLabel } from '@ampwright/common/cells/kinds';
+import { CellPresentation, SourceText } from '../components/cell-results';
 import { KIND_EDITORS } from './cell-editors';
 import { useCellDraft, type SaveState } from './use-cell-draft';
 
@@ -22,7 +20,7 @@ const SAVE_LABELS: Record<SaveState, string> = {
 export interface CellActions {
   activate: (id: string | null) => void;
   neighbour: (id: string, step: -1 | 1) => void;
-  add: (position: number, kind: string) => void;
+  add: (position: number, kind: CellKind) => void;
   importCsv: (position: number) => void;
   move: (id: string, position: number) => void;
   remove: (cell: CellDto) => void;
@@ -47,17 +45,7 @@ interface CellFrameProps {
 /** A component the route gives the editor to draw a cell's review; the editor does not know the review feature. */
 export type ReviewSlot = ComponentType<{ cell: CellDto; queries: QueryDto[] }>;
 
-function sourceOf(value: CellBody): string {
-  if (value.kind === 'calc') return String(value.source ?? '');
-  if (value.kind === 'check') return String(value.condition ?? '');
-  if (value.kind === 'sweep')
-    return `${value.variable} from ${value.from} to ${value.to}, ${value.points} points (${value.spacing ?? 'linear'})\n${((value.outputs as string[]) ?? []).join('\n')}`;
-  if (value.kind === 'transient')
-    return `R = ${value.R}, L = ${value.L}, C = ${value.C}, E(t) = ${value.source}, over ${value.span}${value.q0 ? `, q0 = ${value.q0}` : ''}${value.i0 ? `, i0 = ${value.i0}` : ''}`;
-  return '';
-}
-
-export function AddCellMenu({ onAdd, onImportCsv, label = 'Add a cell' }: { onAdd: (kind: string) => void; onImportCsv: () => void; label?: string }) {
+export function AddCellMenu({ onAdd, onImportCsv, label = 'Add a cell' }: { onAdd: (kind: CellKind) => void; onImportCsv: () => void; label?: string }) {
   const [anchor, setAnchor] = useState<HTMLElement | null>(null);
   return (
     <>
@@ -65,9 +53,9 @@ export function AddCellMenu({ onAdd, onImportCsv, label = 'Add a cell' }: { onAd
         {label}
       </Button>
       <Menu anchorEl={anchor} open={!!anchor} onClose={() => setAnchor(null)}>
-        {Object.entries(KIND_LABELS).map(([kind, name]) => (
+        {(Object.keys(KIND_LABELS) as CellKind[]).map((kind) => (
           <MenuItem key={kind} onClick={() => (setAnchor(null), onAdd(kind))}>
-            {name}
+            {KIND_LABELS[kind]}
           </MenuItem>
         ))}
         <MenuItem onClick={() => (setAnchor(null), onImportCsv())}>Table from a CSV file…</MenuItem>
@@ -82,7 +70,11 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
   const Editor = KIND_EDITORS[cell.kind as CellKind] as (typeof KIND_EDITORS)[CellKind] | undefined;
   const editing = editable && active && !!Editor;
   const stale = d.dirty || d.state === 'saving';
-  const source = sourceOf(d.value);
+  // The cell's inputs as text (calc source, check condition, a sweep's or a transient's settings); '' where the content is the presentation.
+  const inputs = cellInputs(cell.kind, d.value);
+  // The presentation follows the draft (a note's preview) without holding up typing.
+  const fields = useDeferredValue(d.value);
+  const { previewWhileEditing } = kindFacts(cell.kind);
   const keys = {
     onEvaluate: d.flush,
     onAddBelow: () => (d.flush(), actions.add(index + 1, 'calc')),
@@ -185,7 +177,9 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
           }
         >
           {d.conflict.message}
-          {d.conflict.theirs && <SourceText text={sourceOf(cellBody(d.conflict.theirs)) || String(d.conflict.theirs.fields.text ?? '')} />}
+          {d.conflict.theirs && (
+            <SourceText text={cellInputs(d.conflict.theirs.kind, d.conflict.theirs.fields) || String(d.conflict.theirs.fields.text ?? '')} />
+          )}
         </Alert>
       )}
       {d.state === 'failed' && !d.conflict && (
@@ -217,21 +211,28 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
           {...keys}
         />
       ) : (
-        <Box onClick={editable && Editor ? () => actions.activate(cell.id) : undefined} sx={{ cursor: editable && Editor ? 'text' : undefined }}>
-          {cell.kind === 'note' && <NoteText text={String(d.value.text ?? '')} />}
-          {cell.kind === 'table' && <TableView fields={d.value} />}
-          {cell.kind === 'figure' && <Typography variant="body2">{String(d.value.caption ?? '')}</Typography>}
-          {source && <SourceText text={source} />}
+        inputs && (
+          <Box onClick={editable && Editor ? () => actions.activate(cell.id) : undefined} sx={{ cursor: editable && Editor ? 'text' : undefined }}>
+            <SourceText text={inputs} />
+          </Box>
+        )
+      )}
+      {(!editing || previewWhileEditing) && (
+        <Box
+          // A note, a table or a figure is its presentation: a click on it edits it.
+          onClick={!inputs && !editing && editable && Editor ? () => actions.activate(cell.id) : undefined}
+          sx={{
+            opacity: stale && inputs ? 0.55 : 1,
+            transition: 'opacity 120ms',
+            mt: 1,
+            cursor: !inputs && !editing && editable && Editor ? 'text' : undefined,
+          }}
+          aria-busy={stale}
+          data-testid="cell-results"
+        >
+          <CellPresentation kind={cell.kind} fields={fields} result={r} />
         </Box>
       )}
-      {editing && cell.kind === 'note' && (
-        <Box sx={{ mt: 1 }}>
-          <NoteText text={String(d.value.text ?? '')} />
-        </Box>
-      )}
-      <Box sx={{ opacity: stale ? 0.55 : 1, transition: 'opacity 120ms', mt: 1 }} aria-busy={stale} data-testid="cell-results">
-        <CellResults kind={cell.kind} fields={cell.fields} result={r} />
-      </Box>
       {Review && <Review cell={cell} queries={queries} />}
     </Paper>
   );

@@ -5,10 +5,10 @@
  */
 import { Alert, Box, Button, Snackbar, Stack, Typography } from '@mui/material';
 import { useCallback, useLayoutEffect, useMemo, useRef, useState } from 'react';
-import type { CellDto, CellKind, QueryDto, SheetDto } from '@ampwright/common';
+import type { CellDto, QueryDto, SheetDto } from '@ampwright/common';
 import { cellBody, useCellChange } from '../api/sheet-editing';
 import { AddCellMenu, CellFrame, type CellActions, type ReviewSlot } from './cell-frame';
-import { NEW_CELLS } from './cell-editors';
+import { newCellFields } from '@ampwright/common/cells/kinds';
 
 function scopeOf(cells: CellDto[], position: number) {
   const names = new Map<string, string>();
@@ -72,7 +72,7 @@ export function SheetEditor({
         const before = new Set(cellsRef.current.map((c) => c.id));
         // Open the new cell (the one cell of the answer that was not there before) for editing.
         change.mutate(
-          { type: 'add', position, cell: NEW_CELLS[kind as CellKind] ?? NEW_CELLS.calc },
+          { type: 'add', position, cell: { kind, ...newCellFields(kind) } },
           { onSuccess: (result) => setActiveId(result.changed.find((c) => !before.has(c.id))?.id ?? null), onError: report },
         );
       },

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import type { CheckResult } from '../cells/types';
 import { CELL_KINDS } from '../sheet/sheet-format';
-import { checkPresentation, KIND_LABELS } from './presentation';
+import { KIND_LABELS } from './kinds';
+import { checkPresentation } from './presentation';
 
 const check = (pass: boolean | null, utilization: number | null, severity: 'mandatory' | 'advisory' = 'mandatory'): CheckResult =>
   ({
