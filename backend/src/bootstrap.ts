@@ -1,4 +1,4 @@
-import { HttpStatus, INestApplication } from '@nestjs/common';
+import { INestApplication } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import { NestFactory } from '@nestjs/core';
 import type { Environment } from './config/environment';
@@ -9,7 +9,7 @@ import { AppModule } from './app.module';
 import type { NextFunction, Request, Response } from 'express';
 import { createValidationPipe } from './core/validation';
 import { bodyParserError } from './core/filters/body-parser-error';
-import { AppException, ErrorCode } from './core/errors/app-exception';
+import { ErrorCode, RequestException } from './core/errors/app-exception';
 
 /** Applies what every instance of the app needs, in main.ts and in the integration tests alike. */
 export function configureApp(app: INestApplication): INestApplication {
@@ -23,10 +23,9 @@ export function configureApp(app: INestApplication): INestApplication {
     const hasBody = length > 0 || req.get('transfer-encoding') !== undefined;
     if (hasBody && !req.is(['application/json', 'application/*+json', 'multipart/form-data'])) {
       return next(
-        new AppException(
+        new RequestException(
           ErrorCode.UnsupportedMediaType,
           `The request body is ${req.get('content-type') ?? 'of no stated type'}; send it as application/json (or multipart/form-data with a file).`,
-          HttpStatus.UNSUPPORTED_MEDIA_TYPE,
         ),
       );
     }

@@ -1,8 +1,8 @@
 import { createHash, randomUUID } from 'node:crypto';
 import { EntityManager } from '@mikro-orm/core';
-import { HttpStatus, Injectable } from '@nestjs/common';
+import { Injectable } from '@nestjs/common';
 import type { AttachmentDto } from '@ampwright/common';
-import { AppException, ErrorCode } from '../core/errors/app-exception';
+import { ErrorCode, RequestException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { ObjectStoreService } from '../files/object-store.service';
 import { sniffUpload } from '../files/uploads';
@@ -47,23 +47,20 @@ export class AttachmentsService {
   /** Stores the bytes in the object store first, then the record: a failed store leaves no record behind. */
   async upload(auth: AuthContext, sheetId: string, file: { buffer: Buffer; originalname: string; size: number } | undefined): Promise<AttachmentDto> {
     if (!file)
-      throw new AppException(ErrorCode.ValidationFailed, 'Attach the file in the field "file".', HttpStatus.BAD_REQUEST, [
-        { field: 'file', message: 'no file was sent' },
-      ]);
+      throw new RequestException(ErrorCode.ValidationFailed, 'Attach the file in the field "file".', {
+        details: [{ field: 'file', message: 'no file was sent' }],
+      });
     const sheet = await this.sheets.findEditable(auth, sheetId);
     const fileName = cleanFileName(Buffer.from(file.originalname, 'latin1').toString('utf8'));
     if (file.size === 0)
-      throw new AppException(ErrorCode.ValidationFailed, `${fileName} is empty; nothing was stored.`, HttpStatus.BAD_REQUEST, [
-        { field: 'file', message: 'the file is empty' },
-      ]);
+      throw new RequestException(ErrorCode.ValidationFailed, `${fileName} is empty; nothing was stored.`, {
+        details: [{ field: 'file', message: 'the file is empty' }],
+      });
     const sniffed = await sniffUpload(file.buffer, fileName);
     if (!sniffed.ok)
-      throw new AppException(
-        ErrorCode.UnsupportedMediaType,
-        `${fileName} was refused: ${sniffed.reason}. Nothing was stored.`,
-        HttpStatus.UNSUPPORTED_MEDIA_TYPE,
-        [{ field: 'file', message: sniffed.reason }],
-      );
+      throw new RequestException(ErrorCode.UnsupportedMediaType, `${fileName} was refused: ${sniffed.reason}. Nothing was stored.`, {
+        details: [{ field: 'file', message: sniffed.reason }],
+      });
     const sha256 = createHash('sha256').update(file.buffer).digest('hex');
     const objectKey = `attachments/${sheet.id}/${randomUUID()}`;
     await this.store.put(objectKey, file.buffer, sniffed.mediaType);
@@ -82,7 +79,7 @@ export class AttachmentsService {
 
   private async find(auth: AuthContext, id: string): Promise<Attachment> {
     const attachment = await this.em.findOne(Attachment, { id, sheet: { project: { firm: auth.session.firm } } }, { populate: ['sheet'] });
-    if (!attachment) throw new AppException(ErrorCode.NotFound, 'No such attachment.', HttpStatus.NOT_FOUND);
+    if (!attachment) throw new RequestException(ErrorCode.NotFound, 'No such attachment.');
     return attachment;
   }
 

@@ -1,11 +1,11 @@
 import { randomBytes } from 'node:crypto';
 import { EntityManager } from '@mikro-orm/core';
-import { HttpStatus, Injectable, Logger } from '@nestjs/common';
+import { Injectable, Logger } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import type { Response } from 'express';
 import { AuditService } from '../audit/audit.service';
 import type { Environment } from '../config/environment';
-import { AppException } from '../core/errors/app-exception';
+import { AuthException } from '../core/errors/app-exception';
 import { hashToken, type AuthContext } from '../core/guards/auth.guard';
 import { Firm } from '../firms/entities/firm.entity';
 import { Membership } from '../firms/entities/membership.entity';
@@ -97,16 +97,12 @@ export class AuthService {
   /** Following the e-mailed link makes the firm and its owner, once, and signs the owner in. */
   async confirmRegistration(dto: ConfirmRegistrationDto, res: Response, ip?: string): Promise<MeResponseDto> {
     const invalid = () =>
-      new AppException(
-        AuthErrorCode.RegistrationInvalid,
-        'This registration link has expired or has been used. Register again, or sign in.',
-        HttpStatus.BAD_REQUEST,
-      );
+      new AuthException(AuthErrorCode.RegistrationInvalid, 'This registration link has expired or has been used. Register again, or sign in.');
     const pending = await this.em.findOne(PendingRegistration, { tokenHash: hashToken(dto.token) });
     if (!pending) throw invalid();
     if (!(await takeOnce(this.em, 'pending_registration', pending.tokenHash))) throw invalid();
     if (await this.em.count(User, { email: pending.email })) {
-      throw new AppException(AuthErrorCode.EmailTaken, 'This address has an account already: sign in instead.', HttpStatus.CONFLICT);
+      throw new AuthException(AuthErrorCode.EmailTaken, 'This address has an account already: sign in instead.');
     }
     const firm = new Firm(pending.firmName);
     const user = new User(pending.email, pending.name, pending.passwordHash);
@@ -125,7 +121,7 @@ export class AuthService {
     if (!user || !ok || !membership) {
       await this.signInThrottle.failed(dto.email, ip);
       await this.audit.record('sign-in-failed', { email: dto.email, userId: user?.id, ip });
-      throw new AppException(AuthErrorCode.BadCredentials, 'The e-mail address or the password is not right.', HttpStatus.UNAUTHORIZED);
+      throw new AuthException(AuthErrorCode.BadCredentials, 'The e-mail address or the password is not right.');
     }
     await this.signInThrottle.succeeded(dto.email, ip);
     const session = await this.sessions.open(user, membership.firm, res);
@@ -181,8 +177,7 @@ export class AuthService {
    * wins), and using it revokes the account's other reset links and ends all its sessions.
    */
   async resetPassword(dto: ResetPasswordDto, ip?: string): Promise<void> {
-    const invalid = () =>
-      new AppException(AuthErrorCode.ResetInvalid, 'This reset link has expired or has been used. Ask for a new one.', HttpStatus.BAD_REQUEST);
+    const invalid = () => new AuthException(AuthErrorCode.ResetInvalid, 'This reset link has expired or has been used. Ask for a new one.');
     const reset = await this.em.findOne(PasswordReset, { tokenHash: hashToken(dto.token) }, { populate: ['user'] });
     if (!reset) throw invalid();
     const passwordHash = await this.passwords.hash(dto.password);

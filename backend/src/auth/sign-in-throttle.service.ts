@@ -1,9 +1,9 @@
 import { createHash } from 'node:crypto';
 import { MikroORM } from '@mikro-orm/core';
-import { HttpStatus, Injectable } from '@nestjs/common';
+import { Injectable } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import type { Environment } from '../config/environment';
-import { ErrorCode, AppException } from '../core/errors/app-exception';
+import { ErrorCode, RequestException } from '../core/errors/app-exception';
 import { SharedThrottlerStorage } from '../core/throttle/shared-throttler-storage';
 
 const WINDOW_MS = 60_000;
@@ -38,14 +38,9 @@ export class SignInThrottle {
     const { address, pair } = this.keys(email, ip);
     const waits = await this.storage.blockedFor([`failures:${address}`, `failures:${pair}`]);
     if (waits > 0) {
-      throw new AppException(
-        ErrorCode.TooManyRequests,
-        `Too many failed sign-ins: wait ${waits} s and try again.`,
-        HttpStatus.TOO_MANY_REQUESTS,
-        undefined,
-        undefined,
-        { 'Retry-After': String(waits) },
-      );
+      throw new RequestException(ErrorCode.TooManyRequests, `Too many failed sign-ins: wait ${waits} s and try again.`, {
+        headers: { 'Retry-After': String(waits) },
+      });
     }
   }
 

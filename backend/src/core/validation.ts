@@ -1,5 +1,5 @@
 import { ValidationError, ValidationPipe } from '@nestjs/common';
-import { AppException, ErrorCode, ErrorDetail } from './errors/app-exception';
+import { ErrorCode, ErrorDetail, RequestException } from './errors/app-exception';
 
 function flatten(errors: ValidationError[], prefix = ''): ErrorDetail[] {
   return errors.flatMap((e) => {
@@ -17,7 +17,7 @@ export function createValidationPipe(): ValidationPipe {
     transform: true,
     exceptionFactory: (errors) => {
       const details = flatten(errors);
-      return new AppException(ErrorCode.ValidationFailed, details.map((d) => d.message).join('; ') || 'The request is not valid.', 400, details);
+      return new RequestException(ErrorCode.ValidationFailed, details.map((d) => d.message).join('; ') || 'The request is not valid.', { details: details });
     },
   });
 }

@@ -1,8 +1,8 @@
-import { HttpStatus, Injectable, OnModuleDestroy } from '@nestjs/common';
+import { Injectable, OnModuleDestroy } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import type { CsvTableResult } from '@ampwright/common';
 import type { Environment } from '../config/environment';
-import { AppException } from '../core/errors/app-exception';
+import { EvaluationException } from '../core/errors/app-exception';
 import type { CertificateFacts } from '../packages/signing';
 import { EvaluationPool, type PoolFailure, type PoolOutcome, type Reservation } from './evaluation-pool';
 import type { TaskKind, TaskOf, TaskResults } from './sandbox-protocol';
@@ -97,10 +97,10 @@ export class EvaluationService implements OnModuleDestroy {
     return outcome.value;
   }
 
-  /** The HTTP error for work that could not be done: 429 when busy, 422 otherwise. */
-  failure(reason: PoolFailure, detail: string, worded = false): AppException {
+  /** The API's error for work that could not be done (its status by code: 429 when busy, 422 otherwise). */
+  failure(reason: PoolFailure, detail: string, worded = false): EvaluationException {
     const message = worded ? detail : this.sentence(reason, detail, 'upload');
-    return new AppException(CODES[reason], message, reason === 'busy' ? HttpStatus.TOO_MANY_REQUESTS : HttpStatus.UNPROCESSABLE_ENTITY);
+    return new EvaluationException(CODES[reason], message);
   }
 
   async onModuleDestroy(): Promise<void> {

@@ -1,6 +1,6 @@
 import { Injectable, PipeTransform } from '@nestjs/common';
 import { parseSheetFile, type SheetFile } from '@ampwright/common';
-import { AppException, ErrorCode } from '../core/errors/app-exception';
+import { ErrorCode, RequestException } from '../core/errors/app-exception';
 
 /** Validates a body against the sheet file format (the shared schema in common/), field by field. */
 @Injectable()
@@ -9,6 +9,8 @@ export class SheetFilePipe implements PipeTransform<unknown, SheetFile> {
     const result = parseSheetFile(value);
     if (result.ok) return result.sheet;
     const details = result.problems.map((p) => ({ field: p.path, message: p.message }));
-    throw new AppException(ErrorCode.ValidationFailed, `The sheet is not valid: ${details.map((d) => `${d.field}: ${d.message}`).join('; ')}`, 400, details);
+    throw new RequestException(ErrorCode.ValidationFailed, `The sheet is not valid: ${details.map((d) => `${d.field}: ${d.message}`).join('; ')}`, {
+      details: details,
+    });
   }
 }

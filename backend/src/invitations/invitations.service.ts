@@ -1,12 +1,12 @@
 import { EntityManager } from '@mikro-orm/core';
-import { HttpStatus, Injectable } from '@nestjs/common';
+import { Injectable } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import type { Response } from 'express';
 import { AuditService } from '../audit/audit.service';
 import { PasswordService } from '../auth/password.service';
 import { newToken, SessionsService } from '../auth/sessions.service';
 import type { Environment } from '../config/environment';
-import { AppException, ErrorCode } from '../core/errors/app-exception';
+import { AuthException, ErrorCode, InvitationException, RequestException } from '../core/errors/app-exception';
 import { hashToken, type AuthContext } from '../core/guards/auth.guard';
 import { Membership } from '../firms/entities/membership.entity';
 import { Project, ProjectPerson } from '../projects/entities/project.entity';
@@ -15,13 +15,12 @@ import { mailTemplates } from '../mail/mail-templates';
 import { User } from '../users/entities/user.entity';
 import type { AcceptInvitationDto, CreateInvitationDto, InvitationResponseDto } from './dto/invitation.dto';
 import { Invitation } from './entities/invitation.entity';
-import { InvitationErrorCode } from '@ampwright/common';
+import { AuthErrorCode, InvitationErrorCode } from '@ampwright/common';
 
 export { InvitationErrorCode };
 
 const VALID_DAYS = 7;
-const invalid = () =>
-  new AppException(InvitationErrorCode.Invalid, 'This invitation has expired, been used or been withdrawn. Ask for a new one.', HttpStatus.BAD_REQUEST);
+const invalid = () => new InvitationException(InvitationErrorCode.Invalid, 'This invitation has expired, been used or been withdrawn. Ask for a new one.');
 
 const toResponse = (i: Invitation): InvitationResponseDto => ({
   id: i.id,
@@ -49,29 +48,20 @@ export class InvitationsService {
 
   async invite(auth: AuthContext, dto: CreateInvitationDto): Promise<InvitationResponseDto> {
     if (dto.roles.includes('client') && dto.roles.length > 1) {
-      throw new AppException(
-        InvitationErrorCode.ClientWithOtherRoles,
-        'A client cannot also hold a role in the firm: invite them as a client only.',
-        HttpStatus.BAD_REQUEST,
-      );
+      throw new InvitationException(InvitationErrorCode.ClientWithOtherRoles, 'A client cannot also hold a role in the firm: invite them as a client only.');
     }
     const firm = auth.session.firm;
     if (dto.projectIds?.length) {
       if (!dto.roles.includes('client'))
-        throw new AppException(
-          InvitationErrorCode.ClientWithOtherRoles,
-          "Projects are given to clients only: members see all of the firm's projects.",
-          HttpStatus.BAD_REQUEST,
-        );
+        throw new InvitationException(InvitationErrorCode.ClientWithOtherRoles, "Projects are given to clients only: members see all of the firm's projects.");
       const found = await this.em.count(Project, { id: { $in: dto.projectIds }, firm });
       if (found !== new Set(dto.projectIds).size)
-        throw new AppException(InvitationErrorCode.Invalid, 'One of the projects is not a project of this firm.', HttpStatus.BAD_REQUEST, [
-          { field: 'projectIds', message: 'no such project in this firm' },
-        ]);
+        throw new InvitationException(InvitationErrorCode.Invalid, 'One of the projects is not a project of this firm.', {
+          details: [{ field: 'projectIds', message: 'no such project in this firm' }],
+        });
     }
     const existing = await this.em.findOne(Membership, { firm, user: { email: dto.email } });
-    if (existing)
-      throw new AppException(InvitationErrorCode.AlreadyMember, `${dto.email} is already in ${firm.name}: change their roles instead.`, HttpStatus.CONFLICT);
+    if (existing) throw new InvitationException(InvitationErrorCode.AlreadyMember, `${dto.email} is already in ${firm.name}: change their roles instead.`);
     const token = newToken();
     const invitation = new Invitation(firm, dto.email, dto.roles, hashToken(token), new Date(Date.now() + VALID_DAYS * 86_400_000), auth.session.user);
     invitation.projectIds = dto.projectIds ?? [];
@@ -98,13 +88,12 @@ export class InvitationsService {
   /** The owner withdraws an invitation not yet accepted; its link stops working at once. */
   async revoke(auth: AuthContext, id: string): Promise<InvitationResponseDto> {
     const invitation = await this.em.findOne(Invitation, { id, firm: auth.session.firm });
-    if (!invitation) throw new AppException(ErrorCode.NotFound, 'No such invitation.', HttpStatus.NOT_FOUND);
+    if (!invitation) throw new RequestException(ErrorCode.NotFound, 'No such invitation.');
     const withdrawn = await this.em.nativeUpdate(Invitation, { id, acceptedAt: null, revokedAt: null }, { revokedAt: new Date() });
     if (withdrawn !== 1)
-      throw new AppException(
+      throw new RequestException(
         ErrorCode.Conflict,
         invitation.acceptedAt ? 'This invitation was accepted already; remove the member instead.' : 'This invitation was withdrawn already.',
-        HttpStatus.CONFLICT,
       );
     await this.audit.record('invitation-revoked', { firmId: auth.session.firm.id, userId: auth.session.user.id, email: invitation.email });
     await this.em.refresh(invitation);
@@ -129,7 +118,7 @@ export class InvitationsService {
     let user = await this.em.findOne(User, { email: invitation.email });
     if (user) {
       if (!(await this.passwords.verify(dto.password, user.passwordHash))) {
-        throw new AppException(InvitationErrorCode.Invalid, 'This address has an account already: enter its password to accept.', HttpStatus.UNAUTHORIZED);
+        throw new AuthException(AuthErrorCode.BadCredentials, 'This address has an account already: enter its password to accept.');
       }
     } else {
       user = new User(invitation.email, dto.name, await this.passwords.hash(dto.password));

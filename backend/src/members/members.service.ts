@@ -1,7 +1,7 @@
 import { EntityManager } from '@mikro-orm/core';
-import { HttpStatus, Injectable } from '@nestjs/common';
+import { Injectable } from '@nestjs/common';
 import { AuditService } from '../audit/audit.service';
-import { AppException, ErrorCode } from '../core/errors/app-exception';
+import { ErrorCode, MemberException, RequestException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { Session } from '../auth/entities/session.entity';
 import { Membership } from '../firms/entities/membership.entity';
@@ -32,20 +32,19 @@ export class MembersService {
   /** A member of the caller's firm; another firm's id is "not found", never "forbidden". */
   private async find(auth: AuthContext, id: string): Promise<Membership> {
     const m = await this.em.findOne(Membership, { id, firm: auth.session.firm }, { populate: ['user'] });
-    if (!m) throw new AppException(ErrorCode.NotFound, 'No such member in this firm.', HttpStatus.NOT_FOUND);
+    if (!m) throw new RequestException(ErrorCode.NotFound, 'No such member in this firm.');
     return m;
   }
 
   private async assertOwnerRemains(auth: AuthContext, changed: Membership, newRoles: string[] | null): Promise<void> {
     if (!changed.roles.includes('owner') || newRoles?.includes('owner')) return;
     const owners = await this.em.count(Membership, { firm: auth.session.firm, roles: { $like: '%"owner"%' } });
-    if (owners <= 1)
-      throw new AppException(MemberErrorCode.LastOwner, 'A firm must keep at least one owner: make someone else owner first.', HttpStatus.CONFLICT);
+    if (owners <= 1) throw new MemberException(MemberErrorCode.LastOwner, 'A firm must keep at least one owner: make someone else owner first.');
   }
 
   async updateRoles(auth: AuthContext, id: string, dto: UpdateRolesDto): Promise<MemberResponseDto> {
     if (dto.roles.includes('client') && dto.roles.length > 1) {
-      throw new AppException(MemberErrorCode.ClientWithOtherRoles, 'A client cannot also hold a role in the firm.', HttpStatus.BAD_REQUEST);
+      throw new MemberException(MemberErrorCode.ClientWithOtherRoles, 'A client cannot also hold a role in the firm.');
     }
     const m = await this.find(auth, id);
     await this.assertOwnerRemains(auth, m, dto.roles);

@@ -1,9 +1,9 @@
 import { EntityManager } from '@mikro-orm/core';
-import { HttpStatus, Injectable, Logger } from '@nestjs/common';
+import { Injectable, Logger } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import type { NotificationDto } from '@ampwright/common';
 import type { Environment } from '../config/environment';
-import { AppException, ErrorCode } from '../core/errors/app-exception';
+import { ErrorCode, RequestException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { mailTemplates } from '../mail/mail-templates';
 import { MailService, type OutgoingMail } from '../mail/mail.service';
@@ -67,7 +67,7 @@ export class NotificationsService {
 
   async markRead(auth: AuthContext, id: string): Promise<NotificationDto> {
     const n = await this.em.findOne(Notification, { id, user: auth.session.user });
-    if (!n) throw new AppException(ErrorCode.NotFound, 'No such notification.', HttpStatus.NOT_FOUND);
+    if (!n) throw new RequestException(ErrorCode.NotFound, 'No such notification.');
     n.readAt ??= new Date();
     await this.em.flush();
     return view(n);

@@ -1,9 +1,9 @@
 import { EntityManager } from '@mikro-orm/core';
-import { HttpStatus, Injectable } from '@nestjs/common';
+import { Injectable } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import type { CertificateDto, PackageSettingsDto } from '@ampwright/common';
 import type { Environment } from '../config/environment';
-import { AppException, ErrorCode } from '../core/errors/app-exception';
+import { ErrorCode, PackageException, RequestException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { Firm } from '../firms/entities/firm.entity';
 import { FirmCertificate } from './entities/firm-certificate.entity';
@@ -56,19 +56,19 @@ export class CertificatesService {
   /** The owner's upload of the firm's PKCS#12 certificate, refused with the reason if it cannot sign. */
   async upload(auth: AuthContext, file: { buffer: Buffer } | undefined, password: string | undefined): Promise<CertificateView> {
     if (!file)
-      throw new AppException(ErrorCode.ValidationFailed, 'Attach the .p12 or .pfx file in the field "file".', HttpStatus.BAD_REQUEST, [
-        { field: 'file', message: 'no file was sent' },
-      ]);
+      throw new RequestException(ErrorCode.ValidationFailed, 'Attach the .p12 or .pfx file in the field "file".', {
+        details: [{ field: 'file', message: 'no file was sent' }],
+      });
     if (typeof password !== 'string')
-      throw new AppException(ErrorCode.ValidationFailed, 'Give the certificate\'s password in the field "password".', HttpStatus.BAD_REQUEST, [
-        { field: 'password', message: 'required' },
-      ]);
+      throw new RequestException(ErrorCode.ValidationFailed, 'Give the certificate\'s password in the field "password".', {
+        details: [{ field: 'password', message: 'required' }],
+      });
     // Opened in an evaluation process with a deadline: a hostile file's key iterations never run here.
     const opened = await this.evaluation.readCertificate(auth.session.firm.id, file.buffer, password);
     if (!opened.ok) {
-      throw new AppException(PackageErrorCode.CertificateRefused, `The certificate was refused: ${opened.problem}`, HttpStatus.BAD_REQUEST, [
-        { field: opened.problem.includes('password') ? 'password' : 'file', message: opened.problem },
-      ]);
+      throw new PackageException(PackageErrorCode.CertificateRefused, `The certificate was refused: ${opened.problem}`, {
+        details: [{ field: opened.problem.includes('password') ? 'password' : 'file', message: opened.problem }],
+      });
     }
     return view(await this.store(auth.session.firm, file.buffer, password, opened.facts, false));
   }

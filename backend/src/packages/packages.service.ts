@@ -6,12 +6,12 @@
 import { createHash, randomUUID } from 'node:crypto';
 import { hostname } from 'node:os';
 import { EntityManager, MikroORM, RequestContext } from '@mikro-orm/core';
-import { BeforeApplicationShutdown, HttpStatus, Injectable, Logger, OnApplicationBootstrap } from '@nestjs/common';
+import { BeforeApplicationShutdown, Injectable, Logger, OnApplicationBootstrap } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import type { PackageStatusDto, PortalRevisionDto, VerdictDto } from '@ampwright/common';
 import { Attachment } from '../attachments/entities/attachment.entity';
 import type { Environment } from '../config/environment';
-import { AppException, ErrorCode } from '../core/errors/app-exception';
+import { ErrorCode, PackageException, RequestException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { ObjectStoreService } from '../files/object-store.service';
 import { ProjectPerson } from '../projects/entities/project.entity';
@@ -218,7 +218,7 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
         }
       : { id, sheet: { project: { firm: auth.session.firm } } };
     const r = await this.em.findOne(Revision, where, { populate: ['sheet', 'sheet.project'] });
-    if (!r) throw new AppException(ErrorCode.NotFound, 'No such revision.', HttpStatus.NOT_FOUND);
+    if (!r) throw new RequestException(ErrorCode.NotFound, 'No such revision.');
     return r;
   }
 
@@ -233,7 +233,7 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
   /** Puts a failed (or missing) job back in the queue; a job waiting or being made is left alone. */
   async retry(auth: AuthContext, revisionId: string): Promise<PackageStatus> {
     const r = await this.findRevision(auth, revisionId);
-    if (r.pdfSha256) throw new AppException(ErrorCode.Conflict, 'The package of this revision is made already; it is never made again.', HttpStatus.CONFLICT);
+    if (r.pdfSha256) throw new RequestException(ErrorCode.Conflict, 'The package of this revision is made already; it is never made again.');
     const job = await this.em.findOne(PackageJob, { revision: r });
     if (!job) {
       await this.em.persist(this.em.create(PackageJob, { revision: r })).flush();
@@ -244,11 +244,7 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
         { status: 'queued', attempts: 0, error: null, claimToken: null, lockedBy: null },
       );
       if (requeued !== 1)
-        throw new AppException(
-          ErrorCode.Conflict,
-          'The package of this revision is waiting or being made: only a failed one is tried again.',
-          HttpStatus.CONFLICT,
-        );
+        throw new RequestException(ErrorCode.Conflict, 'The package of this revision is waiting or being made: only a failed one is tried again.');
     }
     this.em.clear();
     return this.status(auth, revisionId);
@@ -257,7 +253,7 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
   async download(auth: AuthContext, revisionId: string): Promise<{ body: Buffer; fileName: string; sha256: string }> {
     const r = await this.findRevision(auth, revisionId);
     if (!r.pdfObjectKey || !r.pdfSha256)
-      throw new AppException(PackageErrorCode.NotReady, 'The package of this revision is still being made; try again in a moment.', HttpStatus.CONFLICT);
+      throw new PackageException(PackageErrorCode.NotReady, 'The package of this revision is still being made; try again in a moment.');
     const body = await this.store.get(r.pdfObjectKey);
     return { body, fileName: `${r.sheet.project.jobNumber}-${r.sheet.number}-rev${r.code}.pdf`.replace(/[^A-Za-z0-9._-]/g, '_'), sha256: r.pdfSha256 };
   }
@@ -290,16 +286,11 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
    */
   async verify(file: { buffer: Buffer; size: number } | undefined): Promise<Verdict> {
     if (!file || file.size === 0)
-      throw new AppException(ErrorCode.ValidationFailed, 'Choose a PDF file to check.', HttpStatus.BAD_REQUEST, [
-        { field: 'file', message: 'no file was sent' },
-      ]);
+      throw new RequestException(ErrorCode.ValidationFailed, 'Choose a PDF file to check.', { details: [{ field: 'file', message: 'no file was sent' }] });
     if (!file.buffer.subarray(0, 1024).toString('latin1').includes('%PDF-')) {
-      throw new AppException(
-        ErrorCode.UnsupportedMediaType,
-        'This file is not a PDF, so it cannot be one of our packages.',
-        HttpStatus.UNSUPPORTED_MEDIA_TYPE,
-        [{ field: 'file', message: 'not a PDF' }],
-      );
+      throw new RequestException(ErrorCode.UnsupportedMediaType, 'This file is not a PDF, so it cannot be one of our packages.', {
+        details: [{ field: 'file', message: 'not a PDF' }],
+      });
     }
     const sha = createHash('sha256').update(file.buffer).digest('hex');
     const match = await this.em.findOne(Revision, { pdfSha256: sha }, { populate: ['sheet', 'sheet.project', 'sheet.project.firm'] });

@@ -1,9 +1,9 @@
 import { EntityManager, UniqueConstraintViolationException } from '@mikro-orm/core';
-import { HttpStatus, Injectable } from '@nestjs/common';
+import { Injectable } from '@nestjs/common';
 import { Membership } from '../firms/entities/membership.entity';
 import { User } from '../users/entities/user.entity';
 import type { ProjectPeopleDto } from '@ampwright/common';
-import { AppException, ErrorCode } from '../core/errors/app-exception';
+import { ErrorCode, ProjectException, RequestException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { Sheet } from '../sheets/entities/sheet.entity';
 import type { CreateProjectDto, ProjectResponseDto, UpdateProjectDto } from './dto/project.dto';
@@ -41,7 +41,7 @@ export class ProjectsService {
     const project = await this.em.findOne(Project, { id, firm: auth.session.firm });
     const visible =
       project && (!auth.roles.includes('client') || (await this.em.count(ProjectPerson, { project, user: auth.session.user, standing: 'client' })) > 0);
-    if (!project || !visible) throw new AppException(ErrorCode.NotFound, 'No such project.', HttpStatus.NOT_FOUND);
+    if (!project || !visible) throw new RequestException(ErrorCode.NotFound, 'No such project.');
     return project;
   }
 
@@ -65,9 +65,9 @@ export class ProjectsService {
       return await work();
     } catch (err) {
       if (err instanceof UniqueConstraintViolationException) {
-        throw new AppException(ProjectErrorCode.JobNumberTaken, `Job number ${jobNumber} is used by another project of the firm.`, HttpStatus.CONFLICT, [
-          { field: 'jobNumber', message: 'this job number is taken' },
-        ]);
+        throw new ProjectException(ProjectErrorCode.JobNumberTaken, `Job number ${jobNumber} is used by another project of the firm.`, {
+          details: [{ field: 'jobNumber', message: 'this job number is taken' }],
+        });
       }
       throw err;
     }
@@ -90,11 +90,7 @@ export class ProjectsService {
   async remove(auth: AuthContext, id: string): Promise<void> {
     const project = await this.find(auth, id);
     if (await this.em.count(Sheet, { project, $or: [{ state: 'issued' }, { revisionNumber: { $gt: 1 } }] })) {
-      throw new AppException(
-        ProjectErrorCode.HasIssuedSheets,
-        'This project has issued sheets, which are kept for good: it cannot be deleted.',
-        HttpStatus.CONFLICT,
-      );
+      throw new ProjectException(ProjectErrorCode.HasIssuedSheets, 'This project has issued sheets, which are kept for good: it cannot be deleted.');
     }
     await this.em.remove(project).flush();
   }
@@ -120,11 +116,10 @@ export class ProjectsService {
     const ok = new Set(memberships.filter((m) => m.roles.some((r) => r !== 'client')).map((m) => m.user.id));
     const bad = [...new Set(userIds)].filter((u) => !ok.has(u));
     if (bad.length)
-      throw new AppException(
+      throw new RequestException(
         ErrorCode.ValidationFailed,
         `${bad.length === 1 ? 'One person is' : `${bad.length} people are`} not a member of the firm: a project's team is made of the firm's members (clients are invited separately).`,
-        HttpStatus.BAD_REQUEST,
-        bad.map(() => ({ field: 'userIds', message: 'not a member of the firm' })),
+        { details: bad.map(() => ({ field: 'userIds', message: 'not a member of the firm' })) },
       );
     await this.em.transactional(async (em) => {
       await em.nativeDelete(ProjectPerson, { project: project.id, standing: 'team' });

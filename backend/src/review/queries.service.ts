@@ -1,9 +1,9 @@
 /** Queries on cells and the checker's agreement with cells. */
 import { EntityManager, LockMode } from '@mikro-orm/core';
-import { HttpStatus, Injectable } from '@nestjs/common';
-import { isEditable, type QueryDto, type SheetState } from '@ampwright/common';
+import { Injectable } from '@nestjs/common';
+import { isEditable, type QueryDto, type SheetState, WorkflowCode } from '@ampwright/common';
 import { AuditService } from '../audit/audit.service';
-import { AppException, ErrorCode } from '../core/errors/app-exception';
+import { ErrorCode, RequestException, WorkflowException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { NotificationsService } from '../notifications/notifications.service';
 import { Cell } from '../sheets/entities/cell.entity';
@@ -12,7 +12,7 @@ import { SheetsService } from '../sheets/sheets.service';
 import { User } from '../users/entities/user.entity';
 import type { RaiseQueryDto, ReplyDto, NoteDto } from './dto/review.dto';
 import { CellQuery, QueryMessage } from './entities/cell-query.entity';
-import { isUser, requireChecker, requireState, ReviewErrorCode } from './review-access';
+import { isUser, requireChecker, requireState } from './review-access';
 
 export const queryView = (q: CellQuery): QueryDto => ({
   id: q.id,
@@ -82,18 +82,13 @@ export class QueriesService {
       requireChecker(auth, sheet, 'raise a query');
       const cell = await em.findOne(Cell, { id: dto.cellId, sheet });
       if (!cell)
-        throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND, [
-          { field: 'cellId', message: 'not a cell of this sheet' },
-        ]);
+        throw new RequestException(ErrorCode.NotFound, 'No such cell in this sheet.', { details: [{ field: 'cellId', message: 'not a cell of this sheet' }] });
       if (dto.line !== undefined) {
         const lines = cell.kind === 'calc' ? String(cell.fields.source ?? '').split('\n').length : 1;
         if (dto.line > lines)
-          throw new AppException(
-            ErrorCode.ValidationFailed,
-            `The cell has ${lines} line${lines === 1 ? '' : 's'}; there is no line ${dto.line}.`,
-            HttpStatus.BAD_REQUEST,
-            [{ field: 'line', message: `at most ${lines}` }],
-          );
+          throw new RequestException(ErrorCode.ValidationFailed, `The cell has ${lines} line${lines === 1 ? '' : 's'}; there is no line ${dto.line}.`, {
+            details: [{ field: 'line', message: `at most ${lines}` }],
+          });
       }
       const query = new CellQuery(sheet, cell, dto.line, em.getReference(User, auth.session.user.id), sheet.revisionNumber);
       em.persist(query);
@@ -122,7 +117,7 @@ export class QueriesService {
       { id, sheet: { project: { firm: auth.session.firm } } },
       { populate: ['sheet', 'sheet.preparer', 'sheet.checker', 'sheet.project', 'sheet.project.firm'] },
     );
-    if (!q) throw new AppException(ErrorCode.NotFound, 'No such query.', HttpStatus.NOT_FOUND);
+    if (!q) throw new RequestException(ErrorCode.NotFound, 'No such query.');
     return q;
   }
 
@@ -131,13 +126,21 @@ export class QueriesService {
     const q = await this.findQuery(auth, id);
     const sheet = q.sheet;
     if (q.status === 'closed')
-      throw new AppException(ReviewErrorCode.OutOfTurn, 'The query is closed; raise a new one if something is still wrong.', HttpStatus.CONFLICT);
+      throw new WorkflowException({
+        code: WorkflowCode.OutOfTurn,
+        kind: 'conflict',
+        message: 'The query is closed; raise a new one if something is still wrong.',
+      });
     const byPreparer = isUser(auth, sheet.preparer);
     const byChecker = isUser(auth, sheet.checker);
     if (!byPreparer && !byChecker)
-      throw new AppException(ReviewErrorCode.NotYours, "Only the sheet's preparer and its checker take part in a query.", HttpStatus.FORBIDDEN);
+      throw new WorkflowException({
+        code: WorkflowCode.NotYours,
+        kind: 'forbidden',
+        message: "Only the sheet's preparer and its checker take part in a query.",
+      });
     if (!isEditable(sheet.state as SheetState))
-      throw new AppException(ReviewErrorCode.OutOfTurn, 'The sheet is past checking; its queries can no longer change.', HttpStatus.CONFLICT);
+      throw new WorkflowException({ code: WorkflowCode.OutOfTurn, kind: 'conflict', message: 'The sheet is past checking; its queries can no longer change.' });
     this.em.persist(new QueryMessage(q, this.em.getReference(User, auth.session.user.id), dto.text));
     q.status = byPreparer ? 'answered' : 'open';
     await this.em.flush();
@@ -157,7 +160,7 @@ export class QueriesService {
     const sheet = q.sheet;
     requireChecker(auth, sheet, 'close a query');
     requireState(sheet, ['with-checker'], 'close a query');
-    if (q.status === 'closed') throw new AppException(ReviewErrorCode.OutOfTurn, 'The query is closed already.', HttpStatus.CONFLICT);
+    if (q.status === 'closed') throw new WorkflowException({ code: WorkflowCode.OutOfTurn, kind: 'conflict', message: 'The query is closed already.' });
     if (dto.note) this.em.persist(new QueryMessage(q, this.em.getReference(User, auth.session.user.id), dto.note));
     q.status = 'closed';
     q.closedBy = this.em.getReference(User, auth.session.user.id);
@@ -173,7 +176,7 @@ export class QueriesService {
     requireState(sheet, ['with-checker'], agreed ? 'agree a cell' : 'withdraw an agreement');
     requireChecker(auth, sheet, agreed ? 'agree a cell' : 'withdraw an agreement');
     const cell = await this.em.findOne(Cell, { id: cellId, sheet });
-    if (!cell) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
+    if (!cell) throw new RequestException(ErrorCode.NotFound, 'No such cell in this sheet.');
     cell.agreedBy = agreed ? this.em.getReference(User, auth.session.user.id) : undefined;
     cell.agreedAt = agreed ? new Date() : undefined;
     if (agreed) cell.changedAfterAgreement = false;

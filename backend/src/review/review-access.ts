@@ -2,13 +2,12 @@
  * The server's side of the workflow rulebook (common/src/review/workflow.ts): the facts of a locked
  * sheet and the person acting, and a refusal turned into the API's error. Each refusal says why.
  */
-import { WorkflowCode, checkerRefusal, refusalOf, stateRefusal, type SheetFacts, type SheetState, type WorkflowMove } from '@ampwright/common';
+import { checkerRefusal, refusalOf, stateRefusal, type SheetFacts, type SheetState, type WorkflowMove } from '@ampwright/common';
 import { actorOf, enforce } from '../core/errors/refusal';
 import type { AuthContext } from '../core/guards/auth.guard';
 import type { Sheet } from '../sheets/entities/sheet.entity';
 
 /** The workflow's error codes under the name the review module has always used. */
-export { WorkflowCode as ReviewErrorCode };
 
 /** The rulebook's facts of a sheet whose preparer, checker and approver are loaded. */
 export function factsOf(sheet: Sheet, authors: ReadonlyMap<string, string>, openQueries = 0): SheetFacts {

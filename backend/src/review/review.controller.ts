@@ -2,7 +2,7 @@ import { Body, Controller, Delete, Get, HttpCode, Param, ParseEnumPipe, ParseUUI
 import type { DiffDto, HistoryEventDto, QueryDto, RevisionSummaryDto, SheetDto } from '@ampwright/common';
 import { Roles } from '../core/decorators/access.decorator';
 import { CurrentAuth } from '../core/decorators/current-auth.decorator';
-import { AppException, ErrorCode } from '../core/errors/app-exception';
+import { ErrorCode, RequestException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { MEMBER_ROLES, SHEET_EDITORS } from '../core/roles';
 import { NoteDto, RaiseQueryDto, ReplyDto, RequestCheckDto } from './dto/review.dto';
@@ -135,9 +135,9 @@ export class ReviewController {
       ['to', to],
     ] as const) {
       if (!REVISION_REF.test(v))
-        throw new AppException(ErrorCode.ValidationFailed, `${name} must be a revision id or "draft".`, 400, [
-          { field: name, message: 'a revision id or "draft"' },
-        ]);
+        throw new RequestException(ErrorCode.ValidationFailed, `${name} must be a revision id or "draft".`, {
+          details: [{ field: name, message: 'a revision id or "draft"' }],
+        });
     }
     return this.revisions.diff(auth, id, from, to);
   }

@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto';
 import { EntityManager } from '@mikro-orm/core';
-import { HttpStatus, Injectable } from '@nestjs/common';
+import { Injectable } from '@nestjs/common';
 import {
   canonicalJson,
   diffCells,
@@ -12,10 +12,11 @@ import {
   type RevisionSummaryDto,
   type SheetFile,
   type SnapshotCell,
+  WorkflowCode,
 } from '@ampwright/common';
 import { Attachment } from '../attachments/entities/attachment.entity';
 import { AuditEvent } from '../audit/entities/audit-event.entity';
-import { AppException, ErrorCode } from '../core/errors/app-exception';
+import { ErrorCode, RequestException, SheetException, WorkflowException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService } from '../evaluation/evaluation.service';
 import { SheetEvaluator } from '../evaluation/sheet-evaluator';
@@ -27,7 +28,7 @@ import { User } from '../users/entities/user.entity';
 import { CellQuery } from './entities/cell-query.entity';
 import { Revision } from './entities/revision.entity';
 import { queryView } from './queries.service';
-import { ReviewErrorCode } from './review-access';
+import {} from './review-access';
 
 export const SNAPSHOT_FORMAT = 'ampwright.revision/1';
 
@@ -98,11 +99,7 @@ export class RevisionsService {
    */
   async freeze(em: EntityManager, sheet: Sheet, fresh: FreshEvaluation): Promise<Revision> {
     if (sheet.version !== fresh.version) {
-      throw new AppException(
-        SheetErrorCode.StaleVersion,
-        'The sheet changed while it was being evaluated for issue, so nothing was issued. Issue it again.',
-        HttpStatus.CONFLICT,
-      );
+      throw new SheetException(SheetErrorCode.StaleVersion, 'The sheet changed while it was being evaluated for issue, so nothing was issued. Issue it again.');
     }
     const cells = await em.find(Cell, { sheet }, { orderBy: { position: 'asc' } });
     const file = this.sheets.toFile(sheet, cells);
@@ -111,12 +108,12 @@ export class RevisionsService {
     const drifted = cells.map((c, k) => ({ position: k + 1, same: stable(c.results) === stable(fresh.cells[k]) })).filter((c) => !c.same);
     if (drifted.length) {
       const list = drifted.map((c) => c.position).join(', ');
-      throw new AppException(
-        ReviewErrorCode.ResultsChanged,
-        `The sheet cannot be issued: evaluated afresh, ${drifted.length === 1 ? `cell ${list} gives` : `cells ${list} give`} results other than those the checker saw. Nothing was issued; tell the checker and the preparer.`,
-        HttpStatus.CONFLICT,
-        drifted.map((c) => ({ field: `cells[${c.position - 1}]`, message: 'its results differ from the checked ones' })),
-      );
+      throw new WorkflowException({
+        code: WorkflowCode.ResultsChanged,
+        kind: 'conflict',
+        message: `The sheet cannot be issued: evaluated afresh, ${drifted.length === 1 ? `cell ${list} gives` : `cells ${list} give`} results other than those the checker saw. Nothing was issued; tell the checker and the preparer.`,
+        details: drifted.map((c) => ({ field: `cells[${c.position - 1}]`, message: 'its results differ from the checked ones' })),
+      });
     }
     const queries = await em.find(
       CellQuery,
@@ -239,7 +236,7 @@ export class RevisionsService {
       { id, sheet: { project: { firm: auth.session.firm } } },
       { populate: ['preparedBy', 'checkedBy', 'approvedBy', 'sheet'] },
     );
-    if (!r) throw new AppException(ErrorCode.NotFound, 'No such revision.', HttpStatus.NOT_FOUND);
+    if (!r) throw new RequestException(ErrorCode.NotFound, 'No such revision.');
     return r;
   }
 
@@ -267,7 +264,7 @@ export class RevisionsService {
         };
       }
       const r = await this.em.findOne(Revision, { id: ref, sheet });
-      if (!r) throw new AppException(ErrorCode.NotFound, `No revision ${ref} of this sheet.`, HttpStatus.NOT_FOUND);
+      if (!r) throw new RequestException(ErrorCode.NotFound, `No revision ${ref} of this sheet.`);
       return { label: r.code, cells: this.snapshotCells(r.snapshot as unknown as RevisionSnapshot) };
     };
     const [a, b] = await Promise.all([side(from), side(to)]);

@@ -1,3 +1,4 @@
+import { WorkflowCode } from '@ampwright/common';
 /**
  * The life of a sheet: being prepared → with the checker → checked → approved → issued, and back from
  * the checker to the preparer. Each move locks the sheet's row (SELECT … FOR UPDATE) and checks the
@@ -5,10 +6,10 @@
  */
 import { LockMode } from '@mikro-orm/core';
 import { EntityManager } from '@mikro-orm/mariadb';
-import { HttpStatus, Injectable } from '@nestjs/common';
+import { Injectable } from '@nestjs/common';
 import { AuditService } from '../audit/audit.service';
 import type { AuditType } from '../audit/entities/audit-event.entity';
-import { AppException } from '../core/errors/app-exception';
+import { WorkflowException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import type { Role } from '../core/roles';
 import { Membership } from '../firms/entities/membership.entity';
@@ -22,7 +23,7 @@ import type { NoteDto, RequestCheckDto } from './dto/review.dto';
 import { Revision } from './entities/revision.entity';
 import { PackageJob } from '../packages/entities/package-job.entity';
 import { notIndependent } from '../sheets/sheet-authors';
-import { factsOf, requireMove, ReviewErrorCode } from './review-access';
+import { factsOf, requireMove } from './review-access';
 import { RevisionsService } from './revisions.service';
 
 @Injectable()
@@ -54,9 +55,12 @@ export class WorkflowService {
   private async member(auth: AuthContext, userId: string, role: Role, what: string): Promise<User> {
     const m = await this.em.findOne(Membership, { firm: auth.session.firm, user: userId }, { populate: ['user'] });
     if (!m || !m.roles.includes(role))
-      throw new AppException(ReviewErrorCode.BadAssignee, `The ${what} must be a member of the firm with the ${role} role.`, HttpStatus.BAD_REQUEST, [
-        { field: `${what}Id`, message: `not a ${role} of the firm` },
-      ]);
+      throw new WorkflowException({
+        code: WorkflowCode.BadAssignee,
+        kind: 'invalid',
+        message: `The ${what} must be a member of the firm with the ${role} role.`,
+        details: [{ field: `${what}Id`, message: `not a ${role} of the firm` }],
+      });
     return m.user;
   }
 

@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import { UniqueConstraintViolationException } from '@mikro-orm/core';
 import { EntityManager } from '@mikro-orm/mariadb';
-import { HttpStatus, Injectable } from '@nestjs/common';
+import { Injectable } from '@nestjs/common';
 import {
   EDITABLE_STATES,
   editRefusal,
@@ -16,7 +16,7 @@ import {
   type SheetDto,
   type SheetFile,
 } from '@ampwright/common';
-import { AppException, ErrorCode } from '../core/errors/app-exception';
+import { ErrorCode, RequestException, SheetException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService, type Reservation } from '../evaluation/evaluation.service';
 import { SheetEvaluator } from '../evaluation/sheet-evaluator';
@@ -70,7 +70,7 @@ function splitCell(cell: unknown): { kind: string; fields: Record<string, unknow
   const parsed = cellSchema.safeParse(cell);
   if (!parsed.success) {
     const details = parsed.error.issues.map((i) => ({ field: ['cell', ...i.path.map(String)].join('.'), message: i.message }));
-    throw new AppException(SheetErrorCode.BadCell, `The cell is not valid: ${details.map((d) => d.message).join('; ')}`, HttpStatus.BAD_REQUEST, details);
+    throw new SheetException(SheetErrorCode.BadCell, `The cell is not valid: ${details.map((d) => d.message).join('; ')}`, { details: details });
   }
   const { kind, ...fields } = parsed.data as Record<string, unknown> & { kind: string };
   return { kind, fields };
@@ -91,7 +91,7 @@ export class SheetsService {
   /** A sheet of the caller's firm (members only); another firm's id is 404. */
   private async find(auth: AuthContext, id: string): Promise<Sheet> {
     const sheet = await this.repository.findInFirm(auth.session.firm.id, id);
-    if (!sheet) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
+    if (!sheet) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
     return sheet;
   }
 
@@ -137,19 +137,19 @@ export class SheetsService {
     const sheet = await this.find(auth, id);
     this.assertEditable(sheet.state);
     if (sheet.preparer.id !== auth.session.user.id)
-      throw new AppException(SheetErrorCode.NotPreparer, `Only the sheet's preparer (${sheet.preparer.name}) names its co-preparers.`, HttpStatus.FORBIDDEN);
+      throw new SheetException(SheetErrorCode.NotPreparer, `Only the sheet's preparer (${sheet.preparer.name}) names its co-preparers.`);
     const ids = [...new Set(dto.userIds)].filter((u) => u !== sheet.preparer.id);
     const members = ids.length ? await this.em.find(Membership, { firm: auth.session.firm, user: { $in: ids } }) : [];
     for (const uid of ids) {
       const m = members.find((x) => x.user.id === uid);
       if (!m || !m.roles.includes('engineer'))
-        throw new AppException(ErrorCode.ValidationFailed, 'A co-preparer must be a member of the firm with the engineer role.', HttpStatus.BAD_REQUEST, [
-          { field: 'userIds', message: `${uid} is not an engineer of the firm` },
-        ]);
+        throw new RequestException(ErrorCode.ValidationFailed, 'A co-preparer must be a member of the firm with the engineer role.', {
+          details: [{ field: 'userIds', message: `${uid} is not an engineer of the firm` }],
+        });
       if (uid === sheet.checker?.id || uid === sheet.approver?.id)
-        throw new AppException(SheetErrorCode.NotIndependent, "The sheet's checker or approver cannot be a co-preparer of it.", HttpStatus.BAD_REQUEST, [
-          { field: 'userIds', message: 'the checker or approver cannot prepare the sheet' },
-        ]);
+        throw new SheetException(SheetErrorCode.NotIndependent, "The sheet's checker or approver cannot be a co-preparer of it.", {
+          details: [{ field: 'userIds', message: 'the checker or approver cannot prepare the sheet' }],
+        });
     }
     await this.em.transactional((em) => nameCoPreparers(em, sheet.id, sheet.revisionNumber, ids));
     await this.audit.record('co-preparers-named', {
@@ -163,7 +163,7 @@ export class SheetsService {
 
   private assertEditable(state: SheetState): void {
     if (!EDITABLE.includes(state)) {
-      throw new AppException(SheetErrorCode.ReadOnly, `The sheet is ${state.replace('-', ' ')} and can no longer be edited.`, HttpStatus.CONFLICT);
+      throw new SheetException(SheetErrorCode.ReadOnly, `The sheet is ${state.replace('-', ' ')} and can no longer be edited.`);
     }
   }
 
@@ -174,7 +174,7 @@ export class SheetsService {
   /** A sheet of the caller's firm as the API shows it; another firm's id is 404. */
   private async view(auth: AuthContext, id: string): Promise<SheetView> {
     const view = await this.repository.view(auth.session.firm.id, id);
-    if (!view) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
+    if (!view) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
     return view;
   }
 
@@ -215,26 +215,23 @@ export class SheetsService {
 
   async create(auth: AuthContext, projectId: string, dto: CreateSheetDto): Promise<SheetView> {
     const project = await this.projects.find(auth, projectId);
-    if (dto.templateId && dto.sheet) throw new AppException(ErrorCode.ValidationFailed, 'Give a template or a sheet file, not both.', HttpStatus.BAD_REQUEST);
+    if (dto.templateId && dto.sheet) throw new RequestException(ErrorCode.ValidationFailed, 'Give a template or a sheet file, not both.');
     let file: SheetFile | undefined = dto.templateId ? await this.templates.get(auth, dto.templateId) : undefined;
     if (dto.sheet) {
       const parsed = parseSheetFile(dto.sheet);
       if (!parsed.ok) {
         const details = parsed.problems.map((p) => ({ field: `sheet.${p.path}`, message: p.message }));
-        throw new AppException(
-          ErrorCode.ValidationFailed,
-          `The sheet file is not valid: ${details.map((d) => `${d.field}: ${d.message}`).join('; ')}`,
-          HttpStatus.BAD_REQUEST,
-          details,
-        );
+        throw new RequestException(ErrorCode.ValidationFailed, `The sheet file is not valid: ${details.map((d) => `${d.field}: ${d.message}`).join('; ')}`, {
+          details: details,
+        });
       }
       file = parsed.sheet;
     }
     const title = dto.title ?? file?.title;
     if (!title)
-      throw new AppException(ErrorCode.ValidationFailed, 'title is needed for a blank sheet', HttpStatus.BAD_REQUEST, [
-        { field: 'title', message: 'title is needed for a blank sheet' },
-      ]);
+      throw new RequestException(ErrorCode.ValidationFailed, 'title is needed for a blank sheet', {
+        details: [{ field: 'title', message: 'title is needed for a blank sheet' }],
+      });
     const { sheet, cells } = sheetFromFile(project, dto.number, title, file, auth.session.user);
     await this.evaluation.holding(auth.session.firm.id, async (reservation) => {
       this.em.persist(cells);
@@ -242,9 +239,9 @@ export class SheetsService {
         await this.em.persist(sheet).flush();
       } catch (err) {
         if (err instanceof UniqueConstraintViolationException) {
-          throw new AppException(SheetErrorCode.NumberTaken, `Sheet number ${dto.number} is used in this project already.`, HttpStatus.CONFLICT, [
-            { field: 'number', message: 'this sheet number is taken' },
-          ]);
+          throw new SheetException(SheetErrorCode.NumberTaken, `Sheet number ${dto.number} is used in this project already.`, {
+            details: [{ field: 'number', message: 'this sheet number is taken' }],
+          });
         }
         throw err;
       }
@@ -256,11 +253,7 @@ export class SheetsService {
   async remove(auth: AuthContext, id: string): Promise<void> {
     const sheet = await this.findEditable(auth, id);
     if (sheet.revisionNumber > 1)
-      throw new AppException(
-        SheetErrorCode.HasRevisions,
-        'This sheet has issued revisions, which are kept for good; it cannot be deleted.',
-        HttpStatus.CONFLICT,
-      );
+      throw new SheetException(SheetErrorCode.HasRevisions, 'This sheet has issued revisions, which are kept for good; it cannot be deleted.');
     await this.em.remove(sheet).flush();
   }
 
@@ -281,7 +274,7 @@ export class SheetsService {
   /** A sheet the caller may change, read as a save needs it (one query, no entities); 404 or the rulebook's refusal otherwise. */
   private async editableHeading(auth: AuthContext, id: string): Promise<SheetHeadingRow> {
     const heading = await this.repository.heading(auth.session.firm.id, id);
-    if (!heading) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
+    if (!heading) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
     await this.assertMayEdit(auth, heading);
     return heading;
   }
@@ -293,14 +286,12 @@ export class SheetsService {
         if (!(await this.repository.raiseVersion(found.id, version, EDITABLE))) {
           // Not raised: the sheet left preparation (read-only), was deleted, or someone else saved first.
           const current = await this.repository.contents(found.id);
-          if (!current) throw new AppException(ErrorCode.NotFound, 'No such sheet.', HttpStatus.NOT_FOUND);
+          if (!current) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
           this.assertEditable(current.state);
-          throw new AppException(
+          throw new SheetException(
             SheetErrorCode.StaleVersion,
             'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.',
-            HttpStatus.CONFLICT,
-            undefined,
-            current,
+            { current: current },
           );
         }
         // What was read before is what the version raised from, unless that read saw an older version
@@ -403,8 +394,7 @@ export class SheetsService {
       if (dto.title !== undefined) heading.title = dto.title;
       if (dto.settings !== undefined) {
         const parsed = parseSheetFile({ format: SHEET_FORMAT, title: heading.title, settings: dto.settings, cells: [] });
-        if (!parsed.ok)
-          throw new AppException(ErrorCode.ValidationFailed, parsed.problems.map((p) => `${p.path}: ${p.message}`).join('; '), HttpStatus.BAD_REQUEST);
+        if (!parsed.ok) throw new RequestException(ErrorCode.ValidationFailed, parsed.problems.map((p) => `${p.path}: ${p.message}`).join('; '));
         heading.settings = dto.settings;
       }
       return { touched: new Set(dto.settings !== undefined ? cells.map((c) => c.id) : []) };
@@ -438,28 +428,24 @@ export class SheetsService {
   /** A CSV upload as a new table cell; any bad row is reported by its line and nothing is stored. */
   async importCsv(auth: AuthContext, id: string, file: { buffer: Buffer; originalname: string } | undefined, dto: ImportCsvDto): Promise<SaveResult> {
     if (!file)
-      throw new AppException(ErrorCode.ValidationFailed, 'Attach the CSV file in the field "file".', HttpStatus.BAD_REQUEST, [
-        { field: 'file', message: 'no file was sent' },
-      ]);
+      throw new RequestException(ErrorCode.ValidationFailed, 'Attach the CSV file in the field "file".', {
+        details: [{ field: 'file', message: 'no file was sent' }],
+      });
     // Nothing is parsed for a sheet the caller may not change; the parsing itself runs in an evaluation process.
     await this.editableHeading(auth, id);
     const parsed = await this.evaluation.parseCsv(auth.session.firm.id, file.buffer);
     if ('binary' in parsed) {
-      throw new AppException(
+      throw new RequestException(
         ErrorCode.UnsupportedMediaType,
         `${file.originalname} is not a CSV text file (its content is binary), whatever its name says.`,
-        HttpStatus.UNSUPPORTED_MEDIA_TYPE,
-        [{ field: 'file', message: 'not a text file' }],
+        { details: [{ field: 'file', message: 'not a text file' }] },
       );
     }
     if (!parsed.ok) {
       const details = parsed.problems.map((p) => ({ field: 'file', message: `line ${p.line}: ${p.message}` }));
-      throw new AppException(
-        SheetErrorCode.CsvInvalid,
-        `The CSV could not be read, so nothing was stored: ${details.map((d) => d.message).join('; ')}`,
-        HttpStatus.BAD_REQUEST,
-        details,
-      );
+      throw new SheetException(SheetErrorCode.CsvInvalid, `The CSV could not be read, so nothing was stored: ${details.map((d) => d.message).join('; ')}`, {
+        details: details,
+      });
     }
     return this.addCell(auth, id, { version: dto.version, position: dto.position, cell: parsed.cell as unknown as Record<string, unknown> });
   }
@@ -470,7 +456,7 @@ export class SheetsService {
     const withdrawn: string[] = [];
     const result = await this.change(auth, id, dto.version, (_heading, cells) => {
       const cell = cells.find((c) => c.id === cellId);
-      if (!cell) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
+      if (!cell) throw new RequestException(ErrorCode.NotFound, 'No such cell in this sheet.');
       const changed = cell.kind !== kind || JSON.stringify(cell.fields) !== JSON.stringify(fields);
       Object.assign(cell, { kind, fields, changedById: actor.id, changedBy: actor.name, changedAt: new Date() });
       // An edit withdraws the checker's agreement, and marks the cell for the checker to look at again.
@@ -495,7 +481,7 @@ export class SheetsService {
     return this.change(auth, id, dto.version, (_heading, all) => {
       const cells = [...all];
       const from = cells.findIndex((c) => c.id === cellId);
-      if (from < 0) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
+      if (from < 0) throw new RequestException(ErrorCode.NotFound, 'No such cell in this sheet.');
       const [cell] = cells.splice(from, 1);
       cells.splice(Math.min(dto.position, cells.length), 0, cell);
       return { touched: renumber(cells) };
@@ -505,7 +491,7 @@ export class SheetsService {
   deleteCell(auth: AuthContext, id: string, cellId: string, version: number): Promise<SaveResult> {
     return this.change(auth, id, version, (_heading, cells) => {
       const cell = cells.find((c) => c.id === cellId);
-      if (!cell) throw new AppException(ErrorCode.NotFound, 'No such cell in this sheet.', HttpStatus.NOT_FOUND);
+      if (!cell) throw new RequestException(ErrorCode.NotFound, 'No such cell in this sheet.');
       return { touched: renumber(cells.filter((c) => c !== cell)), removed: [cell.id] };
     });
   }

@@ -1,11 +1,11 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { EntityManager } from '@mikro-orm/core';
-import { HttpStatus, Injectable } from '@nestjs/common';
+import { Injectable } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import { parseSheetJson, type SheetFile, type TemplateSummaryDto } from '@ampwright/common';
 import type { Environment } from '../config/environment';
-import { AppException, ErrorCode } from '../core/errors/app-exception';
+import { ErrorCode, RequestException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { User } from '../users/entities/user.entity';
 import { Template } from './entities/template.entity';
@@ -46,7 +46,7 @@ export class TemplatesService {
     const builtIn = this.builtIn.get(id);
     if (builtIn) return structuredClone(builtIn);
     const own = UUID.test(id) ? await this.em.findOne(Template, { id, firm: auth.session.firm }) : null;
-    if (!own) throw new AppException(ErrorCode.NotFound, `No template named ${id}.`, HttpStatus.NOT_FOUND, [{ field: 'templateId', message: 'no such template' }]);
+    if (!own) throw new RequestException(ErrorCode.NotFound, `No template named ${id}.`, { details: [{ field: 'templateId', message: 'no such template' }] });
     return structuredClone(own.sheet);
   }
 
@@ -58,7 +58,7 @@ export class TemplatesService {
 
   async remove(auth: AuthContext, id: string): Promise<void> {
     const t = await this.em.findOne(Template, { id, firm: auth.session.firm });
-    if (!t) throw new AppException(ErrorCode.NotFound, 'No such template of your firm (built-in templates cannot be removed).', HttpStatus.NOT_FOUND);
+    if (!t) throw new RequestException(ErrorCode.NotFound, 'No such template of your firm (built-in templates cannot be removed).');
     await this.em.remove(t).flush();
   }
 }

@@ -1,7 +1,7 @@
 /**
  * Every error code the API answers with, by feature: the server throws them, the app tests them by
- * type. The HTTP status of each throw is chosen where it is thrown; the filter (backend
- * core/filters/all-exceptions.filter.ts) gives every error the shape `{ statusCode, code, message, details? }`.
+ * type. Each feature has its exception class on the server, and each code its one HTTP status there
+ * (backend core/errors/app-exception.ts); the filter gives every error the shape `{ statusCode, code, message, details? }`.
  * The review workflow's codes are `WorkflowCode` (review/workflow.ts).
  */
 import { WorkflowCode } from '../review/workflow';

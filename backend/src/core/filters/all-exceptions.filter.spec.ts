@@ -1,14 +1,23 @@
 import { NotFoundException } from '@nestjs/common';
 import { describe, expect, it } from 'vitest';
-import { AppException, ErrorCode } from '../errors/app-exception';
+import { AuthErrorCode, EvaluationErrorCode, SheetErrorCode, WorkflowCode } from '@ampwright/common';
+import { AuthException, ErrorCode, EvaluationException, SheetException, WorkflowException } from '../errors/app-exception';
 import { AllExceptionsFilter } from './all-exceptions.filter';
 
 describe(AllExceptionsFilter.name, () => {
   const filter = new AllExceptionsFilter();
 
   it("keeps a feature exception's code, message and details", () => {
-    const body = filter.toBody(new AppException('SHEET_LOCKED', 'The sheet is approved and read-only.', 409, [{ message: 'x' }]));
-    expect(body).toEqual({ statusCode: 409, code: 'SHEET_LOCKED', message: 'The sheet is approved and read-only.', details: [{ message: 'x' }] });
+    const body = filter.toBody(new SheetException(SheetErrorCode.ReadOnly, 'The sheet is approved and read-only.', { details: [{ message: 'x' }] }));
+    expect(body).toEqual({ statusCode: 409, code: 'SHEET_READ_ONLY', message: 'The sheet is approved and read-only.', details: [{ message: 'x' }] });
+  });
+
+  it('gives each code its one status, and a workflow refusal the status of its kind', () => {
+    expect(filter.toBody(new EvaluationException(EvaluationErrorCode.Busy, 'busy')).statusCode).toBe(429);
+    expect(filter.toBody(new EvaluationException(EvaluationErrorCode.Timeout, 'slow')).statusCode).toBe(422);
+    expect(filter.toBody(new AuthException(AuthErrorCode.BadCredentials, 'no')).statusCode).toBe(401);
+    const refusal = (kind: 'conflict' | 'forbidden' | 'invalid') => new WorkflowException({ code: WorkflowCode.NotIndependent, kind, message: 'm' });
+    expect([refusal('conflict'), refusal('forbidden'), refusal('invalid')].map((e) => filter.toBody(e).statusCode)).toEqual([409, 403, 400]);
   });
 
   it('maps Nest HTTP exceptions to a code by status', () => {

@@ -1,4 +1,4 @@
-import { AppException, ErrorCode } from '../errors/app-exception';
+import { ErrorCode, RequestException } from '../errors/app-exception';
 
 const BY_TYPE: Record<string, [ErrorCode, string]> = {
   'entity.too.large': [ErrorCode.PayloadTooLarge, 'The request body is larger than this endpoint accepts.'],
@@ -9,9 +9,9 @@ const BY_TYPE: Record<string, [ErrorCode, string]> = {
 };
 
 /** Maps an error thrown by Express's body parser (it carries `type` and `status`) to our exception. */
-export function bodyParserError(err: unknown): AppException | undefined {
+export function bodyParserError(err: unknown): RequestException | undefined {
   const e = err as { type?: unknown; status?: unknown } | null;
   if (!e || typeof e.type !== 'string' || typeof e.status !== 'number' || e.status < 400 || e.status >= 500) return undefined;
   const [code, message] = BY_TYPE[e.type] ?? [ErrorCode.BadRequest, 'The request body could not be read.'];
-  return new AppException(code, message, e.status);
+  return new RequestException(code, message);
 }

@@ -1,6 +1,6 @@
 import { createHash, timingSafeEqual } from 'node:crypto';
 import { EntityManager } from '@mikro-orm/mariadb';
-import { CanActivate, ExecutionContext, HttpStatus, Injectable } from '@nestjs/common';
+import { CanActivate, ExecutionContext, Injectable } from '@nestjs/common';
 import { Reflector } from '@nestjs/core';
 import { ConfigService } from '@nestjs/config';
 import type { Environment } from '../../config/environment';
@@ -10,7 +10,7 @@ import { Firm } from '../../firms/entities/firm.entity';
 import { Membership } from '../../firms/entities/membership.entity';
 import { User } from '../../users/entities/user.entity';
 import { ACCESS_KEY, type AccessRule } from '../decorators/access.decorator';
-import { AppException, ErrorCode } from '../errors/app-exception';
+import { ErrorCode, RequestException } from '../errors/app-exception';
 import type { Role } from '../roles';
 
 export const SESSION_COOKIE = 'aw_session';
@@ -71,24 +71,23 @@ export class AuthGuard implements CanActivate {
   async canActivate(context: ExecutionContext): Promise<boolean> {
     const rule = this.reflector.getAllAndOverride<AccessRule | undefined>(ACCESS_KEY, [context.getHandler(), context.getClass()]);
     const req = context.switchToHttp().getRequest<Request & { auth?: AuthContext }>();
-    if (!rule) throw new AppException(ErrorCode.Forbidden, 'This route has no access rule, so it is closed.', HttpStatus.FORBIDDEN);
+    if (!rule) throw new RequestException(ErrorCode.Forbidden, 'This route has no access rule, so it is closed.');
     const mutating = !SAFE_METHODS.has(req.method);
     const csrf = req.get(CSRF_HEADER);
 
     if (rule.kind === 'public') {
-      if (mutating && !csrf)
-        throw new AppException(ErrorCode.CsrfFailed, 'The request is missing its anti-forgery header. Reload the page and try again.', HttpStatus.FORBIDDEN);
+      if (mutating && !csrf) throw new RequestException(ErrorCode.CsrfFailed, 'The request is missing its anti-forgery header. Reload the page and try again.');
       await this.attach(req).catch(() => undefined);
       return true;
     }
 
     const auth = await this.attach(req);
-    if (!auth) throw new AppException(ErrorCode.Unauthenticated, 'Sign in to continue.', HttpStatus.UNAUTHORIZED);
+    if (!auth) throw new RequestException(ErrorCode.Unauthenticated, 'Sign in to continue.');
     if (mutating && (!csrf || !sameToken(csrf, auth.session.csrfToken))) {
-      throw new AppException(ErrorCode.CsrfFailed, 'The request is missing its anti-forgery token. Reload the page and try again.', HttpStatus.FORBIDDEN);
+      throw new RequestException(ErrorCode.CsrfFailed, 'The request is missing its anti-forgery token. Reload the page and try again.');
     }
     if (rule.kind === 'roles' && !rule.roles.some((r) => auth.roles.includes(r))) {
-      throw new AppException(ErrorCode.Forbidden, `This needs one of the roles: ${rule.roles.join(', ')}.`, HttpStatus.FORBIDDEN);
+      throw new RequestException(ErrorCode.Forbidden, `This needs one of the roles: ${rule.roles.join(', ')}.`);
     }
     return true;
   }
