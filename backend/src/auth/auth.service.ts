@@ -26,17 +26,9 @@ export { AuthErrorCode };
 const RESET_MINUTES = 60;
 
 /** Takes a single-use link by one conditional UPDATE: true for exactly one of any number of simultaneous uses. */
-async function takeOnce(em: EntityManager, table: 'password_reset' | 'pending_registration', tokenHash: string): Promise<boolean> {
+async function takeOnce(em: EntityManager, link: typeof PasswordReset | typeof PendingRegistration, tokenHash: string): Promise<boolean> {
   const now = new Date();
-  const res = await em
-    .getConnection()
-    .execute(
-      `update ${table} set used_at = ? where token_hash = ? and used_at is null and expires_at > ?`,
-      [now, tokenHash, now],
-      'run',
-      em.getTransactionContext(),
-    );
-  return (res as { affectedRows?: number }).affectedRows === 1;
+  return (await em.nativeUpdate(link, { tokenHash, usedAt: null, expiresAt: { $gt: now } }, { usedAt: now })) === 1;
 }
 const REGISTRATION_HOURS = 24;
 
@@ -100,7 +92,7 @@ export class AuthService {
       new AuthException(AuthErrorCode.RegistrationInvalid, 'This registration link has expired or has been used. Register again, or sign in.');
     const pending = await this.em.findOne(PendingRegistration, { tokenHash: hashToken(dto.token) });
     if (!pending) throw invalid();
-    if (!(await takeOnce(this.em, 'pending_registration', pending.tokenHash))) throw invalid();
+    if (!(await takeOnce(this.em, PendingRegistration, pending.tokenHash))) throw invalid();
     if (await this.em.count(User, { email: pending.email })) {
       throw new AuthException(AuthErrorCode.EmailTaken, 'This address has an account already: sign in instead.');
     }
@@ -182,11 +174,9 @@ export class AuthService {
     if (!reset) throw invalid();
     const passwordHash = await this.passwords.hash(dto.password);
     await this.em.transactional(async (em) => {
-      if (!(await takeOnce(em, 'password_reset', reset.tokenHash))) throw invalid();
+      if (!(await takeOnce(em, PasswordReset, reset.tokenHash))) throw invalid();
       await em.nativeUpdate(User, { id: reset.user.id }, { passwordHash });
-      await em
-        .getConnection()
-        .execute('update password_reset set used_at = ? where user_id = ? and used_at is null', [new Date(), reset.user.id], 'run', em.getTransactionContext());
+      await em.nativeUpdate(PasswordReset, { user: reset.user.id, usedAt: null }, { usedAt: new Date() });
     });
     await this.sessions.closeAllOf(reset.user);
     await this.audit.record('password-reset', { userId: reset.user.id, email: reset.user.email, ip });

@@ -19,8 +19,7 @@ export class HealthService {
 
   private async databaseUp(): Promise<boolean> {
     try {
-      await this.orm.em.getConnection().execute('select 1');
-      return true;
+      return await this.orm.isConnected();
     } catch {
       return false;
     }

@@ -69,18 +69,11 @@ export class MailService implements OnApplicationBootstrap, BeforeApplicationShu
     this.busy = true;
     try {
       const em = this.orm.em.fork();
-      const conn = em.getConnection();
+      const queue = em.getRepository(MailJob);
       const token = randomUUID();
-      const claimed = await conn.execute(
-        `update mail_job set status = 'sending', claim_token = ?, claimed_until = now(3) + interval ? second, attempts = attempts + 1
-          where (status = 'queued' and next_attempt_at <= now(3)) or (status = 'sending' and claimed_until < now(3))
-          order by next_attempt_at limit ?`,
-        [token, CLAIM_SECONDS, BATCH],
-        'run',
-      );
-      if (!(claimed as { affectedRows?: number }).affectedRows) {
+      if (!(await queue.claim(token, CLAIM_SECONDS, BATCH))) {
         // Idle: now and then, sent messages older than a week are cleared out, so the table does not grow.
-        if (Math.random() < 0.01) await conn.execute("delete from mail_job where status = 'sent' and sent_at < now(3) - interval 7 day limit 500", [], 'run');
+        if (Math.random() < 0.01) await queue.clearOldSent();
         return 0;
       }
       const jobs = await em.find(MailJob, { claimToken: token });

@@ -37,14 +37,12 @@ export class CertificatesService {
 
   /** What the firm's packages carry: the query register only if the owner turned it on. */
   async packageSettings(auth: AuthContext): Promise<PackageSettingsDto> {
-    const [row] = await this.em
-      .getConnection()
-      .execute<{ package_query_register: number }[]>('select package_query_register from firm where id = ?', [auth.session.firm.id]);
-    return { queryRegister: !!row?.package_query_register };
+    // Read from its row: the request's firm was mapped from the session's read without this column.
+    return { queryRegister: (await this.em.findOneOrFail(Firm, auth.session.firm.id, { refresh: true })).packageQueryRegister };
   }
 
   async setPackageSettings(auth: AuthContext, dto: PackageSettingsDto): Promise<PackageSettingsDto> {
-    await this.em.getConnection().execute('update firm set package_query_register = ? where id = ?', [dto.queryRegister, auth.session.firm.id], 'run');
+    await this.em.nativeUpdate(Firm, { id: auth.session.firm.id }, { packageQueryRegister: dto.queryRegister });
     return this.packageSettings(auth);
   }
 

@@ -82,23 +82,10 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
     this.busy = true;
     try {
       return await RequestContext.create(this.orm.em, async () => {
-        const conn = this.em.getConnection();
-        await conn.execute(
-          `update package_job set status = 'failed', claim_token = null, locked_by = null, updated_at = now(3),
-                  error = concat('stopped after ', attempts, ' attempts: the instance making it stopped answering')
-            where status = 'running' and heartbeat_at < now(3) - interval ? second and attempts >= ? and (? is null or revision_id = ?)`,
-          [STALE_HEARTBEAT_MS / 1000, MAX_ATTEMPTS, revisionId ?? null, revisionId ?? null],
-          'run',
-        );
+        const jobs = this.em.getRepository(PackageJob);
+        await jobs.failAbandoned(STALE_HEARTBEAT_MS / 1000, MAX_ATTEMPTS, revisionId);
         const token = randomUUID();
-        const res = await conn.execute(
-          `update package_job set status = 'running', claim_token = ?, locked_by = ?, locked_at = now(3), heartbeat_at = now(3), attempts = attempts + 1, updated_at = now(3)
-            where (status = 'queued' or (status = 'running' and heartbeat_at < now(3) - interval ? second and attempts < ?)) and (? is null or revision_id = ?)
-            order by created_at limit 1`,
-          [token, this.instance, STALE_HEARTBEAT_MS / 1000, MAX_ATTEMPTS, revisionId ?? null, revisionId ?? null],
-          'run',
-        );
-        if (!(res as { affectedRows?: number }).affectedRows) return false;
+        if (!(await jobs.claim(token, this.instance, STALE_HEARTBEAT_MS / 1000, MAX_ATTEMPTS, revisionId))) return false;
         const job = await this.em.findOneOrFail(
           PackageJob,
           { claimToken: token },
@@ -117,11 +104,7 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
 
   /** Whether this run still holds its claim (and refreshes its heartbeat). */
   private async beat(jobId: string, token: string): Promise<boolean> {
-    const res = await this.orm.em
-      .fork()
-      .getConnection()
-      .execute("update package_job set heartbeat_at = now(3) where id = ? and claim_token = ? and status = 'running'", [jobId, token], 'run');
-    return (res as { affectedRows?: number }).affectedRows === 1;
+    return this.orm.em.fork().getRepository(PackageJob).beat(jobId, token);
   }
 
   /**

@@ -28,7 +28,7 @@ import { User } from '../users/entities/user.entity';
 import { CellQuery } from './entities/cell-query.entity';
 import { Revision } from './entities/revision.entity';
 import { queryView } from './queries.service';
-import {} from './review-access';
+import { Firm } from '../firms/entities/firm.entity';
 
 export const SNAPSHOT_FORMAT = 'ampwright.revision/1';
 
@@ -73,10 +73,7 @@ export class RevisionsService {
 
   /** The firm's choice, read from its row (the request's firm entity may be partly loaded). */
   private async firmShowsQueryRegister(em: EntityManager, firmId: string): Promise<boolean> {
-    const [row] = await em
-      .getConnection()
-      .execute<{ package_query_register: number }[]>('select package_query_register from firm where id = ?', [firmId], 'all', em.getTransactionContext());
-    return !!row?.package_query_register;
+    return (await em.findOneOrFail(Firm, firmId, { refresh: true })).packageQueryRegister;
   }
 
   /**

@@ -22,7 +22,7 @@ import { mailTemplates } from '../mail/mail-templates';
 import type { NoteDto, RequestCheckDto } from './dto/review.dto';
 import { Revision } from './entities/revision.entity';
 import { PackageJob } from '../packages/entities/package-job.entity';
-import { notIndependent } from '../sheets/sheet-authors';
+import { SheetAuthor } from '../sheets/entities/sheet-author.entity';
 import { factsOf, requireMove } from './review-access';
 import { RevisionsService } from './revisions.service';
 
@@ -86,7 +86,10 @@ export class WorkflowService {
 
   async requestCheck(auth: AuthContext, id: string, dto: RequestCheckDto) {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
-      requireMove('request-check', auth, factsOf(s, await notIndependent(em, s)), { checkerId: dto.checkerId, approverId: dto.approverId });
+      requireMove('request-check', auth, factsOf(s, await em.getRepository(SheetAuthor).notIndependent(s)), {
+        checkerId: dto.checkerId,
+        approverId: dto.approverId,
+      });
       s.checker = await this.member(auth, dto.checkerId, 'checker', 'checker');
       if (dto.approverId) s.approver = await this.member(auth, dto.approverId, 'approver', 'approver');
       s.state = 'with-checker';
@@ -106,7 +109,7 @@ export class WorkflowService {
 
   async returnToPreparer(auth: AuthContext, id: string, dto: NoteDto) {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
-      requireMove('return', auth, factsOf(s, await notIndependent(em, s)));
+      requireMove('return', auth, factsOf(s, await em.getRepository(SheetAuthor).notIndependent(s)));
       s.state = 'being-prepared';
     });
     await this.record(auth, 'sheet-returned', sheet, { note: dto.note ?? null });
@@ -123,7 +126,7 @@ export class WorkflowService {
   async passCheck(auth: AuthContext, id: string) {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
       const open = await em.getRepository(Sheet).openQueriesOf(s.id);
-      requireMove('pass', auth, factsOf(s, await notIndependent(em, s), open));
+      requireMove('pass', auth, factsOf(s, await em.getRepository(SheetAuthor).notIndependent(s), open));
       s.state = 'checked';
       s.checkedAt = new Date();
     });
@@ -140,7 +143,7 @@ export class WorkflowService {
 
   async approve(auth: AuthContext, id: string) {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
-      requireMove('approve', auth, factsOf(s, await notIndependent(em, s)));
+      requireMove('approve', auth, factsOf(s, await em.getRepository(SheetAuthor).notIndependent(s)));
       s.approver = this.em.getReference(User, auth.session.user.id);
       s.state = 'approved';
       s.approvedAt = new Date();
@@ -163,7 +166,7 @@ export class WorkflowService {
    */
   async returnToChecker(auth: AuthContext, id: string, dto: NoteDto) {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
-      requireMove('return-to-checker', auth, factsOf(s, await notIndependent(em, s)));
+      requireMove('return-to-checker', auth, factsOf(s, await em.getRepository(SheetAuthor).notIndependent(s)));
       s.state = 'with-checker';
       s.checkedAt = undefined;
       s.approvedAt = undefined;
@@ -188,10 +191,10 @@ export class WorkflowService {
   async issue(auth: AuthContext, id: string) {
     // Refused before the evaluation when the rulebook says no now; checked again under the lock.
     const current = await this.sheets.findReadable(auth, id);
-    requireMove('issue', auth, factsOf(current, await notIndependent(this.em, current)));
+    requireMove('issue', auth, factsOf(current, await this.em.getRepository(SheetAuthor).notIndependent(current)));
     const fresh = await this.revisions.evaluateForIssue(auth, id);
     const { sheet, out: revision } = await this.locked(auth, id, async (s, em) => {
-      requireMove('issue', auth, factsOf(s, await notIndependent(em, s)));
+      requireMove('issue', auth, factsOf(s, await em.getRepository(SheetAuthor).notIndependent(s)));
       const revision = await this.revisions.freeze(em, s, fresh);
       // The signed package is made by a worker, off this request (see PackagesService).
       em.persist(new PackageJob(revision));

@@ -23,7 +23,7 @@ import { SheetEvaluator } from '../evaluation/sheet-evaluator';
 import { addTiming, timed } from '../core/timing/server-timing';
 import { SheetRepository, type CellRecord, type SheetHeadingRow } from './sheet.repository';
 import { Membership } from '../firms/entities/membership.entity';
-import { authorsOf, nameCoPreparers, recordEdit } from './sheet-authors';
+import { SheetAuthor } from './entities/sheet-author.entity';
 import { ProjectsService } from '../projects/projects.service';
 import { TemplatesService } from '../templates/templates.service';
 import type { AddCellDto, CoPreparersDto, CreateSheetDto, ImportCsvDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
@@ -126,7 +126,7 @@ export class SheetsService {
     const facts = { state: sheet.state, preparer: sheet.preparer, checker: sheet.checker, approver: sheet.approver, coPreparerIds: [] as string[] };
     let refusal = editRefusal(facts, actor);
     if (refusal?.code === WorkflowCode.NotPreparer) {
-      facts.coPreparerIds = (await authorsOf(this.em, sheet.id, sheet.revisionNumber)).filter((a) => a.named).map((a) => a.userId);
+      facts.coPreparerIds = (await this.em.getRepository(SheetAuthor).authorsOf(sheet.id, sheet.revisionNumber)).filter((a) => a.named).map((a) => a.userId);
       refusal = editRefusal(facts, actor);
     }
     enforce(refusal);
@@ -151,7 +151,7 @@ export class SheetsService {
           details: [{ field: 'userIds', message: 'the checker or approver cannot prepare the sheet' }],
         });
     }
-    await this.em.transactional((em) => nameCoPreparers(em, sheet.id, sheet.revisionNumber, ids));
+    await this.em.transactional((em) => em.getRepository(SheetAuthor).nameCoPreparers(sheet.id, sheet.revisionNumber, ids));
     await this.audit.record('co-preparers-named', {
       firmId: auth.session.firm.id,
       userId: auth.session.user.id,
@@ -297,7 +297,7 @@ export class SheetsService {
         // What was read before is what the version raised from, unless that read saw an older version
         // (then it is read again, under the row lock now held).
         const sheet = found.version === version ? found : (await this.repository.heading(auth.session.firm.id, found.id))!;
-        if (actor.id !== sheet.preparer.id) await recordEdit(em, sheet.id, sheet.revisionNumber, actor.id);
+        if (actor.id !== sheet.preparer.id) await em.getRepository(SheetAuthor).recordEdit(sheet.id, sheet.revisionNumber, actor.id);
         const cells = await this.repository.cellRecords(sheet.id);
         const placed = new Map(cells.map((c) => [c.id, c.position]));
         const heading: Heading = { title: sheet.title, settings: sheet.settings };

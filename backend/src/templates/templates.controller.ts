@@ -12,7 +12,10 @@ export class SaveTemplateDto {
   @IsUUID('4', { message: 'sheetId must be the id of a sheet' })
   sheetId: string;
 
-  @IsOptional() @Transform(({ value }) => (typeof value === 'string' ? value.trim() : value)) @IsString() @Length(1, 200, { message: 'title must be 1 to 200 characters' })
+  @IsOptional()
+  @Transform(({ value }) => (typeof value === 'string' ? value.trim() : value))
+  @IsString()
+  @Length(1, 200, { message: 'title must be 1 to 200 characters' })
   title?: string;
 }
 

@@ -27,7 +27,9 @@ export class TemplatesService {
     config: ConfigService<Environment, true>,
   ) {
     const dir = config.get('TEMPLATES_DIR', { infer: true }) ?? resolve(__dirname, '..', '..', '..', 'templates');
-    for (const file of readdirSync(dir).filter((f) => f.endsWith('.json')).sort()) {
+    for (const file of readdirSync(dir)
+      .filter((f) => f.endsWith('.json'))
+      .sort()) {
       const parsed = parseSheetJson(readFileSync(join(dir, file), 'utf8'));
       if (!parsed.ok) throw new Error(`template ${file} is not a valid sheet file: ${parsed.problems.map((p) => `${p.path}: ${p.message}`).join('; ')}`);
       this.builtIn.set(file.replace(/\.json$/, ''), parsed.sheet);

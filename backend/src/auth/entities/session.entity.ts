@@ -1,13 +1,16 @@
-import { Entity, ManyToOne, Opt, PrimaryKey, Property } from '@mikro-orm/core';
+import { Entity, EntityRepositoryType, ManyToOne, Opt, PrimaryKey, Property } from '@mikro-orm/core';
 import { Firm } from '../../firms/entities/firm.entity';
 import { User } from '../../users/entities/user.entity';
+import { SessionRepository } from '../session.repository';
 
 /**
  * A signed-in session, kept in MariaDB so any app server can serve it. The cookie holds a random
  * token; only its SHA-256 is stored, so a database read does not yield a usable cookie.
  */
-@Entity({ tableName: 'session' })
+@Entity({ tableName: 'session', repository: () => SessionRepository })
 export class Session {
+  [EntityRepositoryType]?: SessionRepository;
+
   @PrimaryKey({ length: 64 })
   tokenHash: string;
 

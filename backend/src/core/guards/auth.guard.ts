@@ -22,24 +22,6 @@ export interface AuthContext {
   roles: Role[];
 }
 
-interface SessionRow {
-  token_hash: string;
-  user_id: string;
-  firm_id: string;
-  csrf_token: string;
-  created_at: Date;
-  expires_at: Date;
-  u_email: string;
-  u_name: string;
-  u_password_hash: string;
-  u_created_at: Date;
-  f_name: string;
-  f_created_at: Date;
-  m_id: string;
-  m_roles: unknown;
-  m_created_at: Date;
-}
-
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 export const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
 
@@ -100,26 +82,13 @@ export class AuthGuard implements CanActivate {
   private async attach(req: Request & { auth?: AuthContext }): Promise<AuthContext | undefined> {
     const token = (req.cookies as Record<string, string> | undefined)?.[SESSION_COOKIE];
     if (!token || token.length > 200) return undefined;
-    const [row] = await this.em.execute<SessionRow[]>(
-      `select s.token_hash, s.user_id, s.firm_id, s.csrf_token, s.created_at, s.expires_at,
-              u.email as u_email, u.name as u_name, u.password_hash as u_password_hash, u.created_at as u_created_at,
-              f.name as f_name, f.created_at as f_created_at, m.id as m_id, m.roles as m_roles, m.created_at as m_created_at
-         from session s
-         join app_user u on u.id = s.user_id
-         join firm f on f.id = s.firm_id
-         join membership m on m.firm_id = s.firm_id and m.user_id = s.user_id
-        where s.token_hash = ?`,
-      [hashToken(token)],
-    );
+    const sessions = this.em.getRepository(Session);
+    const row = await sessions.live(hashToken(token));
     if (!row || new Date(row.expires_at).getTime() < Date.now()) return undefined;
     // Sliding sessions: each use moves the end to SESSION_IDLE_MINUTES from now, never past SESSION_HOURS
     // from sign-in. Written at most once a minute a session, not at every request.
     if (new Date(row.expires_at).getTime() - Date.now() < this.idleMinutes * 60_000 - 60_000) {
-      await this.em.execute(
-        'update session set expires_at = least(created_at + interval ? hour, now(3) + interval ? minute) where token_hash = ?',
-        [this.hours, this.idleMinutes, row.token_hash],
-        'run',
-      );
+      await sessions.slide(row.token_hash, this.hours, this.idleMinutes);
     }
     this.em.map(User, { id: row.user_id, email: row.u_email, name: row.u_name, password_hash: row.u_password_hash, created_at: row.u_created_at });
     this.em.map(Firm, { id: row.firm_id, name: row.f_name, created_at: row.f_created_at });

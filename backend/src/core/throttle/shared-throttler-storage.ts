@@ -1,6 +1,7 @@
 import type { MikroORM } from '@mikro-orm/core';
-import type { EntityManager } from '@mikro-orm/mariadb';
 import { ThrottlerStorageService, type ThrottlerStorage } from '@nestjs/throttler';
+import { ThrottleCounter } from './throttle-counter.entity';
+import type { ThrottleCounterRepository } from './throttle-counter.repository';
 import { OFF } from './throttlers';
 
 /**
@@ -17,39 +18,18 @@ export class SharedThrottlerStorage implements ThrottlerStorage {
 
   async increment(key: string, ttl: number, limit: number, blockDuration: number, throttlerName: string): ReturnType<ThrottlerStorage['increment']> {
     if (throttlerName === 'default' || limit >= OFF) return this.local.increment(key, ttl, limit, blockDuration, throttlerName);
-    const em = this.orm.em.fork() as EntityManager;
+    const counters = this.counters();
     const id = `${throttlerName}:${key}`;
-    // One statement counts the attempt, starting a new window when the last one has ended; MariaDB
-    // applies the assignments left to right, so `expires_at` is tested before it is moved on.
-    await em.execute(
-      `insert into throttle_counter (tracker_key, hits, expires_at, blocked_until) values (?, 1, now(3) + interval ? microsecond, null)
-       on duplicate key update
-         hits = if(expires_at <= now(3), 1, hits + 1),
-         blocked_until = if(blocked_until > now(3), blocked_until, null),
-         expires_at = if(expires_at <= now(3), now(3) + interval ? microsecond, expires_at)`,
-      [id, ttl * 1000, ttl * 1000],
-      'run',
-    );
-    const [row] = await em.execute<{ hits: number; expires_in: number | string; blocked_in: number | string | null }[]>(
-      `select hits, timestampdiff(microsecond, now(3), expires_at) as expires_in, timestampdiff(microsecond, now(3), blocked_until) as blocked_in
-         from throttle_counter where tracker_key = ?`,
-      [id],
-    );
-    let blockedIn = row.blocked_in === null ? 0 : Number(row.blocked_in);
+    const row = await counters.hit(id, ttl);
+    let blockedIn = row.blockedInUs;
     if (blockedIn <= 0 && row.hits > limit) {
-      await em.execute('update throttle_counter set blocked_until = now(3) + interval ? microsecond where tracker_key = ?', [blockDuration * 1000, id], 'run');
+      await counters.block(id, blockDuration);
       blockedIn = blockDuration * 1000;
     }
-    if (Math.random() < 0.01) {
-      await em.execute(
-        'delete from throttle_counter where expires_at < now(3) - interval 1 hour and (blocked_until is null or blocked_until < now(3)) limit 500',
-        [],
-        'run',
-      );
-    }
+    if (Math.random() < 0.01) await counters.clearOld();
     return {
       totalHits: row.hits,
-      timeToExpire: Math.max(0, Math.ceil(Number(row.expires_in) / 1e6)),
+      timeToExpire: Math.max(0, Math.ceil(row.expiresInUs / 1e6)),
       isBlocked: blockedIn > 0,
       timeToBlockExpire: Math.max(0, Math.ceil(blockedIn / 1e6)),
     };
@@ -57,16 +37,17 @@ export class SharedThrottlerStorage implements ThrottlerStorage {
 
   /** The longest wait, in whole seconds, that any of these counters is blocked for (0: none is). */
   async blockedFor(ids: string[]): Promise<number> {
-    const em = this.orm.em.fork() as EntityManager;
-    const [row] = await em.execute<{ wait: number | string | null }[]>(
-      `select max(timestampdiff(microsecond, now(3), blocked_until)) as wait from throttle_counter where tracker_key in (${ids.map(() => '?').join(', ')}) and blocked_until > now(3)`,
-      ids,
-    );
-    return row?.wait === null || row?.wait === undefined ? 0 : Math.max(1, Math.ceil(Number(row.wait) / 1e6));
+    const wait = await this.counters().longestBlock(ids);
+    return wait === null ? 0 : Math.max(1, Math.ceil(wait / 1e6));
   }
 
   /** Forgets a counter (a good sign-in clears its account's failures). */
   async forget(id: string): Promise<void> {
-    await (this.orm.em.fork() as EntityManager).execute('delete from throttle_counter where tracker_key = ?', [id], 'run');
+    await this.counters().forget(id);
+  }
+
+  /** The counters' repository, on a fresh entity manager (a throttler runs outside any request's unit of work). */
+  private counters(): ThrottleCounterRepository {
+    return this.orm.em.fork().getRepository(ThrottleCounter);
   }
 }

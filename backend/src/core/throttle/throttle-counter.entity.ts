@@ -1,11 +1,14 @@
-import { Entity, PrimaryKey, Property } from '@mikro-orm/core';
+import { Entity, EntityRepositoryType, PrimaryKey, Property } from '@mikro-orm/core';
+import { ThrottleCounterRepository } from './throttle-counter.repository';
 
 /**
  * A shared throttle counter (sign-in, reset, invitation and verification attempts), kept in MariaDB so
- * that every app instance counts the same attempts. Written with SQL by SharedThrottlerStorage.
+ * that every app instance counts the same attempts. Its SQL is ThrottleCounterRepository's.
  */
-@Entity({ tableName: 'throttle_counter' })
+@Entity({ tableName: 'throttle_counter', repository: () => ThrottleCounterRepository })
 export class ThrottleCounter {
+  [EntityRepositoryType]?: ThrottleCounterRepository;
+
   /** The throttler's key for a client address or account (a SHA-256 in hex). */
   @PrimaryKey({ length: 100 })
   trackerKey: string;

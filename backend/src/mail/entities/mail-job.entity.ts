@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto';
-import { Entity, Index, Opt, PrimaryKey, Property } from '@mikro-orm/core';
+import { Entity, EntityRepositoryType, Index, Opt, PrimaryKey, Property } from '@mikro-orm/core';
+import { MailJobRepository } from '../mail-job.repository';
 
 export type MailJobStatus = 'queued' | 'sending' | 'sent' | 'failed';
 
@@ -7,9 +8,11 @@ export type MailJobStatus = 'queued' | 'sending' | 'sent' | 'failed';
  * One e-mail waiting to leave, kept in MariaDB: an action only queues it, and a worker in any app
  * instance sends it, trying again with back-off while the mail server is down.
  */
-@Entity({ tableName: 'mail_job' })
+@Entity({ tableName: 'mail_job', repository: () => MailJobRepository })
 @Index({ properties: ['status', 'nextAttemptAt'] })
 export class MailJob {
+  [EntityRepositoryType]?: MailJobRepository;
+
   @PrimaryKey({ type: 'uuid' })
   id: string & Opt = randomUUID();
 

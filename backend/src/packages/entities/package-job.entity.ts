@@ -1,13 +1,16 @@
 import { randomUUID } from 'node:crypto';
-import { Entity, Index, ManyToOne, Opt, PrimaryKey, Property } from '@mikro-orm/core';
+import { Entity, EntityRepositoryType, Index, ManyToOne, Opt, PrimaryKey, Property } from '@mikro-orm/core';
 import { Revision } from '../../review/entities/revision.entity';
+import { PackageJobRepository } from '../package-job.repository';
 
 export type PackageJobStatus = 'queued' | 'running' | 'done' | 'failed';
 
 /** Making a revision's signed package, off the request path: kept in MariaDB so any app instance can run it. */
-@Entity({ tableName: 'package_job' })
+@Entity({ tableName: 'package_job', repository: () => PackageJobRepository })
 @Index({ properties: ['status', 'createdAt'] })
 export class PackageJob {
+  [EntityRepositoryType]?: PackageJobRepository;
+
   @PrimaryKey({ type: 'uuid' })
   id: string & Opt = randomUUID();
 

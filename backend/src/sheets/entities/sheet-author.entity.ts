@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
-import { Entity, ManyToOne, Opt, PrimaryKey, Property, Unique } from '@mikro-orm/core';
+import { Entity, EntityRepositoryType, ManyToOne, Opt, PrimaryKey, Property, Unique } from '@mikro-orm/core';
 import { User } from '../../users/entities/user.entity';
+import { SheetAuthorRepository } from '../sheet-author.repository';
 import { Sheet } from './sheet.entity';
 
 /**
@@ -8,9 +9,11 @@ import { Sheet } from './sheet.entity';
  * named (`named`), or anyone whose save was stored (`edited`). Neither may check or approve that
  * revision; a co-preparer taken off the list stays here if they edited.
  */
-@Entity({ tableName: 'sheet_author' })
+@Entity({ tableName: 'sheet_author', repository: () => SheetAuthorRepository })
 @Unique({ properties: ['sheet', 'revisionNumber', 'user'] })
 export class SheetAuthor {
+  [EntityRepositoryType]?: SheetAuthorRepository;
+
   @PrimaryKey({ type: 'uuid' })
   id: string & Opt = randomUUID();
 
