@@ -2,7 +2,10 @@
 import { Alert, Button, FormControlLabel, Paper, Stack, Switch, TextField, Typography } from '@mui/material';
 import { useRef, useState } from 'react';
 import { monoFont } from '../../../app/theme';
-import { useCertificate, usePackageSettings, useSetPackageSettings, useUploadCertificate } from '../api/packages';
+import { useCertificate } from '../api/get-certificate';
+import { usePackageSettings } from '../api/get-package-settings';
+import { useSetPackageSettings } from '../api/set-package-settings';
+import { useUploadCertificate } from '../api/upload-certificate';
 
 /** Whether the firm's packages carry its internal query register: off unless the owner turns it on. */
 function QueryRegisterSetting() {

@@ -1,5 +1,6 @@
 import { Alert, Box, Button, LinearProgress, Typography } from '@mui/material';
-import { usePackageStatus, useRetryPackage } from '../api/packages';
+import { usePackageStatus } from '../api/get-package-status';
+import { useRetryPackage } from '../api/retry-package';
 
 /** The signed package of a revision: its making in progress, a download when ready, a retry if it failed. */
 export function PackageLink({ revisionId, canRetry = false }: { revisionId: string; canRetry?: boolean }) {

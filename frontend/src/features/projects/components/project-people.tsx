@@ -3,7 +3,8 @@ import { Alert, Autocomplete, Button, Chip, Paper, Stack, TextField, Typography 
 import { useState } from 'react';
 import { ROLE_LABELS, useMembers } from '../../members';
 import type { Role } from '../../auth';
-import { useProjectPeople, useSetProjectMembers } from '../api/projects';
+import { useProjectPeople } from '../api/get-project-people';
+import { useSetProjectMembers } from '../api/set-project-members';
 
 export function ProjectPeople({ projectId, canEdit }: { projectId: string; canEdit: boolean }) {
   const people = useProjectPeople(projectId);

@@ -3,7 +3,10 @@ import { Alert, Box, Button, Chip, Stack, TextField, Typography } from '@mui/mat
 import { useState } from 'react';
 import type { CellDto, QueryDto } from '@ampwright/common';
 import { palette } from '../../../app/theme';
-import { useAgreement, useCloseQuery, useRaiseQuery, useReply } from '../api/review';
+import { useAgreement } from '../api/set-agreement';
+import { useCloseQuery } from '../api/close-query';
+import { useRaiseQuery } from '../api/raise-query';
+import { useReply } from '../api/reply-to-query';
 
 export interface ReviewContext {
   sheetId: string;

@@ -7,7 +7,9 @@ import { allowedMoves, factsOfSheet, isEditable, refusalOf, WorkflowCode } from 
 import { actorOf, type Me } from '../../auth';
 import { useMembers } from '../../members';
 import { STATE_LABELS } from '../../sheets';
-import { useCoPreparers, useRequestCheck, useSheetAction, type SheetAction } from '../api/review';
+import { useSheetAction, type SheetAction } from '../api/sheet-action';
+import { useRequestCheck } from '../api/request-check';
+import { useCoPreparers } from '../api/set-co-preparers';
 
 function RequestCheck({ sheet, onDone }: { sheet: SheetDto; onDone: () => void }) {
   const members = useMembers();

@@ -2,7 +2,9 @@
 import { Alert, Box, Button, LinearProgress, Link, Paper, Stack, Table, TableBody, TableCell, TableHead, TableRow, Typography } from '@mui/material';
 import { useRef, useState } from 'react';
 import { monoFont } from '../../../app/theme';
-import { useAttachments, useDeleteAttachment, useUploadAttachment } from '../api/attachments';
+import { useAttachments } from '../api/get-attachments';
+import { useDeleteAttachment } from '../api/delete-attachment';
+import { useUploadAttachment } from '../api/upload-attachment';
 
 const MAX_BYTES = 25 * 1024 * 1024;
 

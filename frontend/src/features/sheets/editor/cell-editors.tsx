@@ -2,7 +2,7 @@
 import { Box, Button, IconButton, MenuItem, Stack, TextField, Tooltip } from '@mui/material';
 import type { CellKind, Diagnostic } from '@ampwright/common';
 import { monoFont } from '../../../app/theme';
-import type { CellBody } from '../api/sheet-editing';
+import type { CellBody } from '../api/change-sheet';
 import { CodeEditor, type EditorKeys } from './code-editor';
 
 export interface KindEditorProps extends EditorKeys {

@@ -6,7 +6,7 @@
 import { Alert, Box, Button, Snackbar, Stack, Typography } from '@mui/material';
 import { useCallback, useLayoutEffect, useMemo, useRef, useState } from 'react';
 import type { CellDto, QueryDto, SheetDto } from '@ampwright/common';
-import { cellBody, useCellChange } from '../api/sheet-editing';
+import { cellBody, useCellChange } from '../api/change-sheet';
 import { AddCellMenu, CellFrame, type CellActions, type ReviewSlot } from './cell-frame';
 import { newCellFields } from '@ampwright/common/cells/kinds';
 

@@ -7,7 +7,7 @@ import { useCallback, useEffect, useRef, useState } from 'react';
 import { useBeforeUnload } from 'react-router-dom';
 import type { CellDto } from '@ampwright/common';
 import { cellSchema } from '@ampwright/common/sheet/sheet-format';
-import { cellBody, EditConflict, sameCell, useCellChange, type CellBody } from '../api/sheet-editing';
+import { cellBody, EditConflict, sameCell, useCellChange, type CellBody } from '../api/change-sheet';
 
 export const SAVE_DELAY_MS = 250;
 

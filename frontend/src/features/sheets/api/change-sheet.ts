@@ -12,7 +12,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { CellDto, SaveResultDto, SheetContentsDto, SheetDto } from '@ampwright/common';
 import { api, ApiError } from '../../../lib/api-client';
-import { sheetKeys } from './sheets';
+import { sheetKeys } from './sheet-keys';
 import { SheetErrorCode } from '@ampwright/common/api/error-codes';
 
 export type CellBody = Record<string, unknown> & { kind: string };

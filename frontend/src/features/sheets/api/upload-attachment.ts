@@ -1,15 +1,7 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { AttachmentDto } from '@ampwright/common';
-import { api, ApiError, CSRF_HEADER, csrfHeaderValue } from '../../../lib/api-client';
-
-export type Attachment = AttachmentDto;
-
-export const attachmentKeys = { ofSheet: (sheetId: string) => ['sheets', sheetId, 'attachments'] as const };
-
-export const useAttachments = (sheetId: string) =>
-  useQuery(
-    queryOptions({ queryKey: attachmentKeys.ofSheet(sheetId), queryFn: ({ signal }) => api.get<Attachment[]>(`/sheets/${sheetId}/attachments`, { signal }) }),
-  );
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { ApiError, CSRF_HEADER, csrfHeaderValue } from '../../../lib/api-client';
+import type { Attachment } from './get-attachments';
+import { sheetKeys } from './sheet-keys';
 
 /**
  * An upload with its progress: fetch cannot report upload progress, so this one request goes
@@ -39,18 +31,11 @@ export function uploadWithProgress(path: string, file: File, onProgress: (fracti
   });
 }
 
+/** POST /api/sheets/:id/attachments, with its progress. */
 export function useUploadAttachment(sheetId: string, onProgress: (fraction: number) => void) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (file: File) => uploadWithProgress(`/sheets/${sheetId}/attachments`, file, onProgress),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: attachmentKeys.ofSheet(sheetId) }),
-  });
-}
-
-export function useDeleteAttachment(sheetId: string) {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (id: string) => api.delete<void>(`/attachments/${id}`),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: attachmentKeys.ofSheet(sheetId) }),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: sheetKeys.attachments(sheetId) }),
   });
 }

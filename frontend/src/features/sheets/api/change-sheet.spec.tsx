@@ -3,8 +3,8 @@ import { act, renderHook, waitFor } from '@testing-library/react';
 import type { CellDto, CellResult, SheetContentsDto, SheetDto } from '@ampwright/common';
 import type { ReactNode } from 'react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { sheetKeys } from './sheets';
-import { EditConflict, mergeContents, mergeSave, sameCell, useCellChange } from './sheet-editing';
+import { sheetKeys } from './sheet-keys';
+import { EditConflict, mergeContents, mergeSave, sameCell, useCellChange } from './change-sheet';
 
 const cell = (id: string, position: number, source: string, changedBy = 'A'): CellDto => ({
   id,
