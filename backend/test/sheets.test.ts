@@ -73,6 +73,19 @@ describe('projects and sheets', () => {
     expect(evaluated.body.cells[2].values.Z.si).toBeCloseTo(calc.results.values.Z.si, 12);
   });
 
+  it("reads a sheet as JSON with each cell's stored results passed through: the same sheet as the answer that made it", async () => {
+    const made = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)
+      .send({ number: 'R-101', templateId: 'bank-inrush-transient' })
+      .expect(201);
+    const read = await as(app, checker, 'get', `/api/sheets/${made.body.id}`).expect(200);
+    expect(read.headers['content-type']).toMatch(/^application\/json/);
+    expect(read.body).toEqual(made.body);
+    // The transient's series arrive as the numbers stored, to the last digit.
+    const transient = read.body.cells.find((c: { kind: string }) => c.kind === 'transient');
+    expect(transient.results.current.values.length).toBeGreaterThan(100);
+    expect(JSON.stringify(transient.results)).toBe(JSON.stringify(made.body.cells.find((c: { kind: string }) => c.kind === 'transient').results));
+  });
+
   it('saves a sheet as a firm template, offers it beside the built-in ones, and starts new sheets from it', async () => {
     const from = (
       await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)

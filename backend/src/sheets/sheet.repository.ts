@@ -47,6 +47,8 @@ export interface SheetHeadingRow {
   preparer: { id: string; name: string };
   checker: { id: string; name: string } | null;
   approver: { id: string; name: string } | null;
+  /** With `heading(…, { cells: true })`: the cells of the version read, in order. */
+  cells?: CellRecord[];
 }
 
 /** Which results a save stores: the cells it re-evaluated (and those it touched), or all of them. */
@@ -63,6 +65,8 @@ export interface ResultsToStore {
   engineVersion: string | null;
 }
 
+const NULL_JSON = Buffer.from('null');
+const CLOSE_OBJECT = Buffer.from('}');
 const parsedJson = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);
 
 // A stored cell was validated against its kind's schema when it was written, so its row is the typed cell.
@@ -119,9 +123,10 @@ export interface CellWrites {
 /** The people of a sheet, selected by SHEET_OF_FIRM's joins. */
 const PEOPLE_COLUMNS = 's.preparer_id, pu.name as preparer_name, s.checker_id, cu.name as checker_name, s.approver_id, au.name as approver_name';
 /** A sheet of a firm (bound: sheet id, firm id) with its preparer, checker and approver. */
-const SHEET_OF_FIRM = `from sheet s join project p on p.id = s.project_id join app_user pu on pu.id = s.preparer_id
-  left join app_user cu on cu.id = s.checker_id left join app_user au on au.id = s.approver_id
-  where s.id = ? and p.firm_id = ?`;
+const SHEET_JOINS = `from sheet s join project p on p.id = s.project_id join app_user pu on pu.id = s.preparer_id
+  left join app_user cu on cu.id = s.checker_id left join app_user au on au.id = s.approver_id`;
+const OF_FIRM = 'where s.id = ? and p.firm_id = ?';
+const SHEET_OF_FIRM = `${SHEET_JOINS} ${OF_FIRM}`;
 
 interface PeopleRow {
   preparer_id: string;
@@ -149,6 +154,27 @@ const OPEN_QUERY = "q.sheet_id = s.id and q.revision_number = s.revision_number 
 const CELLS_OF_SHEET = `from cell c left join app_user cu on cu.id = c.changed_by_id left join app_user au on au.id = c.agreed_by_id
   where c.sheet_id = ? order by c.position`;
 
+/** The columns of a cell as a save changes it (aliases: c for cell, ccu and cau for who changed and agreed it). */
+const CELL_RECORD_COLUMNS =
+  'c.position, c.kind, c.fields, c.changed_at, c.changed_after_agreement, c.changed_by_id, ccu.name as changed_by, c.agreed_by_id, cau.name as agreed_by, c.agreed_at';
+
+type CellRecordRow = CellRow & { cell_id?: string; changed_by_id: string | null; agreed_by_id: string | null; agreed_at: Date | string | null };
+
+const cellRecord = (r: CellRecordRow): CellRecord => ({
+  id: r.id,
+  position: r.position,
+  kind: r.kind,
+  fields: parsedJson(r.fields) as Record<string, unknown>,
+  changedById: r.changed_by_id,
+  changedBy: r.changed_by,
+  changedAt: new Date(r.changed_at),
+  agreedById: r.agreed_by_id,
+  agreedBy: r.agreed_by,
+  agreedAt: r.agreed_at ? new Date(r.agreed_at) : null,
+  changedAfterAgreement: !!r.changed_after_agreement,
+});
+
+const affected = (res: unknown) => (res as { affectedRows?: number }).affectedRows ?? 0;
 const placeholders = (n: number) => Array.from({ length: n }, () => '?').join(', ');
 
 export class SheetRepository extends EntityRepository<Sheet> {
@@ -157,11 +183,21 @@ export class SheetRepository extends EntityRepository<Sheet> {
     return this.findOne({ id, project: { firm: firmId } }, { populate: ['project', 'preparer', 'checker', 'approver'] });
   }
 
-  /** A sheet of a firm as a save needs it, in one query without entities (another firm's sheet is null). */
-  async heading(firmId: string, id: string): Promise<SheetHeadingRow | null> {
-    const [s] = await this.em.execute<
-      (PeopleRow & { id: string; state: SheetState; version: number; revision_number: number; title: string; settings: unknown; extra: unknown })[]
-    >(`select s.id, s.state, s.version, s.revision_number, s.title, s.settings, s.extra, ${PEOPLE_COLUMNS} ${SHEET_OF_FIRM}`, [id, firmId]);
+  /**
+   * A sheet of a firm as a save needs it, without entities (another firm's sheet is null); with `cells`, its
+   * cells as a save changes them too, read in the same statement — so they are the cells of the version read.
+   */
+  async heading(firmId: string, id: string, options: { cells?: boolean } = {}): Promise<SheetHeadingRow | null> {
+    type Row = PeopleRow & { id: string; state: SheetState; version: number; revision_number: number; title: string; settings: unknown; extra: unknown };
+    const rows = await this.em.execute<(Row & Partial<CellRecordRow>)[]>(
+      options.cells
+        ? `select s.id, s.state, s.version, s.revision_number, s.title, s.settings, s.extra, ${PEOPLE_COLUMNS}, c.id as cell_id, ${CELL_RECORD_COLUMNS}
+             ${SHEET_JOINS} left join cell c on c.sheet_id = s.id left join app_user ccu on ccu.id = c.changed_by_id left join app_user cau on cau.id = c.agreed_by_id
+             ${OF_FIRM} order by c.position`
+        : `select s.id, s.state, s.version, s.revision_number, s.title, s.settings, s.extra, ${PEOPLE_COLUMNS} ${SHEET_OF_FIRM}`,
+      [id, firmId],
+    );
+    const [s] = rows;
     if (!s) return null;
     return {
       id: s.id,
@@ -172,6 +208,7 @@ export class SheetRepository extends EntityRepository<Sheet> {
       settings: parsedJson(s.settings) as Record<string, unknown>,
       extra: parsedJson(s.extra) as Record<string, unknown>,
       ...peopleOf(s),
+      ...(options.cells ? { cells: rows.filter((r) => r.cell_id).map((r) => cellRecord({ ...(r as CellRecordRow), id: r.cell_id! })) } : {}),
     };
   }
 
@@ -180,6 +217,33 @@ export class SheetRepository extends EntityRepository<Sheet> {
    * count, then its cells. Reading a sheet is the hot path.
    */
   async view(firmId: string, id: string): Promise<SheetDto | null> {
+    const heading = await this.viewHeading(firmId, id);
+    return heading && { ...heading, cells: await this.cellViews(heading.id) };
+  }
+
+  /**
+   * The same view as JSON bytes, for the read that is the hot path: each cell's results are passed through
+   * as MariaDB holds them (the text JSON.stringify wrote), never parsed and written again.
+   */
+  async viewJson(firmId: string, id: string): Promise<Buffer | null> {
+    const heading = await this.viewHeading(firmId, id);
+    if (!heading) return null;
+    const rows = await this.em.execute<(CellRow & { results_json: Buffer | null })[]>(
+      `select c.id, c.position, c.kind, c.fields, cast(c.results as binary) as results_json, c.changed_at, c.changed_after_agreement,
+              cu.name as changed_by, au.name as agreed_by ${CELLS_OF_SHEET}`,
+      [heading.id],
+    );
+    const parts: Buffer[] = [Buffer.from(`${JSON.stringify({ ...heading, cells: null }).slice(0, -'null}'.length)}[`)];
+    rows.forEach((r, k) => {
+      const { results: _none, ...cell } = rowView(r);
+      parts.push(Buffer.from(`${k ? ',' : ''}${JSON.stringify(cell).slice(0, -1)},"results":`), r.results_json ?? NULL_JSON, CLOSE_OBJECT);
+    });
+    parts.push(Buffer.from(']}'));
+    return Buffer.concat(parts);
+  }
+
+  /** A sheet of a firm as the API shows it, without its cells: the sheet with its people, open-query count and authors. */
+  private async viewHeading(firmId: string, id: string): Promise<Omit<SheetDto, 'cells'> | null> {
     const [s] = await this.em.execute<SheetRow[]>(
       `select s.id, s.project_id, s.number, s.title, s.settings, s.state, s.version, s.engine_version, s.revision_number, ${PEOPLE_COLUMNS},
               (select count(*) from cell_query q where ${OPEN_QUERY}) as open_queries,
@@ -203,7 +267,6 @@ export class SheetRepository extends EntityRepository<Sheet> {
       revisionCode: revisionCode(s.revision_number),
       openQueries: Number(s.open_queries),
       ...authorFields(s.preparer_id, s.authors),
-      cells: await this.cellViews(s.id),
     };
   }
 
@@ -236,24 +299,12 @@ export class SheetRepository extends EntityRepository<Sheet> {
 
   /** A sheet's cells in order as a save changes them, without their results, in one query. */
   async cellRecords(sheetId: string): Promise<CellRecord[]> {
-    const rows = await this.em.execute<(CellRow & { changed_by_id: string | null; agreed_by_id: string | null; agreed_at: Date | string | null })[]>(
-      `select c.id, c.position, c.kind, c.fields, c.changed_at, c.changed_after_agreement, c.changed_by_id, cu.name as changed_by,
-              c.agreed_by_id, au.name as agreed_by, c.agreed_at ${CELLS_OF_SHEET}`,
+    const rows = await this.em.execute<CellRecordRow[]>(
+      `select c.id, ${CELL_RECORD_COLUMNS} from cell c left join app_user ccu on ccu.id = c.changed_by_id left join app_user cau on cau.id = c.agreed_by_id
+        where c.sheet_id = ? order by c.position`,
       [sheetId],
     );
-    return rows.map((r) => ({
-      id: r.id,
-      position: r.position,
-      kind: r.kind,
-      fields: parsedJson(r.fields) as Record<string, unknown>,
-      changedById: r.changed_by_id,
-      changedBy: r.changed_by,
-      changedAt: new Date(r.changed_at),
-      agreedById: r.agreed_by_id,
-      agreedBy: r.agreed_by,
-      agreedAt: r.agreed_at ? new Date(r.agreed_at) : null,
-      changedAfterAgreement: !!r.changed_after_agreement,
-    }));
+    return rows.map(cellRecord);
   }
 
   /** Writes what a save changed of a sheet's cells (in the caller's transaction). */
@@ -310,6 +361,32 @@ export class SheetRepository extends EntityRepository<Sheet> {
    * otherwise. Returns the ids written, or null when a later save had moved the sheet on.
    */
   async storeResults(sheetId: string, store: ResultsToStore): Promise<ReadonlySet<string> | null> {
+    if (store.only) {
+      // The usual save: a few cells re-evaluated. One statement writes them and the sheet's results version,
+      // matching only while the sheet is still at the version evaluated and its stored results are those of
+      // the version the change was made to; it locks the rows it writes, as the transaction below does.
+      const ids = [...store.only.ids].filter((id) => store.results.has(id));
+      if (ids.length && ids.length <= BATCH) {
+        const res = await this.em.execute(
+          `update sheet s join cell c on c.sheet_id = s.id and c.id in (${placeholders(ids.length)})
+              set c.results = case c.id ${ids.map(() => 'when ? then ?').join(' ')} end,
+                  s.results_version = ?, s.engine_version = coalesce(?, s.engine_version)
+            where s.id = ? and s.version = ? and s.results_version = ?`,
+          [
+            ...ids,
+            ...ids.flatMap((id) => [id, JSON.stringify(store.results.get(id) ?? null)]),
+            store.version,
+            store.engineVersion,
+            sheetId,
+            store.version,
+            store.only.basedOn,
+          ],
+          'run',
+        );
+        if (affected(res) > 0) return new Set(ids);
+      }
+    }
+    // Otherwise (or when that did not match): every cell, in a transaction with the sheet's row locked.
     return this.em.transactional(async (em) => {
       const [row] = await em.execute<{ version: number; results_version: number | null }[]>(
         'select version, results_version from sheet where id = ? for update',

@@ -11,6 +11,7 @@ import {
   Post,
   Put,
   Query,
+  StreamableFile,
   UploadedFile,
   UseInterceptors,
 } from '@nestjs/common';
@@ -41,10 +42,12 @@ export class SheetsController {
     return this.sheets.create(auth, projectId, dto);
   }
 
+  /** The sheet (`SheetView`), its stored results sent as they are kept rather than parsed and serialised again. */
   @Roles(...MEMBER_ROLES)
   @Get('sheets/:id')
-  get(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string): Promise<SheetView> {
-    return this.sheets.get(auth, id);
+  async get(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string): Promise<StreamableFile> {
+    const json = await this.sheets.getJson(auth, id);
+    return new StreamableFile(json, { type: 'application/json; charset=utf-8', length: json.length });
   }
 
   /** The sheet in the ampwright.sheet/1 file format. */

@@ -208,6 +208,13 @@ export class SheetsService {
     return this.view(auth, id);
   }
 
+  /** The sheet as `get` gives it, as JSON bytes with the stored results passed through unparsed (the read of GET /sheets/:id). */
+  async getJson(auth: AuthContext, id: string): Promise<Buffer> {
+    const json = await this.repository.viewJson(auth.session.firm.id, id);
+    if (!json) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
+    return json;
+  }
+
   async export(auth: AuthContext, id: string): Promise<SheetFile> {
     const sheet = await this.find(auth, id);
     return this.toFile(sheet, await this.cells(sheet));
@@ -265,15 +272,15 @@ export class SheetsService {
    * lock; and the results of the cells it re-evaluated stored while the sheet is still at that version.
    */
   private async change(auth: AuthContext, id: string, version: number, apply: Change): Promise<SaveResult> {
-    const sheet = await timed('db', () => this.editableHeading(auth, id));
+    const sheet = await timed('db', () => this.editableHeading(auth, id, { cells: true }));
     // A place in the firm's evaluation queue is held before anything is written: a firm whose queue is
     // full is told so (429) and its change is not saved, rather than saved and left unevaluated.
     return this.evaluation.holding(auth.session.firm.id, (reservation) => this.changeHolding(sheet, auth, version, apply, reservation));
   }
 
   /** A sheet the caller may change, read as a save needs it (one query, no entities); 404 or the rulebook's refusal otherwise. */
-  private async editableHeading(auth: AuthContext, id: string): Promise<SheetHeadingRow> {
-    const heading = await this.repository.heading(auth.session.firm.id, id);
+  private async editableHeading(auth: AuthContext, id: string, options: { cells?: boolean } = {}): Promise<SheetHeadingRow> {
+    const heading = await this.repository.heading(auth.session.firm.id, id, options);
     if (!heading) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
     await this.assertMayEdit(auth, heading);
     return heading;
@@ -298,7 +305,8 @@ export class SheetsService {
         // (then it is read again, under the row lock now held).
         const sheet = found.version === version ? found : (await this.repository.heading(auth.session.firm.id, found.id))!;
         if (actor.id !== sheet.preparer.id) await em.getRepository(SheetAuthor).recordEdit(sheet.id, sheet.revisionNumber, actor.id);
-        const cells = await this.repository.cellRecords(sheet.id);
+        // The cells read with the heading are the version raised from when that read saw it; otherwise read again.
+        const cells = found.version === version && found.cells ? found.cells : await this.repository.cellRecords(sheet.id);
         const placed = new Map(cells.map((c) => [c.id, c.position]));
         const heading: Heading = { title: sheet.title, settings: sheet.settings };
         const applied = apply(heading, cells);
