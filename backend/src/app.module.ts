@@ -52,6 +52,7 @@ const staticFrontEnd = ServeStaticModule.forRootAsync({
         ormConfig({
           DB_HOST: config.get('DB_HOST', { infer: true }),
           DB_PORT: config.get('DB_PORT', { infer: true }),
+          DB_SOCKET: config.get('DB_SOCKET', { infer: true }),
           DB_NAME: config.get('DB_NAME', { infer: true }),
           DB_USER: config.get('DB_USER', { infer: true }),
           DB_PASSWORD: config.get('DB_PASSWORD', { infer: true }),

@@ -17,6 +17,8 @@ export const settings = {
   appPort: Number(env('APP_PORT', '3000')),
   dbHost: env('DB_HOST', '127.0.0.1'),
   dbPort: Number(env('DB_PORT', '3307')),
+  // The private instance's socket (provision.mjs starts it there), unless another database is named.
+  dbSocket: env('DB_SOCKET', process.env.DB_HOST ? '' : join(DATA, 'run', 'mysqld.sock')),
   dbName: env('DB_NAME', 'ampwright'),
   dbUser: env('DB_USER', 'ampwright'),
   dbPassword: env('DB_PASSWORD', 'ampwright-local-only'),
@@ -40,6 +42,7 @@ export function appEnvironment(overrides = {}) {
     APP_PORT: String(s.appPort),
     DB_HOST: s.dbHost,
     DB_PORT: String(s.dbPort),
+    ...(s.dbSocket ? { DB_SOCKET: s.dbSocket } : {}),
     DB_NAME: s.dbName,
     DB_USER: s.dbUser,
     DB_PASSWORD: s.dbPassword,

@@ -42,6 +42,15 @@ export class Environment {
   @Max(65535)
   DB_PORT = 3307;
 
+  /**
+   * MariaDB's Unix socket, for a database on the same machine: when set, the app connects through it
+   * instead of DB_HOST:DB_PORT (no TCP stack per query; `npm start` and `npm test` set it for their private instance).
+   */
+  @IsOptional()
+  @IsString()
+  @IsNotEmpty()
+  DB_SOCKET?: string;
+
   @IsString()
   @IsNotEmpty()
   DB_NAME = 'ampwright';

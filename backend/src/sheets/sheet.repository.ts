@@ -150,6 +150,28 @@ const peopleOf = (r: PeopleRow) => ({
  */
 const OPEN_QUERY = "q.sheet_id = s.id and q.revision_number = s.revision_number and q.status <> 'closed'";
 
+/** A sheet's heading as the API shows it (with SHEET_JOINS): its fields, people, open-query count and authors. */
+const VIEW_HEADING_COLUMNS = `s.id, s.project_id, s.number, s.title, s.settings, s.state, s.version, s.engine_version, s.revision_number, ${PEOPLE_COLUMNS},
+  (select count(*) from cell_query q where ${OPEN_QUERY}) as open_queries,
+  (select json_arrayagg(json_object('id', a.user_id, 'name', au2.name, 'named', a.named)) from sheet_author a join app_user au2 on au2.id = a.user_id
+    where a.sheet_id = s.id and a.revision_number = s.revision_number) as authors`;
+
+const viewHeading = (s: SheetRow): Omit<SheetDto, 'cells'> => ({
+  id: s.id,
+  projectId: s.project_id,
+  number: s.number,
+  title: s.title,
+  settings: parsedJson(s.settings) as Record<string, unknown>,
+  state: s.state,
+  version: s.version,
+  engineVersion: s.engine_version ?? null,
+  ...peopleOf(s),
+  revisionNumber: s.revision_number,
+  revisionCode: revisionCode(s.revision_number),
+  openQueries: Number(s.open_queries),
+  ...authorFields(s.preparer_id, s.authors),
+});
+
 /** A sheet's cells (bound: sheet id) in order, with who changed and who agreed each. */
 const CELLS_OF_SHEET = `from cell c left join app_user cu on cu.id = c.changed_by_id left join app_user au on au.id = c.agreed_by_id
   where c.sheet_id = ? order by c.position`;
@@ -226,48 +248,30 @@ export class SheetRepository extends EntityRepository<Sheet> {
    * as MariaDB holds them (the text JSON.stringify wrote), never parsed and written again.
    */
   async viewJson(firmId: string, id: string): Promise<Buffer | null> {
-    const heading = await this.viewHeading(firmId, id);
-    if (!heading) return null;
-    const rows = await this.em.execute<(CellRow & { results_json: Buffer | null })[]>(
-      `select c.id, c.position, c.kind, c.fields, cast(c.results as binary) as results_json, c.changed_at, c.changed_after_agreement,
-              cu.name as changed_by, au.name as agreed_by ${CELLS_OF_SHEET}`,
-      [heading.id],
+    // One statement: the sheet's heading on every row (a sheet without cells gives one row with no cell).
+    const rows = await this.em.execute<(SheetRow & { cell_id: string | null } & Omit<CellRow, 'id'> & { results_json: Buffer | null })[]>(
+      `select ${VIEW_HEADING_COLUMNS}, c.id as cell_id, c.position, c.kind, c.fields, cast(c.results as binary) as results_json, c.changed_at,
+              c.changed_after_agreement, ccu.name as changed_by, cau.name as agreed_by
+         ${SHEET_JOINS} left join cell c on c.sheet_id = s.id left join app_user ccu on ccu.id = c.changed_by_id left join app_user cau on cau.id = c.agreed_by_id
+         ${OF_FIRM} order by c.position`,
+      [id, firmId],
     );
-    const parts: Buffer[] = [Buffer.from(`${JSON.stringify({ ...heading, cells: null }).slice(0, -'null}'.length)}[`)];
-    rows.forEach((r, k) => {
-      const { results: _none, ...cell } = rowView(r);
-      parts.push(Buffer.from(`${k ? ',' : ''}${JSON.stringify(cell).slice(0, -1)},"results":`), r.results_json ?? NULL_JSON, CLOSE_OBJECT);
-    });
+    if (!rows.length) return null;
+    const parts: Buffer[] = [Buffer.from(`${JSON.stringify({ ...viewHeading(rows[0]), cells: null }).slice(0, -'null}'.length)}[`)];
+    rows
+      .filter((r) => r.cell_id)
+      .forEach((r, k) => {
+        const { results: _none, ...cell } = rowView({ ...r, id: r.cell_id! });
+        parts.push(Buffer.from(`${k ? ',' : ''}${JSON.stringify(cell).slice(0, -1)},"results":`), r.results_json ?? NULL_JSON, CLOSE_OBJECT);
+      });
     parts.push(Buffer.from(']}'));
     return Buffer.concat(parts);
   }
 
   /** A sheet of a firm as the API shows it, without its cells: the sheet with its people, open-query count and authors. */
   private async viewHeading(firmId: string, id: string): Promise<Omit<SheetDto, 'cells'> | null> {
-    const [s] = await this.em.execute<SheetRow[]>(
-      `select s.id, s.project_id, s.number, s.title, s.settings, s.state, s.version, s.engine_version, s.revision_number, ${PEOPLE_COLUMNS},
-              (select count(*) from cell_query q where ${OPEN_QUERY}) as open_queries,
-              (select json_arrayagg(json_object('id', a.user_id, 'name', au2.name, 'named', a.named)) from sheet_author a join app_user au2 on au2.id = a.user_id
-                where a.sheet_id = s.id and a.revision_number = s.revision_number) as authors
-         ${SHEET_OF_FIRM}`,
-      [id, firmId],
-    );
-    if (!s) return null;
-    return {
-      id: s.id,
-      projectId: s.project_id,
-      number: s.number,
-      title: s.title,
-      settings: parsedJson(s.settings) as Record<string, unknown>,
-      state: s.state,
-      version: s.version,
-      engineVersion: s.engine_version ?? null,
-      ...peopleOf(s),
-      revisionNumber: s.revision_number,
-      revisionCode: revisionCode(s.revision_number),
-      openQueries: Number(s.open_queries),
-      ...authorFields(s.preparer_id, s.authors),
-    };
+    const [s] = await this.em.execute<SheetRow[]>(`select ${VIEW_HEADING_COLUMNS} ${SHEET_OF_FIRM}`, [id, firmId]);
+    return s ? viewHeading(s) : null;
   }
 
   /** The cells of a sheet as the API shows them, in order, read in one query; without results if asked. */
