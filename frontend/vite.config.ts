@@ -22,7 +22,23 @@ export default defineConfig({
     proxy: { '/api': { target: 'http://127.0.0.1:3000', changeOrigin: false } },
   },
   preview: { host: '127.0.0.1' },
-  build: { outDir: 'dist', sourcemap: true, chunkSizeWarningLimit: 2000 },
+  // Source maps stay in dist/ for debugging; the server does not serve them (backend bootstrap.ts).
+  build: {
+    outDir: 'dist',
+    sourcemap: true,
+    rolldownOptions: {
+      output: {
+        // The sheet page's large libraries in chunks of their own, fetched in parallel and cached apart from our code.
+        codeSplitting: {
+          groups: [
+            { name: 'katex', test: /node_modules[\\/]katex/ },
+            { name: 'codemirror', test: /node_modules[\\/](@codemirror|@lezer|crelt|style-mod|w3c-keyname)/ },
+            { name: 'markdown', test: /node_modules[\\/](markdown-it|entities|linkify-it|mdurl|uc\.micro|punycode)/ },
+          ],
+        },
+      },
+    },
+  },
   test: {
     projects: [
       { extends: true, test: { name: 'unit', include: ['src/**/*.spec.{ts,tsx}'], environment: 'jsdom', setupFiles: ['src/test-setup.ts'] } },

@@ -80,6 +80,17 @@ function runLint(name) {
   return { name, passed, failed, skipped: 0, ok: failed === 0, note: failed ? 'run `npm run lint`; `npm run format` fixes the formatting' : '' };
 }
 
+/** The first page's JavaScript against its budget (frontend/scripts/first-load.mjs, on the build just made): one count. */
+function runFirstLoad(name) {
+  log(`layer: ${name}`);
+  try {
+    run(process.execPath, [join(ROOT, 'frontend', 'scripts', 'first-load.mjs')], { cwd: ROOT });
+    return { name, passed: 1, failed: 0, skipped: 0, ok: true, note: '' };
+  } catch {
+    return { name, passed: 0, failed: 1, skipped: 0, ok: false, note: 'the first page loads more JavaScript than its budget: see the files listed above' };
+  }
+}
+
 /** Type-checks every project, tests included (the same as `npm run typecheck`); one count per project. */
 function runTypecheck(name) {
   log(`layer: ${name}`);
@@ -136,6 +147,7 @@ main(async () => {
   const layer = (name, dir, args, layerEnv = env) => selected(name) && layers.push(runLayer(name, join(ROOT, dir), [...args, ...extra], layerEnv));
   if (selected('type check')) layers.push(runTypecheck('type check'));
   if (selected('lint')) layers.push(runLint('lint'));
+  if (selected('first load')) layers.push(runFirstLoad('first load'));
   layer('common unit', 'common', []);
   layer('backend unit', 'backend', ['--project', 'unit']);
   layer('frontend unit', 'frontend', ['--project', 'unit']);

@@ -38,7 +38,7 @@ const staticFrontEnd = ServeStaticModule.forRootAsync({
   inject: [ConfigService],
   useFactory: (config: ConfigService<Environment, true>) => {
     const dir = config.get('STATIC_DIR', { infer: true });
-    return dir && existsSync(dir) ? [{ rootPath: dir, exclude: ['/api/{*path}'], serveStaticOptions: { index: 'index.html', maxAge: 0 } }] : [];
+    return dir && existsSync(dir) ? [{ rootPath: dir, exclude: ['/api/{*path}'], serveStaticOptions: { index: 'index.html', cacheControl: false } }] : [];
   },
 });
 

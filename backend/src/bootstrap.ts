@@ -50,6 +50,14 @@ export function configureApp(app: INestApplication): INestApplication {
       },
     }),
   );
+  // The built front end: hashed assets (a new build has new names) are kept a year; the page itself is asked
+  // for again every time, so a new build is seen at once; source maps stay in the build folder, never served.
+  express.use((req: Request, res: Response, next: NextFunction) => {
+    if (req.path.startsWith('/api/') || req.path === '/api') return next();
+    if (req.path.endsWith('.map')) return res.status(404).type('text/plain').send('Not found');
+    res.setHeader('Cache-Control', req.path.startsWith('/assets/') ? 'public, max-age=31536000, immutable' : 'no-cache');
+    next();
+  });
   express.use(cookieParser());
   app.setGlobalPrefix('api');
   app.useGlobalPipes(createValidationPipe());

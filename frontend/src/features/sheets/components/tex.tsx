@@ -1,4 +1,6 @@
 import katex from 'katex';
+// KaTeX's stylesheet and fonts come with the pages that draw formulas, not with the first page.
+import 'katex/dist/katex.min.css';
 import { useMemo } from 'react';
 
 /**
