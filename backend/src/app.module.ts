@@ -93,6 +93,6 @@ const staticFrontEnd = ServeStaticModule.forRootAsync({
 })
 export class AppModule implements NestModule {
   configure(consumer: MiddlewareConsumer): void {
-    consumer.apply(RequestLoggerMiddleware, ServerTimingMiddleware).forRoutes('*');
+    consumer.apply(RequestLoggerMiddleware, ServerTimingMiddleware).forRoutes('{*path}');
   }
 }

@@ -7,6 +7,7 @@ import cookieParser from 'cookie-parser';
 import helmet from 'helmet';
 import { AppModule } from './app.module';
 import type { NextFunction, Request, Response } from 'express';
+import { describeApi } from './core/openapi';
 import { createValidationPipe } from './core/validation';
 import { bodyParserError } from './core/filters/body-parser-error';
 import { ErrorCode, RequestException } from './core/errors/app-exception';
@@ -61,6 +62,7 @@ export function configureApp(app: INestApplication): INestApplication {
   express.use(cookieParser());
   app.setGlobalPrefix('api');
   app.useGlobalPipes(createValidationPipe());
+  describeApi(app);
   app.enableShutdownHooks();
   return app;
 }

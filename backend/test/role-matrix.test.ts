@@ -5,22 +5,11 @@
 import type { INestApplication } from '@nestjs/common';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Role } from '../src/core/roles';
-import { ANY_ID, MATRIX, type Allowed } from './support/routes';
+import { ANY_ID, MATRIX, registeredRoutes, type Allowed } from './support/routes';
 import { as, makeCaller, type Caller } from './support/sessions';
 import { createTestApp } from './support/test-app';
 
 const CALLERS: (Role | 'signed-out')[] = ['signed-out', 'owner', 'engineer', 'checker', 'approver', 'client'];
-
-function registeredRoutes(app: INestApplication): string[] {
-  const express = app.getHttpAdapter().getInstance() as { router: { stack: { route?: { path: string; methods: Record<string, boolean> } }[] } };
-  return express.router.stack
-    .filter((layer) => layer.route && layer.route.path.startsWith('/api/') && !layer.route.path.includes('{*'))
-    .flatMap((layer) =>
-      Object.keys(layer.route!.methods)
-        .filter((m) => m !== '_all')
-        .map((m) => `${m.toUpperCase()} ${layer.route!.path}`),
-    );
-}
 
 function mayCall(allowed: Allowed, caller: Role | 'signed-out'): boolean {
   if (allowed === 'public') return true;

@@ -17,6 +17,28 @@ describe('the app shell in a real browser', () => {
     await expect.poll(() => s.page.getByRole('heading', { level: 1 }).textContent()).toBe('Verify a package');
   });
 
+  it('caches the hashed assets a year as immutable and the page never, and serves no source map', async () => {
+    const page = await fetch(`${baseUrl()}/`);
+    expect(page.headers.get('cache-control')).toBe('no-cache');
+    const route = await fetch(`${baseUrl()}/projects/p-1`);
+    expect([route.status, route.headers.get('cache-control')]).toEqual([200, 'no-cache']);
+    const entry = /<script[^>]*type="module"[^>]*src="([^"]+)"/.exec(await page.text())![1];
+    const asset = await fetch(`${baseUrl()}${entry}`);
+    expect([asset.status, asset.headers.get('cache-control')]).toEqual([200, 'public, max-age=31536000, immutable']);
+    expect((await fetch(`${baseUrl()}${entry}.map`)).status).toBe(404);
+  });
+
+  it('loads a page that is not the first one when it is first visited (its own chunk)', async () => {
+    const scripts: string[] = [];
+    s.page.on('request', (r) => r.resourceType() === 'script' && scripts.push(new URL(r.url()).pathname));
+    await s.page.goto(`${baseUrl()}/`);
+    await s.page.getByRole('navigation', { name: 'Main' }).waitFor();
+    const first = scripts.length;
+    await s.page.goto(`${baseUrl()}/verify`);
+    await expect.poll(() => s.page.getByRole('heading', { level: 1 }).textContent()).toBe('Verify a package');
+    expect(scripts.slice(first).some((path) => /\/assets\/verify-[\w-]+\.js$/.test(path))).toBe(true);
+  });
+
   it('moves between pages through the navigation', async () => {
     await s.page.goto(`${baseUrl()}/`);
     await s.page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Verify a package' }).click();

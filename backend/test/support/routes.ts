@@ -1,3 +1,5 @@
+import type { INestApplication } from '@nestjs/common';
+
 /**
  * Every route of the API with who may call it: the role matrix (role-matrix.test.ts) checks each
  * against every role, and the cross-firm test (cross-firm.test.ts) calls each one that names an id
@@ -11,6 +13,15 @@ export const ANY_ID = '00000000-0000-4000-8000-000000000000';
 
 /** "METHOD /path" → who may call it. */
 export const MATRIX: Record<string, Allowed> = {
+  // The API's own description and its reader (core/openapi.ts), open to anyone.
+  'GET /api/docs': 'public',
+  'GET /api/docs/': 'public',
+  'GET /api/docs/LICENSE': 'public',
+  'GET /api/docs/docs/swagger-ui-init.js': 'public',
+  'GET /api/docs/index.html': 'public',
+  'GET /api/docs/json': 'public',
+  'GET /api/docs/swagger-ui-init.js': 'public',
+  'GET /api/docs/yaml': 'public',
   'GET /api/health': 'public',
   'POST /api/evaluate': MEMBERS,
   'POST /api/auth/register': 'public',
@@ -145,4 +156,16 @@ export function validBodies(ids: ResourceIds, userId: string): Record<string, ob
     'PATCH /api/auth/me': { name: 'Renamed person' },
     'PUT /api/firm/package-settings': { queryRegister: false },
   };
+}
+
+/** Every route the app registers under /api, as `METHOD /api/path/:param`. */
+export function registeredRoutes(app: INestApplication): string[] {
+  const express = app.getHttpAdapter().getInstance() as { router: { stack: { route?: { path: string; methods: Record<string, boolean> } }[] } };
+  return express.router.stack
+    .filter((layer) => layer.route && layer.route.path.startsWith('/api/') && !layer.route.path.includes('{*'))
+    .flatMap((layer) =>
+      Object.keys(layer.route!.methods)
+        .filter((m) => m !== '_all')
+        .map((m) => `${m.toUpperCase()} ${layer.route!.path}`),
+    );
 }
