@@ -7,6 +7,8 @@ import cookieParser from 'cookie-parser';
 import helmet from 'helmet';
 import { AppModule } from './app.module';
 import type { NextFunction, Request, Response } from 'express';
+import { createLogger } from './core/logger';
+import { assignRequestId } from './core/middleware/request-id';
 import { describeApi } from './core/openapi';
 import { createValidationPipe } from './core/validation';
 import { bodyParserError } from './core/filters/body-parser-error';
@@ -16,6 +18,7 @@ import { ErrorCode, RequestException } from './core/errors/app-exception';
 export function configureApp(app: INestApplication): INestApplication {
   const express = app as NestExpressApplication;
   express.disable('x-powered-by');
+  express.use(assignRequestId);
   const trust = app.get(ConfigService<Environment, true>).get('TRUST_PROXY', { infer: true });
   express.set('trust proxy', /^\d+$/.test(trust) ? Number(trust) : trust.split(',').map((s) => s.trim()));
   // A body is JSON, or a multipart form for a file; anything else is refused before it is read.
@@ -68,6 +71,6 @@ export function configureApp(app: INestApplication): INestApplication {
 }
 
 export async function createApp(): Promise<INestApplication> {
-  const app = await NestFactory.create<NestExpressApplication>(AppModule, { bufferLogs: false, bodyParser: false });
+  const app = await NestFactory.create<NestExpressApplication>(AppModule, { bufferLogs: false, bodyParser: false, logger: createLogger() });
   return configureApp(app);
 }

@@ -48,6 +48,13 @@ describe('the app against MariaDB and the fakes', () => {
     expect(res.body.code).toBe('PAYLOAD_TOO_LARGE');
   });
 
+  it("answers every request with its id (X-Request-Id), keeping a proxy's well-formed one", async () => {
+    const mine = await request(app.getHttpServer()).get('/api/health');
+    expect(mine.headers['x-request-id']).toMatch(/^[0-9a-f-]{36}$/);
+    const proxied = await request(app.getHttpServer()).get('/api/no-such-thing').set('x-request-id', 'edge-42');
+    expect([proxied.status, proxied.headers['x-request-id']]).toEqual([404, 'edge-42']);
+  });
+
   it('sends security headers', async () => {
     const res = await request(app.getHttpServer()).get('/api/health');
     expect(res.headers['content-security-policy']).toContain("default-src 'self'");

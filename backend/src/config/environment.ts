@@ -204,6 +204,10 @@ export class Environment {
   @IsIn(['true', 'false'])
   LOG_REQUESTS: 'true' | 'false' = 'true';
 
+  /** `json` (one object a line, with the request id: for operators and collectors) or `text` (coloured, for a terminal). */
+  @IsIn(['json', 'text'])
+  LOG_FORMAT: 'json' | 'text' = 'json';
+
   /** Requests a minute from one client address, on every route. */
   @Type(() => Number)
   @IsInt()

@@ -1,5 +1,6 @@
 import { ArgumentsHost, Catch, ExceptionFilter, HttpException, HttpStatus, Logger } from '@nestjs/common';
-import type { Response } from 'express';
+import type { Request, Response } from 'express';
+import { requestIdOf } from '../middleware/request-id';
 import { AppException, ErrorBody, ErrorCode } from '../errors/app-exception';
 import { bodyParserError } from './body-parser-error';
 import { MULTIPART_LIMIT_WORDS } from '../../files/uploads';
@@ -24,7 +25,10 @@ export class AllExceptionsFilter implements ExceptionFilter {
   catch(exception: unknown, host: ArgumentsHost): void {
     const response = host.switchToHttp().getResponse<Response>();
     const body = this.toBody(exception);
-    if (body.statusCode >= 500) this.logger.error(exception instanceof Error ? (exception.stack ?? exception.message) : String(exception));
+    if (body.statusCode >= 500) {
+      const requestId = requestIdOf(host.switchToHttp().getRequest<Request>());
+      this.logger.error({ requestId, error: exception instanceof Error ? (exception.stack ?? exception.message) : String(exception) });
+    }
     if (exception instanceof AppException && exception.headers) for (const [name, value] of Object.entries(exception.headers)) response.setHeader(name, value);
     response.status(body.statusCode).json(body);
   }

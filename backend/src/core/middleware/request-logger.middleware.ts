@@ -2,8 +2,9 @@ import { Injectable, Logger, NestMiddleware } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import type { NextFunction, Request, Response } from 'express';
 import type { Environment } from '../../config/environment';
+import { requestIdOf } from './request-id';
 
-/** One line per request: method, path (no query string, which may carry tokens), status, time. */
+/** One line per request: its id, method, path (no query string, which may carry tokens), status, time. */
 @Injectable()
 export class RequestLoggerMiddleware implements NestMiddleware {
   private readonly logger = new Logger('HTTP');
@@ -19,7 +20,13 @@ export class RequestLoggerMiddleware implements NestMiddleware {
     const started = process.hrtime.bigint();
     res.on('finish', () => {
       const ms = Number(process.hrtime.bigint() - started) / 1e6;
-      this.logger.log(`${req.method} ${req.originalUrl.split('?')[0]} ${res.statusCode} ${ms.toFixed(1)} ms`);
+      this.logger.log({
+        requestId: requestIdOf(req),
+        method: req.method,
+        path: req.originalUrl.split('?')[0],
+        status: res.statusCode,
+        ms: Number(ms.toFixed(1)),
+      });
     });
     next();
   }
