@@ -31,6 +31,7 @@ import { EvaluationModule } from './evaluation/evaluation.module';
 import { DemoAccountsCheck } from './database/demo-accounts.check';
 import { FilesModule } from './files/files.module';
 import { HealthModule } from './health/health.module';
+import { MetricsModule } from './metrics/metrics.module';
 import { MailModule } from './mail/mail.module';
 
 /** The built front end, when there is one (STATIC_DIR): client routes fall back to its index.html; /api never does. */
@@ -80,6 +81,7 @@ const staticFrontEnd = ServeStaticModule.forRootAsync({
     MailModule,
     FilesModule,
     HealthModule,
+    MetricsModule,
     EvaluationModule,
     staticFrontEnd,
   ],

@@ -204,6 +204,12 @@ export class Environment {
   @IsIn(['true', 'false'])
   LOG_REQUESTS: 'true' | 'false' = 'true';
 
+  /** A bearer token for GET /api/metrics; without one, the metrics answer only to this machine (loopback). */
+  @IsOptional()
+  @IsString()
+  @MinLength(16)
+  METRICS_TOKEN?: string;
+
   /** `json` (one object a line, with the request id: for operators and collectors) or `text` (coloured, for a terminal). */
   @IsIn(['json', 'text'])
   LOG_FORMAT: 'json' | 'text' = 'json';

@@ -4,6 +4,7 @@ import type { CsvTableResult } from '@ampwright/common';
 import type { Environment } from '../config/environment';
 import { EvaluationException } from '../core/errors/app-exception';
 import type { CertificateFacts } from '../packages/signing';
+import { evaluations } from '../metrics/metrics';
 import { EvaluationPool, type PoolFailure, type PoolOutcome, type Reservation } from './evaluation-pool';
 import type { TaskKind, TaskOf, TaskResults } from './sandbox-protocol';
 import { EvaluationErrorCode } from '@ampwright/common';
@@ -78,18 +79,20 @@ export class EvaluationService implements OnModuleDestroy {
   }
 
   /** Runs a task in an evaluation process (sheets go through SheetEvaluator, which says what came of them). */
-  run<K extends TaskKind>(task: TaskOf<K>, options: { tenant: string; key?: string; reservation?: Reservation }): Promise<PoolOutcome<TaskResults[K]>> {
-    return this.pool.run(task, options);
+  async run<K extends TaskKind>(task: TaskOf<K>, options: { tenant: string; key?: string; reservation?: Reservation }): Promise<PoolOutcome<TaskResults[K]>> {
+    const outcome = await this.pool.run(task, options);
+    evaluations.inc({ kind: task.kind, outcome: outcome.ok ? 'ok' : outcome.reason });
+    return outcome;
   }
 
   /** Parses an uploaded CSV off the main thread (common/src/sheet/csv-table.ts). */
   async parseCsv(firm: string, bytes: Buffer): Promise<CsvTableResult | { ok: false; binary: true }> {
-    return this.unwrap(await this.pool.run({ kind: 'csv', bytes: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength) }, { tenant: firm }));
+    return this.unwrap(await this.run({ kind: 'csv', bytes: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength) }, { tenant: firm }));
   }
 
   /** Opens a PKCS#12 file off the main thread; a problem with the file is a sentence, not an exception. */
   async readCertificate(firm: string, p12: Buffer, password: string): Promise<{ ok: true; facts: CertificateFacts } | { ok: false; problem: string }> {
-    return this.unwrap(await this.pool.run({ kind: 'certificate', p12: new Uint8Array(p12), password }, { tenant: firm }));
+    return this.unwrap(await this.run({ kind: 'certificate', p12: new Uint8Array(p12), password }, { tenant: firm }));
   }
 
   private unwrap<T>(outcome: PoolOutcome<T>): T {
