@@ -37,6 +37,8 @@ describe('the sheet editor in a real browser', () => {
     await expect.poll(() => text(page, 'result-phi')).not.toBe(phiBefore);
     expect(await text(page, 'result-t_lag')).not.toBe(lagBefore);
     await expect.poll(() => inputs.getByTestId('save-state').textContent()).toBe('Saved');
+    // The save state is a live region, announced as it changes.
+    await page.getByRole('status', { name: 'Cell 2: Saved' }).waitFor();
 
     // A check that fails is flagged.
     await page.getByRole('navigation', { name: 'Sheet tools' }).getByRole('button', { name: 'Add a cell at the end' }).click();

@@ -96,7 +96,7 @@ function Outcome({ check: p, formula, working }: BlockOf<'outcome'>) {
   return (
     <Box>
       <Stack direction="row" spacing={1} sx={{ alignItems: 'center', mb: 1 }}>
-        <Chip size="small" label={p.outcome} color={TONE_COLOUR[p.tone]} data-testid="check-outcome" />
+        <Chip size="small" label={p.outcome} color={TONE_COLOUR[p.tone]} role="status" aria-label={`Check: ${p.outcome}`} data-testid="check-outcome" />
         {p.advisory && <Chip size="small" variant="outlined" label="Advisory" />}
         {formula && <Tex>{formula}</Tex>}
       </Stack>

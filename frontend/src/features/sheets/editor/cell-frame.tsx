@@ -124,6 +124,9 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
             variant="outlined"
             label={SAVE_LABELS[d.state]}
             color={d.state === 'saved' ? 'default' : d.state === 'saving' || d.state === 'unsaved' ? 'primary' : 'error'}
+            // A live region: a screen reader hears the cell's save state as it changes.
+            role="status"
+            aria-label={`Cell ${index + 1}: ${SAVE_LABELS[d.state]}`}
             data-testid="save-state"
           />
         )}
