@@ -23,7 +23,6 @@ export type {
 } from './api/projects';
 export { MAX_PASSWORD_BYTES, MIN_PASSWORD_LENGTH } from './api/accounts';
 export { PALETTE } from './plot/palette';
-export { sweepChart, transientChart, calcFigures, type CalcFigure } from './plot/index';
 export {
   CELL_KIND_REGISTRY,
   KIND_LABELS,

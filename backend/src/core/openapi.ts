@@ -9,7 +9,7 @@ import { validationMetadatasToSchemas } from 'class-validator-jsonschema';
 import { APP_VERSION } from '../version';
 import { CSRF_HEADER, SESSION_COOKIE } from './guards/auth.guard';
 
-export const OPENAPI_PATH = 'api/docs';
+const OPENAPI_PATH = 'api/docs';
 
 export function describeApi(app: INestApplication): void {
   const config = new DocumentBuilder()

@@ -17,7 +17,7 @@ export function createValidationPipe(): ValidationPipe {
     transform: true,
     exceptionFactory: (errors) => {
       const details = flatten(errors);
-      return new RequestException(ErrorCode.ValidationFailed, details.map((d) => d.message).join('; ') || 'The request is not valid.', { details: details });
+      return new RequestException(ErrorCode.ValidationFailed, details.map((d) => d.message).join('; ') || 'The request is not valid.', { details });
     },
   });
 }

@@ -10,7 +10,7 @@ export class SheetFilePipe implements PipeTransform<unknown, SheetFile> {
     if (result.ok) return result.sheet;
     const details = result.problems.map((p) => ({ field: p.path, message: p.message }));
     throw new RequestException(ErrorCode.ValidationFailed, `The sheet is not valid: ${details.map((d) => `${d.field}: ${d.message}`).join('; ')}`, {
-      details: details,
+      details,
     });
   }
 }

@@ -5,14 +5,19 @@ import type { Environment } from '../config/environment';
 import { MetricsController } from './metrics.controller';
 
 const controller = (token?: string) => new MetricsController({ get: () => token } as unknown as ConfigService<Environment, true>);
-const from = (remoteAddress: string, authorization?: string) =>
-  ({ socket: { remoteAddress }, get: (name: string) => (name === 'authorization' ? authorization : undefined) }) as unknown as Request;
+const from = (remoteAddress: string, authorization?: string, headers: Record<string, string> = {}) =>
+  ({ socket: { remoteAddress }, get: (name: string) => (name === 'authorization' ? authorization : headers[name]) }) as unknown as Request;
 
 describe('MetricsController', () => {
   it('without a token answers only this machine, and is not there for anyone else', async () => {
     expect(await controller().get(from('127.0.0.1'))).toMatch(/ampwright_/);
     expect(await controller().get(from('::ffff:127.0.0.1'))).toMatch(/ampwright_/);
     await expect(controller().get(from('203.0.113.9'))).rejects.toMatchObject({ status: 404 });
+  });
+
+  it('without a token refuses what a proxy on this machine forwards (the client is not local)', async () => {
+    await expect(controller().get(from('127.0.0.1', undefined, { 'x-forwarded-for': '203.0.113.9' }))).rejects.toMatchObject({ status: 404 });
+    await expect(controller().get(from('127.0.0.1', undefined, { forwarded: 'for=203.0.113.9' }))).rejects.toMatchObject({ status: 404 });
   });
 
   it('with a token answers only its bearer, wherever it asks from', async () => {

@@ -11,7 +11,8 @@ const LOOPBACK = /^(127\.|::1$|::ffff:127\.)/;
 
 /**
  * GET /api/metrics for a Prometheus scraper: with METRICS_TOKEN set, only with `Authorization: Bearer <token>`;
- * without it, only from this machine (loopback). Anyone else is told it is not there.
+ * without it, only from this machine (loopback) and not through a proxy (a proxy on this machine would make every
+ * client look local: it names them in X-Forwarded-For or Forwarded). Anyone else is told it is not there.
  */
 @Controller('metrics')
 export class MetricsController {
@@ -32,7 +33,7 @@ export class MetricsController {
   }
 
   private allowed(req: Request): boolean {
-    if (!this.token) return LOOPBACK.test(req.socket.remoteAddress ?? '');
+    if (!this.token) return LOOPBACK.test(req.socket.remoteAddress ?? '') && !req.get('x-forwarded-for') && !req.get('forwarded');
     const given = Buffer.from((req.get('authorization') ?? '').replace(/^Bearer /, ''));
     return given.length === this.token.length && timingSafeEqual(given, this.token);
   }

@@ -13,7 +13,6 @@ interface CellRow {
   position: number;
   kind: string;
   fields: unknown;
-  results?: unknown;
   changed_at: Date | string;
   changed_after_agreement: number | boolean;
   changed_by: string | null;
@@ -69,14 +68,17 @@ const NULL_JSON = Buffer.from('null');
 const CLOSE_OBJECT = Buffer.from('}');
 const parsedJson = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);
 
-// A stored cell was validated against its kind's schema when it was written, so its row is the typed cell.
+/**
+ * A cell as the API shows it, without its results (the read splices the stored text in; a refused save sends none).
+ * A stored cell was validated against its kind's schema when it was written, so its row is the typed cell.
+ */
 const rowView = (r: CellRow): CellDto =>
   ({
     id: r.id,
     position: r.position,
     kind: r.kind,
     fields: parsedJson(r.fields) as Record<string, unknown>,
-    results: (parsedJson(r.results ?? null) as CellResult | null) ?? null,
+    results: null,
     changedBy: r.changed_by,
     changedAt: new Date(r.changed_at).toISOString(),
     agreedBy: r.agreed_by,
@@ -172,9 +174,8 @@ const viewHeading = (s: SheetRow): Omit<SheetDto, 'cells'> => ({
   ...authorFields(s.preparer_id, s.authors),
 });
 
-/** A sheet's cells (bound: sheet id) in order, with who changed and who agreed each. */
-const CELLS_OF_SHEET = `from cell c left join app_user cu on cu.id = c.changed_by_id left join app_user au on au.id = c.agreed_by_id
-  where c.sheet_id = ? order by c.position`;
+/** Who changed and who agreed each cell `c` (aliases ccu, cau). */
+const CELL_PEOPLE = 'left join app_user ccu on ccu.id = c.changed_by_id left join app_user cau on cau.id = c.agreed_by_id';
 
 /** The columns of a cell as a save changes it (aliases: c for cell, ccu and cau for who changed and agreed it). */
 const CELL_RECORD_COLUMNS =
@@ -214,7 +215,7 @@ export class SheetRepository extends EntityRepository<Sheet> {
     const rows = await this.em.execute<(Row & Partial<CellRecordRow>)[]>(
       options.cells
         ? `select s.id, s.state, s.version, s.revision_number, s.title, s.settings, s.extra, ${PEOPLE_COLUMNS}, c.id as cell_id, ${CELL_RECORD_COLUMNS}
-             ${SHEET_JOINS} left join cell c on c.sheet_id = s.id left join app_user ccu on ccu.id = c.changed_by_id left join app_user cau on cau.id = c.agreed_by_id
+             ${SHEET_JOINS} left join cell c on c.sheet_id = s.id ${CELL_PEOPLE}
              ${OF_FIRM} order by c.position`
         : `select s.id, s.state, s.version, s.revision_number, s.title, s.settings, s.extra, ${PEOPLE_COLUMNS} ${SHEET_OF_FIRM}`,
       [id, firmId],
@@ -234,25 +235,23 @@ export class SheetRepository extends EntityRepository<Sheet> {
     };
   }
 
-  /**
-   * A sheet of a firm as the API shows it, in two queries: the sheet with its people and open-query
-   * count, then its cells. Reading a sheet is the hot path.
-   */
+  /** A sheet of a firm as the API shows it (its JSON view parsed: for the answers of the other routes, not the hot read). */
   async view(firmId: string, id: string): Promise<SheetDto | null> {
-    const heading = await this.viewHeading(firmId, id);
-    return heading && { ...heading, cells: await this.cellViews(heading.id) };
+    const json = await this.viewJson(firmId, id);
+    return json && (JSON.parse(json.toString('utf8')) as SheetDto);
   }
 
   /**
-   * The same view as JSON bytes, for the read that is the hot path: each cell's results are passed through
-   * as MariaDB holds them (the text JSON.stringify wrote), never parsed and written again.
+   * A sheet of a firm as the API shows it, as JSON bytes in one statement (null: not this firm's). The read of a
+   * sheet is the hot path: each cell's results are passed through as MariaDB holds them (the text
+   * JSON.stringify wrote), never parsed and written again.
    */
   async viewJson(firmId: string, id: string): Promise<Buffer | null> {
     // One statement: the sheet's heading on every row (a sheet without cells gives one row with no cell).
     const rows = await this.em.execute<(SheetRow & { cell_id: string | null } & Omit<CellRow, 'id'> & { results_json: Buffer | null })[]>(
       `select ${VIEW_HEADING_COLUMNS}, c.id as cell_id, c.position, c.kind, c.fields, cast(c.results as binary) as results_json, c.changed_at,
               c.changed_after_agreement, ccu.name as changed_by, cau.name as agreed_by
-         ${SHEET_JOINS} left join cell c on c.sheet_id = s.id left join app_user ccu on ccu.id = c.changed_by_id left join app_user cau on cau.id = c.agreed_by_id
+         ${SHEET_JOINS} left join cell c on c.sheet_id = s.id ${CELL_PEOPLE}
          ${OF_FIRM} order by c.position`,
       [id, firmId],
     );
@@ -268,27 +267,17 @@ export class SheetRepository extends EntityRepository<Sheet> {
     return Buffer.concat(parts);
   }
 
-  /** A sheet of a firm as the API shows it, without its cells: the sheet with its people, open-query count and authors. */
-  private async viewHeading(firmId: string, id: string): Promise<Omit<SheetDto, 'cells'> | null> {
-    const [s] = await this.em.execute<SheetRow[]>(`select ${VIEW_HEADING_COLUMNS} ${SHEET_OF_FIRM}`, [id, firmId]);
-    return s ? viewHeading(s) : null;
-  }
-
-  /** The cells of a sheet as the API shows them, in order, read in one query; without results if asked. */
-  async cellViews(sheetId: string, options: { results?: boolean } = {}): Promise<CellDto[]> {
-    const rows = await this.em.execute<CellRow[]>(
-      `select c.id, c.position, c.kind, c.fields, ${options.results === false ? '' : 'c.results, '}c.changed_at, c.changed_after_agreement,
-              cu.name as changed_by, au.name as agreed_by ${CELLS_OF_SHEET}`,
-      [sheetId],
-    );
-    return rows.map(rowView);
-  }
-
   /** What an editor needs to merge after its save was refused as stale: the version and the cells' content now. */
   async contents(sheetId: string): Promise<SheetContentsDto | null> {
     const [row] = await this.em.execute<{ version: number; state: SheetState }[]>('select version, state from sheet where id = ?', [sheetId]);
     if (!row) return null;
-    return { version: row.version, state: row.state, cells: await this.cellViews(sheetId, { results: false }) };
+    const rows = await this.em.execute<CellRow[]>(
+      `select c.id, c.position, c.kind, c.fields, c.changed_at, c.changed_after_agreement, ccu.name as changed_by, cau.name as agreed_by
+         from cell c ${CELL_PEOPLE} where c.sheet_id = ? order by c.position`,
+      [sheetId],
+    );
+    // Without results: the editor keeps those of the cells whose content it has.
+    return { version: row.version, state: row.state, cells: rows.map(rowView) };
   }
 
   /**
@@ -304,8 +293,7 @@ export class SheetRepository extends EntityRepository<Sheet> {
   /** A sheet's cells in order as a save changes them, without their results, in one query. */
   async cellRecords(sheetId: string): Promise<CellRecord[]> {
     const rows = await this.em.execute<CellRecordRow[]>(
-      `select c.id, ${CELL_RECORD_COLUMNS} from cell c left join app_user ccu on ccu.id = c.changed_by_id left join app_user cau on cau.id = c.agreed_by_id
-        where c.sheet_id = ? order by c.position`,
+      `select c.id, ${CELL_RECORD_COLUMNS} from cell c ${CELL_PEOPLE} where c.sheet_id = ? order by c.position`,
       [sheetId],
     );
     return rows.map(cellRecord);

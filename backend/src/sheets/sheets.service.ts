@@ -70,7 +70,7 @@ function splitCell(cell: unknown): { kind: string; fields: Record<string, unknow
   const parsed = cellSchema.safeParse(cell);
   if (!parsed.success) {
     const details = parsed.error.issues.map((i) => ({ field: ['cell', ...i.path.map(String)].join('.'), message: i.message }));
-    throw new SheetException(SheetErrorCode.BadCell, `The cell is not valid: ${details.map((d) => d.message).join('; ')}`, { details: details });
+    throw new SheetException(SheetErrorCode.BadCell, `The cell is not valid: ${details.map((d) => d.message).join('; ')}`, { details });
   }
   const { kind, ...fields } = parsed.data as Record<string, unknown> & { kind: string };
   return { kind, fields };
@@ -229,7 +229,7 @@ export class SheetsService {
       if (!parsed.ok) {
         const details = parsed.problems.map((p) => ({ field: `sheet.${p.path}`, message: p.message }));
         throw new RequestException(ErrorCode.ValidationFailed, `The sheet file is not valid: ${details.map((d) => `${d.field}: ${d.message}`).join('; ')}`, {
-          details: details,
+          details,
         });
       }
       file = parsed.sheet;
@@ -298,7 +298,7 @@ export class SheetsService {
           throw new SheetException(
             SheetErrorCode.StaleVersion,
             'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.',
-            { current: current },
+            { current },
           );
         }
         // What was read before is what the version raised from, unless that read saw an older version
@@ -452,7 +452,7 @@ export class SheetsService {
     if (!parsed.ok) {
       const details = parsed.problems.map((p) => ({ field: 'file', message: `line ${p.line}: ${p.message}` }));
       throw new SheetException(SheetErrorCode.CsvInvalid, `The CSV could not be read, so nothing was stored: ${details.map((d) => d.message).join('; ')}`, {
-        details: details,
+        details,
       });
     }
     return this.addCell(auth, id, { version: dto.version, position: dto.position, cell: parsed.cell as unknown as Record<string, unknown> });

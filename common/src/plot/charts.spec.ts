@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { evaluateSheet } from '../cells/evaluate-sheet';
 import type { CalcResult, SweepResult, TransientResult } from '../cells/types';
-import { calcFigures, impedanceTriangle, sweepChart, transientChart } from './index';
+import { calcFigures, impedanceTriangle, sweepChart, transientChart } from './charts';
 
 const lines = (svg: string) => [...svg.matchAll(/<line x1="([-\d.]+)" y1="([-\d.]+)" x2="([-\d.]+)" y2="([-\d.]+)"/g)].map((m) => m.slice(1).map(Number));
 

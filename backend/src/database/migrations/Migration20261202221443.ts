@@ -1,6 +1,7 @@
 import { Migration } from '@mikro-orm/migrations';
 
 export class Migration20261202221443 extends Migration {
+
   override async up(): Promise<void> {
     this.addSql(`alter table \`sheet\` add \`results_version\` int null;`);
   }
@@ -8,4 +9,5 @@ export class Migration20261202221443 extends Migration {
   override async down(): Promise<void> {
     this.addSql(`alter table \`sheet\` drop column \`results_version\`;`);
   }
+
 }

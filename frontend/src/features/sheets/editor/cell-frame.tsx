@@ -75,6 +75,8 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
   // The presentation follows the draft (a note's preview) without holding up typing.
   const fields = useDeferredValue(d.value);
   const { previewWhileEditing } = kindFacts(cell.kind);
+  // A click on the cell's text opens its editor, where it may be edited.
+  const open = editable && Editor ? () => actions.activate(cell.id) : undefined;
   const keys = {
     onEvaluate: d.flush,
     onAddBelow: () => (d.flush(), actions.add(index + 1, 'calc')),
@@ -215,7 +217,7 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
         />
       ) : (
         inputs && (
-          <Box onClick={editable && Editor ? () => actions.activate(cell.id) : undefined} sx={{ cursor: editable && Editor ? 'text' : undefined }}>
+          <Box onClick={open} sx={{ cursor: open && 'text' }}>
             <SourceText text={inputs} />
           </Box>
         )
@@ -223,13 +225,8 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
       {(!editing || previewWhileEditing) && (
         <Box
           // A note, a table or a figure is its presentation: a click on it edits it.
-          onClick={!inputs && !editing && editable && Editor ? () => actions.activate(cell.id) : undefined}
-          sx={{
-            opacity: stale && inputs ? 0.55 : 1,
-            transition: 'opacity 120ms',
-            mt: 1,
-            cursor: !inputs && !editing && editable && Editor ? 'text' : undefined,
-          }}
+          onClick={inputs || editing ? undefined : open}
+          sx={{ opacity: stale && inputs ? 0.55 : 1, transition: 'opacity 120ms', mt: 1, cursor: !inputs && !editing && open ? 'text' : undefined }}
           aria-busy={stale}
           data-testid="cell-results"
         >
