@@ -1,9 +1,8 @@
 /**
- * A save writes only the results of the cells it re-evaluated when the evaluation process reused the
- * cache of the version the change was made to, and the stored results are that version's. With two
- * evaluation processes a firm runs one evaluation at a time, so the next save waits for the slow one and
- * runs in the process holding its cache: it reuses that cache although the slow save's results were never
- * stored (the next save had moved the sheet on). Then every cell's results must be written.
+ * A save writes only the results of the cells its evaluation process evaluated afresh when the process
+ * held the evaluation of the sheet as stored. A save that loses to another (409) was evaluated all the
+ * same, and its process keeps that evaluation: the next save must not take it for the stored sheet's,
+ * or the cells it did not evaluate again would keep results of a sheet that was never stored.
  */
 import type { INestApplication } from '@nestjs/common';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
@@ -38,13 +37,13 @@ describe('results stored by a save that reuses the cache of a save whose results
     else process.env.EVALUATION_PROCESSES = processes;
   });
 
-  it("stores the results of cells a save did not re-evaluate when an earlier save's results were never stored", async () => {
+  it('stores every result that differs from those of the sheet stored, after a save that lost kept its evaluation', async () => {
     const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)
       .send({
         number: 'C-111',
         sheet: {
           format: 'ampwright.sheet/1',
-          title: 'Skipped',
+          title: 'Lost save',
           cells: [
             { kind: 'calc', source: 'a = 1' },
             { kind: 'calc', source: 'b = 2 * a' },
@@ -54,18 +53,51 @@ describe('results stored by a save that reuses the cache of a save whose results
       .expect(201);
     const id = created.body.id;
     const cellId = created.body.cells[0].id;
-    // The first save changes a (so b) and is slow; the second, based on it, keeps a = 5, so b is not
-    // evaluated again — yet its stored result is still that of a = 1, since the first save's were not stored.
-    const slow = as(app, engineer, 'patch', `/api/sheets/${id}/cells/${cellId}`)
-      .send({ version: 1, cell: { kind: 'calc', source: 'a = 5\nM = ones(130, 130)\nP = M * M * M * M * M * M' } })
-      .then((r) => r);
-    let seen = 1;
-    for (let k = 0; k < 100 && seen < 2; k++) seen = (await as(app, engineer, 'get', `/api/sheets/${id}`).expect(200)).body.version;
+    // Two saves of version 1: a slow one (a = 5) and a quick one (a = 7). The firm runs one evaluation at a
+    // time, so both are evaluated — in the process that keeps the sheet's evaluation — and one write wins.
+    const edit = (source: string) =>
+      as(app, engineer, 'patch', `/api/sheets/${id}/cells/${cellId}`)
+        .send({ version: 1, cell: { kind: 'calc', source } })
+        .then((r) => r);
+    const [slow, quick] = await Promise.all([edit('a = 5\nM = ones(130, 130)\nP = M * M * M * M * M * M'), edit('a = 7')]);
+    expect([slow.status, quick.status].sort()).toEqual([200, 409]);
+    const [won, lost] =
+      slow.status === 200
+        ? ['a = 5\nM = ones(130, 130)\nP = M * M * M * M * M * M', 'a = 7']
+        : ['a = 7', 'a = 5\nM = ones(130, 130)\nP = M * M * M * M * M * M'];
+    expect((await as(app, engineer, 'get', `/api/sheets/${id}`).expect(200)).body.cells[0].fields.source).toBe(won);
+    // The next save writes the losing save's text: every cell of it matches what that process kept, yet b's
+    // stored result is that of the winner's a, so b's result must be written too.
     await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${cellId}`)
-      .send({ version: 2, cell: { kind: 'calc', source: 'a = 5' } })
+      .send({ version: 2, cell: { kind: 'calc', source: lost } })
       .expect(200);
-    expect((await slow).status).toBe(200);
     const now = await expectStoredAsFresh(app, engineer, id);
-    expect(now.cells[1].results.values.b.si).toBe(10);
+    expect(now.cells[1].results.values.b.si).toBe(lost === 'a = 7' ? 14 : 10);
+  });
+
+  it('writes only the results that differ when the process holds the evaluation of the sheet as stored', async () => {
+    const cells = Array.from({ length: 6 }, (_, k) => ({ kind: 'calc', source: k ? `v${k} = v${k - 1} + 1` : 'v0 = 1' }));
+    cells.push({ kind: 'calc', source: 'w = 3' });
+    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)
+      .send({ number: 'C-112', sheet: { format: 'ampwright.sheet/1', title: 'Partial', cells } })
+      .expect(201);
+    const id = created.body.id;
+    let version = created.body.version;
+    for (const source of ['w = 4', 'w = 5']) {
+      const saved = await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${created.body.cells[6].id}`)
+        .send({ version, cell: { kind: 'calc', source } })
+        .expect(200);
+      version = saved.body.version;
+      // The answer carries the cells whose results were written: the edited cell alone (no other reads w).
+      expect(saved.body.changed.map((c: { id: string }) => c.id)).toEqual([created.body.cells[6].id]);
+    }
+    // Edit the head of the chain: every cell that reads it is evaluated and written.
+    const saved = await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${created.body.cells[0].id}`)
+      .send({ version, cell: { kind: 'calc', source: 'v0 = 10' } })
+      .expect(200);
+    expect(saved.body.changed).toHaveLength(6);
+    const now = await expectStoredAsFresh(app, engineer, id);
+    expect(now.cells[5].results.values.v5.si).toBe(15);
+    expect(now.cells[6].results.values.w.si).toBe(5);
   });
 });

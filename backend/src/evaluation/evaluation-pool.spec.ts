@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { SheetFile } from '@ampwright/common';
 import { EvaluationPool } from './evaluation-pool';
+import { sheetFingerprint } from './sheet-fingerprint';
 
 const sheet = (source: string, more: SheetFile['cells'] = []): SheetFile => ({
   format: 'ampwright.sheet/1',
@@ -23,21 +24,28 @@ describe('EvaluationPool (child processes from dist/)', () => {
   }, 30_000);
   afterAll(() => pool.close());
 
-  it('evaluates a sheet and keeps its cache in the process that evaluated it', async () => {
-    const first = await pool.run(
-      { kind: 'evaluate', sheet: sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 2 ohm' }]), key: 's1', version: 7 },
-      { tenant: 'a', key: 's1' },
-    );
-    expect(first.ok && first.value.evaluated).toEqual([0, 1]);
-    expect(first.ok && first.value.reusedFrom).toBeNull();
-    const second = await pool.run(
-      { kind: 'evaluate', sheet: sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 4 ohm' }]), key: 's1', version: 8 },
-      { tenant: 'a', key: 's1' },
-    );
-    expect(second.ok && second.value.evaluated).toEqual([1]);
-    // The version whose cache was reused, for the server to tell which stored results it may keep.
-    expect(second.ok && second.value.reusedFrom).toBe(7);
-    expect(second.ok && (second.value.cells[1] as { values: Record<string, { si: number }> }).values.y.si).toBe(0.5);
+  it('evaluates a sheet and keeps its cache in the process that evaluated it, sending back only what differs from the base', async () => {
+    const before = sheet('x = 2 V', [
+      { kind: 'calc', source: 'y = x / 2 ohm' },
+      { kind: 'calc', source: 'z = 3 A' },
+    ]);
+    const first = await pool.run({ kind: 'evaluate', sheet: before, key: 's1', base: sheetFingerprint(before) }, { tenant: 'a', key: 's1' });
+    // Nothing kept yet: every cell is evaluated and every result sent, whatever the base says.
+    expect(first.ok && first.value).toMatchObject({ complete: true, evaluated: [0, 1, 2] });
+    expect(first.ok && first.value.results.map(([index]) => index)).toEqual([0, 1, 2]);
+    const after = sheet('x = 2 V', [
+      { kind: 'calc', source: 'y = x / 4 ohm' },
+      { kind: 'calc', source: 'z = 3 A' },
+    ]);
+    const second = await pool.run({ kind: 'evaluate', sheet: after, key: 's1', base: sheetFingerprint(before), want: [0] }, { tenant: 'a', key: 's1' });
+    // The kept evaluation is of the base: only the cell evaluated afresh and the one asked for come back.
+    expect(second.ok && second.value).toMatchObject({ complete: false, evaluated: [1] });
+    expect(second.ok && second.value.results.map(([index]) => index)).toEqual([0, 1]);
+    expect(second.ok && (second.value.results[1][1] as { values: Record<string, { si: number }> }).values.y.si).toBe(0.5);
+    // A base other than the kept evaluation's sheet (a save that lost, results stored by another process): everything.
+    const third = await pool.run({ kind: 'evaluate', sheet: after, key: 's1', base: sheetFingerprint(before) }, { tenant: 'a', key: 's1' });
+    expect(third.ok && third.value).toMatchObject({ complete: true, evaluated: [] });
+    expect(third.ok && third.value.results).toHaveLength(3);
   });
 
   it('stops a task at its deadline, saying at which cell when it stopped itself, and the process lives on', async () => {
@@ -47,7 +55,7 @@ describe('EvaluationPool (child processes from dist/)', () => {
     expect(many).toMatchObject({ ok: false, reason: 'timeout' });
     expect(!many.ok && many.cell).toBeGreaterThan(0);
     const after = await pool.run({ kind: 'evaluate', sheet: sheet('x = 1 + 1') }, { tenant: 'a' });
-    expect(after.ok && after.value.cells[0].status).toBe('ok');
+    expect(after.ok && after.value.results[0][1].status).toBe('ok');
   }, 20_000);
 
   it('replaces a process that passes its memory cap, and carries on', async () => {
@@ -57,7 +65,7 @@ describe('EvaluationPool (child processes from dist/)', () => {
       await roomy.ready();
       expect(await roomy.run({ kind: 'evaluate', sheet: HOG }, { tenant: 'a' })).toMatchObject({ ok: false, reason: 'memory' });
       const after = await roomy.run({ kind: 'evaluate', sheet: sheet('x = 1 + 1') }, { tenant: 'a' });
-      expect(after.ok && after.value.cells[0].status).toBe('ok');
+      expect(after.ok && after.value.results[0][1].status).toBe('ok');
     } finally {
       await roomy.close();
     }

@@ -8,11 +8,12 @@
  */
 import { csvToTableCell, ENGINE_VERSION, evaluateSheet, runWithDeadline, type EvaluationCache } from '@ampwright/common';
 import { isPlainText } from '../files/plain-text';
+import { sheetFingerprint } from './sheet-fingerprint';
 import type { SandboxReply, SandboxRequest, SandboxTask, TaskResults } from './sandbox-protocol';
 
 const KEPT = 64;
-/** By sheet id: the cache of the last evaluation of that sheet, and the version it evaluated (null: unknown). */
-const caches = new Map<string, { version: number | null; cache: EvaluationCache }>();
+/** By sheet id: the cache of the last evaluation of that sheet, and the fingerprint of the sheet it evaluated. */
+const caches = new Map<string, { fingerprint: string; cache: EvaluationCache }>();
 
 /** The evaluation stopped at its deadline while evaluating cell `cell` (an index). */
 class Stopped extends Error {
@@ -31,10 +32,19 @@ function evaluate(task: Extract<SandboxTask, { kind: 'evaluate' }>, timeoutMs: n
   const engineMs = performance.now() - started;
   const evaluation = outcome.value;
   if (task.key) {
-    caches.set(task.key, { version: task.version ?? null, cache: evaluation.cache });
+    caches.set(task.key, { fingerprint: sheetFingerprint(task.sheet), cache: evaluation.cache });
     if (caches.size > KEPT) caches.delete(caches.keys().next().value as string);
   }
-  return { cells: evaluation.cells, engineVersion: ENGINE_VERSION, evaluated: evaluation.evaluated, reusedFrom: kept ? kept.version : null, engineMs };
+  // Only what differs from `base` when the kept evaluation was of it (the same cells and settings).
+  const complete = !(kept && task.base !== undefined && kept.fingerprint === task.base);
+  const sent = complete ? evaluation.cells.map((_, index) => index) : [...new Set([...evaluation.evaluated, ...(task.want ?? [])])].sort((a, b) => a - b);
+  return {
+    results: sent.filter((index) => index < evaluation.cells.length).map((index) => [index, evaluation.cells[index]]),
+    complete,
+    engineVersion: ENGINE_VERSION,
+    evaluated: evaluation.evaluated,
+    engineMs,
+  };
 }
 
 async function certificate(task: Extract<SandboxTask, { kind: 'certificate' }>): Promise<TaskResults['certificate']> {

@@ -8,12 +8,16 @@ import type { CertificateFacts } from '../packages/signing';
 
 /** What evaluating a sheet gave, as the process knows it. */
 export interface SheetEvaluated {
-  cells: CellResult[];
+  /**
+   * Every cell's results in order (`complete`), or — when the process held the evaluation of the sheet
+   * `base` names — only those of the cells evaluated afresh and of the cells asked for (`want`): the
+   * others are as `base` had them. Results are most of a message's size, so a save takes back only these.
+   */
+  results: [index: number, result: CellResult][];
+  complete: boolean;
   engineVersion: string;
   /** Indexes of the cells evaluated afresh; the others' results came from the kept cache. */
   evaluated: number[];
-  /** The `version` of the evaluation whose cache was reused (null: none was, every cell was evaluated). */
-  reusedFrom: number | null;
   /** The engine's own time on the sheet, in ms (without the messages to and from the process). */
   engineMs: number;
 }
@@ -28,8 +32,12 @@ export interface TaskResults {
 }
 
 export type SandboxTask =
-  /** `version`: the stored sheet's version being evaluated, kept with the cache and reported back as `reusedFrom`. */
-  | { kind: 'evaluate'; sheet: SheetFile; key?: string; version?: number }
+  /**
+   * `key`: a stored sheet's id, under which the process keeps the evaluation for the next one. `base`: the
+   * fingerprint (sheetFingerprint) of the sheet whose results the caller holds; when the kept evaluation is
+   * of that sheet, only what differs from it comes back, with the results of the cells `want` lists.
+   */
+  | { kind: 'evaluate'; sheet: SheetFile; key?: string; base?: string; want?: number[] }
   | { kind: 'csv'; bytes: Uint8Array }
   | { kind: 'certificate'; p12: Uint8Array; password: string };
 

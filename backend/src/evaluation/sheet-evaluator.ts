@@ -3,41 +3,53 @@ import type { CellResult, SheetFile } from '@ampwright/common';
 import type { PoolFailure, Reservation } from './evaluation-pool';
 import { EvaluationService } from './evaluation.service';
 
-/** What evaluating a sheet gave: a domain outcome, never an HTTP error (the caller decides what to answer). */
-export type SheetOutcome =
-  | {
-      ok: true;
-      /** Every cell's results, in the sheet's order. */
-      results: CellResult[];
-      engineVersion: string;
-      /** Indexes of the cells evaluated afresh; the others came from the process's cache. */
-      evaluated: number[];
-      /** The version whose cache the process reused (null: none was; every cell was evaluated). */
-      reusedFrom: number | null;
-      /** The engine's own time on the sheet, in ms. */
-      engineMs: number;
-      /** From asking to answer, waiting for a process included, in ms. */
-      totalMs: number;
-    }
-  | {
-      ok: false;
-      reason: PoolFailure;
-      /** A sentence for the person: why, and where when known. */
-      message: string;
-      /** The index of the cell being evaluated when the sheet was stopped at its deadline, when known. */
-      cell?: number;
-      totalMs: number;
-    };
+/** Why a sheet could not be evaluated: a domain outcome, never an HTTP error (the caller decides what to answer). */
+export interface SheetFailure {
+  ok: false;
+  reason: PoolFailure;
+  /** A sentence for the person: why, and where when known. */
+  message: string;
+  /** The index of the cell being evaluated when the sheet was stopped at its deadline, when known. */
+  cell?: number;
+  totalMs: number;
+}
+
+interface Evaluated {
+  ok: true;
+  engineVersion: string;
+  /** Indexes of the cells evaluated afresh; the others came from the process's cache. */
+  evaluated: number[];
+  /** The engine's own time on the sheet, in ms. */
+  engineMs: number;
+  /** From asking to answer, waiting for a process included, in ms. */
+  totalMs: number;
+}
+
+/** What evaluating a sheet gave: every cell's results, in the sheet's order. */
+export type SheetOutcome = (Evaluated & { results: CellResult[] }) | SheetFailure;
+
+/**
+ * What evaluating a changed sheet gave: when `complete`, every cell's results; otherwise the process held
+ * the evaluation of the sheet before the change, and `results` holds only the cells evaluated afresh and
+ * those asked for — the others' results are as they were.
+ */
+export type ChangeOutcome = (Evaluated & { results: ReadonlyMap<number, CellResult>; complete: boolean }) | SheetFailure;
 
 export interface EvaluateOptions {
   /** The firm whose queue the work runs in. */
   firm: string;
-  /** A stored sheet's id: its process keeps the sheet's incremental cache. */
-  key?: string;
-  /** The stored sheet's version being evaluated, kept with the cache (see SheetsService's save). */
-  version?: number;
-  /** A place in the firm's queue already held (a save reserves before it writes). */
+  /** A place in the firm's queue already held (a save reserves before it evaluates). */
   reservation?: Reservation;
+  /** A stored sheet's id: its process keeps the sheet's evaluation for the next change. */
+  key?: string;
+}
+
+export interface ChangeOptions extends EvaluateOptions {
+  key: string;
+  /** The fingerprint (sheetFingerprint) of the sheet as it was, when its stored results are that sheet's. */
+  base?: string;
+  /** Indexes of cells whose results the caller needs even if they were not evaluated afresh. */
+  want?: number[];
 }
 
 /**
@@ -48,16 +60,30 @@ export interface EvaluateOptions {
 export class SheetEvaluator {
   constructor(private readonly evaluation: EvaluationService) {}
 
+  /** Evaluates a sheet from scratch: every cell's results. */
   async evaluate(sheet: SheetFile, options: EvaluateOptions): Promise<SheetOutcome> {
+    const outcome = await this.run(sheet, options);
+    if (!outcome.ok) return outcome;
+    const results: CellResult[] = [];
+    for (const [index, result] of outcome.results) results[index] = result;
+    return { ...outcome, results };
+  }
+
+  /** Evaluates a sheet after a change, reusing what its process kept of the sheet before it (see ChangeOutcome). */
+  evaluateChange(sheet: SheetFile, options: ChangeOptions): Promise<ChangeOutcome> {
+    return this.run(sheet, options);
+  }
+
+  private async run(sheet: SheetFile, options: EvaluateOptions & Partial<ChangeOptions>): Promise<ChangeOutcome> {
     const started = performance.now();
     const outcome = await this.evaluation.run(
-      { kind: 'evaluate', sheet, key: options.key, version: options.version },
+      { kind: 'evaluate', sheet, key: options.key, base: options.base, want: options.want },
       { tenant: options.firm, key: options.key, reservation: options.reservation },
     );
     const totalMs = performance.now() - started;
     if (outcome.ok) {
-      const { cells, engineVersion, evaluated, reusedFrom, engineMs } = outcome.value;
-      return { ok: true, results: cells, engineVersion, evaluated, reusedFrom, engineMs, totalMs };
+      const { results, complete, engineVersion, evaluated, engineMs } = outcome.value;
+      return { ok: true, results: new Map(results), complete, engineVersion, evaluated, engineMs, totalMs };
     }
     const where = outcome.cell !== undefined ? ` It was evaluating cell ${outcome.cell + 1} when it was stopped.` : '';
     return { ok: false, reason: outcome.reason, message: this.evaluation.sentence(outcome.reason, outcome.message) + where, cell: outcome.cell, totalMs };

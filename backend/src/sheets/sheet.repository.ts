@@ -46,21 +46,43 @@ export interface SheetHeadingRow {
   preparer: { id: string; name: string };
   checker: { id: string; name: string } | null;
   approver: { id: string; name: string } | null;
+  /** The version whose evaluation the stored results are (null: not known, or the evaluation failed). */
+  resultsVersion: number | null;
+  /** The engine that evaluated the stored results. */
+  engineVersion: string | null;
   /** With `heading(…, { cells: true })`: the cells of the version read, in order. */
   cells?: CellRecord[];
 }
 
-/** Which results a save stores: the cells it re-evaluated (and those it touched), or all of them. */
+/** The results of an evaluation of a whole sheet, stored only while the sheet is still at the version evaluated. */
 export interface ResultsToStore {
-  /** The version that was evaluated: results are stored only while the sheet is still at it. */
+  /** The version that was evaluated. */
   version: number;
   /** Every cell's results, by id. */
   results: ReadonlyMap<string, CellResult>;
-  /**
-   * The ids whose results may differ from those stored, valid only if the stored results are those of
-   * `basedOn` (the version the change was made to); otherwise every cell's results are written.
-   */
-  only?: { ids: ReadonlySet<string>; basedOn: number };
+  /** The engine that evaluated them; null when the sheet could not be evaluated (the results say why). */
+  engineVersion: string | null;
+}
+
+/**
+ * A saved change with its results, written together: the sheet goes from `version` to `version + 1` with
+ * its results. `partial`: `results` holds only the cells evaluated afresh (and the edited one); the others'
+ * stored results stay, which is right only while they are those of `version` by the same engine.
+ */
+export interface ChangeToStore {
+  version: number;
+  /** The states in which the sheet may still be changed. */
+  states: readonly SheetState[];
+  results: ReadonlyMap<string, CellResult>;
+  partial: boolean;
+  engineVersion: string | null;
+}
+
+/** The sheet's row as a save finds it under its lock. */
+export interface SaveLock {
+  version: number;
+  state: SheetState;
+  resultsVersion: number | null;
   engineVersion: string | null;
 }
 
@@ -211,13 +233,23 @@ export class SheetRepository extends EntityRepository<Sheet> {
    * cells as a save changes them too, read in the same statement — so they are the cells of the version read.
    */
   async heading(firmId: string, id: string, options: { cells?: boolean } = {}): Promise<SheetHeadingRow | null> {
-    type Row = PeopleRow & { id: string; state: SheetState; version: number; revision_number: number; title: string; settings: unknown; extra: unknown };
+    type Row = PeopleRow & {
+      id: string;
+      state: SheetState;
+      version: number;
+      revision_number: number;
+      title: string;
+      settings: unknown;
+      extra: unknown;
+      results_version: number | null;
+      engine_version: string | null;
+    };
+    const columns = `s.id, s.state, s.version, s.revision_number, s.title, s.settings, s.extra, s.results_version, s.engine_version, ${PEOPLE_COLUMNS}`;
     const rows = await this.em.execute<(Row & Partial<CellRecordRow>)[]>(
       options.cells
-        ? `select s.id, s.state, s.version, s.revision_number, s.title, s.settings, s.extra, ${PEOPLE_COLUMNS}, c.id as cell_id, ${CELL_RECORD_COLUMNS}
-             ${SHEET_JOINS} left join cell c on c.sheet_id = s.id ${CELL_PEOPLE}
+        ? `select ${columns}, c.id as cell_id, ${CELL_RECORD_COLUMNS} ${SHEET_JOINS} left join cell c on c.sheet_id = s.id ${CELL_PEOPLE}
              ${OF_FIRM} order by c.position`
-        : `select s.id, s.state, s.version, s.revision_number, s.title, s.settings, s.extra, ${PEOPLE_COLUMNS} ${SHEET_OF_FIRM}`,
+        : `select ${columns} ${SHEET_OF_FIRM}`,
       [id, firmId],
     );
     const [s] = rows;
@@ -231,6 +263,8 @@ export class SheetRepository extends EntityRepository<Sheet> {
       settings: parsedJson(s.settings) as Record<string, unknown>,
       extra: parsedJson(s.extra) as Record<string, unknown>,
       ...peopleOf(s),
+      resultsVersion: s.results_version,
+      engineVersion: s.engine_version,
       ...(options.cells ? { cells: rows.filter((r) => r.cell_id).map((r) => cellRecord({ ...(r as CellRecordRow), id: r.cell_id! })) } : {}),
     };
   }
@@ -281,13 +315,68 @@ export class SheetRepository extends EntityRepository<Sheet> {
   }
 
   /**
-   * Raises the version of a sheet still at `version` and in one of `states`, in one statement (so a save
-   * cannot land on a sheet that has just been passed or approved), and locks its row for the caller's
-   * transaction. False when the sheet has moved on.
+   * The usual save — one cell edited — in one statement: the cell's content, the results given and the
+   * sheet's version, results version and engine, written only while the sheet is at `version` in one of
+   * `states` (so of two saves exactly one wins, and none lands on a sheet just passed or approved) and, for
+   * partial results, while its stored results are those of `version` by the same engine. False when it did
+   * not match (the caller takes the transaction, which says why).
    */
-  async raiseVersion(sheetId: string, version: number, states: readonly SheetState[]): Promise<boolean> {
-    const raised = await this.nativeUpdate({ id: sheetId, version, state: { $in: [...states] } }, { version: version + 1 });
-    return raised > 0;
+  async saveCellEdit(sheetId: string, cell: CellRecord, change: ChangeToStore): Promise<boolean> {
+    const ids = [...new Set([cell.id, ...change.results.keys()])];
+    if (ids.length > BATCH) return false;
+    const edited = (column: string) => `c.${column} = if(c.id = ?, ?, c.${column})`;
+    const columns = ['kind', 'fields', 'changed_by_id', 'changed_at', 'agreed_by_id', 'agreed_at', 'changed_after_agreement'];
+    const values = [cell.kind, JSON.stringify(cell.fields), cell.changedById, cell.changedAt, cell.agreedById, cell.agreedAt, cell.changedAfterAgreement];
+    const results = [...change.results];
+    const res = await this.em.execute(
+      `update sheet s join cell c on c.sheet_id = s.id and c.id in (${placeholders(ids.length)})
+          set ${columns.map(edited).join(', ')},
+              c.results = ${results.length ? `case c.id ${results.map(() => 'when ? then ?').join(' ')} else c.results end` : 'c.results'},
+              s.version = ?, s.results_version = ?, s.engine_version = coalesce(?, s.engine_version), s.updated_at = ?
+        where s.id = ? and s.version = ? and s.state in (${placeholders(change.states.length)})
+              ${change.partial ? 'and s.results_version = ? and s.engine_version = ?' : ''}`,
+      [
+        ...ids,
+        ...values.flatMap((v) => [cell.id, v]),
+        ...results.flatMap(([id, r]) => [id, JSON.stringify(r)]),
+        ...this.raised(change),
+        new Date(),
+        sheetId,
+        change.version,
+        ...change.states,
+        ...(change.partial ? [change.version, change.engineVersion] : []),
+      ],
+      'run',
+    );
+    return affected(res) > 0;
+  }
+
+  /** The version, results version and engine a save sets: when evaluation failed, the results version is unknown and the engine kept. */
+  private raised(change: Pick<ChangeToStore, 'version' | 'engineVersion'>): [number, number | null, string | null] {
+    return [change.version + 1, change.engineVersion === null ? null : change.version + 1, change.engineVersion];
+  }
+
+  /** Locks a sheet's row for a save's transaction and says where it stands (null: deleted). */
+  async lockForSave(sheetId: string): Promise<SaveLock | null> {
+    const [row] = await this.em.execute<{ version: number; state: SheetState; results_version: number | null; engine_version: string | null }[]>(
+      'select version, state, results_version, engine_version from sheet where id = ? for update',
+      [sheetId],
+    );
+    return row ? { version: row.version, state: row.state, resultsVersion: row.results_version, engineVersion: row.engine_version } : null;
+  }
+
+  /** In a save's transaction, under lockForSave: raises the version and writes the results given. */
+  async raiseWithResults(sheetId: string, change: Pick<ChangeToStore, 'version' | 'results' | 'engineVersion'>): Promise<void> {
+    await this.setByCell(
+      sheetId,
+      'results',
+      [...change.results].map(([id, r]) => [id, JSON.stringify(r)]),
+    );
+    await this.em.execute(
+      'update sheet set version = ?, results_version = ?, engine_version = coalesce(?, engine_version), updated_at = ? where id = ?',
+      [...this.raised(change), new Date(), sheetId],
+      'run',
+    );
   }
 
   /** A sheet's cells in order as a save changes them, without their results, in one query. */
@@ -347,57 +436,25 @@ export class SheetRepository extends EntityRepository<Sheet> {
   }
 
   /**
-   * Stores the results of an evaluation, only while the sheet is still at the version evaluated (its row
-   * locked): a later save evaluates a later state and stores that, so older results never overwrite
-   * newer ones. Writes only `only.ids` when the stored results are those of `only.basedOn`; every cell
-   * otherwise. Returns the ids written, or null when a later save had moved the sheet on.
+   * Stores the results of an evaluation of every cell (a new sheet, or one evaluated afresh), only while the
+   * sheet is still at the version evaluated (its row locked): a later save stores its own with its change,
+   * so older results never overwrite newer ones. False when a save had moved the sheet on.
    */
-  async storeResults(sheetId: string, store: ResultsToStore): Promise<ReadonlySet<string> | null> {
-    if (store.only) {
-      // The usual save: a few cells re-evaluated. One statement writes them and the sheet's results version,
-      // matching only while the sheet is still at the version evaluated and its stored results are those of
-      // the version the change was made to; it locks the rows it writes, as the transaction below does.
-      const ids = [...store.only.ids].filter((id) => store.results.has(id));
-      if (ids.length && ids.length <= BATCH) {
-        const res = await this.em.execute(
-          `update sheet s join cell c on c.sheet_id = s.id and c.id in (${placeholders(ids.length)})
-              set c.results = case c.id ${ids.map(() => 'when ? then ?').join(' ')} end,
-                  s.results_version = ?, s.engine_version = coalesce(?, s.engine_version)
-            where s.id = ? and s.version = ? and s.results_version = ?`,
-          [
-            ...ids,
-            ...ids.flatMap((id) => [id, JSON.stringify(store.results.get(id) ?? null)]),
-            store.version,
-            store.engineVersion,
-            sheetId,
-            store.version,
-            store.only.basedOn,
-          ],
-          'run',
-        );
-        if (affected(res) > 0) return new Set(ids);
-      }
-    }
-    // Otherwise (or when that did not match): every cell, in a transaction with the sheet's row locked.
+  async storeResults(sheetId: string, store: ResultsToStore): Promise<boolean> {
     return this.em.transactional(async (em) => {
-      const [row] = await em.execute<{ version: number; results_version: number | null }[]>(
-        'select version, results_version from sheet where id = ? for update',
-        [sheetId],
-      );
-      if (row?.version !== store.version) return null;
-      const subset = store.only && row.results_version === store.only.basedOn;
-      const ids = subset ? [...store.only!.ids].filter((id) => store.results.has(id)) : [...store.results.keys()];
+      const [row] = await em.execute<{ version: number }[]>('select version from sheet where id = ? for update', [sheetId]);
+      if (row?.version !== store.version) return false;
       await this.setByCell(
         sheetId,
         'results',
-        ids.map((id) => [id, JSON.stringify(store.results.get(id) ?? null)]),
+        [...store.results].map(([id, r]) => [id, JSON.stringify(r)]),
       );
       await em.execute(
         'update sheet set results_version = ?, engine_version = coalesce(?, engine_version) where id = ?',
-        [store.version, store.engineVersion, sheetId],
+        [store.engineVersion === null ? null : store.version, store.engineVersion, sheetId],
         'run',
       );
-      return new Set(ids);
+      return true;
     });
   }
 

@@ -1,21 +1,20 @@
 /**
- * The save path's decisions, with its collaborators replaced: which results a save asks to store, what a
- * stale save answers, what a failed evaluation stores. The SQL itself is covered by the integration tests
+ * The save path's decisions, with its collaborators replaced: what a save asks of its evaluation process,
+ * which write it takes and with which results, what a stale save answers, what a failed evaluation stores. The SQL itself is covered by the integration tests
  * (test/sheets.test.ts, test/incremental-store.test.ts) against MariaDB.
  */
 import type { EntityManager } from '@mikro-orm/mariadb';
 import { describe, expect, it, vi } from 'vitest';
-import type { CellResult } from '@ampwright/common';
-import { SheetErrorCode } from '@ampwright/common';
+import { ENGINE_VERSION, SheetErrorCode, type CellResult, type SheetFile } from '@ampwright/common';
 import type { AuditService } from '../audit/audit.service';
 import { AppException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import type { EvaluationService, Reservation } from '../evaluation/evaluation.service';
-import type { SheetEvaluator, SheetOutcome } from '../evaluation/sheet-evaluator';
+import type { ChangeOptions, ChangeOutcome, SheetEvaluator } from '../evaluation/sheet-evaluator';
+import { sheetFingerprint } from '../evaluation/sheet-fingerprint';
 import type { ProjectsService } from '../projects/projects.service';
 import type { TemplatesService } from '../templates/templates.service';
-import type { Sheet } from './entities/sheet.entity';
-import type { CellRecord, ResultsToStore, SheetRepository } from './sheet.repository';
+import type { CellRecord, ChangeToStore, SaveLock, SheetRepository } from './sheet.repository';
 import { SheetsService } from './sheets.service';
 
 const author = { id: 'u-1', name: 'Ada Preparer' };
@@ -23,20 +22,11 @@ const auth = { session: { user: author, firm: { id: 'f-1' } }, roles: ['engineer
 const ok = (index: number, x: number) =>
   ({ kind: 'calc', status: 'ok', errors: [], warnings: [], values: { [`x${index}`]: { si: x } } }) as unknown as CellResult;
 
-/** A sheet at version 4 with three calc cells, and the service over fakes of everything it uses. */
-function setup(evaluation: Partial<SheetOutcome> & { ok: boolean }, options: { raised?: boolean; state?: string } = {}) {
-  const sheet = {
-    id: 's-1',
-    state: 'being-prepared',
-    preparer: author,
-    checker: undefined,
-    approver: undefined,
-    revisionNumber: 1,
-    version: 4,
-    title: 'T',
-    settings: {},
-    extra: {},
-  } as unknown as Sheet;
+/** A sheet at version 4 with three calc cells whose stored results are version 4's, and the service over fakes of everything it uses. */
+function setup(
+  evaluation: { ok: boolean; complete?: boolean; results?: [number, CellResult][]; engineVersion?: string },
+  options: { fast?: boolean; lock?: Partial<SaveLock> | null; version?: number; resultsVersion?: number | null; engineVersion?: string } = {},
+) {
   const cells = ['c-a', 'c-b', 'c-c'].map((id, position): CellRecord => ({
     id,
     position,
@@ -50,27 +40,51 @@ function setup(evaluation: Partial<SheetOutcome> & { ok: boolean }, options: { r
     agreedAt: null,
     changedAfterAgreement: false,
   }));
+  const sheet = {
+    id: 's-1',
+    state: 'being-prepared',
+    preparer: author,
+    checker: null,
+    approver: null,
+    revisionNumber: 1,
+    version: options.version ?? 4,
+    title: 'T',
+    settings: {},
+    extra: {},
+    resultsVersion: options.resultsVersion === undefined ? 4 : options.resultsVersion,
+    engineVersion: options.engineVersion ?? ENGINE_VERSION,
+    cells,
+  };
+  const lock: SaveLock | null =
+    options.lock === null ? null : { version: 4, state: 'being-prepared', resultsVersion: 4, engineVersion: ENGINE_VERSION, ...options.lock };
   const repository = {
     heading: vi.fn(async () => sheet),
-    raiseVersion: vi.fn(async () => options.raised ?? true),
-    cellRecords: vi.fn(async () => cells),
+    saveCellEdit: vi.fn(async (_id: string, _cell: CellRecord, _change: ChangeToStore) => options.fast ?? true),
+    lockForSave: vi.fn(async () => lock),
     writeCells: vi.fn(async () => undefined),
     writeHeading: vi.fn(async () => undefined),
-    contents: vi.fn(async () => ({ version: 5, state: options.state ?? 'being-prepared', cells: [] })),
-    storeResults: vi.fn(async (_id: string, store: ResultsToStore) => new Set(store.only ? store.only.ids : store.results.keys())),
+    raiseWithResults: vi.fn(async (_id: string, _change: Pick<ChangeToStore, 'version' | 'results' | 'engineVersion'>) => undefined),
+    contents: vi.fn(async () => ({ version: 5, state: lock?.state ?? 'being-prepared', cells: [] })),
+    storeResults: vi.fn(async () => true),
   };
-  const txEm = { findOneOrFail: vi.fn(async () => sheet), flush: vi.fn(async () => undefined), getReference: vi.fn((_e: unknown, id: string) => ({ id })) };
+  const authors = { recordEdit: vi.fn(async () => undefined) };
+  const txEm = { getRepository: vi.fn(() => authors) };
   const em = { transactional: vi.fn(async (work: (tx: typeof txEm) => Promise<unknown>) => work(txEm)) };
   const reservation: Reservation = { tenant: 'f-1', release: () => undefined };
   const evaluations = { holding: vi.fn(async <T>(_firm: string, work: (r: Reservation) => Promise<T>) => work(reservation)) };
-  const outcome = {
-    totalMs: 3,
-    ...(evaluation.ok
-      ? { results: cells.map((_, k) => ok(k, k)), engineVersion: '1.0.0', evaluated: [], reusedFrom: null, engineMs: 1 }
-      : { reason: 'timeout', message: 'This sheet takes too long.' }),
-    ...evaluation,
-  } as SheetOutcome;
-  const evaluator = { evaluate: vi.fn(async () => outcome) };
+  const outcome: ChangeOutcome = evaluation.ok
+    ? {
+        ok: true,
+        complete: evaluation.complete ?? false,
+        results: new Map(evaluation.results ?? cells.map((_, k) => [k, ok(k, k)])),
+        engineVersion: evaluation.engineVersion ?? ENGINE_VERSION,
+        evaluated: (evaluation.results ?? []).map(([k]) => k),
+        engineMs: 1,
+        totalMs: 3,
+      }
+    : { ok: false, reason: 'timeout', message: 'This sheet takes too long.', totalMs: 3 };
+  const complete: ChangeOutcome = outcome.ok ? { ...outcome, complete: true, results: new Map(cells.map((_, k) => [k, ok(k, 10 + k)])) } : outcome;
+  const evaluator = { evaluateChange: vi.fn(async (_file: SheetFile, o: ChangeOptions) => (o.base ? outcome : complete)) };
   const audit = { record: vi.fn(async () => undefined) };
   const service = new SheetsService(
     em as unknown as EntityManager,
@@ -81,65 +95,107 @@ function setup(evaluation: Partial<SheetOutcome> & { ok: boolean }, options: { r
     repository as unknown as SheetRepository,
     audit as unknown as AuditService,
   );
-  return { service, repository, evaluator, cells };
+  return { service, repository, evaluator, cells, em, authors };
 }
 
 const edit = { version: 4, cell: { kind: 'calc', source: 'x0 = 10' } };
+const stored = (cells: CellRecord[]) =>
+  sheetFingerprint({ settings: {}, cells: cells.map((c) => ({ kind: c.kind, ...c.fields }) as SheetFile['cells'][number]) });
 
 describe('SheetsService: the path of a save', () => {
-  it('asks to store only the re-evaluated and touched cells when the process reused the cache of the version changed', async () => {
-    const { service, repository, evaluator } = setup({ ok: true, reusedFrom: 4, evaluated: [0, 2] });
+  it('writes a one-cell edit and the results that differ in one statement, naming the stored sheet as the base', async () => {
+    const { service, repository, evaluator, em } = setup({
+      ok: true,
+      results: [
+        [0, ok(0, 10)],
+        [2, ok(2, 20)],
+      ],
+    });
+    const base = stored(setup({ ok: true }).cells);
     const answer = await service.updateCell(auth, 's-1', 'c-a', edit);
-    expect(evaluator.evaluate).toHaveBeenCalledWith(
-      expect.objectContaining({ cells: [{ kind: 'calc', source: 'x0 = 10' }, expect.anything(), expect.anything()] }),
-      expect.objectContaining({ key: 's-1', version: 5 }),
-    );
-    const [, store] = repository.storeResults.mock.calls[0];
-    expect(store).toMatchObject({ version: 5, only: { basedOn: 4 } });
-    expect([...store.only!.ids].sort()).toEqual(['c-a', 'c-c']);
+    const [file, options] = evaluator.evaluateChange.mock.calls[0];
+    expect(file.cells[0]).toEqual({ kind: 'calc', source: 'x0 = 10' });
+    // The process is told which sheet the stored results are of, and which cell's results the answer needs.
+    expect(options).toMatchObject({ key: 's-1', base, want: [0] });
+    const [, cell, change] = repository.saveCellEdit.mock.calls[0];
+    expect(cell).toMatchObject({ id: 'c-a', fields: { source: 'x0 = 10' }, changedById: 'u-1' });
+    expect(change).toMatchObject({ version: 4, partial: true, engineVersion: ENGINE_VERSION });
+    expect([...change.results.keys()]).toEqual(['c-a', 'c-c']);
+    expect(em.transactional).not.toHaveBeenCalled();
     expect(answer.version).toBe(5);
     expect(answer.changed.map((c) => c.id)).toEqual(['c-a', 'c-c']);
-    expect(answer.changed[0]).toMatchObject({ fields: { source: 'x0 = 10' }, changedBy: 'Ada Preparer', results: { values: { x0: { si: 0 } } } });
-    // Only the edited cell is written; nothing moved, nothing added.
-    expect(repository.writeCells).toHaveBeenCalledWith('s-1', {
-      inserted: [],
-      edited: [expect.objectContaining({ id: 'c-a', changedById: 'u-1' })],
-      moved: [],
-      removed: [],
-    });
-    expect(repository.writeHeading).not.toHaveBeenCalled();
+    expect(answer.changed[0]).toMatchObject({ fields: { source: 'x0 = 10' }, changedBy: 'Ada Preparer', results: { values: { x0: { si: 10 } } } });
   });
 
-  it('asks to store every cell when the process reused the cache of another version, or none', async () => {
-    for (const reusedFrom of [3, null]) {
-      const { service, repository } = setup({ ok: true, reusedFrom, evaluated: [0] });
+  it('names no base when the stored results are not those of the version changed, or of another engine, and writes every cell', async () => {
+    for (const stale of [{ resultsVersion: 3 }, { resultsVersion: null }, { engineVersion: '0.0.9' }]) {
+      const { service, repository, evaluator } = setup({ ok: true }, stale);
       const answer = await service.updateCell(auth, 's-1', 'c-a', edit);
-      expect(repository.storeResults.mock.calls[0][1].only).toBeUndefined();
+      expect(evaluator.evaluateChange.mock.calls[0][1].base).toBeUndefined();
+      expect(repository.saveCellEdit.mock.calls[0][2]).toMatchObject({ partial: false });
       expect(answer.changed.map((c) => c.id)).toEqual(['c-a', 'c-b', 'c-c']);
     }
   });
 
-  it('answers a stale save with 409 and the contents to merge, and evaluates nothing', async () => {
-    const { service, repository, evaluator } = setup({ ok: true }, { raised: false });
+  it('answers a save based on an older version with 409 and the contents to merge, and evaluates nothing', async () => {
+    const { service, repository, evaluator } = setup({ ok: true }, { version: 5 });
     const error = await service.updateCell(auth, 's-1', 'c-a', edit).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(AppException);
     expect(error).toMatchObject({ code: SheetErrorCode.StaleVersion, status: 409, current: { version: 5, state: 'being-prepared', cells: [] } });
     expect(repository.contents).toHaveBeenCalledWith('s-1');
-    expect(evaluator.evaluate).not.toHaveBeenCalled();
+    expect(evaluator.evaluateChange).not.toHaveBeenCalled();
+  });
+
+  it('answers 409 when another save won between the read and the write, and writes nothing', async () => {
+    const { service, repository } = setup({ ok: true, results: [[0, ok(0, 10)]] }, { fast: false, lock: { version: 5 } });
+    await expect(service.updateCell(auth, 's-1', 'c-a', edit)).rejects.toMatchObject({ code: SheetErrorCode.StaleVersion, status: 409 });
+    expect(repository.writeCells).not.toHaveBeenCalled();
+    expect(repository.raiseWithResults).not.toHaveBeenCalled();
   });
 
   it('refuses a save on a sheet that left preparation meanwhile as read-only, not as stale', async () => {
-    const { service } = setup({ ok: true }, { raised: false, state: 'approved' });
+    const { service } = setup({ ok: true }, { fast: false, lock: { version: 5, state: 'approved' } });
     await expect(service.updateCell(auth, 's-1', 'c-a', edit)).rejects.toMatchObject({ code: SheetErrorCode.ReadOnly, status: 409 });
   });
 
-  it('stores in every cell why a sheet could not be evaluated, and still answers the saved change', async () => {
+  it('evaluates again for every cell when the stored results changed since they were read, and writes them all', async () => {
+    const { service, repository, evaluator } = setup({ ok: true, results: [[0, ok(0, 10)]] }, { fast: false, lock: { resultsVersion: null } });
+    const answer = await service.updateCell(auth, 's-1', 'c-a', edit);
+    expect(evaluator.evaluateChange).toHaveBeenCalledTimes(2);
+    expect(evaluator.evaluateChange.mock.calls[1][1].base).toBeUndefined();
+    const [, change] = repository.raiseWithResults.mock.calls[0];
+    expect(change).toMatchObject({ version: 4, partial: false });
+    expect([...change.results.keys()]).toEqual(['c-a', 'c-b', 'c-c']);
+    expect(repository.writeCells).toHaveBeenCalledWith('s-1', { inserted: [], edited: [expect.objectContaining({ id: 'c-a' })], moved: [], removed: [] });
+    expect(answer.changed).toHaveLength(3);
+  });
+
+  it('writes any other change in one transaction under the row lock: a cell added, and a co-preparer recorded as an author', async () => {
+    const { service, repository, authors } = setup({ ok: true, results: [[1, ok(1, 1)]] });
+    const coPreparer = { session: { user: { id: 'u-2', name: 'Bo Helper' }, firm: { id: 'f-1' } }, roles: ['engineer'] } as unknown as AuthContext;
+    // The co-preparer may edit (named for this revision): the rulebook asks the authors only for someone other than the preparer.
+    (service as unknown as { assertMayEdit: () => Promise<void> }).assertMayEdit = async () => undefined;
+    const answer = await service.addCell(coPreparer, 's-1', { version: 4, position: 1, cell: { kind: 'calc', source: 'y = 1' } });
+    expect(repository.saveCellEdit).not.toHaveBeenCalled();
+    expect(repository.lockForSave).toHaveBeenCalledWith('s-1');
+    expect(authors.recordEdit).toHaveBeenCalledWith('s-1', 1, 'u-2');
+    const writes = (repository.writeCells.mock.calls[0] as unknown[])[1] as { inserted: CellRecord[]; moved: CellRecord[] };
+    expect(writes.inserted).toEqual([expect.objectContaining({ position: 1, kind: 'calc', fields: { source: 'y = 1' } })]);
+    expect(writes.moved.map((c) => [c.id, c.position])).toEqual([
+      ['c-b', 2],
+      ['c-c', 3],
+    ]);
+    expect(repository.raiseWithResults).toHaveBeenCalledTimes(1);
+    expect(answer.version).toBe(5);
+  });
+
+  it('stores in every cell why a sheet could not be evaluated, and still saves the change', async () => {
     const { service, repository } = setup({ ok: false });
     const answer = await service.updateCell(auth, 's-1', 'c-a', edit);
-    const [, store] = repository.storeResults.mock.calls[0];
-    expect(store.only).toBeUndefined();
-    expect(store.engineVersion).toBeNull();
-    for (const result of store.results.values())
+    const [, , change] = repository.saveCellEdit.mock.calls[0];
+    expect(change).toMatchObject({ partial: false, engineVersion: null });
+    expect(change.results.size).toBe(3);
+    for (const result of change.results.values())
       expect(result).toMatchObject({ kind: 'unevaluated', errors: [{ message: 'Not evaluated: This sheet takes too long.' }] });
     expect(answer.version).toBe(5);
   });

@@ -4,6 +4,7 @@ import { EntityManager } from '@mikro-orm/mariadb';
 import { Injectable } from '@nestjs/common';
 import {
   EDITABLE_STATES,
+  ENGINE_VERSION,
   editRefusal,
   WorkflowCode,
   cellSchema,
@@ -21,7 +22,8 @@ import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService, type Reservation } from '../evaluation/evaluation.service';
 import { SheetEvaluator } from '../evaluation/sheet-evaluator';
 import { addTiming, timed } from '../core/timing/server-timing';
-import { SheetRepository, type CellRecord, type SheetHeadingRow } from './sheet.repository';
+import { SheetRepository, type CellRecord, type CellWrites, type ChangeToStore, type SheetHeadingRow } from './sheet.repository';
+import { sheetFingerprint } from '../evaluation/sheet-fingerprint';
 import { Membership } from '../firms/entities/membership.entity';
 import { SheetAuthor } from './entities/sheet-author.entity';
 import { ProjectsService } from '../projects/projects.service';
@@ -266,16 +268,91 @@ export class SheetsService {
 
   /**
    * The path of every save (DEVELOPERS.md, "The path of a save"): the sheet read once (with the rulebook's
-   * say on who may edit it); one transaction that raises the version only if it is still the one the
-   * change was made to — so of two concurrent saves exactly one wins, the other gets 409 with what its
-   * editor needs to merge — and applies the change to the cells read once; one evaluation, outside any
-   * lock; and the results of the cells it re-evaluated stored while the sheet is still at that version.
+   * say on who may edit it) and the change applied to its cells in memory; one evaluation of the changed
+   * sheet, outside any lock, whose process sends back only what differs from the stored results; and one
+   * write of the change with those results, raising the version only if it is still the one the change was
+   * made to — so of two concurrent saves exactly one wins, the other gets 409 with what its editor needs to
+   * merge. The usual one-cell edit is that write in one statement; any other change is one short transaction.
    */
   private async change(auth: AuthContext, id: string, version: number, apply: Change): Promise<SaveResult> {
-    const sheet = await timed('db', () => this.editableHeading(auth, id, { cells: true }));
-    // A place in the firm's evaluation queue is held before anything is written: a firm whose queue is
-    // full is told so (429) and its change is not saved, rather than saved and left unevaluated.
-    return this.evaluation.holding(auth.session.firm.id, (reservation) => this.changeHolding(sheet, auth, version, apply, reservation));
+    const found = await timed('db', () => this.editableHeading(auth, id, { cells: true }));
+    if (found.version !== version) throw await this.stale(id);
+    const cells = found.cells ?? [];
+    const heading: Heading = { title: found.title, settings: found.settings };
+    // The fingerprint of the sheet as stored, when the stored results are its own by this engine: the
+    // evaluation process then sends back only the results that differ from them.
+    const base = found.resultsVersion === version && found.engineVersion === ENGINE_VERSION ? sheetFingerprint(this.toFile(found, cells)) : undefined;
+    const placed = new Map(cells.map((c) => [c.id, c.position]));
+    const applied = apply(heading, cells);
+    const removed = new Set(applied.removed ?? []);
+    const inserted = applied.inserted ?? [];
+    const kept = cells.filter((c) => !removed.has(c.id));
+    const writes: CellWrites = {
+      inserted,
+      edited: kept.filter((c) => applied.edited?.has(c.id)),
+      moved: kept.filter((c) => placed.get(c.id) !== c.position),
+      removed: [...removed],
+    };
+    const now = [...kept, ...inserted].sort((a, b) => a.position - b.position);
+    const headingChanged = heading.title !== found.title || heading.settings !== found.settings;
+    const file = this.toFile({ extra: found.extra, ...heading }, now);
+    const actor = auth.session.user;
+    // A place in the firm's evaluation queue is held before anything is evaluated or written: a firm whose
+    // queue is full is told so (429) and its change is not saved, rather than saved and left unevaluated.
+    return this.evaluation.holding(auth.session.firm.id, async (reservation) => {
+      const want = now.flatMap((c, index) => (applied.touched.has(c.id) ? [index] : []));
+      let evaluated = await this.evaluateChange(id, file, now, { firm: auth.session.firm.id, reservation, base, want });
+      const store = (partial: boolean): ChangeToStore => ({
+        version,
+        states: EDITABLE,
+        results: evaluated.results,
+        partial,
+        engineVersion: evaluated.engineVersion,
+      });
+      const write = (change: ChangeToStore) =>
+        timed('db', async (): Promise<'saved' | 'stale' | 'results-moved'> => {
+          const simple = !headingChanged && actor.id === found.preparer.id && !inserted.length && !removed.size && !writes.moved.length;
+          if (simple && writes.edited.length === 1 && (await this.repository.saveCellEdit(id, writes.edited[0], change))) return 'saved';
+          return this.em.transactional(async (em) => {
+            const row = await this.repository.lockForSave(id);
+            if (!row || row.version !== version || !EDITABLE.includes(row.state)) return 'stale';
+            if (change.partial && (row.resultsVersion !== version || row.engineVersion !== change.engineVersion)) return 'results-moved';
+            if (actor.id !== found.preparer.id) await em.getRepository(SheetAuthor).recordEdit(id, found.revisionNumber, actor.id);
+            await this.repository.writeCells(id, writes);
+            if (headingChanged) await this.repository.writeHeading(id, heading);
+            await this.repository.raiseWithResults(id, change);
+            return 'saved';
+          });
+        });
+      let saved = await write(store(evaluated.partial));
+      if (saved === 'results-moved') {
+        // The stored results changed since they were read (another engine, or evaluated afresh): every cell's.
+        evaluated = await this.evaluateChange(id, file, now, { firm: auth.session.firm.id, reservation, want });
+        saved = await write(store(false));
+      }
+      if (saved !== 'saved') throw await this.stale(id);
+      // The answer: each cell the change touched or whose results were written, built from what is in hand.
+      return {
+        version: version + 1,
+        changed: now
+          .filter((c) => applied.touched.has(c.id) || evaluated.results.has(c.id))
+          .map(
+            (c) =>
+              ({
+                id: c.id,
+                position: c.position,
+                kind: c.kind,
+                fields: c.fields,
+                results: evaluated.results.get(c.id) ?? null,
+                changedBy: c.changedBy,
+                changedAt: c.changedAt.toISOString(),
+                agreedBy: c.agreedBy,
+                changedAfterAgreement: c.changedAfterAgreement,
+              }) as CellDto,
+          ),
+        removed: applied.removed ?? [],
+      };
+    });
   }
 
   /** A sheet the caller may change, read as a save needs it (one query, no entities); 404 or the rulebook's refusal otherwise. */
@@ -286,71 +363,43 @@ export class SheetsService {
     return heading;
   }
 
-  private async changeHolding(found: SheetHeadingRow, auth: AuthContext, version: number, apply: Change, reservation: Reservation): Promise<SaveResult> {
-    const actor = auth.session.user;
-    const saved = await timed('db', () =>
-      this.em.transactional(async (em) => {
-        if (!(await this.repository.raiseVersion(found.id, version, EDITABLE))) {
-          // Not raised: the sheet left preparation (read-only), was deleted, or someone else saved first.
-          const current = await this.repository.contents(found.id);
-          if (!current) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
-          this.assertEditable(current.state);
-          throw new SheetException(
-            SheetErrorCode.StaleVersion,
-            'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.',
-            { current },
-          );
-        }
-        // What was read before is what the version raised from, unless that read saw an older version
-        // (then it is read again, under the row lock now held).
-        const sheet = found.version === version ? found : (await this.repository.heading(auth.session.firm.id, found.id))!;
-        if (actor.id !== sheet.preparer.id) await em.getRepository(SheetAuthor).recordEdit(sheet.id, sheet.revisionNumber, actor.id);
-        // The cells read with the heading are the version raised from when that read saw it; otherwise read again.
-        const cells = found.version === version && found.cells ? found.cells : await this.repository.cellRecords(sheet.id);
-        const placed = new Map(cells.map((c) => [c.id, c.position]));
-        const heading: Heading = { title: sheet.title, settings: sheet.settings };
-        const applied = apply(heading, cells);
-        const removed = new Set(applied.removed ?? []);
-        const inserted = applied.inserted ?? [];
-        const kept = cells.filter((c) => !removed.has(c.id));
-        await this.repository.writeCells(sheet.id, {
-          inserted,
-          edited: kept.filter((c) => applied.edited?.has(c.id)),
-          moved: kept.filter((c) => placed.get(c.id) !== c.position),
-          removed: [...removed],
-        });
-        if (heading.title !== sheet.title || heading.settings !== sheet.settings) await this.repository.writeHeading(sheet.id, heading);
-        const now = [...kept, ...inserted].sort((a, b) => a.position - b.position);
-        return { file: this.toFile({ extra: sheet.extra, ...heading }, now), applied, cells: now };
-      }),
+  /** A save refused because the sheet moved on: 409 with what the editor needs to merge, or read-only, or gone. */
+  private async stale(id: string): Promise<Error> {
+    const current = await this.repository.contents(id);
+    if (!current) return new RequestException(ErrorCode.NotFound, 'No such sheet.');
+    if (!EDITABLE.includes(current.state))
+      return new SheetException(SheetErrorCode.ReadOnly, `The sheet is ${current.state.replace('-', ' ')} and can no longer be edited.`);
+    return new SheetException(
+      SheetErrorCode.StaleVersion,
+      'Someone else saved this sheet since you opened it. Their change is shown; your text is kept so you can apply it again.',
+      { current },
     );
-    const { file, applied, cells } = saved;
-    const { results, written } = await this.evaluateAndStore(found.id, file, cells, version + 1, {
-      firm: auth.session.firm.id,
-      reservation,
-      basedOn: version,
-      touched: applied.touched,
-    });
-    // The answer: each cell the change touched or whose results were written, built from what is in hand.
-    const shown = cells.filter((c) => applied.touched.has(c.id) || written.has(c.id));
-    return {
-      version: version + 1,
-      changed: shown.map(
-        (c) =>
-          ({
-            id: c.id,
-            position: c.position,
-            kind: c.kind,
-            fields: c.fields,
-            results: results.get(c.id) ?? null,
-            changedBy: c.changedBy,
-            changedAt: c.changedAt.toISOString(),
-            agreedBy: c.agreedBy,
-            changedAfterAgreement: c.changedAfterAgreement,
-          }) as CellDto,
-      ),
-      removed: applied.removed ?? [],
-    };
+  }
+
+  /**
+   * Evaluates a changed sheet: the results by cell id — only those that differ from the stored ones
+   * (`partial`) when the process held the evaluation of `base`, every cell's otherwise. A sheet that cannot
+   * be evaluated at all (deadline, memory) gets, in every cell, the reason instead of a number: no result
+   * of an older state stays on screen. The change itself is saved.
+   */
+  private async evaluateChange(
+    id: string,
+    file: SheetFile,
+    cells: readonly { id: string }[],
+    options: { firm: string; reservation: Reservation; base?: string; want: number[] },
+  ): Promise<{ results: Map<string, CellResult>; partial: boolean; engineVersion: string | null }> {
+    const outcome = await this.evaluator.evaluateChange(file, { ...options, key: id });
+    addTiming('eval', outcome.totalMs);
+    if (!outcome.ok) return { results: this.unevaluated(cells, outcome.message), partial: false, engineVersion: null };
+    addTiming('engine', outcome.engineMs);
+    const results = new Map<string, CellResult>();
+    for (const [index, result] of outcome.results) results.set(cells[index].id, result);
+    return { results, partial: !outcome.complete, engineVersion: outcome.engineVersion };
+  }
+
+  private unevaluated(cells: readonly { id: string }[], message: string): Map<string, CellResult> {
+    const list = unevaluatedResults(cells.length, message);
+    return new Map(cells.map((c, i) => [c.id, list[i]]));
   }
 
   /**
@@ -366,35 +415,17 @@ export class SheetsService {
     );
   }
 
-  /**
-   * Evaluates the cells of a sheet as they stand at `version` and stores their results while the sheet is
-   * still at that version (SheetRepository.storeResults). The evaluation process keeps each sheet's cache
-   * with the version it evaluated: when it reused the cache of `basedOn` (the version this save changed)
-   * and the stored results are those of `basedOn`, only the cells it re-evaluated and those the change
-   * touched (added, moved, edited) can differ, and only they are written. A sheet that cannot be evaluated
-   * at all (deadline, memory) gets, in every cell, the reason instead of a number: no result of an older
-   * state stays on screen. The change itself is saved.
-   */
+  /** Evaluates every cell of a sheet as it stands at `version` and stores the results while it is still at that version. */
   private async evaluateAndStore(
     sheetId: string,
     file: SheetFile,
     cells: readonly { id: string }[],
     version: number,
-    options: { firm: string; reservation: Reservation; basedOn?: number; touched?: ReadonlySet<string> },
-  ): Promise<{ results: Map<string, CellResult>; written: ReadonlySet<string> }> {
-    const outcome = await this.evaluator.evaluate(file, { firm: options.firm, key: sheetId, version, reservation: options.reservation });
-    addTiming('eval', outcome.totalMs);
-    if (outcome.ok) addTiming('engine', outcome.engineMs);
-    const list = outcome.ok ? outcome.results : unevaluatedResults(cells.length, outcome.message);
-    const results = new Map(cells.map((c, i) => [c.id, list[i]]));
-    const incremental = outcome.ok && options.basedOn !== undefined && outcome.reusedFrom === options.basedOn;
-    const only = incremental
-      ? { ids: new Set([...outcome.evaluated.map((i) => cells[i].id), ...(options.touched ?? [])]), basedOn: options.basedOn! }
-      : undefined;
-    const written = await timed('db', () =>
-      this.repository.storeResults(sheetId, { version, results, only, engineVersion: outcome.ok ? outcome.engineVersion : null }),
-    );
-    return { results, written: written ?? new Set() };
+    options: { firm: string; reservation: Reservation },
+  ): Promise<void> {
+    const outcome = await this.evaluator.evaluate(file, { ...options, key: sheetId });
+    const results = outcome.ok ? new Map(cells.map((c, i) => [c.id, outcome.results[i]])) : this.unevaluated(cells, outcome.message);
+    await this.repository.storeResults(sheetId, { version, results, engineVersion: outcome.ok ? outcome.engineVersion : null });
   }
 
   update(auth: AuthContext, id: string, dto: UpdateSheetDto): Promise<SaveResult> {

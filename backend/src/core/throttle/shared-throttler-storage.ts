@@ -1,23 +1,25 @@
 import type { MikroORM } from '@mikro-orm/core';
-import { ThrottlerStorageService, type ThrottlerStorage } from '@nestjs/throttler';
+import type { ThrottlerStorage } from '@nestjs/throttler';
 import { ThrottleCounter } from './throttle-counter.entity';
 import type { ThrottleCounterRepository } from './throttle-counter.repository';
 import { OFF } from './throttlers';
+import { WindowCounter } from './window-counter';
 
 /**
  * Where the throttlers count. The security limits (sign-in, password reset, invitations, verification:
  * the `address` and `account` throttlers where a route turns them on) are counted in MariaDB, so that
  * several app instances behind a load balancer share one count. The general `default` limit, which only
- * protects each instance from floods, and throttlers left off are counted in memory, with no database
- * write per request.
+ * protects each instance from floods, is counted in memory in fixed windows (constant work per request, no
+ * database write); throttlers left off are not counted at all.
  */
 export class SharedThrottlerStorage implements ThrottlerStorage {
-  private readonly local = new ThrottlerStorageService();
+  private readonly local = new WindowCounter();
 
   constructor(private readonly orm: MikroORM) {}
 
   async increment(key: string, ttl: number, limit: number, blockDuration: number, throttlerName: string): ReturnType<ThrottlerStorage['increment']> {
-    if (throttlerName === 'default' || limit >= OFF) return this.local.increment(key, ttl, limit, blockDuration, throttlerName);
+    if (limit >= OFF) return { totalHits: 0, timeToExpire: 0, isBlocked: false, timeToBlockExpire: 0 };
+    if (throttlerName === 'default') return this.local.increment(key, ttl, limit, blockDuration, throttlerName);
     const counters = this.counters();
     const id = `${throttlerName}:${key}`;
     const row = await counters.hit(id, ttl);

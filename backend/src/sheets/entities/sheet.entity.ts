@@ -67,8 +67,8 @@ export class Sheet {
 
   /**
    * The version whose evaluation the cells' stored results are (null when not known: restored from a
-   * revision, or seeded). A save writes only the cells it re-evaluated when this is the version it
-   * changed (SheetRepository.storeResults).
+   * revision, seeded, or the evaluation failed). A save writes its change with its results, and only the
+   * results that differ when these are of the version it changed (SheetRepository.saveCellEdit).
    */
   @Property({ type: 'integer', nullable: true })
   resultsVersion?: number | null;
