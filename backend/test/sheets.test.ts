@@ -86,6 +86,22 @@ describe('projects and sheets', () => {
     expect(JSON.stringify(transient.results)).toBe(JSON.stringify(made.body.cells.find((c: { kind: string }) => c.kind === 'transient').results));
   });
 
+  it('reads each cell as the save that wrote it answered it: text with quotes, backslashes, tabs and accents, people and times', async () => {
+    const made = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)
+      .send({ number: 'R-102', sheet: { format: 'ampwright.sheet/1', title: 'Escapes', cells: [{ kind: 'note', text: 'first' }] } })
+      .expect(201);
+    const text = 'A "quoted" word, a back\\slash, a\ttab, a line\nbreak, é, Ω, 🙂 and \u0001';
+    const saved = await as(app, engineer, 'patch', `/api/sheets/${made.body.id}/cells/${made.body.cells[0].id}`)
+      .send({ version: made.body.version, cell: { kind: 'note', text } })
+      .expect(200);
+    const read = (await as(app, engineer, 'get', `/api/sheets/${made.body.id}`).expect(200)).body;
+    // The answer is built by the app, the read by MariaDB: the same cell, field by field.
+    expect(read.cells[0]).toEqual(saved.body.changed[0]);
+    expect(read.cells[0].fields.text).toBe(text);
+    expect(read.cells[0].changedAt).toMatch(/^\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{3}Z$/);
+    expect(read.cells[0]).toMatchObject({ changedBy: expect.any(String), agreedBy: null, changedAfterAgreement: false });
+  });
+
   it('saves a sheet as a firm template, offers it beside the built-in ones, and starts new sheets from it', async () => {
     const from = (
       await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`)

@@ -86,8 +86,6 @@ export interface SaveLock {
   engineVersion: string | null;
 }
 
-const NULL_JSON = Buffer.from('null');
-const CLOSE_OBJECT = Buffer.from('}');
 const parsedJson = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);
 
 /**
@@ -179,6 +177,8 @@ const VIEW_HEADING_COLUMNS = `s.id, s.project_id, s.number, s.title, s.settings,
   (select count(*) from cell_query q where ${OPEN_QUERY}) as open_queries,
   (select json_arrayagg(json_object('id', a.user_id, 'name', au2.name, 'named', a.named)) from sheet_author a join app_user au2 on au2.id = a.user_id
     where a.sheet_id = s.id and a.revision_number = s.revision_number) as authors`;
+/** The columns of VIEW_HEADING_COLUMNS (the view's union fails at once, in every read, if this is wrong). */
+const VIEW_HEADING_COLUMN_COUNT = 17;
 
 const viewHeading = (s: SheetRow): Omit<SheetDto, 'cells'> => ({
   id: s.id,
@@ -198,6 +198,24 @@ const viewHeading = (s: SheetRow): Omit<SheetDto, 'cells'> => ({
 
 /** Who changed and who agreed each cell `c` (aliases ccu, cau). */
 const CELL_PEOPLE = 'left join app_user ccu on ccu.id = c.changed_by_id left join app_user cau on cau.id = c.agreed_by_id';
+
+/** As many nulls as VIEW_HEADING_COLUMNS has columns, for the cells' rows of the view's union. */
+const HEADING_NULLS = Array.from({ length: VIEW_HEADING_COLUMN_COUNT }, () => 'null').join(', ');
+
+/** A JSON string or null, written by MariaDB (JSON_QUOTE escapes as JSON requires). */
+const jsonText = (expr: string) => `coalesce(json_quote(${expr}), 'null')`;
+
+/**
+ * A cell `c` as the API shows it (CellDto), written as JSON by MariaDB, as bytes: its fields and results are
+ * spliced in as stored; `changedAt` is ISO 8601 in UTC with milliseconds, as Date#toISOString writes it (the
+ * column holds UTC to the millisecond).
+ */
+const CELL_JSON = `cast(concat('{"id":', json_quote(c.id), ',"position":', c.position, ',"kind":', json_quote(c.kind), ',"fields":', c.fields,
+  ',"results":', coalesce(c.results, 'null'), ',"changedBy":', ${jsonText('ccu.name')},
+  ',"changedAt":"', date_format(c.changed_at, '%Y-%m-%dT%H:%i:%s.'), left(date_format(c.changed_at, '%f'), 3), 'Z"',
+  ',"agreedBy":', ${jsonText('cau.name')}, ',"changedAfterAgreement":', if(c.changed_after_agreement, 'true', 'false'), '}') as binary)`;
+const COMMA = Buffer.from(',');
+const EMPTY = Buffer.alloc(0);
 
 /** The columns of a cell as a save changes it (aliases: c for cell, ccu and cau for who changed and agreed it). */
 const CELL_RECORD_COLUMNS =
@@ -277,26 +295,23 @@ export class SheetRepository extends EntityRepository<Sheet> {
 
   /**
    * A sheet of a firm as the API shows it, as JSON bytes in one statement (null: not this firm's). The read of a
-   * sheet is the hot path: each cell's results are passed through as MariaDB holds them (the text
-   * JSON.stringify wrote), never parsed and written again.
+   * sheet is the hot path: MariaDB writes each cell's JSON itself (CELL_JSON), passing its fields and results
+   * through as it holds them (the text JSON.stringify wrote), so the app only joins bytes — nothing is parsed
+   * and written again. The heading is the first row, the cells the rows after it, in order.
    */
   async viewJson(firmId: string, id: string): Promise<Buffer | null> {
-    // One statement: the sheet's heading on every row (a sheet without cells gives one row with no cell).
-    const rows = await this.em.execute<(SheetRow & { cell_id: string | null } & Omit<CellRow, 'id'> & { results_json: Buffer | null })[]>(
-      `select ${VIEW_HEADING_COLUMNS}, c.id as cell_id, c.position, c.kind, c.fields, cast(c.results as binary) as results_json, c.changed_at,
-              c.changed_after_agreement, ccu.name as changed_by, cau.name as agreed_by
-         ${SHEET_JOINS} left join cell c on c.sheet_id = s.id ${CELL_PEOPLE}
-         ${OF_FIRM} order by c.position`,
-      [id, firmId],
+    const rows = await this.em.execute<(Partial<SheetRow> & { cell_json: Buffer | null })[]>(
+      `select 0 as part, -1 as place, ${VIEW_HEADING_COLUMNS}, null as cell_json ${SHEET_OF_FIRM}
+       union all
+       select 1, c.position, ${HEADING_NULLS}, ${CELL_JSON} as cell_json
+         from cell c join sheet s on s.id = c.sheet_id join project p on p.id = s.project_id ${CELL_PEOPLE}
+        where c.sheet_id = ? and p.firm_id = ?
+       order by part, place`,
+      [id, firmId, id, firmId],
     );
     if (!rows.length) return null;
-    const parts: Buffer[] = [Buffer.from(`${JSON.stringify({ ...viewHeading(rows[0]), cells: null }).slice(0, -'null}'.length)}[`)];
-    rows
-      .filter((r) => r.cell_id)
-      .forEach((r, k) => {
-        const { results: _none, ...cell } = rowView({ ...r, id: r.cell_id! });
-        parts.push(Buffer.from(`${k ? ',' : ''}${JSON.stringify(cell).slice(0, -1)},"results":`), r.results_json ?? NULL_JSON, CLOSE_OBJECT);
-      });
+    const parts: Buffer[] = [Buffer.from(`${JSON.stringify({ ...viewHeading(rows[0] as SheetRow), cells: null }).slice(0, -'null}'.length)}[`)];
+    for (let k = 1; k < rows.length; k++) parts.push(k > 1 ? COMMA : EMPTY, rows[k].cell_json!);
     parts.push(Buffer.from(']}'));
     return Buffer.concat(parts);
   }
