@@ -70,7 +70,7 @@ export class AttachmentsService {
       mediaType: sniffed.mediaType,
       size: file.size,
       sha256,
-      uploadedBy: this.em.getReference(User, auth.session.user.id),
+      uploadedBy: this.em.getReference(User, auth.user.id),
     });
     await this.em.persist(attachment).flush();
     await this.em.populate(attachment, ['uploadedBy']);
@@ -78,7 +78,7 @@ export class AttachmentsService {
   }
 
   private async find(auth: AuthContext, id: string): Promise<Attachment> {
-    const attachment = await this.em.findOne(Attachment, { id, sheet: { project: { firm: auth.session.firm } } }, { populate: ['sheet'] });
+    const attachment = await this.em.findOne(Attachment, { id, sheet: { project: { firm: auth.firm.id } } }, { populate: ['sheet'] });
     if (!attachment) throw new RequestException(ErrorCode.NotFound, 'No such attachment.');
     return attachment;
   }

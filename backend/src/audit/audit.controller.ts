@@ -12,7 +12,7 @@ export class AuditController {
   @Roles('owner')
   @Get()
   async list(@CurrentAuth() auth: AuthContext) {
-    const events = await this.audit.forFirm(auth.session.firm.id);
+    const events = await this.audit.forFirm(auth.firm.id);
     return events.map((e) => ({
       id: e.id,
       type: e.type,

@@ -6,7 +6,7 @@ import type { Response } from 'express';
 import { AuditService } from '../audit/audit.service';
 import type { Environment } from '../config/environment';
 import { AuthException } from '../core/errors/app-exception';
-import { hashToken, type AuthContext } from '../core/guards/auth.guard';
+import { authContextOf, hashToken, type AuthContext } from '../core/guards/auth.guard';
 import { Firm } from '../firms/entities/firm.entity';
 import { Membership } from '../firms/entities/membership.entity';
 import { MailService } from '../mail/mail.service';
@@ -102,7 +102,7 @@ export class AuthService {
     await this.em.persist([firm, user, membership]).flush();
     const session = await this.sessions.open(user, firm, res);
     await this.audit.record('firm-registered', { firmId: firm.id, userId: user.id, email: user.email, ip });
-    return this.me({ session, membership, roles: membership.roles });
+    return this.me(authContextOf(session, membership.roles));
   }
 
   async login(dto: LoginDto, res: Response, ip?: string): Promise<MeResponseDto> {
@@ -118,16 +118,16 @@ export class AuthService {
     await this.signInThrottle.succeeded(dto.email, ip);
     const session = await this.sessions.open(user, membership.firm, res);
     await this.audit.record('sign-in', { firmId: membership.firm.id, userId: user.id, email: user.email, ip });
-    return this.me({ session, membership, roles: membership.roles });
+    return this.me(authContextOf(session, membership.roles));
   }
 
   async logout(auth: AuthContext, res: Response): Promise<void> {
-    await this.sessions.close(auth.session, res);
-    await this.audit.record('sign-out', { firmId: auth.session.firm.id, userId: auth.session.user.id, email: auth.session.user.email });
+    await this.sessions.close(auth.session.tokenHash, res);
+    await this.audit.record('sign-out', { firmId: auth.firm.id, userId: auth.user.id, email: auth.user.email });
   }
 
   me(auth: AuthContext): MeResponseDto {
-    const { user, firm } = auth.session;
+    const { user, firm } = auth;
     return {
       user: { id: user.id, email: user.email, name: user.name },
       firm: { id: firm.id, name: firm.name },
@@ -137,8 +137,8 @@ export class AuthService {
   }
 
   async changeProfile(auth: AuthContext, dto: ChangeProfileDto): Promise<MeResponseDto> {
-    auth.session.user.name = dto.name;
-    await this.em.flush();
+    await this.em.nativeUpdate(User, { id: auth.user.id }, { name: dto.name });
+    auth.user.name = dto.name;
     return this.me(auth);
   }
 

@@ -38,8 +38,8 @@ export class SessionsService {
     return session;
   }
 
-  async close(session: Session, res: Response): Promise<void> {
-    await this.em.nativeDelete(Session, { tokenHash: session.tokenHash });
+  async close(tokenHash: string, res: Response): Promise<void> {
+    await this.em.nativeDelete(Session, { tokenHash });
     res.clearCookie(SESSION_COOKIE, { path: '/' });
   }
 

@@ -21,7 +21,7 @@ export class EvaluationController {
   @Post()
   @HttpCode(200)
   async evaluate(@CurrentAuth() auth: AuthContext, @Body(SheetFilePipe) sheet: SheetFile): Promise<EvaluationResponseDto> {
-    const outcome = await this.evaluator.evaluate(sheet, { firm: auth.session.firm.id });
+    const outcome = await this.evaluator.evaluate(sheet, { firm: auth.firm.id });
     if (!outcome.ok) throw this.evaluation.failure(outcome.reason, outcome.message, true);
     return { engineVersion: outcome.engineVersion, cells: outcome.results };
   }

@@ -9,6 +9,7 @@ import type { Environment } from '../config/environment';
 import { AuthException, ErrorCode, InvitationException, RequestException } from '../core/errors/app-exception';
 import { hashToken, type AuthContext } from '../core/guards/auth.guard';
 import { Membership } from '../firms/entities/membership.entity';
+import { Firm } from '../firms/entities/firm.entity';
 import { Project, ProjectPerson } from '../projects/entities/project.entity';
 import { MailService } from '../mail/mail.service';
 import { mailTemplates } from '../mail/mail-templates';
@@ -50,7 +51,7 @@ export class InvitationsService {
     if (dto.roles.includes('client') && dto.roles.length > 1) {
       throw new InvitationException(InvitationErrorCode.ClientWithOtherRoles, 'A client cannot also hold a role in the firm: invite them as a client only.');
     }
-    const firm = auth.session.firm;
+    const firm = this.em.getReference(Firm, auth.firm.id);
     if (dto.projectIds?.length) {
       if (!dto.roles.includes('client'))
         throw new InvitationException(InvitationErrorCode.ClientWithOtherRoles, "Projects are given to clients only: members see all of the firm's projects.");
@@ -61,33 +62,40 @@ export class InvitationsService {
         });
     }
     const existing = await this.em.findOne(Membership, { firm, user: { email: dto.email } });
-    if (existing) throw new InvitationException(InvitationErrorCode.AlreadyMember, `${dto.email} is already in ${firm.name}: change their roles instead.`);
+    if (existing) throw new InvitationException(InvitationErrorCode.AlreadyMember, `${dto.email} is already in ${auth.firm.name}: change their roles instead.`);
     const token = newToken();
-    const invitation = new Invitation(firm, dto.email, dto.roles, hashToken(token), new Date(Date.now() + VALID_DAYS * 86_400_000), auth.session.user);
+    const invitation = new Invitation(
+      firm,
+      dto.email,
+      dto.roles,
+      hashToken(token),
+      new Date(Date.now() + VALID_DAYS * 86_400_000),
+      this.em.getReference(User, auth.user.id),
+    );
     invitation.projectIds = dto.projectIds ?? [];
     await this.em.persist(invitation).flush();
     await this.mail.send(
       mailTemplates.invitation({
         to: dto.email,
-        firm: firm.name,
-        invitedBy: auth.session.user.name,
+        firm: auth.firm.name,
+        invitedBy: auth.user.name,
         roles: dto.roles,
         url: `${this.appUrl}/accept-invitation?token=${token}`,
         expires: invitation.expiresAt,
       }),
     );
-    await this.audit.record('invitation-sent', { firmId: firm.id, userId: auth.session.user.id, email: dto.email, detail: { roles: dto.roles } });
+    await this.audit.record('invitation-sent', { firmId: firm.id, userId: auth.user.id, email: dto.email, detail: { roles: dto.roles } });
     return toResponse(invitation);
   }
 
   async list(auth: AuthContext): Promise<InvitationResponseDto[]> {
-    const list = await this.em.find(Invitation, { firm: auth.session.firm }, { orderBy: { createdAt: 'desc' } });
+    const list = await this.em.find(Invitation, { firm: auth.firm.id }, { orderBy: { createdAt: 'desc' } });
     return list.map(toResponse);
   }
 
   /** The owner withdraws an invitation not yet accepted; its link stops working at once. */
   async revoke(auth: AuthContext, id: string): Promise<InvitationResponseDto> {
-    const invitation = await this.em.findOne(Invitation, { id, firm: auth.session.firm });
+    const invitation = await this.em.findOne(Invitation, { id, firm: auth.firm.id });
     if (!invitation) throw new RequestException(ErrorCode.NotFound, 'No such invitation.');
     const withdrawn = await this.em.nativeUpdate(Invitation, { id, acceptedAt: null, revokedAt: null }, { revokedAt: new Date() });
     if (withdrawn !== 1)
@@ -95,7 +103,7 @@ export class InvitationsService {
         ErrorCode.Conflict,
         invitation.acceptedAt ? 'This invitation was accepted already; remove the member instead.' : 'This invitation was withdrawn already.',
       );
-    await this.audit.record('invitation-revoked', { firmId: auth.session.firm.id, userId: auth.session.user.id, email: invitation.email });
+    await this.audit.record('invitation-revoked', { firmId: auth.firm.id, userId: auth.user.id, email: invitation.email });
     await this.em.refresh(invitation);
     return toResponse(invitation);
   }

@@ -25,20 +25,20 @@ export class MembersService {
   ) {}
 
   async list(auth: AuthContext): Promise<MemberResponseDto[]> {
-    const members = await this.em.find(Membership, { firm: auth.session.firm }, { populate: ['user'], orderBy: { createdAt: 'asc' } });
+    const members = await this.em.find(Membership, { firm: auth.firm.id }, { populate: ['user'], orderBy: { createdAt: 'asc' } });
     return members.map(toResponse);
   }
 
   /** A member of the caller's firm; another firm's id is "not found", never "forbidden". */
   private async find(auth: AuthContext, id: string): Promise<Membership> {
-    const m = await this.em.findOne(Membership, { id, firm: auth.session.firm }, { populate: ['user'] });
+    const m = await this.em.findOne(Membership, { id, firm: auth.firm.id }, { populate: ['user'] });
     if (!m) throw new RequestException(ErrorCode.NotFound, 'No such member in this firm.');
     return m;
   }
 
   private async assertOwnerRemains(auth: AuthContext, changed: Membership, newRoles: string[] | null): Promise<void> {
     if (!changed.roles.includes('owner') || newRoles?.includes('owner')) return;
-    const owners = await this.em.count(Membership, { firm: auth.session.firm, roles: { $like: '%"owner"%' } });
+    const owners = await this.em.count(Membership, { firm: auth.firm.id, roles: { $like: '%"owner"%' } });
     if (owners <= 1) throw new MemberException(MemberErrorCode.LastOwner, 'A firm must keep at least one owner: make someone else owner first.');
   }
 
@@ -52,8 +52,8 @@ export class MembersService {
     m.roles = dto.roles;
     await this.em.flush();
     await this.audit.record('role-changed', {
-      firmId: auth.session.firm.id,
-      userId: auth.session.user.id,
+      firmId: auth.firm.id,
+      userId: auth.user.id,
       email: m.user.email,
       detail: { before, after: dto.roles },
     });
@@ -63,8 +63,8 @@ export class MembersService {
   async remove(auth: AuthContext, id: string): Promise<void> {
     const m = await this.find(auth, id);
     await this.assertOwnerRemains(auth, m, null);
-    await this.em.nativeDelete(Session, { user: m.user, firm: auth.session.firm });
+    await this.em.nativeDelete(Session, { user: m.user, firm: auth.firm.id });
     await this.em.remove(m).flush();
-    await this.audit.record('member-removed', { firmId: auth.session.firm.id, userId: auth.session.user.id, email: m.user.email, detail: { roles: m.roles } });
+    await this.audit.record('member-removed', { firmId: auth.firm.id, userId: auth.user.id, email: m.user.email, detail: { roles: m.roles } });
   }
 }

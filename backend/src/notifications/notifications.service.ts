@@ -61,12 +61,12 @@ export class NotificationsService {
   }
 
   async list(auth: AuthContext): Promise<NotificationDto[]> {
-    const rows = await this.em.find(Notification, { user: auth.session.user }, { orderBy: { createdAt: 'desc' }, limit: 100 });
+    const rows = await this.em.find(Notification, { user: auth.user.id }, { orderBy: { createdAt: 'desc' }, limit: 100 });
     return rows.map(view);
   }
 
   async markRead(auth: AuthContext, id: string): Promise<NotificationDto> {
-    const n = await this.em.findOne(Notification, { id, user: auth.session.user });
+    const n = await this.em.findOne(Notification, { id, user: auth.user.id });
     if (!n) throw new RequestException(ErrorCode.NotFound, 'No such notification.');
     n.readAt ??= new Date();
     await this.em.flush();
@@ -74,6 +74,6 @@ export class NotificationsService {
   }
 
   async markAllRead(auth: AuthContext): Promise<void> {
-    await this.em.nativeUpdate(Notification, { user: auth.session.user, readAt: null }, { readAt: new Date() });
+    await this.em.nativeUpdate(Notification, { user: auth.user.id, readAt: null }, { readAt: new Date() });
   }
 }

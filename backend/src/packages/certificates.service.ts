@@ -38,16 +38,16 @@ export class CertificatesService {
   /** What the firm's packages carry: the query register only if the owner turned it on. */
   async packageSettings(auth: AuthContext): Promise<PackageSettingsDto> {
     // Read from its row: the request's firm was mapped from the session's read without this column.
-    return { queryRegister: (await this.em.findOneOrFail(Firm, auth.session.firm.id, { refresh: true })).packageQueryRegister };
+    return { queryRegister: (await this.em.findOneOrFail(Firm, auth.firm.id, { refresh: true })).packageQueryRegister };
   }
 
   async setPackageSettings(auth: AuthContext, dto: PackageSettingsDto): Promise<PackageSettingsDto> {
-    await this.em.nativeUpdate(Firm, { id: auth.session.firm.id }, { packageQueryRegister: dto.queryRegister });
+    await this.em.nativeUpdate(Firm, { id: auth.firm.id }, { packageQueryRegister: dto.queryRegister });
     return this.packageSettings(auth);
   }
 
   async current(auth: AuthContext): Promise<CertificateView | null> {
-    const c = await this.em.findOne(FirmCertificate, { firm: auth.session.firm });
+    const c = await this.em.findOne(FirmCertificate, { firm: auth.firm.id });
     return c ? view(c) : null;
   }
 
@@ -62,13 +62,13 @@ export class CertificatesService {
         details: [{ field: 'password', message: 'required' }],
       });
     // Opened in an evaluation process with a deadline: a hostile file's key iterations never run here.
-    const opened = await this.evaluation.readCertificate(auth.session.firm.id, file.buffer, password);
+    const opened = await this.evaluation.readCertificate(auth.firm.id, file.buffer, password);
     if (!opened.ok) {
       throw new PackageException(PackageErrorCode.CertificateRefused, `The certificate was refused: ${opened.problem}`, {
         details: [{ field: opened.problem.includes('password') ? 'password' : 'file', message: opened.problem }],
       });
     }
-    return view(await this.store(auth.session.firm, file.buffer, password, opened.facts, false));
+    return view(await this.store(this.em.getReference(Firm, auth.firm.id), file.buffer, password, opened.facts, false));
   }
 
   private async store(firm: Firm, p12: Buffer, password: string, facts: ReturnType<typeof readP12>, selfSigned: boolean): Promise<FirmCertificate> {

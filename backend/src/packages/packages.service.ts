@@ -197,9 +197,9 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
     const where = isClient
       ? {
           id,
-          sheet: { project: { id: { $in: (await this.em.find(ProjectPerson, { user: auth.session.user, standing: 'client' })).map((c) => c.project.id) } } },
+          sheet: { project: { id: { $in: (await this.em.find(ProjectPerson, { user: auth.user.id, standing: 'client' })).map((c) => c.project.id) } } },
         }
-      : { id, sheet: { project: { firm: auth.session.firm } } };
+      : { id, sheet: { project: { firm: auth.firm.id } } };
     const r = await this.em.findOne(Revision, where, { populate: ['sheet', 'sheet.project'] });
     if (!r) throw new RequestException(ErrorCode.NotFound, 'No such revision.');
     return r;
@@ -243,7 +243,7 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
 
   /** For a client: the issued revisions of the projects they were invited to, nothing else. */
   async portal(auth: AuthContext): Promise<PortalRevision[]> {
-    const projectIds = (await this.em.find(ProjectPerson, { user: auth.session.user, standing: 'client' })).map((c) => c.project.id);
+    const projectIds = (await this.em.find(ProjectPerson, { user: auth.user.id, standing: 'client' })).map((c) => c.project.id);
     if (!projectIds.length) return [];
     const rows = await this.em.find(
       Revision,

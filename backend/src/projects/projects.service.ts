@@ -1,6 +1,7 @@
 import { EntityManager, UniqueConstraintViolationException } from '@mikro-orm/core';
 import { Injectable } from '@nestjs/common';
 import { Membership } from '../firms/entities/membership.entity';
+import { Firm } from '../firms/entities/firm.entity';
 import { User } from '../users/entities/user.entity';
 import type { ProjectPeopleDto } from '@ampwright/common';
 import { ErrorCode, ProjectException, RequestException } from '../core/errors/app-exception';
@@ -38,9 +39,9 @@ export class ProjectsService {
 
   /** A project the caller may see: any of the firm's for a member, an invited one for a client; else 404. */
   async find(auth: AuthContext, id: string): Promise<Project> {
-    const project = await this.em.findOne(Project, { id, firm: auth.session.firm });
+    const project = await this.em.findOne(Project, { id, firm: auth.firm.id });
     const visible =
-      project && (!auth.roles.includes('client') || (await this.em.count(ProjectPerson, { project, user: auth.session.user, standing: 'client' })) > 0);
+      project && (!auth.roles.includes('client') || (await this.em.count(ProjectPerson, { project, user: auth.user.id, standing: 'client' })) > 0);
     if (!project || !visible) throw new RequestException(ErrorCode.NotFound, 'No such project.');
     return project;
   }
@@ -48,10 +49,10 @@ export class ProjectsService {
   async list(auth: AuthContext): Promise<ProjectResponseDto[]> {
     const where = auth.roles.includes('client')
       ? {
-          firm: auth.session.firm,
-          id: { $in: (await this.em.find(ProjectPerson, { user: auth.session.user, standing: 'client' }, { populate: ['project'] })).map((c) => c.project.id) },
+          firm: auth.firm.id,
+          id: { $in: (await this.em.find(ProjectPerson, { user: auth.user.id, standing: 'client' }, { populate: ['project'] })).map((c) => c.project.id) },
         }
-      : { firm: auth.session.firm };
+      : { firm: auth.firm.id };
     const projects = await this.em.find(Project, where, { orderBy: { jobNumber: 'asc' } });
     return Promise.all(projects.map((p) => this.toResponse(p, auth)));
   }
@@ -74,8 +75,8 @@ export class ProjectsService {
   }
 
   async create(auth: AuthContext, dto: CreateProjectDto): Promise<ProjectResponseDto> {
-    const project = new Project(auth.session.firm, dto, auth.session.user);
-    this.em.persist(new ProjectPerson(project, this.em.getReference(User, auth.session.user.id), 'team'));
+    const project = new Project(this.em.getReference(Firm, auth.firm.id), dto, this.em.getReference(User, auth.user.id));
+    this.em.persist(new ProjectPerson(project, this.em.getReference(User, auth.user.id), 'team'));
     await this.save(() => this.em.persist(project).flush(), dto.jobNumber);
     return this.toResponse(project, auth);
   }
@@ -99,9 +100,7 @@ export class ProjectsService {
   async people(auth: AuthContext, id: string): Promise<ProjectPeopleDto> {
     const project = await this.find(auth, id);
     const team = await this.em.find(ProjectPerson, { project, standing: 'team' }, { populate: ['user'], orderBy: { user: { name: 'asc' } } });
-    const roles = new Map(
-      (await this.em.find(Membership, { firm: auth.session.firm, user: { $in: team.map((t) => t.user.id) } })).map((m) => [m.user.id, m.roles]),
-    );
+    const roles = new Map((await this.em.find(Membership, { firm: auth.firm.id, user: { $in: team.map((t) => t.user.id) } })).map((m) => [m.user.id, m.roles]));
     const clients = await this.em.find(ProjectPerson, { project, standing: 'client' }, { populate: ['user'], orderBy: { user: { name: 'asc' } } });
     return {
       members: team.map((t) => ({ id: t.user.id, name: t.user.name, email: t.user.email, roles: roles.get(t.user.id) ?? [] })),
@@ -112,7 +111,7 @@ export class ProjectsService {
   /** Sets the team: every id must be a member of the firm (not a client). */
   async setMembers(auth: AuthContext, id: string, userIds: string[]): Promise<ProjectPeopleDto> {
     const project = await this.find(auth, id);
-    const memberships = await this.em.find(Membership, { firm: auth.session.firm, user: { $in: userIds } });
+    const memberships = await this.em.find(Membership, { firm: auth.firm.id, user: { $in: userIds } });
     const ok = new Set(memberships.filter((m) => m.roles.some((r) => r !== 'client')).map((m) => m.user.id));
     const bad = [...new Set(userIds)].filter((u) => !ok.has(u));
     if (bad.length)

@@ -54,8 +54,8 @@ export class QueriesService {
     detail: Record<string, unknown>,
   ) {
     return this.audit.record(type, {
-      firmId: auth.session.firm.id,
-      userId: auth.session.user.id,
+      firmId: auth.firm.id,
+      userId: auth.user.id,
       subjectId: sheet.id,
       detail: { sheet: sheet.number, ...detail },
     });
@@ -90,9 +90,9 @@ export class QueriesService {
             details: [{ field: 'line', message: `at most ${lines}` }],
           });
       }
-      const query = new CellQuery(sheet, cell, dto.line, em.getReference(User, auth.session.user.id), sheet.revisionNumber);
+      const query = new CellQuery(sheet, cell, dto.line, em.getReference(User, auth.user.id), sheet.revisionNumber);
       em.persist(query);
-      em.persist(new QueryMessage(query, em.getReference(User, auth.session.user.id), dto.text));
+      em.persist(new QueryMessage(query, em.getReference(User, auth.user.id), dto.text));
       id = query.id;
     });
     await this.record(auth, 'query-raised', sheet, { query: id, line: dto.line ?? null });
@@ -101,7 +101,7 @@ export class QueriesService {
       sheet.preparer,
       'query-raised',
       `Query raised on ${sheet.number}`,
-      `${auth.session.user.name} raised a query on sheet ${sheet.number}: ${dto.text}`,
+      `${auth.user.name} raised a query on sheet ${sheet.number}: ${dto.text}`,
     );
     return this.one(id);
   }
@@ -114,7 +114,7 @@ export class QueriesService {
   private async findQuery(auth: AuthContext, id: string): Promise<CellQuery> {
     const q = await this.em.findOne(
       CellQuery,
-      { id, sheet: { project: { firm: auth.session.firm } } },
+      { id, sheet: { project: { firm: auth.firm.id } } },
       { populate: ['sheet', 'sheet.preparer', 'sheet.checker', 'sheet.project', 'sheet.project.firm'] },
     );
     if (!q) throw new RequestException(ErrorCode.NotFound, 'No such query.');
@@ -141,7 +141,7 @@ export class QueriesService {
       });
     if (!isEditable(sheet.state as SheetState))
       throw new WorkflowException({ code: WorkflowCode.OutOfTurn, kind: 'conflict', message: 'The sheet is past checking; its queries can no longer change.' });
-    this.em.persist(new QueryMessage(q, this.em.getReference(User, auth.session.user.id), dto.text));
+    this.em.persist(new QueryMessage(q, this.em.getReference(User, auth.user.id), dto.text));
     q.status = byPreparer ? 'answered' : 'open';
     await this.em.flush();
     await this.record(auth, 'query-replied', sheet, { query: q.id, status: q.status });
@@ -150,7 +150,7 @@ export class QueriesService {
       byPreparer ? sheet.checker : sheet.preparer,
       'query-answered',
       `Query ${byPreparer ? 'answered' : 'followed up'} on ${sheet.number}`,
-      `${auth.session.user.name} replied to a query on sheet ${sheet.number}: ${dto.text}`,
+      `${auth.user.name} replied to a query on sheet ${sheet.number}: ${dto.text}`,
     );
     return this.one(q.id);
   }
@@ -161,9 +161,9 @@ export class QueriesService {
     requireChecker(auth, sheet, 'close a query');
     requireState(sheet, ['with-checker'], 'close a query');
     if (q.status === 'closed') throw new WorkflowException({ code: WorkflowCode.OutOfTurn, kind: 'conflict', message: 'The query is closed already.' });
-    if (dto.note) this.em.persist(new QueryMessage(q, this.em.getReference(User, auth.session.user.id), dto.note));
+    if (dto.note) this.em.persist(new QueryMessage(q, this.em.getReference(User, auth.user.id), dto.note));
     q.status = 'closed';
-    q.closedBy = this.em.getReference(User, auth.session.user.id);
+    q.closedBy = this.em.getReference(User, auth.user.id);
     q.closedAt = new Date();
     await this.em.flush();
     await this.record(auth, 'query-closed', sheet, { query: q.id });
@@ -177,7 +177,7 @@ export class QueriesService {
     requireChecker(auth, sheet, agreed ? 'agree a cell' : 'withdraw an agreement');
     const cell = await this.em.findOne(Cell, { id: cellId, sheet });
     if (!cell) throw new RequestException(ErrorCode.NotFound, 'No such cell in this sheet.');
-    cell.agreedBy = agreed ? this.em.getReference(User, auth.session.user.id) : undefined;
+    cell.agreedBy = agreed ? this.em.getReference(User, auth.user.id) : undefined;
     cell.agreedAt = agreed ? new Date() : undefined;
     if (agreed) cell.changedAfterAgreement = false;
     await this.em.flush();

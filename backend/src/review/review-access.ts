@@ -31,7 +31,7 @@ export function requireState(sheet: Sheet, allowed: SheetState[], action: string
   enforce(stateRefusal(sheet.state as SheetState, allowed, action));
 }
 
-export const isUser = (auth: AuthContext, user: { id: string } | undefined | null) => !!user && user.id === auth.session.user.id;
+export const isUser = (auth: AuthContext, user: { id: string } | undefined | null) => !!user && user.id === auth.user.id;
 
 export function requireChecker(auth: AuthContext, sheet: Sheet, action: string): void {
   enforce(checkerRefusal(sheet, actorOf(auth), action));

@@ -83,9 +83,9 @@ export class RevisionsService {
    */
   async evaluateForIssue(auth: AuthContext, id: string): Promise<FreshEvaluation> {
     const em = this.em.fork();
-    const sheet = await em.findOneOrFail(Sheet, { id, project: { firm: auth.session.firm.id } });
+    const sheet = await em.findOneOrFail(Sheet, { id, project: { firm: auth.firm.id } });
     const cells = await em.find(Cell, { sheet }, { orderBy: { position: 'asc' }, exclude: ['results'] });
-    const outcome = await this.evaluator.evaluate(this.sheets.toFile(sheet, cells), { firm: auth.session.firm.id });
+    const outcome = await this.evaluator.evaluate(this.sheets.toFile(sheet, cells), { firm: auth.firm.id });
     if (!outcome.ok) throw this.evaluation.failure(outcome.reason, outcome.message, true);
     return { version: sheet.version, engineVersion: outcome.engineVersion, cells: outcome.results };
   }
@@ -230,7 +230,7 @@ export class RevisionsService {
   private async find(auth: AuthContext, id: string): Promise<Revision> {
     const r = await this.em.findOne(
       Revision,
-      { id, sheet: { project: { firm: auth.session.firm } } },
+      { id, sheet: { project: { firm: auth.firm.id } } },
       { populate: ['preparedBy', 'checkedBy', 'approvedBy', 'sheet'] },
     );
     if (!r) throw new RequestException(ErrorCode.NotFound, 'No such revision.');
@@ -271,7 +271,7 @@ export class RevisionsService {
   /** The sheet's audit trail: every state change and query, with who and when. */
   async history(auth: AuthContext, sheetId: string): Promise<HistoryEventDto[]> {
     const sheet = await this.sheets.findReadable(auth, sheetId);
-    const events = await this.em.find(AuditEvent, { subjectId: sheet.id, firmId: auth.session.firm.id }, { orderBy: { createdAt: 'asc' } });
+    const events = await this.em.find(AuditEvent, { subjectId: sheet.id, firmId: auth.firm.id }, { orderBy: { createdAt: 'asc' } });
     const users = new Map((await this.em.find(User, { id: { $in: events.map((e) => e.userId).filter((x): x is string => !!x) } })).map((u) => [u.id, u.name]));
     return events.map((e) => ({
       id: e.id,

@@ -21,7 +21,8 @@ import { WorkflowService } from './workflow.service';
 const ada = { id: 'u-ada', name: 'Ada Preparer', email: 'ada@example.test' };
 const cole = { id: 'u-cole', name: 'Cole Checker', email: 'cole@example.test' };
 const ana = { id: 'u-ana', name: 'Ana Approver', email: 'ana@example.test' };
-const as = (user: { id: string; name: string }, roles: Role[]) => ({ session: { user, firm: { id: 'f-1' } }, roles }) as unknown as AuthContext;
+const as = (user: { id: string; name: string }, roles: Role[]) =>
+  ({ user: { email: `${user.id}@example.test`, ...user }, firm: { id: 'f-1', name: 'F' }, roles, session: { tokenHash: 'h', csrfToken: 'c' } }) as AuthContext;
 
 /** A sheet in `state` with its people, and the service over fakes; `calls` lists what happened, in order. */
 function setup(state: string, options: { openQueries?: number; authors?: [string, string][] } = {}) {

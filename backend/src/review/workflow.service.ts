@@ -53,7 +53,7 @@ export class WorkflowService {
   }
 
   private async member(auth: AuthContext, userId: string, role: Role, what: string): Promise<User> {
-    const m = await this.em.findOne(Membership, { firm: auth.session.firm, user: userId }, { populate: ['user'] });
+    const m = await this.em.findOne(Membership, { firm: auth.firm.id, user: userId }, { populate: ['user'] });
     if (!m || !m.roles.includes(role))
       throw new WorkflowException({
         code: WorkflowCode.BadAssignee,
@@ -70,8 +70,8 @@ export class WorkflowService {
 
   private async record(auth: AuthContext, type: AuditType, sheet: Sheet, detail: Record<string, unknown> = {}) {
     await this.audit.record(type, {
-      firmId: auth.session.firm.id,
-      userId: auth.session.user.id,
+      firmId: auth.firm.id,
+      userId: auth.user.id,
       subjectId: sheet.id,
       detail: { sheet: sheet.number, ...detail },
     });
@@ -102,7 +102,7 @@ export class WorkflowService {
       [sheet.checker],
       'check-requested',
       `Check requested: ${sheet.number}`,
-      `${auth.session.user.name} asks you to check sheet ${sheet.number} "${sheet.title}".`,
+      `${auth.user.name} asks you to check sheet ${sheet.number} "${sheet.title}".`,
     );
     return this.sheets.get(auth, id);
   }
@@ -118,7 +118,7 @@ export class WorkflowService {
       [sheet.preparer],
       'sheet-returned',
       `Returned: ${sheet.number}`,
-      `${auth.session.user.name} returned sheet ${sheet.number} to you${dto.note ? `: ${dto.note}` : '.'}`,
+      `${auth.user.name} returned sheet ${sheet.number} to you${dto.note ? `: ${dto.note}` : '.'}`,
     );
     return this.sheets.get(auth, id);
   }
@@ -136,7 +136,7 @@ export class WorkflowService {
       [sheet.preparer, sheet.approver],
       'check-passed',
       `Check passed: ${sheet.number}`,
-      `${auth.session.user.name} passed the check of sheet ${sheet.number} "${sheet.title}".`,
+      `${auth.user.name} passed the check of sheet ${sheet.number} "${sheet.title}".`,
     );
     return this.sheets.get(auth, id);
   }
@@ -144,7 +144,7 @@ export class WorkflowService {
   async approve(auth: AuthContext, id: string) {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
       requireMove('approve', auth, factsOf(s, await em.getRepository(SheetAuthor).notIndependent(s)));
-      s.approver = this.em.getReference(User, auth.session.user.id);
+      s.approver = this.em.getReference(User, auth.user.id);
       s.state = 'approved';
       s.approvedAt = new Date();
     });
@@ -154,7 +154,7 @@ export class WorkflowService {
       [sheet.preparer],
       'sheet-approved',
       `Approved: ${sheet.number}`,
-      `${auth.session.user.name} approved sheet ${sheet.number} "${sheet.title}".`,
+      `${auth.user.name} approved sheet ${sheet.number} "${sheet.title}".`,
     );
     return this.sheets.get(auth, id);
   }
@@ -171,14 +171,14 @@ export class WorkflowService {
       s.checkedAt = undefined;
       s.approvedAt = undefined;
     });
-    await this.sheets.refreshResults(id, auth.session.firm.id);
+    await this.sheets.refreshResults(id, auth.firm.id);
     await this.record(auth, 'sheet-returned-to-checker', sheet, { note: dto.note ?? null });
     await this.tell(
       sheet,
       [sheet.checker],
       'sheet-returned-to-checker',
       `Back for checking: ${sheet.number}`,
-      `${auth.session.user.name} returned sheet ${sheet.number} to you to check again${dto.note ? `: ${dto.note}` : '.'}`,
+      `${auth.user.name} returned sheet ${sheet.number} to you to check again${dto.note ? `: ${dto.note}` : '.'}`,
     );
     return this.sheets.get(auth, id);
   }
@@ -236,10 +236,10 @@ export class WorkflowService {
     const { sheet } = await this.locked(auth, id, async (s, em) => {
       requireMove('new-revision', auth, factsOf(s, new Map()));
       const last = await em.findOneOrFail(Revision, { sheet: s }, { orderBy: { number: 'desc' } });
-      await this.revisions.restoreCells(em, last, s, em.getReference(User, auth.session.user.id));
+      await this.revisions.restoreCells(em, last, s, em.getReference(User, auth.user.id));
       s.revisionNumber = last.number + 1;
       s.state = 'being-prepared';
-      s.preparer = em.getReference(User, auth.session.user.id);
+      s.preparer = em.getReference(User, auth.user.id);
       s.checkRequestedAt = s.checkedAt = s.approvedAt = undefined;
     });
     await this.record(auth, 'revision-started', sheet, { revisionNumber: sheet.revisionNumber });

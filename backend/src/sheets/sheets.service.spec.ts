@@ -18,7 +18,12 @@ import type { CellRecord, ChangeToStore, SaveLock, SheetRepository } from './she
 import { SheetsService } from './sheets.service';
 
 const author = { id: 'u-1', name: 'Ada Preparer' };
-const auth = { session: { user: author, firm: { id: 'f-1' } }, roles: ['engineer'] } as unknown as AuthContext;
+const auth: AuthContext = {
+  user: { ...author, email: 'ada@example.test' },
+  firm: { id: 'f-1', name: 'F' },
+  roles: ['engineer'],
+  session: { tokenHash: 'h', csrfToken: 'c' },
+};
 const ok = (index: number, x: number) =>
   ({ kind: 'calc', status: 'ok', errors: [], warnings: [], values: { [`x${index}`]: { si: x } } }) as unknown as CellResult;
 
@@ -172,7 +177,7 @@ describe('SheetsService: the path of a save', () => {
 
   it('writes any other change in one transaction under the row lock: a cell added, and a co-preparer recorded as an author', async () => {
     const { service, repository, authors } = setup({ ok: true, results: [[1, ok(1, 1)]] });
-    const coPreparer = { session: { user: { id: 'u-2', name: 'Bo Helper' }, firm: { id: 'f-1' } }, roles: ['engineer'] } as unknown as AuthContext;
+    const coPreparer: AuthContext = { ...auth, user: { id: 'u-2', name: 'Bo Helper', email: 'bo@example.test' } };
     // The co-preparer may edit (named for this revision): the rulebook asks the authors only for someone other than the preparer.
     (service as unknown as { assertMayEdit: () => Promise<void> }).assertMayEdit = async () => undefined;
     const answer = await service.addCell(coPreparer, 's-1', { version: 4, position: 1, cell: { kind: 'calc', source: 'y = 1' } });

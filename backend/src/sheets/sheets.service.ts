@@ -26,6 +26,7 @@ import { SheetRepository, type CellRecord, type CellWrites, type ChangeToStore, 
 import { sheetFingerprint } from '../evaluation/sheet-fingerprint';
 import { Membership } from '../firms/entities/membership.entity';
 import { SheetAuthor } from './entities/sheet-author.entity';
+import { User } from '../users/entities/user.entity';
 import { ProjectsService } from '../projects/projects.service';
 import { TemplatesService } from '../templates/templates.service';
 import type { AddCellDto, CoPreparersDto, CreateSheetDto, ImportCsvDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
@@ -92,7 +93,7 @@ export class SheetsService {
 
   /** A sheet of the caller's firm (members only); another firm's id is 404. */
   private async find(auth: AuthContext, id: string): Promise<Sheet> {
-    const sheet = await this.repository.findInFirm(auth.session.firm.id, id);
+    const sheet = await this.repository.findInFirm(auth.firm.id, id);
     if (!sheet) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
     return sheet;
   }
@@ -138,10 +139,10 @@ export class SheetsService {
   async setCoPreparers(auth: AuthContext, id: string, dto: CoPreparersDto): Promise<SheetView> {
     const sheet = await this.find(auth, id);
     this.assertEditable(sheet.state);
-    if (sheet.preparer.id !== auth.session.user.id)
+    if (sheet.preparer.id !== auth.user.id)
       throw new SheetException(SheetErrorCode.NotPreparer, `Only the sheet's preparer (${sheet.preparer.name}) names its co-preparers.`);
     const ids = [...new Set(dto.userIds)].filter((u) => u !== sheet.preparer.id);
-    const members = ids.length ? await this.em.find(Membership, { firm: auth.session.firm, user: { $in: ids } }) : [];
+    const members = ids.length ? await this.em.find(Membership, { firm: auth.firm.id, user: { $in: ids } }) : [];
     for (const uid of ids) {
       const m = members.find((x) => x.user.id === uid);
       if (!m || !m.roles.includes('engineer'))
@@ -155,8 +156,8 @@ export class SheetsService {
     }
     await this.em.transactional((em) => em.getRepository(SheetAuthor).nameCoPreparers(sheet.id, sheet.revisionNumber, ids));
     await this.audit.record('co-preparers-named', {
-      firmId: auth.session.firm.id,
-      userId: auth.session.user.id,
+      firmId: auth.firm.id,
+      userId: auth.user.id,
       subjectId: id,
       detail: { sheet: sheet.number, coPreparers: ids },
     });
@@ -175,7 +176,7 @@ export class SheetsService {
 
   /** A sheet of the caller's firm as the API shows it; another firm's id is 404. */
   private async view(auth: AuthContext, id: string): Promise<SheetView> {
-    const view = await this.repository.view(auth.session.firm.id, id);
+    const view = await this.repository.view(auth.firm.id, id);
     if (!view) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
     return view;
   }
@@ -212,7 +213,7 @@ export class SheetsService {
 
   /** The sheet as `get` gives it, as JSON bytes with the stored results passed through unparsed (the read of GET /sheets/:id). */
   async getJson(auth: AuthContext, id: string): Promise<Buffer> {
-    const json = await this.repository.viewJson(auth.session.firm.id, id);
+    const json = await this.repository.viewJson(auth.firm.id, id);
     if (!json) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
     return json;
   }
@@ -241,8 +242,8 @@ export class SheetsService {
       throw new RequestException(ErrorCode.ValidationFailed, 'title is needed for a blank sheet', {
         details: [{ field: 'title', message: 'title is needed for a blank sheet' }],
       });
-    const { sheet, cells } = sheetFromFile(project, dto.number, title, file, auth.session.user);
-    await this.evaluation.holding(auth.session.firm.id, async (reservation) => {
+    const { sheet, cells } = sheetFromFile(project, dto.number, title, file, this.em.getReference(User, auth.user.id));
+    await this.evaluation.holding(auth.firm.id, async (reservation) => {
       this.em.persist(cells);
       try {
         await this.em.persist(sheet).flush();
@@ -254,7 +255,7 @@ export class SheetsService {
         }
         throw err;
       }
-      await this.evaluateAndStore(sheet.id, this.toFile(sheet, cells), cells, sheet.version, { firm: auth.session.firm.id, reservation });
+      await this.evaluateAndStore(sheet.id, this.toFile(sheet, cells), cells, sheet.version, { firm: auth.firm.id, reservation });
     });
     return this.view(auth, sheet.id);
   }
@@ -296,12 +297,12 @@ export class SheetsService {
     const now = [...kept, ...inserted].sort((a, b) => a.position - b.position);
     const headingChanged = heading.title !== found.title || heading.settings !== found.settings;
     const file = this.toFile({ extra: found.extra, ...heading }, now);
-    const actor = auth.session.user;
+    const actor = auth.user;
     // A place in the firm's evaluation queue is held before anything is evaluated or written: a firm whose
     // queue is full is told so (429) and its change is not saved, rather than saved and left unevaluated.
-    return this.evaluation.holding(auth.session.firm.id, async (reservation) => {
+    return this.evaluation.holding(auth.firm.id, async (reservation) => {
       const want = now.flatMap((c, index) => (applied.touched.has(c.id) ? [index] : []));
-      let evaluated = await this.evaluateChange(id, file, now, { firm: auth.session.firm.id, reservation, base, want });
+      let evaluated = await this.evaluateChange(id, file, now, { firm: auth.firm.id, reservation, base, want });
       const store = (partial: boolean): ChangeToStore => ({
         version,
         states: EDITABLE,
@@ -327,7 +328,7 @@ export class SheetsService {
       let saved = await write(store(evaluated.partial));
       if (saved === 'results-moved') {
         // The stored results changed since they were read (another engine, or evaluated afresh): every cell's.
-        evaluated = await this.evaluateChange(id, file, now, { firm: auth.session.firm.id, reservation, want });
+        evaluated = await this.evaluateChange(id, file, now, { firm: auth.firm.id, reservation, want });
         saved = await write(store(false));
       }
       if (saved !== 'saved') throw await this.stale(id);
@@ -357,7 +358,7 @@ export class SheetsService {
 
   /** A sheet the caller may change, read as a save needs it (one query, no entities); 404 or the rulebook's refusal otherwise. */
   private async editableHeading(auth: AuthContext, id: string, options: { cells?: boolean } = {}): Promise<SheetHeadingRow> {
-    const heading = await this.repository.heading(auth.session.firm.id, id, options);
+    const heading = await this.repository.heading(auth.firm.id, id, options);
     if (!heading) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
     await this.assertMayEdit(auth, heading);
     return heading;
@@ -442,7 +443,7 @@ export class SheetsService {
 
   addCell(auth: AuthContext, id: string, dto: AddCellDto): Promise<SaveResult> {
     const { kind, fields } = splitCell(dto.cell);
-    const actor = auth.session.user;
+    const actor = auth.user;
     return this.change(auth, id, dto.version, (_heading, cells) => {
       const position = Math.min(dto.position, cells.length);
       const shifted = cells.filter((c) => c.position >= position);
@@ -472,7 +473,7 @@ export class SheetsService {
       });
     // Nothing is parsed for a sheet the caller may not change; the parsing itself runs in an evaluation process.
     await this.editableHeading(auth, id);
-    const parsed = await this.evaluation.parseCsv(auth.session.firm.id, file.buffer);
+    const parsed = await this.evaluation.parseCsv(auth.firm.id, file.buffer);
     if ('binary' in parsed) {
       throw new RequestException(
         ErrorCode.UnsupportedMediaType,
@@ -491,7 +492,7 @@ export class SheetsService {
 
   async updateCell(auth: AuthContext, id: string, cellId: string, dto: UpdateCellDto): Promise<SaveResult> {
     const { kind, fields } = splitCell(dto.cell);
-    const actor = auth.session.user;
+    const actor = auth.user;
     const withdrawn: string[] = [];
     const result = await this.change(auth, id, dto.version, (_heading, cells) => {
       const cell = cells.find((c) => c.id === cellId);
@@ -507,8 +508,8 @@ export class SheetsService {
     });
     for (const cell of withdrawn) {
       await this.audit.record('agreement-withdrawn', {
-        firmId: auth.session.firm.id,
-        userId: auth.session.user.id,
+        firmId: auth.firm.id,
+        userId: auth.user.id,
         subjectId: id,
         detail: { cell, reason: 'edited after the checker agreed it' },
       });

@@ -8,6 +8,7 @@ import type { Environment } from '../config/environment';
 import { ErrorCode, RequestException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { User } from '../users/entities/user.entity';
+import { Firm } from '../firms/entities/firm.entity';
 import { Template } from './entities/template.entity';
 
 export type TemplateSummary = TemplateSummaryDto;
@@ -37,7 +38,7 @@ export class TemplatesService {
   }
 
   async list(auth: AuthContext): Promise<TemplateSummary[]> {
-    const own = await this.em.find(Template, { firm: auth.session.firm }, { orderBy: { title: 'asc' } });
+    const own = await this.em.find(Template, { firm: auth.firm.id }, { orderBy: { title: 'asc' } });
     return [
       ...[...this.builtIn].map(([id, t]) => ({ id, title: t.title, cellCount: t.cells.length, source: 'built-in' as const })),
       ...own.map((t) => ({ id: t.id, title: t.title, cellCount: t.sheet.cells.length, source: 'firm' as const })),
@@ -47,19 +48,19 @@ export class TemplatesService {
   async get(auth: AuthContext, id: string): Promise<SheetFile> {
     const builtIn = this.builtIn.get(id);
     if (builtIn) return structuredClone(builtIn);
-    const own = UUID.test(id) ? await this.em.findOne(Template, { id, firm: auth.session.firm }) : null;
+    const own = UUID.test(id) ? await this.em.findOne(Template, { id, firm: auth.firm.id }) : null;
     if (!own) throw new RequestException(ErrorCode.NotFound, `No template named ${id}.`, { details: [{ field: 'templateId', message: 'no such template' }] });
     return structuredClone(own.sheet);
   }
 
   async save(auth: AuthContext, title: string, sheet: SheetFile): Promise<TemplateSummary> {
-    const t = new Template(auth.session.firm, title, { ...sheet, title }, this.em.getReference(User, auth.session.user.id));
+    const t = new Template(this.em.getReference(Firm, auth.firm.id), title, { ...sheet, title }, this.em.getReference(User, auth.user.id));
     await this.em.persist(t).flush();
     return { id: t.id, title: t.title, cellCount: t.sheet.cells.length, source: 'firm' };
   }
 
   async remove(auth: AuthContext, id: string): Promise<void> {
-    const t = await this.em.findOne(Template, { id, firm: auth.session.firm });
+    const t = await this.em.findOne(Template, { id, firm: auth.firm.id });
     if (!t) throw new RequestException(ErrorCode.NotFound, 'No such template of your firm (built-in templates cannot be removed).');
     await this.em.remove(t).flush();
   }

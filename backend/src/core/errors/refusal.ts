@@ -9,4 +9,4 @@ export function enforce(refusal: Refusal | undefined): void {
 }
 
 /** The person acting, as the rulebook sees them. */
-export const actorOf = (auth: AuthContext): Actor => ({ id: auth.session.user.id, name: auth.session.user.name, roles: auth.roles });
+export const actorOf = (auth: AuthContext): Actor => ({ id: auth.user.id, name: auth.user.name, roles: auth.roles });

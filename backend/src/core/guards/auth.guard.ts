@@ -6,9 +6,6 @@ import { ConfigService } from '@nestjs/config';
 import type { Environment } from '../../config/environment';
 import type { Request } from 'express';
 import { Session } from '../../auth/entities/session.entity';
-import { Firm } from '../../firms/entities/firm.entity';
-import { Membership } from '../../firms/entities/membership.entity';
-import { User } from '../../users/entities/user.entity';
 import { ACCESS_KEY, type AccessRule } from '../decorators/access.decorator';
 import { ErrorCode, RequestException } from '../errors/app-exception';
 import type { Role } from '../roles';
@@ -16,10 +13,25 @@ import type { Role } from '../roles';
 export const SESSION_COOKIE = 'aw_session';
 export const CSRF_HEADER = 'x-ampwright-csrf';
 
+/**
+ * Who is asking, as every request carries it: plain facts read with the session in one query (no entities
+ * are made per request). Where an entity is needed, `em.getReference(User, auth.user.id)`.
+ */
 export interface AuthContext {
-  session: Session;
-  membership: Membership;
+  user: { id: string; name: string; email: string };
+  firm: { id: string; name: string };
   roles: Role[];
+  session: { tokenHash: string; csrfToken: string };
+}
+
+/** The context of a session just opened (sign-in, registration). */
+export function authContextOf(session: Pick<Session, 'tokenHash' | 'csrfToken' | 'user' | 'firm'>, roles: Role[]): AuthContext {
+  return {
+    user: { id: session.user.id, name: session.user.name, email: session.user.email },
+    firm: { id: session.firm.id, name: session.firm.name },
+    roles,
+    session: { tokenHash: session.tokenHash, csrfToken: session.csrfToken },
+  };
 }
 
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
@@ -76,8 +88,7 @@ export class AuthGuard implements CanActivate {
 
   /**
    * Reads the session cookie; sets req.auth when it names a live session of a current member. One
-   * query for the session, its user, firm and membership (this runs for every request), mapped into
-   * the request's entity manager as if each had been loaded.
+   * query for the session, its user, firm and membership (this runs for every request).
    */
   private async attach(req: Request & { auth?: AuthContext }): Promise<AuthContext | undefined> {
     const token = (req.cookies as Record<string, string> | undefined)?.[SESSION_COOKIE];
@@ -90,19 +101,13 @@ export class AuthGuard implements CanActivate {
     if (new Date(row.expires_at).getTime() - Date.now() < this.idleMinutes * 60_000 - 60_000) {
       await sessions.slide(row.token_hash, this.hours, this.idleMinutes);
     }
-    this.em.map(User, { id: row.user_id, email: row.u_email, name: row.u_name, password_hash: row.u_password_hash, created_at: row.u_created_at });
-    this.em.map(Firm, { id: row.firm_id, name: row.f_name, created_at: row.f_created_at });
-    const session = this.em.map(Session, {
-      token_hash: row.token_hash,
-      user_id: row.user_id,
-      firm_id: row.firm_id,
-      csrf_token: row.csrf_token,
-      created_at: row.created_at,
-      expires_at: row.expires_at,
-    });
     const roles = (typeof row.m_roles === 'string' ? JSON.parse(row.m_roles) : row.m_roles) as Role[];
-    const membership = this.em.map(Membership, { id: row.m_id, firm_id: row.firm_id, user_id: row.user_id, roles, created_at: row.m_created_at });
-    req.auth = { session, membership, roles: membership.roles };
+    req.auth = {
+      user: { id: row.user_id, name: row.u_name, email: row.u_email },
+      firm: { id: row.firm_id, name: row.f_name },
+      roles,
+      session: { tokenHash: row.token_hash, csrfToken: row.csrf_token },
+    };
     return req.auth;
   }
 }

@@ -5,7 +5,7 @@
  */
 import { EntityManager, MikroORM, RequestContext } from '@mikro-orm/core';
 import type { INestApplicationContext } from '@nestjs/common';
-import type { AuthContext } from '../../core/guards/auth.guard';
+import { authContextOf, type AuthContext } from '../../core/guards/auth.guard';
 import { Membership } from '../../firms/entities/membership.entity';
 import { Project } from '../../projects/entities/project.entity';
 import { WorkflowService } from '../../review/workflow.service';
@@ -24,12 +24,12 @@ export async function seedDemoReview(app: INestApplicationContext): Promise<stri
     if (!sheet || sheet.state !== 'being-prepared' || sheet.revisionNumber !== 1) return null;
     const as = async (email: string): Promise<AuthContext> => {
       const m = await em.findOneOrFail(Membership, { firm: project.firm, user: { email } }, { populate: ['user', 'firm'] });
-      return { session: { user: m.user, firm: m.firm } as AuthContext['session'], membership: m, roles: m.roles };
+      return authContextOf({ user: m.user, firm: m.firm, tokenHash: '', csrfToken: '' }, m.roles);
     };
     const workflow = app.get(WorkflowService);
     const checker = await as('checker@northfold.example');
     const approver = await as('approver@northfold.example');
-    await workflow.requestCheck(await as(sheet.preparer.email), sheet.id, { checkerId: checker.session.user.id, approverId: approver.session.user.id });
+    await workflow.requestCheck(await as(sheet.preparer.email), sheet.id, { checkerId: checker.user.id, approverId: approver.user.id });
     await workflow.passCheck(checker, sheet.id);
     await workflow.approve(approver, sheet.id);
     const revision = await workflow.issue(approver, sheet.id);
