@@ -75,6 +75,51 @@ describe('the sheet editor in a real browser', () => {
     expect(s.errors.filter((e) => !/status of 415/.test(e))).toEqual([]);
   });
 
+  it('works from the keyboard with its own keys, each listed in the keyboard help', async () => {
+    const { page } = s;
+    await newRlcSheet(page);
+    const cellTitles = () => page.locator('[data-cell-id]').evaluateAll((cells) => cells.map((c) => c.getAttribute('aria-label')));
+    await page.getByRole('region', { name: 'Cell 2: Calculation' }).waitFor();
+    const before = await cellTitles();
+    // The help opens from the sheet's toolbar and by F1, and lists every key.
+    await page.getByRole('button', { name: 'Keys' }).click();
+    const help = page.getByRole('dialog', { name: 'Keys of the sheet' });
+    await help.waitFor();
+    for (const key of ['Ctrl+S', 'Ctrl+↓', 'Ctrl+↑', 'Ctrl+Shift+↓', 'Ctrl+Shift+↑', 'Ctrl+Shift+Space', 'F1'])
+      await help.getByText(key, { exact: true }).waitFor();
+    await page.keyboard.press('Escape');
+    await help.waitFor({ state: 'hidden' });
+
+    // In cell 2's source: Ctrl+S saves now; Ctrl+↓ goes to cell 3; Ctrl+Shift+↑ moves cell 3 up.
+    await page.getByRole('region', { name: 'Cell 2: Calculation' }).getByRole('button', { name: 'Edit' }).click();
+    const source = page.getByRole('textbox', { name: 'Cell 2 source' });
+    await source.click();
+    await page.keyboard.press('End');
+    await page.keyboard.insertText(' # typed');
+    await page.keyboard.press('Control+s');
+    await page.getByRole('status', { name: 'Cell 2: Saved' }).waitFor();
+    await page.keyboard.press('Control+ArrowDown');
+    const third = page.locator('[data-cell-id]').nth(2);
+    const thirdId = await third.getAttribute('data-cell-id');
+    await expect.poll(() => third.evaluate((c) => c.contains(document.activeElement) || c.querySelector('.cm-editor') !== null)).toBe(true);
+    await third.locator('.cm-content, input').first().click();
+    await page.keyboard.press('Control+Shift+ArrowUp');
+    await expect.poll(async () => page.locator('[data-cell-id]').nth(1).getAttribute('data-cell-id')).toBe(thirdId);
+
+    // Ctrl+Shift+Space starts a new calc cell below, opened for typing.
+    const count = (await cellTitles()).length;
+    await page.keyboard.press('Control+Shift+Space');
+    await expect.poll(async () => (await cellTitles()).length).toBe(count + 1);
+    await page.getByRole('textbox', { name: 'Cell 3 source' }).waitFor();
+
+    // F1 opens the help from inside the editor too; the browser's own page is never asked for.
+    await page.keyboard.press('F1');
+    await help.waitFor();
+    await page.keyboard.press('Escape');
+    expect(before.length).toBe(count);
+    expect(s.errors).toEqual([]);
+  });
+
   it('deletes a cell and restores it, and underlines an error in the source', async () => {
     const { page } = s;
     await newRlcSheet(page);

@@ -5,7 +5,7 @@
 export const PALETTE = {
   ink: '#16324a',
   inkLight: '#3c5b74',
-  copper: '#b5561c',
+  copper: '#a34b17',
   copperLight: '#e08a3c',
   paper: '#f4efe6',
   sheet: '#fffdf8',

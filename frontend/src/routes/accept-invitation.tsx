@@ -1,4 +1,6 @@
-import { Alert, Button, CircularProgress, TextField } from '@mui/material';
+import { Alert, Button, CircularProgress, Stack, TextField } from '@mui/material';
+import type { ReactNode } from 'react';
+import { PageHeading } from '../components/layout/page-heading';
 import { useNavigate, useSearchParams } from 'react-router-dom';
 import { FormCard } from '../components/forms/form-card';
 import { useForm } from '../components/forms/use-form';
@@ -15,12 +17,20 @@ export function AcceptInvitationPage() {
     const body = form.validate();
     if (body) accept.mutate(body, { onSuccess: () => navigate(preview.data?.roles.includes('client') ? '/portal' : '/projects'), onError: form.showError });
   };
-  if (token.length < 20) return <Alert severity="error">This invitation link is not complete. Open the link from the e-mail again.</Alert>;
-  if (preview.isPending) return <CircularProgress aria-label="Loading" />;
-  if (preview.isError) return <Alert severity="error">{preview.error.message}</Alert>;
+  // Until the form can be shown, the page still says what it is.
+  const alone = (body: ReactNode) => (
+    <Stack spacing={2}>
+      <PageHeading>Accept an invitation</PageHeading>
+      {body}
+    </Stack>
+  );
+  if (token.length < 20) return alone(<Alert severity="error">This invitation link is not complete. Open the link from the e-mail again.</Alert>);
+  if (preview.isPending) return alone(<CircularProgress aria-label="Loading" />);
+  if (preview.isError) return alone(<Alert severity="error">{preview.error.message}</Alert>);
   const p = preview.data;
   return (
     <FormCard
+      page
       title={`Join ${p.firm}`}
       intro={`${p.email} is invited as ${p.roles.join(', ')}. ${p.hasAccount ? 'Enter the password of your existing account to accept.' : 'Choose a password to accept.'}`}
       error={form.formError}

@@ -12,6 +12,7 @@ export function ForgotPasswordPage() {
   };
   return (
     <FormCard
+      page
       title="Reset your password"
       intro="Enter the address you sign in with; we e-mail a link that works once, for an hour."
       error={form.formError}

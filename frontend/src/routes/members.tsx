@@ -150,7 +150,7 @@ export function MembersPage() {
     <Stack spacing={3}>
       <PageHeading overline={me?.firm.name}>Members</PageHeading>
       {members.isError && <Alert severity="error">{members.error.message}</Alert>}
-      <Paper>
+      <Paper sx={{ overflowX: 'auto' }}>
         <Table size="small" aria-label="Members">
           <TableHead>
             <TableRow>

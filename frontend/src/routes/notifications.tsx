@@ -13,7 +13,7 @@ export function NotificationsPage() {
       <Button sx={{ alignSelf: 'flex-start' }} onClick={() => readAll.mutate()} disabled={!list.data?.some((n) => !n.readAt)}>
         Mark all as read
       </Button>
-      <Paper>
+      <Paper sx={{ overflowX: 'auto' }}>
         <Table size="small" aria-label="Notifications">
           <TableBody>
             {list.data?.map((n) => (

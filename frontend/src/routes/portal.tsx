@@ -11,7 +11,7 @@ export function PortalPage() {
     <>
       <PageHeading overline="For clients">Client portal</PageHeading>
       {list.isError && <Alert severity="error">{list.error.message}</Alert>}
-      <Paper sx={{ mb: 2 }}>
+      <Paper sx={{ mb: 2, overflowX: 'auto' }}>
         <Table size="small" aria-label="Issued packages">
           <TableHead>
             <TableRow>

@@ -104,7 +104,7 @@ export function ProjectPage() {
       )}
       {creating && <NewSheetForm projectId={projectId} onDone={() => setCreating(false)} />}
       <ProjectPeople projectId={projectId} canEdit={canCreate} />
-      <Paper>
+      <Paper sx={{ overflowX: 'auto' }}>
         <Table size="small" aria-label="Sheets">
           <TableHead>
             <TableRow>

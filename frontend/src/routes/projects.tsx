@@ -95,7 +95,7 @@ export function ProjectsPage() {
       </Stack>
       {creating && <NewProjectForm onDone={() => setCreating(false)} />}
       {projects.isError && <Alert severity="error">{projects.error.message}</Alert>}
-      <Paper>
+      <Paper sx={{ overflowX: 'auto' }}>
         <Table size="small" aria-label="Projects">
           <TableHead>
             <TableRow>

@@ -29,6 +29,7 @@ export function RegisterPage() {
   );
   return (
     <FormCard
+      page
       title="Register your firm"
       intro="You become the firm's owner: you invite engineers, checkers, approvers and clients."
       error={form.formError}

@@ -24,6 +24,7 @@ export function ResetPasswordPage() {
   }
   return (
     <FormCard
+      page
       title="Choose a new password"
       error={form.formError ?? form.errors.token}
       onSubmit={submit}

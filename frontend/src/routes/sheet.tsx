@@ -6,7 +6,7 @@ import { PageHeading } from '../components/layout/page-heading';
 import { actorOf, useMe } from '../features/auth';
 import { EDITABLE_STATES, editRefusal, factsOfSheet, WorkflowCode } from '@ampwright/common/review/workflow';
 import { CellReview, type ReviewContext, useSheetQueries, WorkflowBar } from '../features/review';
-import { AttachmentsPanel, type ReviewSlot, SheetEditor, STATE_LABELS, useSaveAsTemplate, useSheet } from '../features/sheets';
+import { AttachmentsPanel, KeyboardHelp, type ReviewSlot, SheetEditor, STATE_LABELS, useSaveAsTemplate, useSheet } from '../features/sheets';
 
 /**
  * A sheet: its review bar, then its cells, edited and evaluated in place by those who may (the
@@ -18,6 +18,7 @@ export function SheetPage() {
   const sheet = useSheet(sheetId);
   const queries = useSheetQueries(sheetId);
   const [openOnly, setOpenOnly] = useState(false);
+  const [keysOpen, setKeysOpen] = useState(false);
   const saveTemplate = useSaveAsTemplate();
   const s = sheet.data;
   const uid = me?.user.id;
@@ -61,6 +62,9 @@ export function SheetPage() {
             Save as a template
           </Button>
         )}
+        <Button size="small" onClick={() => setKeysOpen(true)} aria-haspopup="dialog">
+          Keys
+        </Button>
         <FormControlLabel
           control={<Switch size="small" checked={openOnly} onChange={(e) => setOpenOnly(e.target.checked)} />}
           label="Only cells with open queries"
@@ -87,12 +91,21 @@ export function SheetPage() {
       )}
       {editable && (
         <Typography variant="caption" color="text.secondary">
-          Changes are saved and evaluated as you type. Keys: Ctrl+Enter evaluates now, Alt+Enter adds a cell below, Alt+↑ and Alt+↓ move between cells.
+          Changes are saved and evaluated as you type. F1 (or ? when not typing, or Keys above) lists the keys.
         </Typography>
       )}
       <CautionNotice />
       {queries.isError && <Alert severity="error">The queries could not be loaded: {queries.error.message}</Alert>}
-      <SheetEditor sheet={s} editable={editable} queries={queries.data ?? []} Review={Review} checking={review.checking} openOnly={openOnly} />
+      <SheetEditor
+        sheet={s}
+        editable={editable}
+        queries={queries.data ?? []}
+        Review={Review}
+        checking={review.checking}
+        openOnly={openOnly}
+        onShowKeys={() => setKeysOpen(true)}
+      />
+      <KeyboardHelp open={keysOpen} onClose={() => setKeysOpen(false)} />
       <AttachmentsPanel sheetId={s.id} editable={editable} />
     </Stack>
   );

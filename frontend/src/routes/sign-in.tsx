@@ -19,6 +19,7 @@ export function SignInPage() {
   };
   return (
     <FormCard
+      page
       title="Sign in"
       intro={params.get('next') ? 'Sign in to continue where you were.' : undefined}
       error={form.formError}

@@ -9,8 +9,11 @@ export function FormCard({
   onSubmit,
   children,
   actions,
+  page = false,
 }: {
   title: string;
+  /** The form is the page (sign-in, registration): its title is the page's main heading. */
+  page?: boolean;
   intro?: ReactNode;
   error?: string;
   onSubmit: () => void;
@@ -23,7 +26,7 @@ export function FormCard({
   };
   return (
     <Paper component="form" noValidate onSubmit={submit} sx={{ p: 3, maxWidth: 480 }} aria-label={title}>
-      <Typography variant="h2" gutterBottom>
+      <Typography variant="h2" component={page ? 'h1' : 'h2'} gutterBottom>
         {title}
       </Typography>
       {intro && (

@@ -9,3 +9,4 @@ export * from './api/get-attachments';
 export { AttachmentsPanel } from './components/attachments-panel';
 export type { ReviewSlot } from './editor/cell-frame';
 export { SheetEditor } from './editor/sheet-editor';
+export { KeyboardHelp } from './editor/keyboard-help';

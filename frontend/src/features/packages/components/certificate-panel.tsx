@@ -48,7 +48,7 @@ export function CertificatePanel() {
           {c.subject}; issued by {c.issuer}; valid {c.notBefore.slice(0, 10)} to {c.notAfter.slice(0, 10)}
           {c.selfSigned ? " — self-signed by Ampwright for the demo: upload the firm's own certificate for real issues" : ''}.
           <br />
-          <span style={{ fontFamily: monoFont, fontSize: 11 }}>SHA-256 {c.fingerprint}</span>
+          <span style={{ fontFamily: monoFont, fontSize: 11, overflowWrap: 'anywhere' }}>SHA-256 {c.fingerprint}</span>
         </Typography>
       ) : (
         <Typography variant="body2" color="text.secondary">

@@ -7,6 +7,7 @@ import { monoFont, palette } from '../../../app/theme';
 import { NoteText } from './note-text';
 import { SvgFigure } from './svg-figure';
 import { Tex } from './tex';
+import { ScrollBox } from '../../../components/scroll-box';
 
 export function Problems({ errors, warnings }: { errors: Diagnostic[]; warnings: Diagnostic[] }) {
   if (!errors.length && !warnings.length) return null;
@@ -28,8 +29,9 @@ export function Problems({ errors, warnings }: { errors: Diagnostic[]; warnings:
 
 export function SourceText({ text }: { text: string }) {
   return (
-    <Box
+    <ScrollBox
       component="pre"
+      label="Source, scrolls sideways"
       sx={{
         fontFamily: monoFont,
         fontSize: 13,
@@ -37,13 +39,12 @@ export function SourceText({ text }: { text: string }) {
         p: 1,
         m: 0,
         mb: 1,
-        overflowX: 'auto',
         border: `1px solid ${palette.rule}`,
         whiteSpace: 'pre',
       }}
     >
       {text || ' '}
-    </Box>
+    </ScrollBox>
   );
 }
 
@@ -77,9 +78,9 @@ function Lines({ lines }: BlockOf<'lines'>) {
                 </Typography>
               )}
             </Box>
-            <Box sx={{ color: 'text.secondary', overflowX: 'auto' }}>
+            <ScrollBox label={`Working of ${line.name}, scrolls sideways`} sx={{ color: 'text.secondary' }}>
               <Tex>{line.tex.working}</Tex>
-            </Box>
+            </ScrollBox>
             <Box sx={{ fontWeight: 600 }} data-testid={`result-${line.name}`} title={line.value?.displayAlt}>
               <Tex>{line.tex.result}</Tex>
             </Box>

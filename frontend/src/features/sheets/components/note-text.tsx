@@ -1,5 +1,6 @@
 /** A note's Markdown drawn from the same document model as the signed package, maths by KaTeX. */
 import { Box, Typography } from '@mui/material';
+import { ScrollBox } from '../../../components/scroll-box';
 import { Fragment, useMemo } from 'react';
 import { linkText, parseNote, type NoteBlock, type NoteInline } from '@ampwright/common/notes/markdown';
 import { monoFont, palette } from '../../../app/theme';
@@ -62,15 +63,15 @@ function Block({ block }: { block: NoteBlock }) {
     }
     case 'maths':
       return (
-        <Box sx={{ mb: 1.5, overflowX: 'auto' }}>
+        <ScrollBox label="Formula, scrolls sideways" sx={{ mb: 1.5 }}>
           <Tex display>{block.tex}</Tex>
-        </Box>
+        </ScrollBox>
       );
     case 'code':
       return (
-        <Box component="pre" sx={{ fontFamily: monoFont, fontSize: 13, bgcolor: palette.paper, p: 1, mt: 0, mb: 1.5, overflowX: 'auto' }}>
+        <ScrollBox component="pre" label="Code, scrolls sideways" sx={{ fontFamily: monoFont, fontSize: 13, bgcolor: palette.paper, p: 1, mt: 0, mb: 1.5 }}>
           {block.text}
-        </Box>
+        </ScrollBox>
       );
     case 'rule':
       return <Box component="hr" sx={{ border: 0, borderTop: `1px solid ${palette.rule}`, my: 1.5 }} />;

@@ -10,7 +10,7 @@ export function SvgFigure({ svg, label }: { svg: string; label: string }) {
       component="figure"
       role="figure"
       aria-label={label}
-      sx={{ m: 0, my: 1, maxWidth: '100%', overflowX: 'auto', '& svg': { maxWidth: '100%', height: 'auto' } }}
+      sx={{ m: 0, my: 1, maxWidth: '100%', '& svg': { maxWidth: '100%', height: 'auto' } }}
       dangerouslySetInnerHTML={{ __html: svg }}
     />
   );

@@ -26,10 +26,7 @@ export function CalcEditor(p: KindEditorProps) {
       warnings={p.warnings}
       scopeNames={p.scopeNames}
       autoFocus
-      onEvaluate={p.onEvaluate}
-      onAddBelow={p.onAddBelow}
-      onPrevious={p.onPrevious}
-      onNext={p.onNext}
+      onCommand={p.onCommand}
       placeholder="R = 12 ohm   # one statement a line"
     />
   );
@@ -62,10 +59,7 @@ export function CheckEditor(p: KindEditorProps) {
         warnings={p.warnings}
         scopeNames={p.scopeNames}
         autoFocus
-        onEvaluate={p.onEvaluate}
-        onAddBelow={p.onAddBelow}
-        onPrevious={p.onPrevious}
-        onNext={p.onNext}
+        onCommand={p.onCommand}
         placeholder="I_rms <= 1.35 * I_rated"
       />
       <Stack direction={{ xs: 'column', sm: 'row' }} spacing={1.5}>
@@ -128,10 +122,7 @@ export function SweepEditor(p: KindEditorProps) {
         errors={p.errors}
         warnings={p.warnings}
         scopeNames={p.scopeNames}
-        onEvaluate={p.onEvaluate}
-        onAddBelow={p.onAddBelow}
-        onPrevious={p.onPrevious}
-        onNext={p.onNext}
+        onCommand={p.onCommand}
         placeholder="One expression a line"
       />
     </Stack>

@@ -5,6 +5,7 @@ import type { CellDto, CellKind, QueryDto } from '@ampwright/common';
 import { palette } from '../../../app/theme';
 import { cellInputs, KIND_LABELS, kindFacts, kindLabel } from '@ampwright/common/cells/kinds';
 import { CellPresentation, SourceText } from '../components/cell-results';
+import { commandOf, type SheetCommand } from './keyboard';
 import { KIND_EDITORS } from './cell-editors';
 import { useCellDraft, type SaveState } from './use-cell-draft';
 
@@ -20,6 +21,8 @@ const SAVE_LABELS: Record<SaveState, string> = {
 export interface CellActions {
   activate: (id: string | null) => void;
   neighbour: (id: string, step: -1 | 1) => void;
+  /** Opens the keyboard help. */
+  showKeys: () => void;
   add: (position: number, kind: CellKind) => void;
   importCsv: (position: number) => void;
   move: (id: string, position: number) => void;
@@ -77,27 +80,21 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
   const { previewWhileEditing } = kindFacts(cell.kind);
   // A click on the cell's text opens its editor, where it may be edited.
   const open = editable && Editor ? () => actions.activate(cell.id) : undefined;
-  const keys = {
-    onEvaluate: d.flush,
-    onAddBelow: () => (d.flush(), actions.add(index + 1, 'calc')),
-    onPrevious: () => (d.flush(), actions.neighbour(cell.id, -1)),
-    onNext: () => (d.flush(), actions.neighbour(cell.id, 1)),
+  // The sheet's keys (keyboard.ts), from the code editor or from anywhere else in the cell.
+  const onCommand = (command: SheetCommand) => {
+    if (command === 'keysHelp') return actions.showKeys();
+    if (!editable) return;
+    d.flush();
+    if (command === 'nextCell' || command === 'previousCell') actions.neighbour(cell.id, command === 'nextCell' ? 1 : -1);
+    else if (command === 'moveDown' && index < count - 1) actions.move(cell.id, index + 1);
+    else if (command === 'moveUp' && index > 0) actions.move(cell.id, index - 1);
+    else if (command === 'newCalcBelow') actions.add(index + 1, 'calc');
   };
   const onKeyDown = (e: React.KeyboardEvent) => {
-    if (e.defaultPrevented) return;
-    const action =
-      (e.ctrlKey || e.metaKey) && e.key === 'Enter'
-        ? keys.onEvaluate
-        : e.altKey && e.key === 'Enter'
-          ? keys.onAddBelow
-          : e.altKey && e.key === 'ArrowUp'
-            ? keys.onPrevious
-            : e.altKey && e.key === 'ArrowDown'
-              ? keys.onNext
-              : undefined;
-    if (!action) return;
+    const command = e.defaultPrevented ? undefined : commandOf(e);
+    if (!command) return;
     e.preventDefault();
-    action();
+    onCommand(command);
   };
   const failed = r?.status === 'error';
   const checkFailed = r?.kind === 'check' && r.pass === false;
@@ -213,7 +210,7 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
           warnings={d.dirty ? [] : (r?.warnings ?? [])}
           scopeNames={() => actions.scopeBefore(index)}
           label={`Cell ${index + 1}`}
-          {...keys}
+          onCommand={onCommand}
         />
       ) : (
         inputs && (

@@ -8,16 +8,10 @@ import { useEffect, useLayoutEffect, useRef } from 'react';
 import type { Diagnostic } from '@ampwright/common';
 import { monoFont, palette } from '../../../app/theme';
 import { calcCompletion, calcHighlighting, calcLanguage, toCmDiagnostics } from './calc-language';
+import { KEYBOARD, type SheetCommand } from './keyboard';
 
-export interface EditorKeys {
-  /** Mod-Enter: save and evaluate now. */
-  onEvaluate?: () => void;
-  /** Alt-Enter: add a cell below. */
-  onAddBelow?: () => void;
-  /** Alt-ArrowUp / Alt-ArrowDown: to the previous or next cell. */
-  onPrevious?: () => void;
-  onNext?: () => void;
-}
+/** What the sheet's keys (keyboard.ts) do in this editor; a command left out does nothing here. */
+export type EditorKeys = { onCommand?: (command: SheetCommand) => void };
 
 export interface CodeEditorProps extends EditorKeys {
   value: string;
@@ -51,12 +45,11 @@ export function CodeEditor(props: CodeEditorProps) {
   });
 
   useEffect(() => {
+    const command = (c: SheetCommand) => () => (latest.current.onCommand?.(c), true);
     const keys = keymap.of([
-      { key: 'Mod-Enter', run: () => (latest.current.onEvaluate?.(), true) },
-      { key: 'Alt-Enter', run: () => (latest.current.onAddBelow?.(), true) },
-      { key: 'Alt-ArrowUp', run: () => (latest.current.onPrevious?.(), true) },
-      { key: 'Alt-ArrowDown', run: () => (latest.current.onNext?.(), true) },
-      ...(latest.current.singleLine ? [{ key: 'Enter', run: () => (latest.current.onEvaluate?.(), true) }] : []),
+      ...KEYBOARD.map((k) => ({ key: k.key, run: command(k.command), preventDefault: true })),
+      // A one-line field (a check's condition) saves on Enter, where a new line has no place.
+      ...(latest.current.singleLine ? [{ key: 'Enter', run: command('saveNow') }] : []),
     ]);
     const extensions: Extension[] = [
       keys,

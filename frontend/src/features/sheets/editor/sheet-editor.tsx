@@ -1,13 +1,14 @@
 /**
  * The sheet editor: an ordered column of cells, each saved and evaluated by the server as it is
- * edited. Deleted cells can be restored; keyboard: Mod-Enter evaluates, Alt-Enter adds a cell below,
- * Alt-Up / Alt-Down move between cells.
+ * edited. Deleted cells can be restored. Its keys are in keyboard.ts; F1 or ? (when not typing) open
+ * their help.
  */
 import { Alert, Box, Button, Snackbar, Stack, Typography } from '@mui/material';
 import { useCallback, useLayoutEffect, useMemo, useRef, useState } from 'react';
 import type { CellDto, QueryDto, SheetDto } from '@ampwright/common';
 import { cellBody, useCellChange } from '../api/change-sheet';
 import { AddCellMenu, CellFrame, type CellActions, type ReviewSlot } from './cell-frame';
+import { commandOf } from './keyboard';
 import { newCellFields } from '@ampwright/common/cells/kinds';
 
 function scopeOf(cells: CellDto[], position: number) {
@@ -29,6 +30,7 @@ export function SheetEditor({
   Review,
   checking,
   openOnly = false,
+  onShowKeys,
 }: {
   sheet: SheetDto;
   editable: boolean;
@@ -36,6 +38,8 @@ export function SheetEditor({
   Review?: ReviewSlot;
   checking: boolean;
   openOnly?: boolean;
+  /** Opens the keyboard help (the route holds it, beside its own button for it). */
+  onShowKeys: () => void;
 }) {
   const byCell = useMemo(() => {
     const m = new Map<string, QueryDto[]>();
@@ -50,8 +54,18 @@ export function SheetEditor({
   const csvInput = useRef<HTMLInputElement>(null);
   const csvPosition = useRef(0);
   const cellsRef = useRef(sheet.cells);
+  const showKeysRef = useRef(onShowKeys);
+  // A cell moved from the keyboard keeps the focus: moving its element in the page takes the focus away.
+  const refocus = useRef<string | null>(null);
   useLayoutEffect(() => {
     cellsRef.current = sheet.cells;
+    showKeysRef.current = onShowKeys;
+    const moved = refocus.current && document.querySelector<HTMLElement>(`[data-cell-id="${refocus.current}"]`);
+    if (moved && !moved.contains(document.activeElement)) {
+      moved.querySelector<HTMLElement>('.cm-content, input, textarea')?.focus();
+      moved.scrollIntoView({ block: 'nearest' });
+      refocus.current = null;
+    }
   });
 
   const report = (err: Error) => setNotice(err.message);
@@ -59,6 +73,7 @@ export function SheetEditor({
   const actions: CellActions = useMemo(
     () => ({
       activate: setActiveId,
+      showKeys: () => showKeysRef.current(),
       neighbour: (id, step) => {
         const cells = cellsRef.current;
         const i = cells.findIndex((c) => c.id === id);
@@ -80,7 +95,12 @@ export function SheetEditor({
         csvPosition.current = position;
         csvInput.current?.click();
       },
-      move: (id, position) => change.mutate({ type: 'move', cellId: id, position }, { onError: report }),
+      move: (id, position) => {
+        if (document.querySelector(`[data-cell-id="${id}"]`)?.contains(document.activeElement)) refocus.current = id;
+        // Once the moved sheet has been drawn, nothing is left to refocus (never later, when the person is elsewhere).
+        const settle = () => setTimeout(() => (refocus.current = null), 200);
+        change.mutate({ type: 'move', cellId: id, position }, { onSettled: settle, onError: report });
+      },
       remove: (cell) => {
         const position = cellsRef.current.findIndex((c) => c.id === cell.id);
         change.mutate(
@@ -113,8 +133,18 @@ export function SheetEditor({
     );
   };
 
+  // The help from anywhere in the sheet: its key, or ? where ? would not be typed into a field.
+  const onKeyDown = (e: React.KeyboardEvent) => {
+    if (e.defaultPrevented) return;
+    const typing = e.target instanceof HTMLElement && (e.target.isContentEditable || ['INPUT', 'TEXTAREA', 'SELECT'].includes(e.target.tagName));
+    if (commandOf(e) === 'keysHelp' || (e.key === '?' && !typing)) {
+      e.preventDefault();
+      onShowKeys();
+    }
+  };
+
   return (
-    <Stack spacing={2} data-testid="sheet-editor">
+    <Stack spacing={2} data-testid="sheet-editor" onKeyDown={onKeyDown}>
       {shown.map((cell) => (
         <CellFrame
           key={cell.id}
