@@ -89,3 +89,4 @@ export {
   SheetErrorCode,
   EvaluationErrorCode,
 } from './api/error-codes';
+export type { Plot, PlotAxis, PlotData } from './plot/charts';

@@ -120,6 +120,39 @@ describe('the sheet editor in a real browser', () => {
     expect(s.errors).toEqual([]);
   });
 
+  it('reads a chart under the pointer with units, zooms to a dragged range and back, and exports the series as CSV', async () => {
+    const { page } = s;
+    await newRlcSheet(page);
+    const figure = page.getByRole('figure', { name: 'Frequency response' });
+    await figure.waitFor();
+    await figure.scrollIntoViewIfNeeded();
+    const box = (await figure.boundingBox())!;
+    const readout = page.getByTestId('chart-readout');
+    // Over the middle of the plot area: the swept frequency and each series, with units.
+    await page.mouse.move(box.x + box.width * 0.55, box.y + box.height * 0.3);
+    await expect.poll(() => readout.textContent()).toMatch(/^\w+ = [\d.e+-]+ Hz · /);
+    const before = await readout.textContent();
+    // A drag across the left half zooms to it; the axis now spans that range.
+    await page.mouse.move(box.x + box.width * 0.2, box.y + box.height * 0.3);
+    await page.mouse.down();
+    await page.mouse.move(box.x + box.width * 0.5, box.y + box.height * 0.3, { steps: 5 });
+    await page.mouse.up();
+    await page.getByTestId('chart-range').waitFor();
+    expect(await page.getByTestId('chart-range').textContent()).toMatch(/^\w+ from [\d.e+-]+ Hz to [\d.e+-]+ Hz$/);
+    await page.mouse.move(box.x + box.width * 0.55, box.y + box.height * 0.3);
+    await expect.poll(() => readout.textContent()).not.toBe(before);
+    await page.getByRole('button', { name: 'Whole range' }).click();
+    await page.getByTestId('chart-range').waitFor({ state: 'hidden' });
+    // The series plotted, as CSV with a unit in each column's name.
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Export as CSV' }).click()]);
+    const csv = await (await download.createReadStream()).toArray();
+    const lines = Buffer.concat(csv).toString('utf8').trim().split('\n');
+    expect(lines[0]).toMatch(/^"\w+ \[Hz\]",/);
+    expect(lines.length).toBeGreaterThan(20);
+    expect(lines[1].split(',').every((v) => Number.isFinite(Number(v)))).toBe(true);
+    expect(s.errors).toEqual([]);
+  });
+
   it('deletes a cell and restores it, and underlines an error in the source', async () => {
     const { page } = s;
     await newRlcSheet(page);

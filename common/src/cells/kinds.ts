@@ -9,7 +9,7 @@
  * editor in the app (KIND_EDITORS).
  */
 import type { z } from 'zod';
-import { calcFigures, sweepChart, transientChart } from '../plot/charts';
+import { calcFigures, sweepPlot, transientPlot } from '../plot/charts';
 import {
   type Cell,
   type CellKind,
@@ -112,10 +112,21 @@ export const CELL_KIND_REGISTRY: { [K in CellKind]: CellKindDefinition<K> } = {
     figures: () => ({}),
     present: (f, r) => {
       if (!r) return [];
-      const svg = sweepChart(r, { logX: f.spacing === 'log' });
+      const logX = f.spacing === 'log';
+      const drawn = sweepPlot(r, { logX });
       return [
         { type: 'sentence', text: `${r.variable?.values.length ?? 0} points of ${r.variable?.name ?? f.variable}`, style: 'plain' },
-        ...(svg ? [{ type: 'figure', label: 'Frequency response', svg } as const] : []),
+        ...(drawn
+          ? [
+              {
+                type: 'figure',
+                label: 'Frequency response',
+                svg: drawn.svg,
+                plot: drawn.data,
+                redraw: (xRange: [number, number] | null) => sweepPlot(r, { logX, xRange: xRange ?? undefined }),
+              } as const,
+            ]
+          : []),
       ];
     },
   },
@@ -129,10 +140,20 @@ export const CELL_KIND_REGISTRY: { [K in CellKind]: CellKindDefinition<K> } = {
     figures: (r): Record<string, string> => (r.peakCurrent ? { 'peak current': r.peakCurrent.display } : {}),
     present: (_f, r) => {
       if (!r) return [];
-      const svg = transientChart(r);
+      const drawn = transientPlot(r);
       return [
         { type: 'rows', label: 'Transient results', rows: transientSummary(r) },
-        ...(svg ? [{ type: 'figure', label: 'Transient current', svg } as const] : []),
+        ...(drawn
+          ? [
+              {
+                type: 'figure',
+                label: 'Transient current',
+                svg: drawn.svg,
+                plot: drawn.data,
+                redraw: (xRange: [number, number] | null) => transientPlot(r, { xRange: xRange ?? undefined }),
+              } as const,
+            ]
+          : []),
       ];
     },
   },

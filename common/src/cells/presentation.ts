@@ -5,6 +5,7 @@
  * are decided here once. Which blocks each kind of cell gives is its `present` in cells/kinds.ts.
  * Pure (no engine), so the browser can use it.
  */
+import type { Plot, PlotData } from '../plot/charts';
 import type { CheckResult, ExtremaResult, LineResult, TransientResult } from './types';
 
 export interface SummaryRow {
@@ -23,7 +24,12 @@ export type PresentationBlock =
   /** Labelled rows of text (a transient's damping, peaks, steady state, method). */
   | { type: 'rows'; label: string; rows: SummaryRow[] }
   /** A drawing from common/plot; `small` ones sit side by side on screen and at 60 % width on paper. */
-  | { type: 'figure'; label: string; svg: string; small?: boolean }
+  /**
+   * A chart or diagram. A chart of series also carries what it plots (`plot`) and `redraw`, which draws it
+   * again over a range of its horizontal variable (null: the whole range): the screen reads values out,
+   * zooms and exports from them; the package draws `svg`.
+   */
+  | { type: 'figure'; label: string; svg: string; small?: boolean; plot?: PlotData; redraw?: (xRange: [number, number] | null) => Plot | null }
   /** A sentence: `muted` for what the inputs were, `caption` for a figure's caption. */
   | { type: 'sentence'; text: string; style: 'plain' | 'muted' | 'caption' }
   /** A table of values as typed, a unit per column. */

@@ -12,7 +12,9 @@ export interface Frame {
 }
 
 /** A linear or logarithmic scale over the finite values; log only when every value is positive. */
-export function scaleFor(values: number[], range: [number, number], log: boolean, padFraction = 0): Scale {
+export function scaleFor(values: number[], range: [number, number], log: boolean, padFraction = 0, fixed?: [number, number]): Scale {
+  // A domain given (a chart zoomed to a range) is kept exactly, so the pointer's read-out maps back to it.
+  if (fixed) return (log && fixed[0] > 0 ? scaleLog() : scaleLinear()).domain(fixed).range(range);
   const finite = values.filter(Number.isFinite);
   let lo = finite.length ? Math.min(...finite) : 0;
   let hi = finite.length ? Math.max(...finite) : 1;

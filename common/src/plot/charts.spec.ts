@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { evaluateSheet } from '../cells/evaluate-sheet';
 import type { CalcResult, SweepResult, TransientResult } from '../cells/types';
-import { calcFigures, impedanceTriangle, sweepChart, transientChart } from './charts';
+import { calcFigures, impedanceTriangle, sweepChart, sweepPlot, transientChart, transientPlot } from './charts';
 
 const lines = (svg: string) => [...svg.matchAll(/<line x1="([-\d.]+)" y1="([-\d.]+)" x2="([-\d.]+)" y2="([-\d.]+)"/g)].map((m) => m.slice(1).map(Number));
 
@@ -57,5 +57,26 @@ describe('charts from evaluated cells', () => {
     expect(svg).toContain('t [s]');
     expect(svg).toContain('i [A]');
     expect(svg).toContain('steady periodic part');
+  });
+
+  it('says what it plots, with units, and zooms to a range of the variable with that range as its axis', () => {
+    const whole = sweepPlot(sheet.cells[1] as SweepResult, { logX: true })!;
+    expect(whole.data.x).toMatchObject({ name: 'f', unit: 'Hz' });
+    expect(whole.data.x.values).toHaveLength(61);
+    expect(whole.data.series.map((s) => s.unit)).toEqual(['', 'deg']); // a dimensionless ratio, and its phase
+    expect(whole.data.series.every((s) => s.values.length === 61)).toBe(true);
+    expect(whole.data).toMatchObject({ log: true, frame: { left: 64, svgWidth: 640 } });
+    const zoomed = sweepPlot(sheet.cells[1] as SweepResult, { logX: true, xRange: [200, 50] })!;
+    // The range as asked (either order), exactly, and only the points inside it.
+    expect(zoomed.data.domain).toEqual([50, 200]);
+    expect(zoomed.data.x.values.every((f) => f >= 50 && f <= 200)).toBe(true);
+    expect(zoomed.data.x.values.length).toBeLessThan(61);
+    expect(zoomed.data.series[0].values).toHaveLength(zoomed.data.x.values.length);
+    expect(zoomed.svg).not.toBe(whole.svg);
+    // A transient zoomed to its first millisecond.
+    const t = transientPlot(sheet.cells[2] as TransientResult, { xRange: [0, 1e-3] })!;
+    expect(t.data.domain).toEqual([0, 1e-3]);
+    expect(t.data.series.map((s) => s.name)).toContain('steady periodic part');
+    expect(t.data.x.values.every((v) => v <= 1e-3)).toBe(true);
   });
 });

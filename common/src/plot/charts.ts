@@ -35,7 +35,40 @@ const phaseDeg = (s: SeriesData): number[] => s.values.map((re, i) => (Math.atan
 export interface ChartOptions {
   /** Draw the frequency (or other swept variable) on a log axis. */
   logX?: boolean;
+  /** Draw only this range of the horizontal variable (a zoom), in the variable's unit. */
+  xRange?: [number, number];
 }
+
+/** One plotted quantity: its name, unit and values (as drawn: a complex output's magnitude or phase). */
+export interface PlotAxis {
+  name: string;
+  unit: string;
+  values: number[];
+}
+
+/**
+ * What a chart plots, beside its picture, for the screen to read values out under the pointer, zoom and
+ * export the series: the horizontal variable, each series drawn against it, where the plot area is in the
+ * SVG's own units, and the horizontal axis's domain and kind.
+ */
+export interface PlotData {
+  x: PlotAxis;
+  series: PlotAxis[];
+  frame: { left: number; width: number; svgWidth: number };
+  domain: [number, number];
+  log: boolean;
+}
+
+/** A chart: its SVG and what it plots. */
+export interface Plot {
+  svg: string;
+  data: PlotData;
+}
+
+/** The indexes of the points inside a range (all of them without one). */
+const within = (xs: number[], range?: [number, number]): number[] =>
+  xs.flatMap((v, i) => (!range || (v >= Math.min(...range) && v <= Math.max(...range)) ? [i] : []));
+const pick = (values: number[], keep: number[]): number[] => keep.map((i) => values[i]);
 
 /**
  * A sweep as a frequency-response chart: the magnitude of every output against the variable and,
@@ -43,8 +76,16 @@ export interface ChartOptions {
  * panels, since one axis cannot carry two units.
  */
 export function sweepChart(result: SweepResult, options: ChartOptions = {}): string | null {
-  const v = result.variable;
-  if (!v || !result.outputs.length) return null;
+  return sweepPlot(result, options)?.svg ?? null;
+}
+
+/** sweepChart with what it plots (PlotData). */
+export function sweepPlot(result: SweepResult, options: ChartOptions = {}): Plot | null {
+  const whole = result.variable;
+  if (!whole || !result.outputs.length) return null;
+  const keep = within(whole.values, options.xRange);
+  if (!keep.length) return null;
+  const v = { ...whole, values: pick(whole.values, keep) };
   const groups = new Map<string, SeriesData[]>();
   for (const o of result.outputs) groups.set(o.unit, [...(groups.get(o.unit) ?? []), o]);
   const complex = result.outputs.filter((o) => o.complex);
@@ -54,12 +95,21 @@ export function sweepChart(result: SweepResult, options: ChartOptions = {}): str
   const left = 64;
   const frameW = W - left - 20;
   const height = panels.length * (panelH + 46) + 20;
-  const x = scaleFor(v.values, [left, left + frameW], !!options.logX);
+  const range = options.xRange && ([Math.min(...options.xRange), Math.max(...options.xRange)] as [number, number]);
+  const x = scaleFor(v.values, [left, left + frameW], !!options.logX, 0, range);
   const out: string[] = [];
+  const plotted: PlotAxis[] = [];
   panels.forEach((panel, p) => {
     const top = 16 + p * (panelH + 46);
     const frame: Frame = { left, top, width: frameW, height: panelH };
-    const ys = panel.series.map((s) => (panel.phase ? phaseDeg(s) : magnitude(s)));
+    const ys = panel.series.map((s) => pick(panel.phase ? phaseDeg(s) : magnitude(s), keep));
+    panel.series.forEach((s, i) =>
+      plotted.push({
+        name: panel.phase ? `arg(${shortName(s.name)})` : s.complex ? `|${shortName(s.name)}|` : shortName(s.name),
+        unit: panel.unit,
+        values: ys[i],
+      }),
+    );
     const all = ys.flat();
     const positive = all.every((t) => !Number.isFinite(t) || t > 0);
     const finite = all.filter(Number.isFinite);
@@ -88,22 +138,41 @@ export function sweepChart(result: SweepResult, options: ChartOptions = {}): str
         ),
       );
   });
-  return svgDocument(W, height, `Response against ${v.name}`, out);
+  const [d0, d1] = x.domain() as [number, number];
+  return {
+    svg: svgDocument(W, height, `Response against ${v.name}`, out),
+    data: {
+      x: { name: v.name, unit: v.unit, values: v.values },
+      series: plotted,
+      frame: { left, width: frameW, svgWidth: W },
+      domain: [d0, d1],
+      log: !!options.logX,
+    },
+  };
 }
 
 const shortName = (expression: string): string => (expression.length > 40 ? `${expression.slice(0, 37)}…` : expression);
 
 /** A transient as a time chart: the current (numeric), and, where there is an analytic solution, its steady periodic part. */
 export function transientChart(result: TransientResult): string | null {
-  const t = result.time;
-  const i = result.current;
-  if (!t || !i) return null;
+  return transientPlot(result)?.svg ?? null;
+}
+
+/** transientChart with what it plots (PlotData); `xRange` zooms to a span of time. */
+export function transientPlot(result: TransientResult, options: Pick<ChartOptions, 'xRange'> = {}): Plot | null {
+  if (!result.time || !result.current) return null;
+  const keep = within(result.time.values, options.xRange);
+  if (!keep.length) return null;
+  const cut = (s: SeriesData | undefined): SeriesData | undefined => s && { ...s, values: pick(s.values, keep) };
+  const t = cut(result.time)!;
+  const i = cut(result.current)!;
   const left = 64;
   const frame: Frame = { left, top: 16, width: W - left - 20, height: 240 };
   const series: { s: SeriesData; colour: string; dash?: string; label: string }[] = [{ s: i, colour: PLOT_COLOURS.ink, label: 'i(t), numeric solution' }];
-  if (result.currentSteady) series.push({ s: result.currentSteady, colour: PLOT_COLOURS.copper, dash: '5 3', label: 'steady periodic part' });
-  if (result.currentTransient) series.push({ s: result.currentTransient, colour: PLOT_COLOURS.grey, dash: '2 2', label: 'transient part' });
-  const x = scaleFor(t.values, [left, left + frame.width], false);
+  if (result.currentSteady) series.push({ s: cut(result.currentSteady)!, colour: PLOT_COLOURS.copper, dash: '5 3', label: 'steady periodic part' });
+  if (result.currentTransient) series.push({ s: cut(result.currentTransient)!, colour: PLOT_COLOURS.grey, dash: '2 2', label: 'transient part' });
+  const range = options.xRange && ([Math.min(...options.xRange), Math.max(...options.xRange)] as [number, number]);
+  const x = scaleFor(t.values, [left, left + frame.width], false, 0, range);
   const y = scaleFor(
     series.flatMap((s) => s.s.values),
     [frame.top + frame.height, frame.top],
@@ -124,7 +193,17 @@ export function transientChart(result: TransientResult): string | null {
       series.map((s) => ({ label: s.label, colour: s.colour, dash: s.dash })),
     ),
   );
-  return svgDocument(W, frame.top + frame.height + 46, 'Current against time', out);
+  const [d0, d1] = x.domain() as [number, number];
+  return {
+    svg: svgDocument(W, frame.top + frame.height + 46, 'Current against time', out),
+    data: {
+      x: { name: 't', unit: t.unit, values: t.values },
+      series: series.map((s) => ({ name: s.label, unit: i.unit, values: s.s.values })),
+      frame: { left, width: frame.width, svgWidth: W },
+      domain: [d0, d1],
+      log: false,
+    },
+  };
 }
 
 interface Phasor {

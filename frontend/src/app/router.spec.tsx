@@ -63,9 +63,9 @@ describe('routes', () => {
   afterEach(() => vi.unstubAllGlobals());
 
   it.each([
-    ['/sign-in', 'Sign in', 2],
-    ['/register', 'Register your firm', 2],
-    ['/forgot-password', 'Reset your password', 2],
+    ['/sign-in', 'Sign in', 1],
+    ['/register', 'Register your firm', 1],
+    ['/forgot-password', 'Reset your password', 1],
     ['/verify', 'Verify a package', 1],
   ])('shows the public page %s inside the shell', async (path, heading, level) => {
     serve(null);

@@ -6,6 +6,7 @@ import { presentCell } from '@ampwright/common/cells/kinds';
 import { monoFont, palette } from '../../../app/theme';
 import { NoteText } from './note-text';
 import { SvgFigure } from './svg-figure';
+import { ChartFigure } from './chart-figure';
 import { Tex } from './tex';
 import { ScrollBox } from '../../../components/scroll-box';
 
@@ -172,7 +173,7 @@ const BLOCK_VIEWS: { [T in BlockType]: (block: BlockOf<T>) => ReactNode } = {
   lines: (b) => <Lines {...b} />,
   outcome: (b) => <Outcome {...b} />,
   rows: (b) => <Rows {...b} />,
-  figure: (b) => <SvgFigure svg={b.svg} label={b.label} />,
+  figure: (b) => (b.plot && b.redraw ? <ChartFigure block={b} /> : <SvgFigure svg={b.svg} label={b.label} />),
   sentence: (b) =>
     b.style === 'caption' ? (
       <Typography variant="body2">{b.text}</Typography>
