@@ -395,15 +395,6 @@ export class SheetRepository extends EntityRepository<Sheet> {
     );
   }
 
-  /** A sheet's cells in order as a save changes them, without their results, in one query. */
-  async cellRecords(sheetId: string): Promise<CellRecord[]> {
-    const rows = await this.em.execute<CellRecordRow[]>(
-      `select c.id, ${CELL_RECORD_COLUMNS} from cell c ${CELL_PEOPLE} where c.sheet_id = ? order by c.position`,
-      [sheetId],
-    );
-    return rows.map(cellRecord);
-  }
-
   /** Writes what a save changed of a sheet's cells (in the caller's transaction). */
   async writeCells(sheetId: string, writes: CellWrites): Promise<void> {
     const run = (sql: string, params: unknown[]) => this.em.execute(sql, params, 'run');
