@@ -321,21 +321,33 @@ describe('projects and sheets', () => {
         ],
       },
     });
-    const bad = await as(app, engineer, 'post', `/api/sheets/${id}/cells/import-csv`)
+    expect(ok.body.detected).toEqual({ delimiter: ',', decimalMark: '.', rows: 2, columns: 2 });
+    // A spreadsheet's export with semicolons and decimal commas is read as such, and says so.
+    const comma = await as(app, engineer, 'post', `/api/sheets/${id}/cells/import-csv`)
       .field('version', '2')
+      .field('position', '1')
+      .attach('file', Buffer.from('h;V_h [V]\r\n1;230\r\n5;9,2\r\n'), { filename: 'export.csv', contentType: 'text/csv' })
+      .expect(201);
+    expect(comma.body.changed[0].fields.rows).toEqual([
+      [1, 230],
+      [5, 9.2],
+    ]);
+    expect(comma.body.detected).toEqual({ delimiter: ';', decimalMark: ',', rows: 2, columns: 2 });
+    const bad = await as(app, engineer, 'post', `/api/sheets/${id}/cells/import-csv`)
+      .field('version', '3')
       .field('position', '1')
       .attach('file', Buffer.from('h, V_h [V]\n1, 230\n5, n/a\n'), { filename: 'bad.csv', contentType: 'text/csv' })
       .expect(400);
     expect(bad.body.details).toEqual([{ field: 'file', message: 'line 3: column V_h: "n/a" is not a number' }]);
     const binary = await as(app, engineer, 'post', `/api/sheets/${id}/cells/import-csv`)
-      .field('version', '2')
+      .field('version', '3')
       .field('position', '1')
       .attach('file', Buffer.from([0x25, 0x50, 0x44, 0x46, 0x00, 0xff, 0xfe]), { filename: 'lying.csv', contentType: 'text/csv' })
       .expect(415);
     expect(binary.body.message).toMatch(/not a CSV text file/);
     const sheet = await as(app, engineer, 'get', `/api/sheets/${id}`).expect(200);
-    expect(sheet.body.cells).toHaveLength(1);
-    expect(sheet.body.version).toBe(2);
+    expect(sheet.body.cells).toHaveLength(2);
+    expect(sheet.body.version).toBe(3);
   });
 
   it('refuses a cell that is not in the format, naming the field', async () => {

@@ -7,7 +7,9 @@ export { formatValue, formatNumber, DEFAULT_DISPLAY } from './units/display';
 export { CIRCUIT_FUNCTION_NAMES } from './circuits/functions';
 export { analyticSolution, numericSolution, dampingOf } from './circuits/transient';
 export { toContractJson, type ContractOutput } from './cells/contract';
-export { csvToTableCell, type CsvTableResult } from './sheet/csv-table';
+export { gridValue, readPastedBlock, type GridValue, type PastedBlock } from './sheet/pasted-block';
+export { readDecimal, type DecimalMark } from './sheet/decimal';
+export { csvToTableCell, describeDetected, type CsvDetected, type CsvTableResult } from './sheet/csv-table';
 export type {
   AttachmentDto,
   CoPreparersBody,
@@ -15,6 +17,7 @@ export type {
   CellDto,
   ProjectDto,
   SaveResultDto,
+  ImportResultDto,
   SheetContentsDto,
   SheetDto,
   SheetState,

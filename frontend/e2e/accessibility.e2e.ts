@@ -4,37 +4,11 @@
  * as someone who may see it, at a desktop width and at a phone's (390 px), with its content loaded; at
  * both, the page must not be wider than the screen.
  */
-import { createRequire } from 'node:module';
-import { readFileSync } from 'node:fs';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { baseUrl, useBrowserPage } from './support/browser';
+import { seriousViolations } from './support/axe';
 import { signIn } from './support/flows';
-
-const AXE = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
-
-interface Violation {
-  id: string;
-  impact: string | null;
-  help: string;
-  nodes: { target: string[]; html: string; failureSummary?: string }[];
-}
-
-/** The serious and critical violations on the page as it stands, each as "rule: where". */
-async function seriousViolations(page: Page): Promise<string[]> {
-  // Through the browser's debugging protocol, so the page's Content Security Policy (no inline script) stays as it is.
-  await page.evaluate(`${AXE}\n;true`);
-  const violations = await page.evaluate(async () => {
-    const axe = (window as unknown as { axe: { run: (context: Document, options: object) => Promise<{ violations: Violation[] }> } }).axe;
-    const result = await axe.run(document, { runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] }, resultTypes: ['violations'] });
-    return result.violations;
-  });
-  return violations
-    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
-    .map(
-      (v) => `${v.id} (${v.impact}): ${v.help} — ${v.nodes.map((n) => `${n.target.join(' ')} ${n.html.slice(0, 120)} ${n.failureSummary ?? ''}`).join(' | ')}`,
-    );
-}
 
 /** Opens a page and waits until its main heading is there (the page's own content has loaded). */
 async function open(page: Page, path: string) {

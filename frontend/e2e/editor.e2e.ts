@@ -53,7 +53,7 @@ describe('the sheet editor in a real browser', () => {
     await page
       .getByTestId('csv-input')
       .setInputFiles({ name: 'harmonics.csv', mimeType: 'text/csv', buffer: Buffer.from('h, I_h [A]\n1, 100\n5, 18\n7, 11\n') });
-    await page.getByRole('table', { name: 'Table' }).waitFor();
+    await page.getByRole('grid', { name: 'Table' }).waitFor();
     await page
       .getByTestId('attachment-input')
       .setInputFiles({ name: 'site-note.txt', mimeType: 'text/plain', buffer: Buffer.from('Bank nameplate read on site.\n') });
@@ -68,7 +68,7 @@ describe('the sheet editor in a real browser', () => {
     await page.reload();
     await expect.poll(() => text(page, 'result-Z')).toContain('24.54');
     expect(await page.getByTestId('check-outcome').allTextContents()).toContain('Fail');
-    expect(await page.getByRole('table', { name: 'Table' }).count()).toBe(1);
+    expect(await page.getByRole('grid', { name: 'Table' }).count()).toBe(1);
     await page.getByRole('table', { name: 'Attachment list' }).getByText('site-note.txt').waitFor();
     expect(await page.getByRole('table', { name: 'Attachment list' }).getByText('drawing.pdf').count()).toBe(0);
     // The browser logs the refused upload's 415 itself; nothing else may go wrong on the page.
@@ -126,11 +126,17 @@ describe('the sheet editor in a real browser', () => {
     const figure = page.getByRole('figure', { name: 'Frequency response' });
     await figure.waitFor();
     await figure.scrollIntoViewIfNeeded();
-    const box = (await figure.boundingBox())!;
     const readout = page.getByTestId('chart-readout');
-    // Over the middle of the plot area: the swept frequency and each series, with units.
-    await page.mouse.move(box.x + box.width * 0.55, box.y + box.height * 0.3);
-    await expect.poll(() => readout.textContent()).toMatch(/^\w+ = [\d.e+-]+ Hz · /);
+    // Over the middle of the plot area: the swept frequency and each series, with units. The pointer is
+    // moved again on each try, where the figure is then (the page may still be settling around it).
+    await expect
+      .poll(async () => {
+        const at = (await figure.boundingBox())!;
+        await page.mouse.move(at.x + at.width * 0.55, at.y + at.height * 0.3);
+        return readout.textContent();
+      })
+      .toMatch(/^\w+ = [\d.e+-]+ Hz · /);
+    const box = (await figure.boundingBox())!;
     const before = await readout.textContent();
     // A drag across the left half zooms to it; the axis now spans that range.
     await page.mouse.move(box.x + box.width * 0.2, box.y + box.height * 0.3);

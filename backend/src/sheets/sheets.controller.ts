@@ -16,7 +16,7 @@ import {
   UseInterceptors,
 } from '@nestjs/common';
 import { FileInterceptor } from '@nestjs/platform-express';
-import type { SheetFile } from '@ampwright/common';
+import type { ImportResultDto, SheetFile } from '@ampwright/common';
 import { Roles } from '../core/decorators/access.decorator';
 import { CurrentAuth } from '../core/decorators/current-auth.decorator';
 import type { AuthContext } from '../core/guards/auth.guard';
@@ -83,7 +83,10 @@ export class SheetsController {
     return this.sheets.addCell(auth, id, dto);
   }
 
-  /** A CSV of measurements (header `h, I_h [A]`) as a new table cell; multipart field "file", at most 25 MB. */
+  /**
+   * A CSV of measurements (header `h, I_h [A]`) as a new table cell; multipart field "file", at most 25 MB.
+   * The delimiter (comma, semicolon, tab, bar) and the decimal mark are detected, and returned in `detected`.
+   */
   @Roles(...SHEET_EDITORS)
   @Post('sheets/:id/cells/import-csv')
   @UseInterceptors(FileInterceptor('file', UPLOAD_OPTIONS))
@@ -92,7 +95,7 @@ export class SheetsController {
     @Param('id', ParseUUIDPipe) id: string,
     @UploadedFile() file: Express.Multer.File | undefined,
     @Body() dto: ImportCsvDto,
-  ): Promise<SaveResult> {
+  ): Promise<ImportResultDto> {
     return this.sheets.importCsv(auth, id, file, dto);
   }
 

@@ -13,6 +13,7 @@ import {
   unevaluatedResults,
   type CellDto,
   type CellResult,
+  type ImportResultDto,
   type SaveResultDto,
   type SheetDto,
   type SheetFile,
@@ -466,7 +467,7 @@ export class SheetsService {
   }
 
   /** A CSV upload as a new table cell; any bad row is reported by its line and nothing is stored. */
-  async importCsv(auth: AuthContext, id: string, file: { buffer: Buffer; originalname: string } | undefined, dto: ImportCsvDto): Promise<SaveResult> {
+  async importCsv(auth: AuthContext, id: string, file: { buffer: Buffer; originalname: string } | undefined, dto: ImportCsvDto): Promise<ImportResultDto> {
     if (!file)
       throw new RequestException(ErrorCode.ValidationFailed, 'Attach the CSV file in the field "file".', {
         details: [{ field: 'file', message: 'no file was sent' }],
@@ -487,7 +488,8 @@ export class SheetsService {
         details,
       });
     }
-    return this.addCell(auth, id, { version: dto.version, position: dto.position, cell: parsed.cell as unknown as Record<string, unknown> });
+    const saved = await this.addCell(auth, id, { version: dto.version, position: dto.position, cell: parsed.cell as unknown as Record<string, unknown> });
+    return { ...saved, detected: parsed.detected };
   }
 
   async updateCell(auth: AuthContext, id: string, cellId: string, dto: UpdateCellDto): Promise<SaveResult> {

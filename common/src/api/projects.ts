@@ -1,6 +1,7 @@
 /** Bodies of the projects and sheets API, shared by the server that builds them and the app that reads them. */
 import type { FieldsOf } from '../cells/kinds';
 import type { CellResult } from '../cells/types';
+import type { CsvDetected } from '../sheet/csv-table';
 import type { CellKind } from '../sheet/sheet-format';
 
 export type SheetState = 'being-prepared' | 'with-checker' | 'checked' | 'approved' | 'issued';
@@ -88,6 +89,11 @@ export interface SaveResultDto {
   version: number;
   changed: CellDto[];
   removed: string[];
+}
+
+/** The answer to a CSV import: the save, and what was detected in the file (delimiter, decimal mark, size). */
+export interface ImportResultDto extends SaveResultDto {
+  detected: CsvDetected;
 }
 
 /**

@@ -1,6 +1,7 @@
 /** The table cell: named columns with units; each column becomes a vector the cells below can use. */
 import type { TableCell } from '../sheet/sheet-format';
 import { math } from '../language/math';
+import { readDecimal } from '../sheet/decimal';
 import { formatValue, type DisplayOptions } from '../units/display';
 import type { SheetScope } from './scope';
 import type { TableResult } from './types';
@@ -20,7 +21,8 @@ export function evaluateTableCell(cell: TableCell, cellIndex: number, scope: She
       if (unit) math.unit(unit);
       const values = cell.rows.map((row, r) => {
         const v = row[c];
-        const n = typeof v === 'number' ? v : typeof v === 'string' && v.trim() !== '' ? Number(v) : NaN;
+        // Text holds a number written with a point; hexadecimal, Infinity and the like are not numbers here.
+        const n = typeof v === 'number' ? v : typeof v === 'string' ? (readDecimal(v, '.') ?? NaN) : NaN;
         if (!Number.isFinite(n)) throw new Error(`row ${r + 1}, column ${column.name}: "${v ?? ''}" is not a number`);
         return unit ? math.unit(n, unit) : n;
       });

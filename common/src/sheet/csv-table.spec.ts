@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { csvToTableCell } from './csv-table';
+import { csvToTableCell, describeDetected } from './csv-table';
 
 describe('csvToTableCell', () => {
   it('reads a header with units and rows of numbers', () => {
@@ -13,6 +13,7 @@ describe('csvToTableCell', () => {
           [5, 12.5],
         ],
       },
+      detected: { delimiter: ',', decimalMark: '.', rows: 2, columns: 2 },
     });
   });
 
@@ -55,5 +56,61 @@ describe('csvToTableCell with hostile files', () => {
     if (r.ok) return;
     expect(r.problems).toHaveLength(21);
     expect(r.problems[20].message).toBe('and 480 more problems like these');
+  });
+});
+
+describe('csvToTableCell detects the delimiter and the decimal mark', () => {
+  // Spreadsheets in locales with a decimal comma export CSV with semicolons between values (common practice).
+  it('reads semicolons and decimal commas, and says so', () => {
+    const r = csvToTableCell('h;I_h [A]\n1;10,5\n5;2,25\n7;1\n');
+    expect(r).toEqual({
+      ok: true,
+      cell: {
+        kind: 'table',
+        columns: [{ name: 'h' }, { name: 'I_h', unit: 'A' }],
+        rows: [
+          [1, 10.5],
+          [5, 2.25],
+          [7, 1],
+        ],
+      },
+      detected: { delimiter: ';', decimalMark: ',', rows: 3, columns: 2 },
+    });
+    if (r.ok) expect(describeDetected(r.detected)).toBe('3 rows × 2 columns, values separated by semicolons, decimal comma');
+  });
+
+  it('reads tabs and bars with decimal points, and exponents with either mark', () => {
+    expect(csvToTableCell('f [Hz]\tZ [ohm]\n50\t1.5e-3\n250\t0.75\n')).toMatchObject({
+      ok: true,
+      cell: {
+        rows: [
+          [50, 0.0015],
+          [250, 0.75],
+        ],
+      },
+      detected: { delimiter: '\t', decimalMark: '.' },
+    });
+    expect(csvToTableCell('a|b\n1,5E2|-,5\n')).toMatchObject({ ok: true, cell: { rows: [[150, -0.5]] }, detected: { delimiter: '|', decimalMark: ',' } });
+  });
+
+  it('refuses a second decimal mark in one file, naming the line that set the first', () => {
+    expect(csvToTableCell('a;b\n1;2,5\n3;4.5\n')).toEqual({
+      ok: false,
+      problems: [{ line: 3, message: 'column b: "4.5" has a decimal point, where line 2 has a decimal comma: one file uses one decimal mark' }],
+    });
+    expect(csvToTableCell('a,b\n1,"2,5"\n')).toEqual({
+      ok: false,
+      problems: [{ line: 2, message: 'column b: "2,5" has a decimal comma, but the values are separated by commas, so the decimal mark is a point' }],
+    });
+  });
+
+  it('reads no hexadecimal, Infinity or thousands separators as numbers', () => {
+    for (const v of ['0x10', 'Infinity', '1.234,5', '1 000', '1e400'])
+      expect(csvToTableCell(`a;b\n1;${v}\n`)).toMatchObject({ ok: false, problems: [{ line: 2, message: `column b: "${v}" is not a number` }] });
+  });
+
+  it('reads one column of integers with a point as the decimal mark', () => {
+    expect(csvToTableCell('n\n1\n2\n')).toMatchObject({ ok: true, detected: { delimiter: ',', decimalMark: '.', rows: 2, columns: 1 } });
+    expect(describeDetected({ delimiter: ',', decimalMark: '.', rows: 1, columns: 1 })).toBe('1 row × 1 column, decimal point');
   });
 });

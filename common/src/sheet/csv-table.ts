@@ -1,18 +1,41 @@
 /**
  * A CSV of measurements as a table cell: the header row names the columns, each optionally with a
- * unit in brackets (`h, I_h [A]`); every other row holds numbers. Parsed with papaparse row by row
+ * unit in brackets (`h, I_h [A]`); every other row holds numbers. The delimiter (comma, semicolon,
+ * tab, bar) is detected by papaparse; the decimal mark by the values: where the delimiter is not a
+ * comma, a value such as `10,5` means a decimal comma (as spreadsheets in many locales export), and
+ * the first value with a decimal mark decides it for the file. Both are reported with the cell, so
+ * the screen can say what was read. Parsed with papaparse row by row
  * (its step mode), checking the line length before parsing and the columns and rows as they come,
  * so a hostile file is refused early instead of built up in memory. A bad row is reported by its line
  * number (the first MAX_CSV_PROBLEMS of them), and then no cell is made at all.
  */
 import Papa from 'papaparse';
-import type { TableCell } from './sheet-format';
+import { readDecimal, type DecimalMark } from './decimal';
+import { TABLE_MAX_COLUMNS, TABLE_MAX_ROWS, type TableCell } from './sheet-format';
 
-export type CsvTableResult = { ok: true; cell: TableCell } | { ok: false; problems: { line: number; message: string }[] };
+/** What the import detected in the file. */
+export interface CsvDetected {
+  delimiter: ',' | ';' | '\t' | '|';
+  decimalMark: DecimalMark;
+  rows: number;
+  columns: number;
+}
+
+export type CsvTableResult = { ok: true; cell: TableCell; detected: CsvDetected } | { ok: false; problems: { line: number; message: string }[] };
+
+/** A delimiter's name in a sentence. */
+export const DELIMITER_NAMES: Record<CsvDetected['delimiter'], string> = { ',': 'commas', ';': 'semicolons', '\t': 'tabs', '|': 'vertical bars' };
+
+/** What the import read, as a sentence for the screen. */
+export function describeDetected(d: CsvDetected): string {
+  const rows = `${d.rows.toLocaleString('en')} row${d.rows === 1 ? '' : 's'} × ${d.columns} column${d.columns === 1 ? '' : 's'}`;
+  const separated = d.columns > 1 ? `, values separated by ${DELIMITER_NAMES[d.delimiter]}` : '';
+  return `${rows}${separated}, decimal ${d.decimalMark === ',' ? 'comma' : 'point'}`;
+}
 
 const HEADER = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*(?:\[\s*([^\]]*?)\s*\])?\s*$/;
-export const MAX_CSV_ROWS = 20_000;
-export const MAX_CSV_COLUMNS = 200;
+export const MAX_CSV_ROWS = TABLE_MAX_ROWS;
+export const MAX_CSV_COLUMNS = TABLE_MAX_COLUMNS;
 /** The longest line, in characters: 200 columns of long numbers fit many times over. */
 export const MAX_CSV_LINE = 64 * 1024;
 /** Problems listed before the rest are summed up in one line. */
@@ -47,10 +70,18 @@ export function csvToTableCell(input: string): CsvTableResult {
   const data: number[][] = [];
   let rows = 0;
   let stopped: Problem | undefined;
+  let delimiter: CsvDetected['delimiter'] = ',';
+  // Undecided until a value shows a decimal mark; where the delimiter is a comma it can only be a point.
+  let mark: { mark: CsvDetected['decimalMark']; line: number } | undefined;
   Papa.parse<string[]>(text, {
     skipEmptyLines: 'greedy',
+    delimitersToGuess: [',', ';', '\t', '|'],
     step: (step, parser) => {
       const row = step.data;
+      if (!columns) {
+        delimiter = (step.meta.delimiter as CsvDetected['delimiter']) ?? ',';
+        if (delimiter === ',') mark = { mark: '.', line: 0 };
+      }
       // papaparse counts rows from 0 and gives no line numbers in step mode: header is line 1.
       const line = rows + 1;
       rows++;
@@ -74,11 +105,23 @@ export function csvToTableCell(input: string): CsvTableResult {
         problem({ line, message: `has ${row.length} values where the header names ${columns.length} columns` });
         return;
       }
-      const values = row.map((v) => Number(v.trim()));
-      const bad = row.findIndex((v, i) => v.trim() === '' || !Number.isFinite(values[i]));
-      if (bad >= 0) {
-        problem({ line, message: `column ${columns[bad].name}: "${row[bad].trim().slice(0, 40)}" is not a number` });
-        return;
+      const values: number[] = [];
+      for (let j = 0; j < row.length; j++) {
+        const v = row[j].trim();
+        if (!mark) {
+          if (readDecimal(v, ',') !== undefined && v.includes(',')) mark = { mark: ',', line };
+          else if (readDecimal(v, '.') !== undefined && v.includes('.')) mark = { mark: '.', line };
+        }
+        const n = readDecimal(v, mark?.mark ?? '.');
+        if (n === undefined) {
+          const value = `column ${columns[j].name}: "${v.slice(0, 40)}"`;
+          problem({
+            line,
+            message: mark && readDecimal(v, mark.mark === '.' ? ',' : '.') !== undefined ? `${value} ${otherMark(mark)}` : `${value} is not a number`,
+          });
+          return;
+        }
+        values.push(n);
       }
       data.push(values);
     },
@@ -91,7 +134,19 @@ export function csvToTableCell(input: string): CsvTableResult {
     if (more) listed.push({ line: listed[listed.length - 1].line, message: `and ${more.toLocaleString('en')} more problems like these` });
     return { ok: false, problems: listed };
   }
-  return { ok: true, cell: { kind: 'table', columns, rows: data } };
+  return {
+    ok: true,
+    cell: { kind: 'table', columns, rows: data },
+    detected: { delimiter, decimalMark: mark?.mark ?? '.', rows: data.length, columns: columns.length },
+  };
+}
+
+/** Why a value with the other decimal mark is refused. */
+function otherMark(mark: { mark: CsvDetected['decimalMark']; line: number }): string {
+  if (mark.line === 0) return 'has a decimal comma, but the values are separated by commas, so the decimal mark is a point';
+  return mark.mark === '.'
+    ? `has a decimal comma, where line ${mark.line} has a decimal point: one file uses one decimal mark`
+    : `has a decimal point, where line ${mark.line} has a decimal comma: one file uses one decimal mark`;
 }
 
 function header(row: string[], problem: (p: Problem) => void): TableCell['columns'] {

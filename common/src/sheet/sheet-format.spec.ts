@@ -31,6 +31,23 @@ describe('parseSheetFile', () => {
     expect(result).toEqual({ ok: false, problems: [{ path: 'format', message: `format must be "${SHEET_FORMAT}"` }] });
   });
 
+  it('holds a table to 20 000 rows and 200 columns, saying so', () => {
+    const table = (rows: number, columns: number) => ({
+      kind: 'table',
+      columns: Array.from({ length: columns }, (_, k) => ({ name: `c${k}` })),
+      rows: Array.from({ length: rows }, () => Array<number>(columns).fill(1)),
+    });
+    expect(parseSheetFile({ ...example, cells: [table(20_000, 1)] }).ok).toBe(true);
+    expect(parseSheetFile({ ...example, cells: [table(20_001, 1)] })).toEqual({
+      ok: false,
+      problems: [{ path: 'cells[0].rows', message: 'a table has at most 20,000 rows' }],
+    });
+    expect(parseSheetFile({ ...example, cells: [table(1, 201)] })).toMatchObject({
+      ok: false,
+      problems: [{ path: 'cells[0].columns', message: 'a table has at most 200 columns' }, { path: 'cells[0].rows[0]' }],
+    });
+  });
+
   it('reports the place of a bad cell', () => {
     const result = parseSheetFile({ ...example, cells: [example.cells[0], { kind: 'calc', source: 7 }] });
     expect(result.ok).toBe(false);

@@ -54,10 +54,17 @@ export const transientCellSchema = z.looseObject({
   span: text('The time span'),
   points: z.number({ error: 'points must be a number' }).int().min(2).max(20000).optional(),
 });
+/** The most rows and columns a table cell holds (a CSV import, a paste, a file). */
+export const TABLE_MAX_ROWS = 20_000;
+export const TABLE_MAX_COLUMNS = 200;
 export const tableCellSchema = z.looseObject({
   kind: z.literal('table'),
-  columns: z.array(z.looseObject({ name: text('A column name'), unit: z.string().optional() })),
-  rows: z.array(z.array(z.union([z.number(), z.string(), z.null()]))),
+  columns: z
+    .array(z.looseObject({ name: text('A column name'), unit: z.string().optional() }))
+    .max(TABLE_MAX_COLUMNS, `a table has at most ${TABLE_MAX_COLUMNS} columns`),
+  rows: z
+    .array(z.array(z.union([z.number(), z.string(), z.null()])).max(TABLE_MAX_COLUMNS, `a table row has at most ${TABLE_MAX_COLUMNS} values`))
+    .max(TABLE_MAX_ROWS, `a table has at most ${TABLE_MAX_ROWS.toLocaleString('en')} rows`),
 });
 export const figureCellSchema = z.looseObject({ kind: z.literal('figure'), caption: z.string().optional() });
 

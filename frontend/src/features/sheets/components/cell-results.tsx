@@ -1,5 +1,5 @@
 /** What a cell shows on screen: the blocks of its presentation (typeset lines, check outcomes, charts, tables, notes) and its problems. */
-import { Alert, Box, Chip, LinearProgress, Stack, Table, TableBody, TableCell, TableHead, TableRow, Typography } from '@mui/material';
+import { Alert, Box, Chip, LinearProgress, Stack, Table, TableBody, TableCell, TableRow, Typography } from '@mui/material';
 import { Fragment, useMemo, type ReactNode } from 'react';
 import type { BlockOf, BlockType, CellResult, Diagnostic, PresentationBlock } from '@ampwright/common';
 import { presentCell } from '@ampwright/common/cells/kinds';
@@ -9,6 +9,7 @@ import { SvgFigure } from './svg-figure';
 import { ChartFigure } from './chart-figure';
 import { Tex } from './tex';
 import { ScrollBox } from '../../../components/scroll-box';
+import { TableGrid } from './table-grid';
 
 export function Problems({ errors, warnings }: { errors: Diagnostic[]; warnings: Diagnostic[] }) {
   if (!errors.length && !warnings.length) return null;
@@ -125,29 +126,7 @@ function Outcome({ check: p, formula, working }: BlockOf<'outcome'>) {
 }
 
 function TableBlock({ columns, rows }: BlockOf<'table'>) {
-  return (
-    <Table size="small" sx={{ width: 'auto' }} aria-label="Table">
-      <TableHead>
-        <TableRow>
-          {columns.map((c, j) => (
-            <TableCell key={j}>
-              {c.name}
-              {c.unit ? ` [${c.unit}]` : ''}
-            </TableCell>
-          ))}
-        </TableRow>
-      </TableHead>
-      <TableBody>
-        {rows.map((r, i) => (
-          <TableRow key={i}>
-            {r.map((v, j) => (
-              <TableCell key={j}>{v}</TableCell>
-            ))}
-          </TableRow>
-        ))}
-      </TableBody>
-    </Table>
-  );
+  return <TableGrid label="Table" columns={columns} rows={rows} />;
 }
 
 function Rows({ label, rows }: BlockOf<'rows'>) {

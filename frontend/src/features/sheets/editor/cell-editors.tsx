@@ -1,7 +1,8 @@
 /** The editors of each kind of cell. Each edits a whole cell body and hands it to `onChange`. */
-import { Box, Button, IconButton, MenuItem, Stack, TextField, Tooltip } from '@mui/material';
-import type { CellKind, Diagnostic } from '@ampwright/common';
-import { monoFont } from '../../../app/theme';
+import { Box, Button, MenuItem, Stack, TextField } from '@mui/material';
+import { TABLE_MAX_COLUMNS, TABLE_MAX_ROWS, type CellKind, type Diagnostic } from '@ampwright/common';
+import { monoFont, palette } from '../../../app/theme';
+import { TableGrid, type GridValue } from '../components/table-grid';
 import type { CellBody } from '../api/change-sheet';
 import { CodeEditor, type EditorKeys } from './code-editor';
 
@@ -177,117 +178,115 @@ export function FigureEditor(p: KindEditorProps) {
 }
 
 type Column = { name: string; unit?: string };
-const cellValue = (s: string): number | string | null => (s.trim() === '' ? null : Number.isFinite(Number(s)) ? Number(s) : s);
 
-/** A grid: one name and unit a column, a value a cell; numbers are kept as numbers. */
+/** Values written as a block at (row, column), rows added past the end; the rows not touched are kept as they are. */
+export function setBlock(rows: readonly (readonly GridValue[])[], width: number, row: number, column: number, block: GridValue[][]): GridValue[][] {
+  const next = rows.slice() as GridValue[][];
+  block.forEach((values, i) => {
+    const r = row + i;
+    const line = next[r] ? next[r].slice() : [];
+    while (line.length < width) line.push(null);
+    values.forEach((v, k) => {
+      if (column + k < width) line[column + k] = v;
+    });
+    next[r] = line;
+  });
+  return next;
+}
+
+/** The table's editor: its grid (virtualised, keyboard editing, paste of a block), a name and unit a column. */
 export function TableEditor(p: KindEditorProps) {
   const columns = (Array.isArray(p.value.columns) ? p.value.columns : []) as Column[];
-  const rows = (Array.isArray(p.value.rows) ? p.value.rows : []) as (number | string | null)[][];
-  const set = (cols: Column[], rs: (number | string | null)[][]) => p.onChange({ ...p.value, columns: cols, rows: rs });
+  const rows = (Array.isArray(p.value.rows) ? p.value.rows : []) as GridValue[][];
+  const set = (cols: Column[], rs: GridValue[][]) => p.onChange({ ...p.value, columns: cols, rows: rs });
   const setColumn = (j: number, patch: Partial<Column>) =>
     set(
       columns.map((c, k) => (k === j ? { ...c, ...patch } : c)),
       rows,
     );
-  const setCell = (i: number, j: number, v: string) =>
-    set(
-      columns,
-      rows.map((r, k) => (k === i ? columns.map((_, m) => (m === j ? cellValue(v) : (r[m] ?? null))) : r)),
-    );
+  const header = (j: number) => (
+    <Stack spacing={0.5}>
+      <input
+        aria-label={`Column ${j + 1} name`}
+        placeholder="name"
+        value={columns[j].name}
+        onChange={(e) => setColumn(j, { name: e.target.value })}
+        style={headerInput}
+      />
+      <input
+        aria-label={`Column ${j + 1} unit`}
+        placeholder="unit"
+        value={columns[j].unit ?? ''}
+        onChange={(e) => setColumn(j, { unit: e.target.value || undefined })}
+        style={headerInput}
+      />
+      <Button
+        size="small"
+        color="inherit"
+        sx={{ py: 0, minWidth: 0, justifyContent: 'flex-start' }}
+        aria-label={`Remove column ${j + 1}`}
+        onClick={() =>
+          set(
+            columns.filter((_, k) => k !== j),
+            rows.map((r) => r.filter((_, k) => k !== j)),
+          )
+        }
+      >
+        Remove
+      </Button>
+    </Stack>
+  );
   return (
-    <Box sx={{ overflowX: 'auto' }}>
-      <Box component="table" sx={{ borderCollapse: 'collapse', '& td, & th': { p: 0.25, verticalAlign: 'top' } }} aria-label="Table grid">
-        <thead>
-          <tr>
-            {columns.map((c, j) => (
-              <th key={j}>
-                <Stack spacing={0.5}>
-                  <TextField
-                    size="small"
-                    label="Name"
-                    value={c.name}
-                    onChange={(e) => setColumn(j, { name: e.target.value })}
-                    sx={{ width: 120 }}
-                    slotProps={{ htmlInput: { 'aria-label': `Column ${j + 1} name` } }}
-                  />
-                  <TextField
-                    size="small"
-                    label="Unit"
-                    value={c.unit ?? ''}
-                    onChange={(e) => setColumn(j, { unit: e.target.value || undefined })}
-                    sx={{ width: 120 }}
-                    slotProps={{ htmlInput: { 'aria-label': `Column ${j + 1} unit` } }}
-                  />
-                  <Button
-                    size="small"
-                    color="inherit"
-                    onClick={() =>
-                      set(
-                        columns.filter((_, k) => k !== j),
-                        rows.map((r) => r.filter((_, k) => k !== j)),
-                      )
-                    }
-                  >
-                    Remove column
-                  </Button>
-                </Stack>
-              </th>
-            ))}
-          </tr>
-        </thead>
-        <tbody>
-          {rows.map((r, i) => (
-            <tr key={i}>
-              {columns.map((_, j) => (
-                <td key={j}>
-                  <TextField
-                    size="small"
-                    value={r[j] === null || r[j] === undefined ? '' : String(r[j])}
-                    onChange={(e) => setCell(i, j, e.target.value)}
-                    sx={{ width: 120 }}
-                    slotProps={{ htmlInput: { 'aria-label': `Row ${i + 1}, ${columns[j].name}`, style: { fontFamily: monoFont } } }}
-                  />
-                </td>
-              ))}
-              <td>
-                <Tooltip title="Remove this row">
-                  <IconButton
-                    size="small"
-                    aria-label={`Remove row ${i + 1}`}
-                    onClick={() =>
-                      set(
-                        columns,
-                        rows.filter((_, k) => k !== i),
-                      )
-                    }
-                  >
-                    ×
-                  </IconButton>
-                </Tooltip>
-              </td>
-            </tr>
-          ))}
-        </tbody>
-      </Box>
-      <Stack direction="row" spacing={1} sx={{ mt: 1 }}>
-        <Button size="small" onClick={() => set(columns, [...rows, columns.map(() => null)])} disabled={!columns.length}>
-          Add row
-        </Button>
-        <Button
-          size="small"
-          onClick={() =>
-            set(
-              [...columns, { name: `x${columns.length + 1}` }],
-              rows.map((r) => [...r, null]),
-            )
-          }
-        >
-          Add column
-        </Button>
-      </Stack>
-    </Box>
+    <TableGrid
+      label={`${p.label} table`}
+      columns={columns}
+      rows={rows}
+      maxRows={TABLE_MAX_ROWS}
+      columnHeader={header}
+      onSet={(row, column, block) => set(columns, setBlock(rows, columns.length, row, column, block))}
+      toolbar={(sel) => (
+        <Stack direction="row" spacing={1} sx={{ mt: 0.5, flexWrap: 'wrap' }}>
+          <Button size="small" onClick={() => set(columns, [...rows, columns.map(() => null)])} disabled={!columns.length || rows.length >= TABLE_MAX_ROWS}>
+            Add row
+          </Button>
+          <Button
+            size="small"
+            disabled={!rows.length}
+            onClick={() =>
+              set(
+                columns,
+                rows.filter((_, k) => k < sel.top || k > sel.bottom),
+              )
+            }
+          >
+            {sel.top === sel.bottom ? `Remove row ${sel.top + 1}` : `Remove rows ${sel.top + 1}–${sel.bottom + 1}`}
+          </Button>
+          <Button
+            size="small"
+            disabled={columns.length >= TABLE_MAX_COLUMNS}
+            onClick={() =>
+              set(
+                [...columns, { name: `x${columns.length + 1}` }],
+                rows.map((r) => [...r, null]),
+              )
+            }
+          >
+            Add column
+          </Button>
+        </Stack>
+      )}
+    />
   );
 }
+
+const headerInput: React.CSSProperties = {
+  width: '100%',
+  boxSizing: 'border-box',
+  font: 'inherit',
+  padding: '2px 4px',
+  border: `1px solid ${palette.rule}`,
+  borderRadius: 2,
+};
 
 /** Each kind's editor: a new kind does not compile until it has one. */
 export const KIND_EDITORS: Record<CellKind, (p: KindEditorProps) => React.ReactElement> = {

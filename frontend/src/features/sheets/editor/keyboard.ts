@@ -24,6 +24,16 @@ export const KEYBOARD: readonly KeyBinding[] = [
   { command: 'keysHelp', key: 'F1', does: 'Show these keys (also ? when not typing in a cell)' },
 ];
 
+/** The keys of a table's grid (components/table-grid.tsx), as the keyboard help lists them. */
+export const TABLE_KEYS: readonly { keys: string; does: string }[] = [
+  { keys: '←  →  ↑  ↓', does: 'Move in the table (with Shift: select a block)' },
+  { keys: 'Home / End', does: 'First or last column; with Ctrl, first or last row' },
+  { keys: 'Page Up / Page Down', does: 'A screen of rows up or down' },
+  { keys: 'Enter or F2', does: 'Edit the value (or just start typing); Enter again keeps it and goes down, Tab goes right, Esc leaves it as it was' },
+  { keys: 'Delete', does: 'Empty the selected values' },
+  { keys: 'Ctrl+C / Ctrl+V', does: 'Copy the selection; paste a block copied from a spreadsheet at the selection' },
+];
+
 const isMac = () => typeof navigator !== 'undefined' && /Mac|iPhone|iPad/.test(navigator.platform);
 
 /** A key as a person reads it on this computer: "Ctrl+Shift+↓", or "⌘+Shift+↓" on a Mac. */

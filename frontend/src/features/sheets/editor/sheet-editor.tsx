@@ -5,7 +5,7 @@
  */
 import { Alert, Box, Button, Snackbar, Stack, Typography } from '@mui/material';
 import { useCallback, useLayoutEffect, useMemo, useRef, useState } from 'react';
-import type { CellDto, QueryDto, SheetDto } from '@ampwright/common';
+import { describeDetected, type CellDto, type ImportResultDto, type QueryDto, type SheetDto } from '@ampwright/common';
 import { cellBody, useCellChange } from '../api/change-sheet';
 import { AddCellMenu, CellFrame, type CellActions, type ReviewSlot } from './cell-frame';
 import { commandOf } from './keyboard';
@@ -129,7 +129,11 @@ export function SheetEditor({
     if (!file) return;
     change.mutate(
       { type: 'import-csv', position: csvPosition.current, file },
-      { onSuccess: () => setNotice(`${file.name} imported as a table.`), onError: report },
+      {
+        onSuccess: (result) =>
+          setNotice(`${file.name} imported as a table${'detected' in result ? `: ${describeDetected((result as ImportResultDto).detected)}` : ''}.`),
+        onError: report,
+      },
     );
   };
 
