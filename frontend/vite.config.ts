@@ -22,6 +22,8 @@ export default defineConfig({
     proxy: { '/api': { target: 'http://127.0.0.1:3000', changeOrigin: false } },
   },
   preview: { host: '127.0.0.1' },
+  // The sheet page's preview worker (features/sheets/preview) runs the engine as an ES module, split like the page.
+  worker: { format: 'es' },
   // Source maps stay in dist/ for debugging; the server does not serve them (backend bootstrap.ts).
   build: {
     outDir: 'dist',

@@ -17,6 +17,7 @@ import { cpus } from 'node:os';
 import { join } from 'node:path';
 import { DATA, appEnvironment } from './lib/env.mjs';
 import { log, main, stopOnSignals } from './lib/proc.mjs';
+import { sheetOf100 } from './lib/sheets.mjs';
 
 // autocannon's own histogram decoder, to merge the users' histograms (hdr-histogram-js).
 const { decodeHist } = createRequire(import.meta.url)('autocannon/lib/histUtil.js');
@@ -47,15 +48,6 @@ async function json(path, { method = 'GET', body, session } = {}) {
 async function signIn(email) {
   const { data, res } = await json('/auth/login', { method: 'POST', body: { email, password: 'Ampwright-demo-1' } });
   return { cookie: res.headers.get('set-cookie').split(';')[0], csrf: data.csrfToken };
-}
-
-function sheetOf100(k) {
-  const cells = [];
-  for (let c = 0; c < 50; c++) {
-    cells.push({ kind: 'calc', source: `R_${c} = ${c + 1} ohm\nX_${c} = ${2 * c + 1} ohm\nZ_${c} = sqrt(R_${c}^2 + X_${c}^2)\nI_${c} = 230 V / Z_${c} to A` });
-    cells.push({ kind: 'check', condition: `I_${c} <= 300 A`, basis: 'load test' });
-  }
-  return { format: 'ampwright.sheet/1', title: `Load sheet ${k}`, cells };
 }
 
 /** A writer's save of its own sheet, based on the version it last saw: a 409 would be a real conflict. */

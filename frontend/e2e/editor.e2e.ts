@@ -75,6 +75,45 @@ describe('the sheet editor in a real browser', () => {
     expect(s.errors.filter((e) => !/status of 415/.test(e))).toEqual([]);
   });
 
+  it("shows an edit's results at once as a preview from the browser's engine, and the server's stored results once they come", async () => {
+    const { page } = s;
+    await newRlcSheet(page);
+    await expect.poll(() => text(page, 'result-Z')).toContain('13.05');
+    // The server's answer to the save is held back until the test lets it go: whatever shows before is the preview.
+    let release!: () => void;
+    const held = new Promise<void>((r) => (release = r));
+    await page.route(/\/api\/sheets\/[^/]+\/cells\/[^/]+$/, async (route) => {
+      if (route.request().method() === 'PATCH') await held;
+      await route.continue();
+    });
+    const inputs = page.getByRole('region', { name: 'Cell 2: Calculation' });
+    await inputs.getByRole('button', { name: 'Edit' }).click();
+    await page.getByRole('textbox', { name: 'Cell 2 source' }).click();
+    await page.keyboard.press('Control+a');
+    await page.keyboard.insertText('R = 24 ohm\nL = 40 mH\nC = 180 uF\nf = 50 Hz\nE0 = 325 V\nw = 2 pi f');
+    // Z = sqrt(24² + 5.115²) = 24.54 ohm, shown while the save is still on its way, and marked as a preview where it shows.
+    await expect.poll(() => text(page, 'result-Z'), { timeout: 5000 }).toContain('24.54');
+    const zCell = page
+      .getByRole('region')
+      .filter({ has: page.getByTestId('result-Z') })
+      .first();
+    expect(await zCell.getByTestId('preview-mark').count()).toBe(1);
+    expect(await inputs.getByTestId('save-state').textContent()).not.toBe('Saved');
+    // A mistake is underlined from the preview too, before any save.
+    await page.keyboard.insertText('\nbad = 3 ohm + 2 H');
+    await expect.poll(() => inputs.locator('.cm-lintRange-error').count(), { timeout: 5000 }).toBeGreaterThan(0);
+    await page.keyboard.press('Control+z');
+    await expect.poll(() => inputs.locator('.cm-lintRange-error').count(), { timeout: 5000 }).toBe(0);
+
+    release();
+    await expect.poll(() => inputs.getByTestId('save-state').textContent(), { timeout: 10000 }).toBe('Saved');
+    await expect.poll(() => page.getByTestId('preview-mark').count()).toBe(0);
+    expect(await text(page, 'result-Z')).toContain('24.54');
+    // The stored results agree with the preview: nothing to flag.
+    expect(await page.getByTestId('preview-differs').count()).toBe(0);
+    expect(s.errors).toEqual([]);
+  });
+
   it('works from the keyboard with its own keys, each listed in the keyboard help', async () => {
     const { page } = s;
     await newRlcSheet(page);

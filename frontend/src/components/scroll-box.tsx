@@ -1,5 +1,5 @@
 import { Box, type BoxProps } from '@mui/material';
-import { useLayoutEffect, useRef, useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 
 /**
  * A box that scrolls sideways when its content is wider than it (a long formula, a source line, a chart on
@@ -8,16 +8,26 @@ import { useLayoutEffect, useRef, useState } from 'react';
  */
 export function ScrollBox({ label, sx, children, ...rest }: BoxProps & { label: string }) {
   const ref = useRef<HTMLElement>(null);
+  const observer = useRef<ResizeObserver | null>(null);
   const [scrolls, setScrolls] = useState(false);
-  useLayoutEffect(() => {
+  // Measured when the box or its content changes size, in the ResizeObserver's callback (after the browser's
+  // layout), never during a render: a sheet draws hundreds of these at once, and a width read in each render
+  // forced a layout for every one of them.
+  useEffect(() => {
     const el = ref.current;
-    if (!el) return;
-    const check = () => setScrolls(el.scrollWidth > el.clientWidth + 1);
-    check();
-    if (typeof ResizeObserver === 'undefined') return;
-    const observer = new ResizeObserver(check);
-    observer.observe(el);
-    return () => observer.disconnect();
+    if (!el || typeof ResizeObserver === 'undefined') return;
+    const o = new ResizeObserver(() => setScrolls(el.scrollWidth > el.clientWidth + 1));
+    observer.current = o;
+    o.observe(el);
+    return () => {
+      o.disconnect();
+      observer.current = null;
+    };
+  }, []);
+  // The content may be new after a render (observing an element already observed does nothing).
+  useEffect(() => {
+    const el = ref.current;
+    if (el && observer.current) for (const child of el.children) observer.current.observe(child);
   });
   return (
     <Box

@@ -1,17 +1,19 @@
 /** One cell on the sheet: its header with the save state and tools, its editor or source, and its results. */
 import { Alert, Box, Button, Chip, Menu, MenuItem, Paper, Stack, Tooltip, Typography } from '@mui/material';
-import { memo, useDeferredValue, useState, type ComponentType } from 'react';
-import type { CellDto, CellKind, QueryDto } from '@ampwright/common';
+import { memo, useDeferredValue, useRef, useState, type ComponentType } from 'react';
+import type { CellDto, CellKind, CellResult, QueryDto } from '@ampwright/common';
 import { palette } from '../../../app/theme';
 import { cellInputs, KIND_LABELS, kindFacts, kindLabel } from '@ampwright/common/cells/kinds';
 import { CellPresentation, SourceText } from '../components/cell-results';
 import { commandOf, type SheetCommand } from './keyboard';
-import { KIND_EDITORS } from './cell-editors';
+import { KIND_EDITORS, type KindEditorProps } from './cell-editors';
 import { useCellDraft, type SaveState } from './use-cell-draft';
+import { useCellPreview, usePreviewDraft } from '../preview/use-sheet-preview';
+import { useOnScreen } from './use-on-screen';
 
 const SAVE_LABELS: Record<SaveState, string> = {
   saved: 'Saved',
-  unsaved: 'Editing — results are out of date',
+  unsaved: 'Editing — not saved yet',
   saving: 'Saving and evaluating…',
   invalid: 'Not saved: fix the cell',
   failed: 'Not saved',
@@ -69,6 +71,8 @@ export function AddCellMenu({ onAdd, onImportCsv, label = 'Add a cell' }: { onAd
 
 function CellFrameInner({ sheetId, cell, index, count, active, editable, actions, queries, Review, markChangedAfterAgreement }: CellFrameProps) {
   const d = useCellDraft(sheetId, cell);
+  // The draft is evaluated in the browser as it is typed (preview/); the parts below that show a result subscribe to it themselves.
+  usePreviewDraft(cell.id, d.dirty ? d.value : null);
   const r = cell.results;
   const Editor = KIND_EDITORS[cell.kind as CellKind] as (typeof KIND_EDITORS)[CellKind] | undefined;
   const editing = editable && active && !!Editor;
@@ -129,6 +133,7 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
             data-testid="save-state"
           />
         )}
+        <PreviewMark cellId={cell.id} stored={cell.results} />
         <Box sx={{ flex: 1 }} />
         {editable && (
           <>
@@ -203,11 +208,13 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
         </Alert>
       )}
       {editing ? (
-        <Editor
+        <PreviewedEditor
+          Editor={Editor}
+          cellId={cell.id}
+          stored={cell.results}
+          dirty={d.dirty}
           value={d.value}
           onChange={d.edit}
-          errors={d.dirty ? [] : (r?.errors ?? [])}
-          warnings={d.dirty ? [] : (r?.warnings ?? [])}
           scopeNames={() => actions.scopeBefore(index)}
           label={`Cell ${index + 1}`}
           onCommand={onCommand}
@@ -220,15 +227,17 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
         )
       )}
       {(!editing || previewWhileEditing) && (
-        <Box
+        <CellOutput
+          cellId={cell.id}
+          kind={cell.kind}
+          fields={fields}
+          stored={cell.results}
+          active={active}
+          dimmed={stale && !!inputs}
+          busy={stale}
           // A note, a table or a figure is its presentation: a click on it edits it.
-          onClick={inputs || editing ? undefined : open}
-          sx={{ opacity: stale && inputs ? 0.55 : 1, transition: 'opacity 120ms', mt: 1, cursor: !inputs && !editing && open ? 'text' : undefined }}
-          aria-busy={stale}
-          data-testid="cell-results"
-        >
-          <CellPresentation kind={cell.kind} fields={fields} result={r} />
-        </Box>
+          onOpen={inputs || editing ? undefined : open}
+        />
       )}
       {Review && <Review cell={cell} queries={queries} />}
     </Paper>
@@ -236,3 +245,82 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
 }
 
 export const CellFrame = memo(CellFrameInner);
+
+/** "Preview" beside the save state while the cell shows the browser's result ahead of the server's. */
+function PreviewMark({ cellId, stored }: { cellId: string; stored: CellResult | null }) {
+  const view = useCellPreview(cellId, stored);
+  if (!view.preview) return null;
+  return (
+    <Tooltip title="Evaluated in your browser as you type; the server's stored result replaces it once saved">
+      <Chip size="small" label="Preview" color="secondary" variant="outlined" data-testid="preview-mark" />
+    </Tooltip>
+  );
+}
+
+/** The kind's editor, with the problems of the preview underlined while the draft is ahead of the server. */
+function PreviewedEditor({
+  Editor,
+  cellId,
+  stored,
+  dirty,
+  ...props
+}: Omit<KindEditorProps, 'errors' | 'warnings'> & {
+  Editor: (p: KindEditorProps) => React.ReactElement;
+  cellId: string;
+  stored: CellResult | null;
+  dirty: boolean;
+}) {
+  const view = useCellPreview(cellId, stored);
+  const known = !dirty || view.preview;
+  return <Editor {...props} errors={known ? (view.result?.errors ?? []) : []} warnings={known ? (view.result?.warnings ?? []) : []} />;
+}
+
+/**
+ * What the cell shows under its inputs: the preview's result while it is ahead of the stored one, else the stored
+ * one; and a stored result that differs from the preview, said. Only this part follows the preview, so a
+ * change to a hundred cells' results draws a hundred of these, not a hundred cells. Off screen it follows in
+ * the background (a deferred render that gives way to typing), so the cells being looked at are not held up.
+ */
+const CellOutput = memo(function CellOutput({
+  cellId,
+  kind,
+  fields,
+  stored,
+  active,
+  dimmed,
+  busy,
+  onOpen,
+}: {
+  cellId: string;
+  kind: string;
+  fields: Record<string, unknown>;
+  stored: CellResult | null;
+  active: boolean;
+  dimmed: boolean;
+  busy: boolean;
+  onOpen?: () => void;
+}) {
+  const latest = useCellPreview(cellId, stored);
+  const box = useRef<HTMLElement>(null);
+  const onScreen = useOnScreen(box);
+  const deferred = useDeferredValue(latest);
+  const view = onScreen || active ? latest : deferred;
+  return (
+    <>
+      {view.differs && (
+        <Alert severity="warning" sx={{ mt: 1 }} data-testid="preview-differs">
+          The server's stored result differs from the preview shown while you typed; the stored result stands. {view.differs}
+        </Alert>
+      )}
+      <Box
+        ref={box}
+        onClick={onOpen}
+        sx={{ opacity: dimmed && !view.preview ? 0.55 : 1, transition: 'opacity 120ms', mt: 1, cursor: onOpen ? 'text' : undefined }}
+        aria-busy={busy && !view.preview}
+        data-testid="cell-results"
+      >
+        <CellPresentation kind={kind} fields={fields} result={view.result} />
+      </Box>
+    </>
+  );
+});

@@ -9,6 +9,7 @@ import { describeDetected, type CellDto, type ImportResultDto, type QueryDto, ty
 import { cellBody, useCellChange } from '../api/change-sheet';
 import { AddCellMenu, CellFrame, type CellActions, type ReviewSlot } from './cell-frame';
 import { commandOf } from './keyboard';
+import { SheetPreviewContext, useSheetPreview } from '../preview/use-sheet-preview';
 import { newCellFields } from '@ampwright/common/cells/kinds';
 
 function scopeOf(cells: CellDto[], position: number) {
@@ -48,6 +49,7 @@ export function SheetEditor({
   }, [queries]);
   const shown = openOnly ? sheet.cells.filter((c) => byCell.get(c.id)?.some((q) => q.status !== 'closed')) : sheet.cells;
   const change = useCellChange(sheet.id);
+  const preview = useSheetPreview(sheet, editable);
   const [activeId, setActiveId] = useState<string | null>(null);
   const [deleted, setDeleted] = useState<{ cell: CellDto; position: number }[]>([]);
   const [notice, setNotice] = useState<string | null>(null);
@@ -148,57 +150,59 @@ export function SheetEditor({
   };
 
   return (
-    <Stack spacing={2} data-testid="sheet-editor" onKeyDown={onKeyDown}>
-      {shown.map((cell) => (
-        <CellFrame
-          key={cell.id}
-          sheetId={sheet.id}
-          cell={cell}
-          index={cell.position}
-          count={sheet.cells.length}
-          active={activeId === cell.id}
-          editable={editable}
-          actions={actions}
-          queries={byCell.get(cell.id) ?? NO_QUERIES}
-          Review={Review}
-          markChangedAfterAgreement={checking}
-        />
-      ))}
-      {openOnly && shown.length === 0 && <Typography color="text.secondary">No cell has an open query.</Typography>}
-      {sheet.cells.length === 0 && <Typography color="text.secondary">This sheet has no cells yet.</Typography>}
-      {change.isError && (
-        <Alert severity="error" onClose={() => change.reset()}>
-          {change.error.message}
-        </Alert>
-      )}
-      {editable && (
-        <Box component="nav" aria-label="Sheet tools" sx={{ display: 'flex', gap: 1, flexWrap: 'wrap' }}>
-          <AddCellMenu
-            label="Add a cell at the end"
-            onAdd={(kind) => actions.add(sheet.cells.length, kind)}
-            onImportCsv={() => actions.importCsv(sheet.cells.length)}
+    <SheetPreviewContext.Provider value={preview}>
+      <Stack spacing={2} data-testid="sheet-editor" onKeyDown={onKeyDown}>
+        {shown.map((cell) => (
+          <CellFrame
+            key={cell.id}
+            sheetId={sheet.id}
+            cell={cell}
+            index={cell.position}
+            count={sheet.cells.length}
+            active={activeId === cell.id}
+            editable={editable}
+            actions={actions}
+            queries={byCell.get(cell.id) ?? NO_QUERIES}
+            Review={Review}
+            markChangedAfterAgreement={checking}
           />
-          {deleted.length > 0 && (
-            <Button size="small" onClick={restore}>
-              Restore the last deleted cell
-            </Button>
-          )}
-          <input ref={csvInput} type="file" accept=".csv,text/csv" hidden onChange={onCsv} data-testid="csv-input" />
-        </Box>
-      )}
-      <Snackbar
-        open={!!notice}
-        autoHideDuration={6000}
-        onClose={() => setNotice(null)}
-        message={notice}
-        action={
-          deleted.length > 0 && notice?.endsWith('deleted.') ? (
-            <Button color="secondary" size="small" onClick={restore}>
-              Undo
-            </Button>
-          ) : undefined
-        }
-      />
-    </Stack>
+        ))}
+        {openOnly && shown.length === 0 && <Typography color="text.secondary">No cell has an open query.</Typography>}
+        {sheet.cells.length === 0 && <Typography color="text.secondary">This sheet has no cells yet.</Typography>}
+        {change.isError && (
+          <Alert severity="error" onClose={() => change.reset()}>
+            {change.error.message}
+          </Alert>
+        )}
+        {editable && (
+          <Box component="nav" aria-label="Sheet tools" sx={{ display: 'flex', gap: 1, flexWrap: 'wrap' }}>
+            <AddCellMenu
+              label="Add a cell at the end"
+              onAdd={(kind) => actions.add(sheet.cells.length, kind)}
+              onImportCsv={() => actions.importCsv(sheet.cells.length)}
+            />
+            {deleted.length > 0 && (
+              <Button size="small" onClick={restore}>
+                Restore the last deleted cell
+              </Button>
+            )}
+            <input ref={csvInput} type="file" accept=".csv,text/csv" hidden onChange={onCsv} data-testid="csv-input" />
+          </Box>
+        )}
+        <Snackbar
+          open={!!notice}
+          autoHideDuration={6000}
+          onClose={() => setNotice(null)}
+          message={notice}
+          action={
+            deleted.length > 0 && notice?.endsWith('deleted.') ? (
+              <Button color="secondary" size="small" onClick={restore}>
+                Undo
+              </Button>
+            ) : undefined
+          }
+        />
+      </Stack>
+    </SheetPreviewContext.Provider>
   );
 }
