@@ -112,7 +112,10 @@ main(async () => {
       );
       await page.evaluate(() => (window.__key = 0));
       await page.keyboard.press(t % 2 === 0 ? '1' : 'Backspace');
-      const r = await watching;
+      const r = await watching.catch(async (err) => {
+        await page.screenshot({ path: '/tmp/bench-fail.png' });
+        throw err;
+      });
       // The first few warm the engine and the page up.
       if (t >= 3) for (const k of Object.keys(times)) times[k].push(r[k]);
       await page.waitForTimeout(100);

@@ -132,9 +132,14 @@ export function unevaluatedResults(count: number, reason: string): CellResult[] 
 
 /**
  * `onCell` is told the index of each cell before it is evaluated afresh, so a caller stopped at a
- * deadline can say where the sheet was.
+ * deadline can say where the sheet was, and the results of the cells before it (all final), so a caller
+ * can show them before the rest are done.
  */
-export function evaluateSheet(sheet: Pick<SheetFile, 'cells' | 'settings'>, previous?: EvaluationCache, onCell?: (index: number) => void): SheetEvaluation {
+export function evaluateSheet(
+  sheet: Pick<SheetFile, 'cells' | 'settings'>,
+  previous?: EvaluationCache,
+  onCell?: (index: number, done: readonly CellResult[]) => void,
+): SheetEvaluation {
   const display = displayOptionsOf(sheet);
   const scope = new SheetScope(definitionsOf(sheet.cells));
   const entries: CacheEntry[] = [];
@@ -156,7 +161,7 @@ export function evaluateSheet(sheet: Pick<SheetFile, 'cells' | 'settings'>, prev
       results.push(cached.result);
       return;
     }
-    onCell?.(index);
+    onCell?.(index, results);
     const before = new Map(scope.values);
     const beforeOrigin = new Map(scope.origin);
     const beforeFailed = new Map(scope.failed);

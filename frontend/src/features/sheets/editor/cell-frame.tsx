@@ -133,7 +133,6 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
             data-testid="save-state"
           />
         )}
-        <PreviewMark cellId={cell.id} stored={cell.results} />
         <Box sx={{ flex: 1 }} />
         {editable && (
           <>
@@ -246,17 +245,6 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
 
 export const CellFrame = memo(CellFrameInner);
 
-/** "Preview" beside the save state while the cell shows the browser's result ahead of the server's. */
-function PreviewMark({ cellId, stored }: { cellId: string; stored: CellResult | null }) {
-  const view = useCellPreview(cellId, stored);
-  if (!view.preview) return null;
-  return (
-    <Tooltip title="Evaluated in your browser as you type; the server's stored result replaces it once saved">
-      <Chip size="small" label="Preview" color="secondary" variant="outlined" data-testid="preview-mark" />
-    </Tooltip>
-  );
-}
-
 /** The kind's editor, with the problems of the preview underlined while the draft is ahead of the server. */
 function PreviewedEditor({
   Editor,
@@ -307,6 +295,16 @@ const CellOutput = memo(function CellOutput({
   const view = onScreen || active ? latest : deferred;
   return (
     <>
+      {view.preview && (
+        <Typography
+          variant="caption"
+          title="Evaluated in your browser as you type; the server's stored result replaces it once saved"
+          sx={{ display: 'inline-block', mt: 1, px: 0.75, border: `1px solid ${palette.copper}`, borderRadius: 2, color: palette.copper }}
+          data-testid="preview-mark"
+        >
+          Preview
+        </Typography>
+      )}
       {view.differs && (
         <Alert severity="warning" sx={{ mt: 1 }} data-testid="preview-differs">
           The server's stored result differs from the preview shown while you typed; the stored result stands. {view.differs}

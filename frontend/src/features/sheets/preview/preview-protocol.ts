@@ -8,6 +8,8 @@ export interface PreviewRequest {
 
 export type PreviewReply =
   | { id: number; ok: true; results: CellResult[]; evaluated: number[]; ms: number }
+  /** The results of the first cells, sent while the rest are still being evaluated (a long sheet's top shows sooner). */
+  | { id: number; partial: true; results: CellResult[] }
   /** `stopped`: the sheet took longer than a preview may; the server's evaluation will still come. */
   | { id: number; ok: false; message: string; stopped?: boolean }
   /** Sent once the engine is loaded. */

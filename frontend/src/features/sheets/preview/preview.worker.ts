@@ -9,6 +9,8 @@ import { evaluateSheet, runWithDeadline, type EvaluationCache } from '@ampwright
 import type { PreviewReply, PreviewRequest } from './preview-protocol';
 
 export const PREVIEW_DEADLINE_MS = 2000;
+/** An evaluation still running after this sends the results it has so far, once. */
+const PARTIAL_AFTER_MS = 8;
 
 let cache: EvaluationCache | undefined;
 const reply = (message: PreviewReply) => (self as unknown as Worker).postMessage(message);
@@ -17,7 +19,14 @@ self.onmessage = (event: MessageEvent<PreviewRequest>) => {
   const { id, sheet } = event.data;
   const started = performance.now();
   try {
-    const outcome = runWithDeadline(Date.now() + PREVIEW_DEADLINE_MS, () => evaluateSheet(sheet, cache));
+    let sent = false;
+    const outcome = runWithDeadline(Date.now() + PREVIEW_DEADLINE_MS, () =>
+      evaluateSheet(sheet, cache, (_index, done) => {
+        if (sent || performance.now() - started < PARTIAL_AFTER_MS) return;
+        sent = true;
+        reply({ id, partial: true, results: done.slice() });
+      }),
+    );
     if (outcome.passed) {
       cache = undefined;
       reply({ id, ok: false, stopped: true, message: 'the preview took too long; the server is evaluating the sheet' });

@@ -17,9 +17,9 @@ const sheet = (version: number, cells: CellDto[]): SheetDto => ({ id: 's1', vers
 
 /** An engine under the test's control: each evaluation waits until the test answers it. */
 function controlledEngine() {
-  const calls: { sheet: Pick<SheetFile, 'cells' | 'settings'>; answer: (r: CellResult[] | Error) => void }[] = [];
+  const calls: { sheet: Pick<SheetFile, 'cells' | 'settings'>; answer: (r: CellResult[] | Error) => void; partial?: (r: CellResult[]) => void }[] = [];
   const engine: PreviewEngine = {
-    evaluate: (s) => new Promise((resolve, reject) => calls.push({ sheet: s, answer: (r) => (r instanceof Error ? reject(r) : resolve(r)) })),
+    evaluate: (s, partial) => new Promise((resolve, reject) => calls.push({ sheet: s, partial, answer: (r) => (r instanceof Error ? reject(r) : resolve(r)) })),
     dispose: vi.fn(),
   };
   return { engine, calls };
@@ -102,6 +102,20 @@ describe('SheetPreview', () => {
     await settle();
     expect(calls).toHaveLength(2);
     expect(calls[1].sheet.cells[0]).toEqual({ kind: 'calc', source: 'R = 245 ohm' });
+  });
+
+  it("shows the first cells' results as they come, and compares nothing until every cell's are in", async () => {
+    const { engine, calls } = controlledEngine();
+    const p = new SheetPreview(engine);
+    p.setSheet(stored);
+    p.setDraft('a', { kind: 'calc', source: 'R = 24 ohm' });
+    calls[0].partial?.([calc({ R: '24 Ω' })]);
+    expect(p.view('a')).toMatchObject({ preview: true, result: calc({ R: '24 Ω' }) });
+    expect(p.view('b')).toEqual({ result: stored.cells[1].results, preview: false, differs: null });
+    // Saved before the rest came: a partial preview is not compared with the stored results.
+    p.setDraft('a', null);
+    p.setSheet(sheet(4, [cell('a', 'R = 24 ohm', calc({ R: '24.5 Ω' })), cell('b', 'Z = R', calc({ Z: '24 Ω' }))]));
+    expect(p.view('a')?.differs).toBeNull();
   });
 
   it('falls back to the stored results when the engine fails', async () => {

@@ -10,9 +10,12 @@
 import { resultFigures, type CellDto, type CellResult, type SheetDto, type SheetFile } from '@ampwright/common';
 import { cellBody, sameCell, type CellBody } from '../api/change-sheet';
 
-/** Evaluates a sheet; rejects when it cannot (the preview is then left out, nothing else). */
+/**
+ * Evaluates a sheet; rejects when it cannot (the preview is then left out, nothing else). It may first
+ * hand `partial` the final results of the sheet's first cells.
+ */
 export interface PreviewEngine {
-  evaluate(sheet: Pick<SheetFile, 'cells' | 'settings'>): Promise<CellResult[]>;
+  evaluate(sheet: Pick<SheetFile, 'cells' | 'settings'>, partial?: (results: CellResult[]) => void): Promise<CellResult[]>;
   dispose(): void;
 }
 
@@ -29,6 +32,8 @@ interface Evaluated {
   /** The cells the preview evaluated: the stored cell where it had no draft, and the body evaluated. */
   inputs: { id: string; stored?: CellDto; body: CellBody }[];
   results: Map<string, CellResult>;
+  /** Every cell's result is of these inputs (not only the first cells'). */
+  complete: boolean;
 }
 
 const outcomes = new WeakMap<CellResult, Record<string, string>>();
@@ -106,11 +111,18 @@ export class SheetPreview {
       return draft ? { id: c.id, body: draft } : { id: c.id, stored: c, body: cellBody(c) };
     });
     this.running = true;
+    // The first cells' results at once; the others keep what the last preview showed until theirs come.
+    const partial = (results: CellResult[]) => {
+      const shown = new Map(this.latest?.results);
+      results.forEach((r, k) => shown.set(inputs[k].id, r));
+      this.latest = { inputs, results: shown, complete: false };
+      this.refresh();
+    };
     this.engine
-      .evaluate({ cells: inputs.map((i) => i.body) as SheetFile['cells'], settings: stored.settings as SheetFile['settings'] })
+      .evaluate({ cells: inputs.map((i) => i.body) as SheetFile['cells'], settings: stored.settings as SheetFile['settings'] }, partial)
       .then(
         (results) => {
-          this.latest = { inputs, results: new Map(inputs.map((i, k) => [i.id, results[k]])) };
+          this.latest = { inputs, results: new Map(inputs.map((i, k) => [i.id, results[k]])), complete: true };
         },
         () => {
           // No preview for this content (too slow, or the engine failed): the stored results show, dimmed.
@@ -129,7 +141,7 @@ export class SheetPreview {
 
   /** The stored sheet holds what the preview evaluated, and nothing is being typed. */
   private caughtUp(latest: Evaluated, cells: CellDto[]): boolean {
-    if (this.drafts.size || latest.inputs.length !== cells.length) return false;
+    if (this.drafts.size || !latest.complete || latest.inputs.length !== cells.length) return false;
     return latest.inputs.every((input, k) => input.id === cells[k].id && (input.stored === cells[k] || sameCell(input.body, cellBody(cells[k]))));
   }
 

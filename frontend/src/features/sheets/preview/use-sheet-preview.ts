@@ -20,7 +20,8 @@ const noSubscription = () => () => undefined;
 /** Hands the cell's draft (null when there is none) to the sheet's preview. */
 export function usePreviewDraft(cellId: string, draft: CellBody | null): void {
   const preview = useContext(SheetPreviewContext);
-  useEffect(() => {
+  // As soon as the keystroke's render is committed, not a frame later.
+  useLayoutEffect(() => {
     preview?.setDraft(cellId, draft);
   }, [preview, cellId, draft]);
   useEffect(() => () => preview?.setDraft(cellId, null), [preview, cellId]);

@@ -9,7 +9,10 @@ const HARD_LIMIT_MS = 5000;
 export class WorkerEngine implements PreviewEngine {
   private worker: Worker | null = null;
   private next = 1;
-  private readonly waiting = new Map<number, { resolve: (r: CellResult[]) => void; reject: (e: Error) => void; timer: ReturnType<typeof setTimeout> }>();
+  private readonly waiting = new Map<
+    number,
+    { resolve: (r: CellResult[]) => void; reject: (e: Error) => void; partial?: (r: CellResult[]) => void; timer: ReturnType<typeof setTimeout> }
+  >();
 
   /** `name`: the worker's name in the browser's developer tools. */
   constructor(private readonly name: string) {}
@@ -21,6 +24,7 @@ export class WorkerEngine implements PreviewEngine {
       if ('ready' in m) return;
       const w = this.waiting.get(m.id);
       if (!w) return;
+      if ('partial' in m) return w.partial?.(m.results);
       this.waiting.delete(m.id);
       clearTimeout(w.timer);
       if (m.ok) w.resolve(m.results);
@@ -40,12 +44,12 @@ export class WorkerEngine implements PreviewEngine {
     this.waiting.clear();
   }
 
-  evaluate(sheet: Pick<SheetFile, 'cells' | 'settings'>): Promise<CellResult[]> {
+  evaluate(sheet: Pick<SheetFile, 'cells' | 'settings'>, partial?: (results: CellResult[]) => void): Promise<CellResult[]> {
     this.worker ??= this.start();
     const id = this.next++;
     return new Promise((resolve, reject) => {
       const timer = setTimeout(() => this.restart(new Error('the preview took too long')), HARD_LIMIT_MS);
-      this.waiting.set(id, { resolve, reject, timer });
+      this.waiting.set(id, { resolve, reject, partial, timer });
       this.worker!.postMessage({ id, sheet } satisfies PreviewRequest);
     });
   }
