@@ -120,6 +120,9 @@ describe('durability', () => {
     const health = await fetch(`${BASE}/api/health`);
     expect(health.status).toBe(503);
     expect((await health.json()).checks.database).toBe('down');
+    // Not ready (a load balancer leaves it out), yet alive (nothing to restart).
+    expect((await fetch(`${BASE}/api/health/ready`)).status).toBe(503);
+    expect((await fetch(`${BASE}/api/health/live`)).status).toBe(200);
     // A save while it is down is refused, not acknowledged.
     const refused = await call(`/sheets/${sheet.id}/cells/${sheet.cells[0].id}`, 'PATCH', { version, cell: { kind: 'calc', source: 'x = 3' } });
     expect(refused.status).toBeGreaterThanOrEqual(500);

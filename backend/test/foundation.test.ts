@@ -31,6 +31,14 @@ describe('the app against MariaDB and the fakes', () => {
     expect(res.headers['cache-control']).toBe('no-store');
   });
 
+  it('answers /api/health/live while the process runs, and /api/health/ready while the database answers', async () => {
+    const live = await request(app.getHttpServer()).get('/api/health/live').expect(200);
+    expect(live.body).toEqual({ status: 'live' });
+    const ready = await request(app.getHttpServer()).get('/api/health/ready').expect(200);
+    expect(ready.body).toMatchObject({ status: 'ok', checks: { database: 'up' } });
+    expect(ready.headers['cache-control']).toBe('no-store');
+  });
+
   it('answers an unknown API route with the JSON error shape, not the web app', async () => {
     const res = await request(app.getHttpServer()).get('/api/no-such-thing').expect(404);
     expect(res.body).toMatchObject({ statusCode: 404, code: 'NOT_FOUND' });

@@ -23,6 +23,8 @@ export const MATRIX: Record<string, Allowed> = {
   'GET /api/docs/swagger-ui-init.js': 'public',
   'GET /api/docs/yaml': 'public',
   'GET /api/health': 'public',
+  'GET /api/health/live': 'public',
+  'GET /api/health/ready': 'public',
   // Metrics: no session; loopback only unless METRICS_TOKEN is set (metrics.controller.ts), and tests call from loopback.
   'GET /api/metrics': 'public',
   'POST /api/evaluate': MEMBERS,

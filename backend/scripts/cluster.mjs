@@ -1,0 +1,127 @@
+// `npm run cluster`: Ampwright on one machine as it would run on several, all on loopback — three MariaDB
+// nodes as one Galera cluster (.data/cluster/, ports 3311–3313), HAProxy in front of them on 3310 (one node
+// takes the writes, the others stand by), two app instances (3001, 3002) that reach the database through
+// it, and HAProxy in front of the apps on http://127.0.0.1:3000, checking each app's readiness. Ctrl-C stops
+// it all cleanly; a second run keeps the data. See the README, "Running on a cluster".
+import { writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { DATA, ROOT, appEnvironment, settings } from './lib/env.mjs';
+import { CLUSTER_DIR, NODES, startCluster } from './lib/galera.mjs';
+import { log, main, requireFreePort, startChild, stopOnSignals, waitFor } from './lib/proc.mjs';
+
+export const CLUSTER = {
+  dbPort: 3310,
+  appPorts: [3001, 3002],
+  frontPort: Number(process.env.CLUSTER_PORT ?? 3000),
+  checkPorts: NODES.map((node) => 9200 + node.n),
+  statsPort: 8404,
+};
+
+/** The node checks HAProxy asks (galera-check.mjs), in a process of their own. */
+function startNodeChecks() {
+  startChild(
+    process.execPath,
+    [join(ROOT, 'backend', 'scripts', 'galera-check.mjs'), ...NODES.map((node, k) => `${CLUSTER.checkPorts[k]}=${node.config}=${node.socket}`)],
+    { stdio: ['ignore', 'inherit', 'inherit'] },
+  );
+}
+
+function haproxyConfig() {
+  const file = join(CLUSTER_DIR, 'haproxy.cfg');
+  writeFileSync(
+    file,
+    [
+      'global',
+      '  maxconn 4000',
+      'defaults',
+      '  timeout connect 2s',
+      '  timeout client 120s',
+      '  timeout server 120s',
+      '  timeout check 2s',
+      '  log stdout format raw local0 warning',
+      '',
+      '# The database: one node takes every connection; the others stand by and take over when it fails its',
+      '# check. A node back in sync takes the new connections again, and the connections left on the standby',
+      '# are closed, so there is one writing node at a time (Galera would certify two, at the price of conflicts).',
+      'listen galera',
+      `  bind 127.0.0.1:${CLUSTER.dbPort}`,
+      '  mode tcp',
+      '  option tcpka',
+      '  option httpchk GET /',
+      ...NODES.map(
+        (node, k) =>
+          `  server ${node.name} 127.0.0.1:${node.sqlPort} check port ${CLUSTER.checkPorts[k]} inter 1s fall 2 rise 2 on-marked-down shutdown-sessions${k ? ' backup' : ' on-marked-up shutdown-backup-sessions'}`,
+      ),
+      '',
+      '# The apps: either takes any request (they keep no state of their own); one that is not ready is left out.',
+      'listen app',
+      `  bind 127.0.0.1:${CLUSTER.frontPort}`,
+      '  mode http',
+      '  option forwardfor',
+      '  option httpchk GET /api/health/ready',
+      '  http-check expect status 200',
+      '  balance roundrobin',
+      '  retry-on conn-failure empty-response 503',
+      '  retries 2',
+      '  option redispatch',
+      ...CLUSTER.appPorts.map((port, k) => `  server app${k + 1} 127.0.0.1:${port} check inter 1s fall 2 rise 2`),
+      '',
+      'listen stats',
+      `  bind 127.0.0.1:${CLUSTER.statsPort}`,
+      '  mode http',
+      '  stats enable',
+      '  stats uri /',
+      '',
+    ].join('\n'),
+  );
+  return file;
+}
+
+/** The environment of app instance k, reaching the database through HAProxy. */
+export function clusterAppEnvironment(k) {
+  return {
+    ...appEnvironment({ dbHost: '127.0.0.1', dbPort: CLUSTER.dbPort, dbSocket: '', appPort: CLUSTER.appPorts[k] }),
+    // Both instances behind one proxy on loopback: the client's address comes from X-Forwarded-For.
+    TRUST_PROXY: 'loopback',
+  };
+}
+
+export async function startClusterStack({ seed = true } = {}) {
+  const { ensureDebianPackages, ensureNodeModules, buildAll, migrateAndSeed, startApp, startFakes } = await import('./lib/provision.mjs');
+  ensureNodeModules();
+  ensureDebianPackages('mariadbd', ['mariadb-server', 'mariadb-client', 'galera-4'], 'the database');
+  ensureDebianPackages('haproxy', ['haproxy'], "the cluster's load balancer");
+  ensureDebianPackages('rsync', ['rsync'], 'state transfer between Galera nodes');
+  buildAll();
+  await startCluster();
+  startNodeChecks();
+  for (const port of [CLUSTER.dbPort, CLUSTER.frontPort, CLUSTER.statsPort]) await requireFreePort(port, 'HAProxy');
+  log(`starting HAProxy: database on 127.0.0.1:${CLUSTER.dbPort}, apps on 127.0.0.1:${CLUSTER.frontPort}, its statistics on :${CLUSTER.statsPort}`);
+  startChild('haproxy', ['-f', haproxyConfig(), '-db'], { stdio: ['ignore', 'inherit', 'inherit'] });
+  await startFakes({ s3Dir: join(DATA, 'cluster', 's3') });
+  await waitFor(async () => (await fetch(`http://127.0.0.1:${CLUSTER.checkPorts[0]}/`).catch(() => null))?.status === 200, {
+    timeoutMs: 30000,
+    what: "node1's check",
+  });
+  migrateAndSeed(clusterAppEnvironment(0), { seed });
+  for (let k = 0; k < CLUSTER.appPorts.length; k++) await startApp(clusterAppEnvironment(k));
+  await waitFor(
+    async () => {
+      try {
+        return (await fetch(`http://127.0.0.1:${CLUSTER.frontPort}/api/health/ready`)).status === 200;
+      } catch {
+        return false;
+      }
+    },
+    { timeoutMs: 30000, what: 'HAProxy to see an app ready' },
+  );
+}
+
+if (import.meta.url === `file://${process.argv[1]}`) {
+  stopOnSignals();
+  main(async () => {
+    await startClusterStack();
+    log(`Ampwright on the cluster: http://127.0.0.1:${CLUSTER.frontPort} (two apps, three Galera nodes; ${settings.dbName} on each). Ctrl-C stops it all.`);
+    await new Promise(() => {});
+  });
+}
