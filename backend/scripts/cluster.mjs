@@ -5,16 +5,17 @@
 // it all cleanly; a second run keeps the data. See the README, "Running on a cluster".
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { DATA, ROOT, appEnvironment, settings } from './lib/env.mjs';
-import { CLUSTER_DIR, NODES, startCluster } from './lib/galera.mjs';
+import { ROOT, appEnvironment, settings } from './lib/env.mjs';
+import { CLUSTER_DIR, NODES, PORT_OFFSET, startCluster } from './lib/galera.mjs';
 import { log, main, requireFreePort, startChild, stopOnSignals, waitFor } from './lib/proc.mjs';
 
 export const CLUSTER = {
-  dbPort: 3310,
-  appPorts: [3001, 3002],
-  frontPort: Number(process.env.CLUSTER_PORT ?? 3000),
-  checkPorts: NODES.map((node) => 9200 + node.n),
-  statsPort: 8404,
+  dbPort: PORT_OFFSET + 3310,
+  appPorts: [PORT_OFFSET + 3001, PORT_OFFSET + 3002],
+  frontPort: PORT_OFFSET + 3000,
+  checkPorts: NODES.map((node) => PORT_OFFSET + 9200 + node.n),
+  statsPort: PORT_OFFSET + 8404,
+  fakes: { smtpPort: PORT_OFFSET + 1025, mailApiPort: PORT_OFFSET + 1080, s3Port: PORT_OFFSET + 4569 },
 };
 
 /** The node checks HAProxy asks (galera-check.mjs), in a process of their own. */
@@ -78,15 +79,17 @@ function haproxyConfig() {
 }
 
 /** The environment of app instance k, reaching the database through HAProxy. */
-export function clusterAppEnvironment(k) {
+export function clusterAppEnvironment(k, extra = {}) {
   return {
-    ...appEnvironment({ dbHost: '127.0.0.1', dbPort: CLUSTER.dbPort, dbSocket: '', appPort: CLUSTER.appPorts[k] }),
+    ...appEnvironment({ dbHost: '127.0.0.1', dbPort: CLUSTER.dbPort, dbSocket: '', appPort: CLUSTER.appPorts[k], ...CLUSTER.fakes }),
+    ...extra,
     // Both instances behind one proxy on loopback: the client's address comes from X-Forwarded-For.
     TRUST_PROXY: 'loopback',
   };
 }
 
-export async function startClusterStack({ seed = true } = {}) {
+/** Everything `npm run cluster` starts; the apps' processes are returned (the proof kills one). */
+export async function startClusterStack({ seed = true, appEnv = {} } = {}) {
   const { ensureDebianPackages, ensureNodeModules, buildAll, migrateAndSeed, startApp, startFakes } = await import('./lib/provision.mjs');
   ensureNodeModules();
   ensureDebianPackages('mariadbd', ['mariadb-server', 'mariadb-client', 'galera-4'], 'the database');
@@ -98,13 +101,14 @@ export async function startClusterStack({ seed = true } = {}) {
   for (const port of [CLUSTER.dbPort, CLUSTER.frontPort, CLUSTER.statsPort]) await requireFreePort(port, 'HAProxy');
   log(`starting HAProxy: database on 127.0.0.1:${CLUSTER.dbPort}, apps on 127.0.0.1:${CLUSTER.frontPort}, its statistics on :${CLUSTER.statsPort}`);
   startChild('haproxy', ['-f', haproxyConfig(), '-db'], { stdio: ['ignore', 'inherit', 'inherit'] });
-  await startFakes({ s3Dir: join(DATA, 'cluster', 's3') });
+  await startFakes({ ...CLUSTER.fakes, s3Dir: join(CLUSTER_DIR, 's3') });
   await waitFor(async () => (await fetch(`http://127.0.0.1:${CLUSTER.checkPorts[0]}/`).catch(() => null))?.status === 200, {
     timeoutMs: 30000,
     what: "node1's check",
   });
-  migrateAndSeed(clusterAppEnvironment(0), { seed });
-  for (let k = 0; k < CLUSTER.appPorts.length; k++) await startApp(clusterAppEnvironment(k));
+  migrateAndSeed(clusterAppEnvironment(0, appEnv), { seed });
+  const apps = [];
+  for (let k = 0; k < CLUSTER.appPorts.length; k++) apps.push(await startApp(clusterAppEnvironment(k, appEnv)));
   await waitFor(
     async () => {
       try {
@@ -115,6 +119,7 @@ export async function startClusterStack({ seed = true } = {}) {
     },
     { timeoutMs: 30000, what: 'HAProxy to see an app ready' },
   );
+  return { apps, startApp: (k) => startApp(clusterAppEnvironment(k, appEnv)) };
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {

@@ -9,7 +9,10 @@ import { join } from 'node:path';
 import { DATA, settings } from './env.mjs';
 import { SetupError, log, requireFreePort, run, startChild, waitFor } from './proc.mjs';
 
-export const CLUSTER_DIR = join(DATA, 'cluster');
+/** `npm run cluster:proof` works in a directory of its own (CLUSTER_DIR), so it never touches the cluster's data. */
+export const CLUSTER_DIR = process.env.CLUSTER_DIR ?? join(DATA, 'cluster');
+/** Added to every port of the cluster (CLUSTER_PORT_OFFSET), so `npm test` can run the proof beside a running `npm run cluster`. */
+export const PORT_OFFSET = Number(process.env.CLUSTER_PORT_OFFSET ?? 0);
 export const NODES = [1, 2, 3].map((n) => ({
   n,
   name: `node${n}`,
@@ -19,10 +22,10 @@ export const NODES = [1, 2, 3].map((n) => ({
   pidFile: join(CLUSTER_DIR, `node${n}`, 'mysqld.pid'),
   logFile: join(CLUSTER_DIR, `node${n}`, 'mysqld.err'),
   config: join(CLUSTER_DIR, `node${n}`, 'my.cnf'),
-  sqlPort: 3310 + n,
-  groupPort: 4560 + n,
-  istPort: 4570 + n,
-  sstPort: 4580 + n,
+  sqlPort: PORT_OFFSET + 3310 + n,
+  groupPort: PORT_OFFSET + 4560 + n,
+  istPort: PORT_OFFSET + 4570 + n,
+  sstPort: PORT_OFFSET + 4580 + n,
 }));
 const ADDRESS = `gcomm://${NODES.map((node) => `127.0.0.1:${node.groupPort}`).join(',')}`;
 
@@ -160,6 +163,37 @@ export async function startNode(node, { bootstrap = false, timeoutMs = 180000 } 
     throw new SetupError(`${err.message}. Its log:\n${tailOf(node.logFile)}`);
   });
   return child;
+}
+
+/**
+ * The position a node reached before it was killed, read from its InnoDB logs (`mariadbd --wsrep-recover`,
+ * what Debian's galera_recovery does before systemd starts a node): started from there, the node asks the
+ * others for the writes it missed (incremental state transfer) instead of a full copy.
+ */
+export function recoveredPosition(node) {
+  const file = join(node.dir, 'recover.log');
+  spawnSync('mariadbd', [`--defaults-file=${node.config}`, '--wsrep-recover', `--log-error=${file}`], { stdio: 'ignore' });
+  if (asRoot) own(node.dir);
+  const m = /WSREP: Recovered position:\s*([0-9a-f-]+:-?\d+)/.exec(existsSync(file) ? readFileSync(file, 'utf8') : '');
+  return m?.[1];
+}
+
+/** Starts a node again after it was killed: from its recovered position, rejoining by incremental state transfer. */
+export async function restartNode(node) {
+  const position = recoveredPosition(node);
+  await requireFreePort(node.sqlPort, `${node.name}'s SQL port`);
+  log(`restarting ${node.name}${position ? ` from position ${position}` : ''}`);
+  const child = startChild('mariadbd', [`--defaults-file=${node.config}`, ...(position ? [`--wsrep-start-position=${position}`] : [])], {
+    stdio: 'ignore',
+    detached: true,
+  });
+  node.child = child;
+  await waitFor(() => nodeState(node).state === 'Synced', { timeoutMs: 180000, what: `${node.name} to be Synced again`, intervalMs: 250 });
+  const joined = existsSync(node.logFile) ? readFileSync(node.logFile, 'utf8') : '';
+  // The joiner's log says which transfer it received: the last one of its log.
+  const ist = joined.lastIndexOf('IST received');
+  const sst = Math.max(joined.lastIndexOf('SST received'), joined.lastIndexOf('SST succeeded'));
+  return ist > sst ? 'incremental (IST)' : sst >= 0 ? 'full (SST)' : 'unknown';
 }
 
 /** A clean shutdown of one node (so its state file says where it stopped). */

@@ -30,6 +30,7 @@ import { SheetAuthor } from './entities/sheet-author.entity';
 import { User } from '../users/entities/user.entity';
 import { ProjectsService } from '../projects/projects.service';
 import { TemplatesService } from '../templates/templates.service';
+import { retryOnWriteConflict } from '../database/write-conflict';
 import type { AddCellDto, CoPreparersDto, CreateSheetDto, ImportCsvDto, MoveCellDto, UpdateCellDto, UpdateSheetDto } from './dto/sheet.dto';
 import { Cell } from './entities/cell.entity';
 import { Sheet, type SheetState } from './entities/sheet.entity';
@@ -311,21 +312,25 @@ export class SheetsService {
         partial,
         engineVersion: evaluated.engineVersion,
       });
+      // Safe to repeat when the database aborts it for a conflicting write (a Galera node's certification
+      // failure): each attempt locks the sheet and checks its version again, so it is stored once at most.
       const write = (change: ChangeToStore) =>
-        timed('db', async (): Promise<'saved' | 'stale' | 'results-moved'> => {
-          const simple = !headingChanged && actor.id === found.preparer.id && !inserted.length && !removed.size && !writes.moved.length;
-          if (simple && writes.edited.length === 1 && (await this.repository.saveCellEdit(id, writes.edited[0], change))) return 'saved';
-          return this.em.transactional(async (em) => {
-            const row = await this.repository.lockForSave(id);
-            if (!row || row.version !== version || !EDITABLE.includes(row.state)) return 'stale';
-            if (change.partial && (row.resultsVersion !== version || row.engineVersion !== change.engineVersion)) return 'results-moved';
-            if (actor.id !== found.preparer.id) await em.getRepository(SheetAuthor).recordEdit(id, found.revisionNumber, actor.id);
-            await this.repository.writeCells(id, writes);
-            if (headingChanged) await this.repository.writeHeading(id, heading);
-            await this.repository.raiseWithResults(id, change);
-            return 'saved';
-          });
-        });
+        timed('db', () =>
+          retryOnWriteConflict(async (): Promise<'saved' | 'stale' | 'results-moved'> => {
+            const simple = !headingChanged && actor.id === found.preparer.id && !inserted.length && !removed.size && !writes.moved.length;
+            if (simple && writes.edited.length === 1 && (await this.repository.saveCellEdit(id, writes.edited[0], change))) return 'saved';
+            return this.em.transactional(async (em) => {
+              const row = await this.repository.lockForSave(id);
+              if (!row || row.version !== version || !EDITABLE.includes(row.state)) return 'stale';
+              if (change.partial && (row.resultsVersion !== version || row.engineVersion !== change.engineVersion)) return 'results-moved';
+              if (actor.id !== found.preparer.id) await em.getRepository(SheetAuthor).recordEdit(id, found.revisionNumber, actor.id);
+              await this.repository.writeCells(id, writes);
+              if (headingChanged) await this.repository.writeHeading(id, heading);
+              await this.repository.raiseWithResults(id, change);
+              return 'saved';
+            });
+          }),
+        );
       let saved = await write(store(evaluated.partial));
       if (saved === 'results-moved') {
         // The stored results changed since they were read (another engine, or evaluated afresh): every cell's.

@@ -20,6 +20,11 @@ export enum ErrorCode {
   Internal = 'INTERNAL_ERROR',
   /** A state-changing request without the anti-forgery header or token. */
   CsrfFailed = 'CSRF_FAILED',
+  /**
+   * The database aborted the change because another was written to the same rows at the same moment (a
+   * deadlock on one server; a certification failure on a Galera cluster): nothing was stored; try again.
+   */
+  WriteConflict = 'WRITE_CONFLICT',
 }
 
 export enum AuthErrorCode {

@@ -86,6 +86,7 @@ export class RequestException extends featureException<ErrorCode>({
   [ErrorCode.CsrfFailed]: FORBIDDEN,
   [ErrorCode.NotFound]: NOT_FOUND,
   [ErrorCode.Conflict]: CONFLICT,
+  [ErrorCode.WriteConflict]: CONFLICT,
   [ErrorCode.PayloadTooLarge]: PAYLOAD_TOO_LARGE,
   [ErrorCode.UnsupportedMediaType]: UNSUPPORTED_MEDIA_TYPE,
   [ErrorCode.TooManyRequests]: TOO_MANY_REQUESTS,

@@ -1,3 +1,4 @@
+import { DeadlockException } from '@mikro-orm/core';
 import { NotFoundException } from '@nestjs/common';
 import { describe, expect, it } from 'vitest';
 import { AuthErrorCode, EvaluationErrorCode, SheetErrorCode, WorkflowCode } from '@ampwright/common';
@@ -28,6 +29,12 @@ describe(AllExceptionsFilter.name, () => {
     const body = filter.toBody(Object.assign(new Error('request entity too large'), { status: 413, type: 'entity.too.large' }));
     expect(body.statusCode).toBe(413);
     expect(body.code).toBe(ErrorCode.PayloadTooLarge);
+  });
+
+  it('answers a write the database aborted for a conflict (a deadlock; a Galera certification failure) with 409: nothing was stored', () => {
+    const body = filter.toBody(new DeadlockException(new Error('Deadlock found when trying to get lock; try restarting transaction')));
+    expect(body).toMatchObject({ statusCode: 409, code: ErrorCode.WriteConflict });
+    expect(body.message).toMatch(/not stored/);
   });
 
   it("never shows an unknown error's text to the caller", () => {

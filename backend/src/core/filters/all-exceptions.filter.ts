@@ -1,9 +1,10 @@
 import { ArgumentsHost, Catch, ExceptionFilter, HttpException, HttpStatus, Logger } from '@nestjs/common';
 import type { Request, Response } from 'express';
 import { requestIdOf } from '../middleware/request-id';
-import { AppException, ErrorBody, ErrorCode } from '../errors/app-exception';
+import { AppException, ErrorBody, ErrorCode, RequestException } from '../errors/app-exception';
 import { bodyParserError } from './body-parser-error';
 import { MULTIPART_LIMIT_WORDS } from '../../files/uploads';
+import { isWriteConflict } from '../../database/write-conflict';
 
 const CODE_BY_STATUS: Record<number, ErrorCode> = {
   400: ErrorCode.BadRequest,
@@ -56,6 +57,14 @@ export class AllExceptionsFilter implements ExceptionFilter {
         code: CODE_BY_STATUS[status] ?? (status >= 500 ? ErrorCode.Internal : ErrorCode.BadRequest),
         message: Array.isArray(message) ? message.join('; ') : String(message),
       };
+    }
+    if (isWriteConflict(exception)) {
+      return this.toBody(
+        new RequestException(
+          ErrorCode.WriteConflict,
+          'Another change was being written to the same records at the same moment, so this one was not stored. Try it again.',
+        ),
+      );
     }
     const parserError = bodyParserError(exception);
     if (parserError) return this.toBody(parserError);
