@@ -6,7 +6,9 @@
 // nodes are compared with each other. Prints throughput and p95 before, during and after the losses, the
 // requests that failed and whether the client retried them, and last:
 //   cluster proof: N acknowledged saves, N found on every node, lost 0
-// It exits non-zero when an acknowledged save is missing anywhere or the nodes differ.
+// It also checks that the sign-in limit is one count across apps and nodes, and that the demo's package job
+// was done once, the same on every node. It exits non-zero when an acknowledged save is missing anywhere,
+// the nodes differ, or either check fails.
 // PROOF_PHASE_SECONDS (15) sets the length of each of the three phases.
 import { join } from 'node:path';
 import { rmSync } from 'node:fs';
@@ -121,6 +123,13 @@ main(async () => {
   running = false;
   await Promise.all(load);
 
+  // The sign-in limit is one count whichever app and node take the attempts: HAProxy alternates the apps,
+  // and five wrong passwords for an account use up its five a minute, so the sixth is refused.
+  const attempts = [];
+  for (let k = 0; k < 6; k++)
+    attempts.push((await call('POST', '/auth/login', { body: { email: 'checker@northfold.example', password: 'not the password' } })).status);
+  const limitExact = attempts.slice(0, 5).every((status) => status === 401) && attempts[5] === 429;
+
   // Every node in sync, then each asked for every acknowledged save, and for a checksum of the tables.
   for (const node of NODES) while (nodeState(node).state !== 'Synced') await wait(250);
   const held = NODES.map((node) => {
@@ -133,7 +142,14 @@ main(async () => {
         .map((line) => line.replace('\t', '|')),
     );
   });
-  const sums = NODES.map((node) => sql(node, 'CHECKSUM TABLE ampwright.cell, ampwright.sheet, ampwright.session').stdout.trim().replace(/\s+/g, ' '));
+  const sums = NODES.map((node) =>
+    sql(node, 'CHECKSUM TABLE ampwright.cell, ampwright.sheet, ampwright.session, ampwright.throttle_counter, ampwright.package_job')
+      .stdout.trim()
+      .replace(/\s+/g, ' '),
+  );
+  // The demo's issued package was made by one app's worker, claimed once (a conditional UPDATE), on every node.
+  const jobs = NODES.map((node) => sql(node, "SELECT COUNT(*), SUM(status = 'done') FROM ampwright.package_job").stdout.trim());
+  const jobsDone = jobs.every((j) => j === jobs[0] && /^(\d+)\t\1$/.test(j) && !j.startsWith('0\t'));
   const found = acknowledged.filter((a) => held.every((set) => set.has(`${a.sheet}|${a.text}`))).length;
   const lost = acknowledged.length - found;
   const same = sums.every((s) => s === sums[0]);
@@ -148,6 +164,10 @@ main(async () => {
     );
   }
   process.stdout.write(`nodes ${same ? 'agree' : 'DIFFER'}: ${sums.join(' / ')}\n`);
+  process.stdout.write(`sign-in limit across apps and nodes: ${attempts.join(', ')} — ${limitExact ? 'exact' : 'NOT exact'}\n`);
+  process.stdout.write(
+    `package jobs (count, done) on each node: ${jobs.map((j) => j.replace('\t', ', ')).join(' / ')} — ${jobsDone ? 'all done, the same everywhere' : 'NOT all done'}\n`,
+  );
   process.stdout.write(`cluster proof: ${acknowledged.length} acknowledged saves, ${found} found on every node, lost ${lost}\n`);
-  return lost === 0 && same && acknowledged.length > 0 ? 0 : 1;
+  return lost === 0 && same && acknowledged.length > 0 && limitExact && jobsDone ? 0 : 1;
 });
