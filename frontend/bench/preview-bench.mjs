@@ -114,7 +114,11 @@ main(async () => {
       await page.keyboard.press(t % 2 === 0 ? '1' : 'Backspace');
       const r = await watching.catch(async (err) => {
         await page.screenshot({ path: '/tmp/bench-fail.png' });
-        throw err;
+        const focus = await page.evaluate(() => {
+          const a = document.activeElement;
+          return `${a?.tagName} ${a?.className} ${a?.getAttribute('aria-label')} key=${window.__key}`;
+        });
+        throw new Error(`${err.message} (trial ${t}; focus on ${focus})`);
       });
       // The first few warm the engine and the page up.
       if (t >= 3) for (const k of Object.keys(times)) times[k].push(r[k]);
