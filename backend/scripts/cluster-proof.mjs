@@ -13,6 +13,7 @@
 import { join } from 'node:path';
 import { rmSync } from 'node:fs';
 import { DATA } from './lib/env.mjs';
+import { apiClient } from './lib/api.mjs';
 import { log, main, stopOnSignals } from './lib/proc.mjs';
 
 process.env.CLUSTER_DIR = join(DATA, 'cluster-proof');
@@ -27,28 +28,8 @@ main(async () => {
   const { CLUSTER, startClusterStack } = await import('./cluster.mjs');
   const { NODES, nodeState, restartNode, sql } = await import('./lib/galera.mjs');
   const stack = await startClusterStack({ appEnv: { THROTTLE_DEFAULT_PER_ADDRESS: '10000000', LOG_REQUESTS: 'false' } });
-  const BASE = `http://127.0.0.1:${CLUSTER.frontPort}/api`;
 
-  async function call(method, path, { session, body } = {}) {
-    const started = performance.now();
-    try {
-      const res = await fetch(`${BASE}${path}`, {
-        method,
-        headers: { 'content-type': 'application/json', 'x-ampwright-csrf': session?.csrf ?? '1', ...(session ? { cookie: session.cookie } : {}) },
-        body: body ? JSON.stringify(body) : undefined,
-        signal: AbortSignal.timeout(10000),
-      });
-      const data = await res.json().catch(() => ({}));
-      return { status: res.status, data, res, ms: performance.now() - started };
-    } catch (err) {
-      return { status: 0, data: { message: err.message }, ms: performance.now() - started };
-    }
-  }
-  const signIn = async (email) => {
-    const r = await call('POST', '/auth/login', { body: { email, password: 'Ampwright-demo-1' } });
-    if (r.status !== 200) throw new Error(`sign-in failed: ${r.status} ${r.data.message}`);
-    return { cookie: r.res.headers.get('set-cookie').split(';')[0], csrf: r.data.csrfToken };
-  };
+  const { call, signIn } = apiClient(`http://127.0.0.1:${CLUSTER.frontPort}/api`);
 
   const session = await signIn('engineer@northfold.example');
   const project = (await call('GET', '/projects', { session })).data[0];

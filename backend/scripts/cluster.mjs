@@ -18,6 +18,13 @@ export const CLUSTER = {
   fakes: { smtpPort: PORT_OFFSET + 1025, mailApiPort: PORT_OFFSET + 1080, s3Port: PORT_OFFSET + 4569 },
 };
 
+/** A page's text, or '' when it does not answer (yet). */
+const fetchText = (url) =>
+  fetch(url).then(
+    (res) => (res.ok ? res.text() : ''),
+    () => '',
+  );
+
 /** The node checks HAProxy asks (galera-check.mjs), in a process of their own. */
 function startNodeChecks() {
   startChild(
@@ -102,23 +109,21 @@ export async function startClusterStack({ seed = true, appEnv = {} } = {}) {
   log(`starting HAProxy: database on 127.0.0.1:${CLUSTER.dbPort}, apps on 127.0.0.1:${CLUSTER.frontPort}, its statistics on :${CLUSTER.statsPort}`);
   startChild('haproxy', ['-f', haproxyConfig(), '-db'], { stdio: ['ignore', 'inherit', 'inherit'] });
   await startFakes({ ...CLUSTER.fakes, s3Dir: join(CLUSTER_DIR, 's3') });
-  await waitFor(async () => (await fetch(`http://127.0.0.1:${CLUSTER.checkPorts[0]}/`).catch(() => null))?.status === 200, {
-    timeoutMs: 30000,
-    what: "node1's check",
-  });
+  // HAProxy's own view (its statistics as CSV: proxy, server, …, status): a node it sends queries to.
+  await waitFor(
+    async () => {
+      const csv = await fetchText(`http://127.0.0.1:${CLUSTER.statsPort}/;csv`);
+      return csv.split('\n').some((line) => line.startsWith('galera,node') && line.split(',')[17] === 'UP');
+    },
+    { timeoutMs: 30000, what: 'HAProxy to see a Synced database node' },
+  );
   migrateAndSeed(clusterAppEnvironment(0, appEnv), { seed });
   const apps = [];
   for (let k = 0; k < CLUSTER.appPorts.length; k++) apps.push(await startApp(clusterAppEnvironment(k, appEnv)));
-  await waitFor(
-    async () => {
-      try {
-        return (await fetch(`http://127.0.0.1:${CLUSTER.frontPort}/api/health/ready`)).status === 200;
-      } catch {
-        return false;
-      }
-    },
-    { timeoutMs: 30000, what: 'HAProxy to see an app ready' },
-  );
+  await waitFor(async () => (await fetchText(`http://127.0.0.1:${CLUSTER.frontPort}/api/health/ready`)) !== '', {
+    timeoutMs: 30000,
+    what: 'HAProxy to see an app ready',
+  });
   return { apps, startApp: (k) => startApp(clusterAppEnvironment(k, appEnv)) };
 }
 

@@ -17,6 +17,7 @@ import { cpus } from 'node:os';
 import { join } from 'node:path';
 import { DATA, appEnvironment } from './lib/env.mjs';
 import { log, main, stopOnSignals } from './lib/proc.mjs';
+import { apiClient } from './lib/api.mjs';
 import { sheetOf100 } from './lib/sheets.mjs';
 
 // autocannon's own histogram decoder, to merge the users' histograms (hdr-histogram-js).
@@ -34,21 +35,7 @@ const WRITERS = 15;
 const NOISY_SECONDS = Number(process.env.LOAD_NOISY_SECONDS ?? 20);
 const NOISY_CONNECTIONS = 12;
 
-async function json(path, { method = 'GET', body, session } = {}) {
-  const res = await fetch(`${BASE}/api${path}`, {
-    method,
-    headers: { 'content-type': 'application/json', 'x-ampwright-csrf': session?.csrf ?? '1', ...(session ? { cookie: session.cookie } : {}) },
-    body: body ? JSON.stringify(body) : undefined,
-  });
-  const data = await res.json().catch(() => ({}));
-  if (!res.ok) throw new Error(`${method} ${path}: ${res.status} ${data.message ?? ''}`);
-  return { data, res };
-}
-
-async function signIn(email) {
-  const { data, res } = await json('/auth/login', { method: 'POST', body: { email, password: 'Ampwright-demo-1' } });
-  return { cookie: res.headers.get('set-cookie').split(';')[0], csrf: data.csrfToken };
-}
+const { json, signIn } = apiClient(`${BASE}/api`, { timeoutMs: 60000 });
 
 /** A writer's save of its own sheet, based on the version it last saw: a 409 would be a real conflict. */
 function saveRequest(w) {

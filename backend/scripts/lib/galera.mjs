@@ -3,7 +3,7 @@
 // own SQL port, Galera group port, incremental-state-transfer port and state-transfer (rsync) port. State
 // transfer by rsync runs an rsync daemon as the server's user, so when started by root the daemons run as
 // the `mysql` user and their directories belong to it.
-import { chownSync, existsSync, mkdirSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { spawnSync } from 'node:child_process';
 import { join } from 'node:path';
 import { DATA, settings } from './env.mjs';
@@ -30,26 +30,10 @@ export const NODES = [1, 2, 3].map((n) => ({
 const ADDRESS = `gcomm://${NODES.map((node) => `127.0.0.1:${node.groupPort}`).join(',')}`;
 
 const asRoot = process.getuid?.() === 0;
-const mysqlUser = () => {
-  const r = spawnSync('id', ['-u', 'mysql'], { encoding: 'utf8' });
-  if (r.status !== 0) throw new SetupError('the mysql user is missing (it comes with mariadb-server): install mariadb-server');
-  return { uid: Number(r.stdout.trim()), gid: Number(spawnSync('id', ['-g', 'mysql'], { encoding: 'utf8' }).stdout.trim()) };
-};
 
 /** Gives the node's files to the mysql user (when root), so its daemon and its rsync can write them. */
 function own(path) {
-  if (!asRoot) return;
-  const { uid, gid } = mysqlUser();
-  const walk = (p) => {
-    chownSync(p, uid, gid);
-    if (readdirSync(p, { withFileTypes: true }).length === 0) return;
-    for (const e of readdirSync(p, { withFileTypes: true })) {
-      const child = join(p, e.name);
-      if (e.isDirectory()) walk(child);
-      else chownSync(child, uid, gid);
-    }
-  };
-  walk(path);
+  if (asRoot) run('chown', ['-R', 'mysql:mysql', path], { failure: `could not give ${path} to the mysql user (it comes with mariadb-server)` });
 }
 
 function writeConfig(node) {
@@ -127,7 +111,7 @@ function initialise(node) {
   mkdirSync(node.data, { recursive: true });
   writeConfig(node);
   own(node.dir);
-  if (existsSync(join(node.data, 'mysql'))) return false;
+  if (existsSync(join(node.data, 'mysql'))) return;
   log(`initialising ${node.name} in ${node.data}`);
   run(
     'mariadb-install-db',
@@ -141,28 +125,29 @@ function initialise(node) {
     { stdio: ['ignore', 'ignore', 'inherit'], failure: `mariadb-install-db failed for ${node.name}; remove ${node.dir} if it is half-made` },
   );
   own(node.dir);
-  return true;
 }
 
-/** Starts one node (joining the others, or with `bootstrap` starting a new cluster) and waits until it is Synced. */
-export async function startNode(node, { bootstrap = false, timeoutMs = 180000 } = {}) {
+/**
+ * Starts one node and waits until it is Synced: joining the others, or with `bootstrap` starting a new
+ * cluster, or with `position` from where it stopped (so it asks only for the writes it missed).
+ */
+async function startNode(node, { bootstrap = false, position } = {}) {
   await requireFreePort(node.sqlPort, `${node.name}'s SQL port`);
-  log(`starting ${node.name} on 127.0.0.1:${node.sqlPort}${bootstrap ? ' (bootstrapping the cluster)' : ''}`);
-  const child = startChild('mariadbd', [`--defaults-file=${node.config}`, ...(bootstrap ? ['--wsrep-new-cluster'] : [])], { stdio: 'ignore', detached: true });
+  log(`starting ${node.name} on 127.0.0.1:${node.sqlPort}${bootstrap ? ' (bootstrapping the cluster)' : position ? ` from position ${position}` : ''}`);
+  const args = [`--defaults-file=${node.config}`, ...(bootstrap ? ['--wsrep-new-cluster'] : []), ...(position ? [`--wsrep-start-position=${position}`] : [])];
+  const child = startChild('mariadbd', args, { stdio: 'ignore', detached: true });
   node.child = child;
   let exited = false;
   child.once('exit', () => (exited = true));
   await waitFor(
     () => {
       if (exited) throw new SetupError(`${node.name} exited at start-up. Its log:\n${tailOf(node.logFile)}`);
-      const s = nodeState(node);
-      return s.up && s.state === 'Synced';
+      return nodeState(node).state === 'Synced';
     },
-    { timeoutMs, what: `${node.name} to be Synced`, intervalMs: 500 },
+    { timeoutMs: 180000, what: `${node.name} to be Synced`, intervalMs: 250 },
   ).catch((err) => {
     throw new SetupError(`${err.message}. Its log:\n${tailOf(node.logFile)}`);
   });
-  return child;
 }
 
 /**
@@ -170,35 +155,22 @@ export async function startNode(node, { bootstrap = false, timeoutMs = 180000 } 
  * what Debian's galera_recovery does before systemd starts a node): started from there, the node asks the
  * others for the writes it missed (incremental state transfer) instead of a full copy.
  */
-export function recoveredPosition(node) {
+function recoveredPosition(node) {
   const file = join(node.dir, 'recover.log');
   spawnSync('mariadbd', [`--defaults-file=${node.config}`, '--wsrep-recover', `--log-error=${file}`], { stdio: 'ignore' });
-  if (asRoot) own(node.dir);
+  own(node.dir);
   const m = /WSREP: Recovered position:\s*([0-9a-f-]+:-?\d+)/.exec(existsSync(file) ? readFileSync(file, 'utf8') : '');
   return m?.[1];
 }
 
-/** Starts a node again after it was killed: from its recovered position, rejoining by incremental state transfer. */
+/** Starts a node again after it was killed, from its recovered position; says which state transfer it rejoined by. */
 export async function restartNode(node) {
-  const position = recoveredPosition(node);
-  await requireFreePort(node.sqlPort, `${node.name}'s SQL port`);
-  log(`restarting ${node.name}${position ? ` from position ${position}` : ''}`);
-  const child = startChild('mariadbd', [`--defaults-file=${node.config}`, ...(position ? [`--wsrep-start-position=${position}`] : [])], {
-    stdio: 'ignore',
-    detached: true,
-  });
-  node.child = child;
-  await waitFor(() => nodeState(node).state === 'Synced', { timeoutMs: 180000, what: `${node.name} to be Synced again`, intervalMs: 250 });
+  await startNode(node, { position: recoveredPosition(node) });
   const joined = existsSync(node.logFile) ? readFileSync(node.logFile, 'utf8') : '';
   // The joiner's log says which transfer it received: the last one of its log.
   const ist = joined.lastIndexOf('IST received');
   const sst = Math.max(joined.lastIndexOf('SST received'), joined.lastIndexOf('SST succeeded'));
   return ist > sst ? 'incremental (IST)' : sst >= 0 ? 'full (SST)' : 'unknown';
-}
-
-/** A clean shutdown of one node (so its state file says where it stopped). */
-export function stopNode(node) {
-  spawnSync('mariadb-admin', [`--defaults-file=${node.config}`, `--socket=${node.socket}`, '-uroot', 'shutdown'], { stdio: 'ignore' });
 }
 
 /**

@@ -24,7 +24,7 @@ export interface CsvDetected {
 export type CsvTableResult = { ok: true; cell: TableCell; detected: CsvDetected } | { ok: false; problems: { line: number; message: string }[] };
 
 /** A delimiter's name in a sentence. */
-export const DELIMITER_NAMES: Record<CsvDetected['delimiter'], string> = { ',': 'commas', ';': 'semicolons', '\t': 'tabs', '|': 'vertical bars' };
+const DELIMITER_NAMES: Record<CsvDetected['delimiter'], string> = { ',': 'commas', ';': 'semicolons', '\t': 'tabs', '|': 'vertical bars' };
 
 /** What the import read, as a sentence for the screen. */
 export function describeDetected(d: CsvDetected): string {

@@ -56,8 +56,8 @@ const clamp = (v: number, lo: number, hi: number) => Math.max(lo, Math.min(hi, v
 export function TableGrid({ label, columns, rows, onSet, columnHeader, maxRows = Infinity, toolbar }: TableGridProps) {
   const id = useId();
   const scroller = useRef<HTMLDivElement>(null);
-  const [active, setActive] = useState({ r: 0, c: 0 });
-  const [anchor, setAnchor] = useState({ r: 0, c: 0 });
+  const [cursor, setActive] = useState({ r: 0, c: 0 });
+  const [mark, setAnchor] = useState({ r: 0, c: 0 });
   const [editing, setEditingState] = useState<{ text: string } | null>(null);
   // Set at once (the blur that follows a commit by Enter must not commit again).
   const editingNow = useRef(false);
@@ -68,6 +68,10 @@ export function TableGrid({ label, columns, rows, onSet, columnHeader, maxRows =
   const [said, setSaid] = useState('');
   const rowCount = rows.length;
   const colCount = columns.length;
+  // Kept inside the table when rows or columns are removed under the selection.
+  const inTable = (p: { r: number; c: number }) => ({ r: clamp(p.r, 0, rowCount - 1), c: clamp(p.c, 0, colCount - 1) });
+  const active = inTable(cursor);
+  const anchor = inTable(mark);
   // The app is not built with the React Compiler; the virtualiser re-renders this component as it scrolls.
   // eslint-disable-next-line react-hooks/incompatible-library -- see above
   const rowVirtualizer = useVirtualizer({ count: rowCount, getScrollElement: () => scroller.current, estimateSize: () => ROW_HEIGHT, overscan: 8 });
@@ -91,7 +95,7 @@ export function TableGrid({ label, columns, rows, onSet, columnHeader, maxRows =
   const inside = (r: number, c: number) => r >= selection.top && r <= selection.bottom && c >= selection.left && c <= selection.right;
 
   const moveTo = (r: number, c: number, extend = false) => {
-    const next = { r: clamp(r, 0, rowCount - 1), c: clamp(c, 0, colCount - 1) };
+    const next = inTable({ r, c });
     setActive(next);
     if (!extend) setAnchor(next);
     rowVirtualizer.scrollToIndex(next.r, { align: 'auto' });

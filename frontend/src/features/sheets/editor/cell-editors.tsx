@@ -180,7 +180,7 @@ export function FigureEditor(p: KindEditorProps) {
 type Column = { name: string; unit?: string };
 
 /** Values written as a block at (row, column), rows added past the end; the rows not touched are kept as they are. */
-export function setBlock(rows: readonly (readonly GridValue[])[], width: number, row: number, column: number, block: GridValue[][]): GridValue[][] {
+function setBlock(rows: readonly (readonly GridValue[])[], width: number, row: number, column: number, block: GridValue[][]): GridValue[][] {
   const next = rows.slice() as GridValue[][];
   block.forEach((values, i) => {
     const r = row + i;

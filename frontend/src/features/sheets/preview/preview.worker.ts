@@ -8,7 +8,7 @@
 import { evaluateSheet, runWithDeadline, type EvaluationCache } from '@ampwright/common';
 import type { PreviewReply, PreviewRequest } from './preview-protocol';
 
-export const PREVIEW_DEADLINE_MS = 2000;
+const PREVIEW_DEADLINE_MS = 2000;
 /** An evaluation still running after this sends the results it has so far, once. */
 const PARTIAL_AFTER_MS = 8;
 
