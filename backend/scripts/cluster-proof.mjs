@@ -14,19 +14,38 @@ import { join } from 'node:path';
 import { rmSync } from 'node:fs';
 import { DATA } from './lib/env.mjs';
 import { apiClient } from './lib/api.mjs';
-import { log, main, stopOnSignals } from './lib/proc.mjs';
+import { log, main, stopAll, stopOnSignals, waitFor } from './lib/proc.mjs';
 
 process.env.CLUSTER_DIR = join(DATA, 'cluster-proof');
 const PHASE_MS = Number(process.env.PROOF_PHASE_SECONDS ?? 15) * 1000;
 const READERS = 10;
 const WRITERS = 6;
 const RETRIES = 8;
+// The whole proof is bounded: past this (the three phases and ten minutes for starting, rejoining and
+// comparing) it says where it was and what each node reports, stops everything and fails.
+const LIMIT_MS = 3 * PHASE_MS + 10 * 60 * 1000;
 
 stopOnSignals();
 main(async () => {
   rmSync(process.env.CLUSTER_DIR, { recursive: true, force: true });
   const { CLUSTER, startClusterStack } = await import('./cluster.mjs');
-  const { NODES, nodeState, restartNode, sql } = await import('./lib/galera.mjs');
+  const { NODES, nodeState, restartNode, sql, tailOf } = await import('./lib/galera.mjs');
+  let step = 'starting the cluster';
+  const at = (what) => {
+    step = what;
+    log(`proof: ${what}`);
+  };
+  setTimeout(() => {
+    log(`error: the proof did not finish within ${LIMIT_MS / 1000} s; it was ${step}. What each node reports:`);
+    for (const node of NODES) log(`${node.name}: ${JSON.stringify(nodeState(node))}\n${tailOf(node.logFile, 15)}`);
+    stopAll().then(() => process.exit(1));
+  }, LIMIT_MS).unref();
+  /** A statement's output on a node; throws naming the node when it fails or does not answer. */
+  const query = (node, statement) => {
+    const r = sql(node, statement);
+    if (r.status !== 0) throw new Error(`${node.name}: ${r.error?.message ?? r.stderr.trim()}`);
+    return r.stdout.trim();
+  };
   const stack = await startClusterStack({ appEnv: { THROTTLE_DEFAULT_PER_ADDRESS: '10000000', LOG_REQUESTS: 'false' } });
 
   const { call, signIn } = apiClient(`http://127.0.0.1:${CLUSTER.frontPort}/api`);
@@ -89,6 +108,7 @@ main(async () => {
   log(`proof: ${READERS} readers and ${WRITERS} writers through HAProxy, three phases of ${PHASE_MS / 1000} s`);
   const load = [...Array.from({ length: READERS }, (_, k) => reader(k)), ...writers.map(writer)];
   const wait = (ms) => new Promise((resolve) => setTimeout(resolve, ms));
+  at('phase "before"');
   await wait(PHASE_MS);
   phase = 'during';
   const writing = NODES[0];
@@ -97,39 +117,45 @@ main(async () => {
   stack.apps[0].kill('SIGKILL');
   await wait(PHASE_MS);
   phase = 'after';
+  at(`restarting ${writing.name} and app1`);
   const transfer = await restartNode(writing);
   await stack.startApp(0);
   log(`${writing.name} rejoined by ${transfer} state transfer; app1 started again`);
+  at('phase "after"');
   await wait(PHASE_MS);
   running = false;
+  at('waiting for the last requests of the load');
   await Promise.all(load);
 
   // The sign-in limit is one count whichever app and node take the attempts: HAProxy alternates the apps,
   // and five wrong passwords for an account use up its five a minute, so the sixth is refused.
+  at('checking the sign-in limit');
   const attempts = [];
   for (let k = 0; k < 6; k++)
     attempts.push((await call('POST', '/auth/login', { body: { email: 'checker@northfold.example', password: 'not the password' } })).status);
   const limitExact = attempts.slice(0, 5).every((status) => status === 401) && attempts[5] === 429;
 
   // Every node in sync, then each asked for every acknowledged save, and for a checksum of the tables.
-  for (const node of NODES) while (nodeState(node).state !== 'Synced') await wait(250);
-  const held = NODES.map((node) => {
-    const r = sql(node, "SELECT sheet_id, JSON_UNQUOTE(JSON_EXTRACT(fields, '$.text')) FROM ampwright.cell WHERE kind = 'note'");
-    if (r.status !== 0) throw new Error(`${node.name}: ${r.stderr}`);
-    return new Set(
-      r.stdout
-        .trim()
-        .split('\n')
-        .map((line) => line.replace('\t', '|')),
-    );
+  at('waiting for every node to be Synced');
+  await waitFor(() => NODES.every((node) => nodeState(node).state === 'Synced'), {
+    timeoutMs: 120000,
+    intervalMs: 250,
+    what: () => `every node to be Synced (${NODES.map((node) => `${node.name}: ${nodeState(node).state ?? 'no answer'}`).join(', ')})`,
   });
+  at('comparing the nodes');
+  const held = NODES.map(
+    (node) =>
+      new Set(
+        query(node, "SELECT sheet_id, JSON_UNQUOTE(JSON_EXTRACT(fields, '$.text')) FROM ampwright.cell WHERE kind = 'note'")
+          .split('\n')
+          .map((line) => line.replace('\t', '|')),
+      ),
+  );
   const sums = NODES.map((node) =>
-    sql(node, 'CHECKSUM TABLE ampwright.cell, ampwright.sheet, ampwright.session, ampwright.throttle_counter, ampwright.package_job')
-      .stdout.trim()
-      .replace(/\s+/g, ' '),
+    query(node, 'CHECKSUM TABLE ampwright.cell, ampwright.sheet, ampwright.session, ampwright.throttle_counter, ampwright.package_job').replace(/\s+/g, ' '),
   );
   // The demo's issued package was made by one app's worker, claimed once (a conditional UPDATE), on every node.
-  const jobs = NODES.map((node) => sql(node, "SELECT COUNT(*), SUM(status = 'done') FROM ampwright.package_job").stdout.trim());
+  const jobs = NODES.map((node) => query(node, "SELECT COUNT(*), SUM(status = 'done') FROM ampwright.package_job"));
   const jobsDone = jobs.every((j) => j === jobs[0] && /^(\d+)\t\1$/.test(j) && !j.startsWith('0\t'));
   const found = acknowledged.filter((a) => held.every((set) => set.has(`${a.sheet}|${a.text}`))).length;
   const lost = acknowledged.length - found;

@@ -9,7 +9,10 @@ import { spawn } from 'node:child_process';
 for (const arg of process.argv.slice(2)) {
   const [port, config, socket] = arg.split('=');
   createServer((_req, res) => {
-    const q = spawn('mariadb', [`--defaults-file=${config}`, `--socket=${socket}`, '-uroot', '-N', '-B', '-e', "SHOW STATUS LIKE 'wsrep_local_state'"]);
+    const q = spawn('mariadb', [`--defaults-file=${config}`, `--socket=${socket}`, '-uroot', '-N', '-B', '-e', "SHOW STATUS LIKE 'wsrep_local_state'"], {
+      timeout: 2000,
+      killSignal: 'SIGKILL',
+    });
     let out = '';
     q.stdout.on('data', (d) => (out += d));
     q.on('error', () => res.writeHead(503).end('no client\n'));

@@ -120,6 +120,9 @@ function runClusterProof(name) {
     run(process.execPath, [join(ROOT, 'backend', 'scripts', 'cluster-proof.mjs')], {
       cwd: ROOT,
       env: { ...process.env, PROOF_PHASE_SECONDS: process.env.PROOF_PHASE_SECONDS ?? '8', CLUSTER_PORT_OFFSET: '20000' },
+      // The proof bounds itself; this is the last guard, so that a stuck proof can never hold up the run.
+      timeout: 15 * 60 * 1000,
+      killSignal: 'SIGTERM',
     });
     return { name, passed: 1, failed: 0, skipped: 0, ok: true, note: '' };
   } catch {

@@ -73,17 +73,20 @@ function writeConfig(node) {
   );
 }
 
-export function sql(node, statements, { user = 'root' } = {}) {
+/** Runs statements on one node with the command-line client; a node that does not answer within `timeoutMs` gives status null. */
+export function sql(node, statements, { user = 'root', timeoutMs = 30000 } = {}) {
   return spawnSync('mariadb', [`--defaults-file=${node.config}`, `--socket=${node.socket}`, `-u${user}`, '-N', '-B'], {
     input: Array.isArray(statements) ? statements.join(';\n') + ';\n' : statements,
     encoding: 'utf8',
     stdio: ['pipe', 'pipe', 'pipe'],
+    timeout: timeoutMs,
+    killSignal: 'SIGKILL',
   });
 }
 
 /** The node's own view: whether it answers and is Synced with the cluster (wsrep_local_state 4). */
 export function nodeState(node) {
-  const r = sql(node, "SHOW STATUS WHERE Variable_name IN ('wsrep_local_state_comment','wsrep_cluster_size','wsrep_ready')");
+  const r = sql(node, "SHOW STATUS WHERE Variable_name IN ('wsrep_local_state_comment','wsrep_cluster_size','wsrep_ready')", { timeoutMs: 5000 });
   if (r.status !== 0) return { up: false };
   const v = Object.fromEntries(
     r.stdout
@@ -94,7 +97,7 @@ export function nodeState(node) {
   return { up: true, state: v.wsrep_local_state_comment, size: Number(v.wsrep_cluster_size), ready: v.wsrep_ready === 'ON' };
 }
 
-function tailOf(file, lines = 25) {
+export function tailOf(file, lines = 25) {
   if (!existsSync(file)) return '(no log)';
   return readFileSync(file, 'utf8').trim().split('\n').slice(-lines).join('\n');
 }
@@ -157,7 +160,11 @@ async function startNode(node, { bootstrap = false, position } = {}) {
  */
 function recoveredPosition(node) {
   const file = join(node.dir, 'recover.log');
-  spawnSync('mariadbd', [`--defaults-file=${node.config}`, '--wsrep-recover', `--log-error=${file}`], { stdio: 'ignore' });
+  spawnSync('mariadbd', [`--defaults-file=${node.config}`, '--wsrep-recover', `--log-error=${file}`], {
+    stdio: 'ignore',
+    timeout: 120000,
+    killSignal: 'SIGKILL',
+  });
   own(node.dir);
   const m = /WSREP: Recovered position:\s*([0-9a-f-]+:-?\d+)/.exec(existsSync(file) ? readFileSync(file, 'utf8') : '');
   return m?.[1];

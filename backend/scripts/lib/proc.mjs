@@ -46,13 +46,14 @@ export async function requireFreePort(port, what) {
   }
 }
 
+/** Waits until `check` is true; past `timeoutMs` throws, naming `what` (a function is asked then, to say the state at that moment). */
 export async function waitFor(check, { timeoutMs, intervalMs = 200, what }) {
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
     if (await check()) return;
     await new Promise((r) => setTimeout(r, intervalMs));
   }
-  throw new SetupError(`${what} did not become ready within ${Math.round(timeoutMs / 1000)} s`);
+  throw new SetupError(`${typeof what === 'function' ? what() : what} did not become ready within ${Math.round(timeoutMs / 1000)} s`);
 }
 
 const children = new Set();
