@@ -144,6 +144,7 @@ main(async () => {
   const { buildAll, ensureDatabase, ensureDebianPackages, migrateAndSeed, startApp, startFakes, startMariadb } = await import('./lib/provision.mjs');
   ensureDebianPackages('chromium', ['chromium'], 'the end-to-end tests');
   ensureDebianPackages('pdfsig', ['poppler-utils'], 'checking package signatures in tests');
+  ensureDebianPackages('ngspice', ['ngspice'], "the network cell's reference checks (ngspice is their oracle, never part of the product)");
   await startMariadb();
   ensureDatabase(TEST.dbName, { recreate: true });
   const s3Dir = join(DATA, 'test-s3');
