@@ -93,3 +93,4 @@ export {
   EvaluationErrorCode,
 } from './api/error-codes';
 export type { Plot, PlotAxis, PlotData } from './plot/charts';
+export { ELEMENT_VALUES, NETWORK_CONVENTIONS } from './cells/network-labels';

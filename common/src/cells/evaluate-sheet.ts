@@ -14,6 +14,7 @@ import type { CellResult, PlainResult } from './types';
 import { evaluateSweepCell } from './sweep';
 import { evaluateTransientCell } from './transient';
 import { evaluateTableCell, tableColumnNames } from './table';
+import { evaluateNetworkCell, networkNames } from './network';
 
 interface CacheEntry {
   key: string;
@@ -88,6 +89,7 @@ export function definitionsOf(cells: readonly Cell[]): Map<string, Place[]> {
       });
     }
     if (cell.kind === 'table') for (const name of tableColumnNames(cell)) add(name, { cell: c, line: 1 });
+    if (cell.kind === 'network') for (const name of networkNames(cell)) add(name, { cell: c, line: 1 });
   });
   return defs;
 }
@@ -109,6 +111,7 @@ export const EVALUATORS: { [K in CellKind]: (cell: CellOf<K>, index: number, sco
   transient: evaluateTransientCell,
   table: evaluateTableCell,
   figure: plain('figure') as () => PlainResult,
+  network: evaluateNetworkCell,
 };
 
 function evaluateCell(cell: Cell, index: number, scope: SheetScope, display: DisplayOptions): CellResult {

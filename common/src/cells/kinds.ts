@@ -9,19 +9,21 @@
  * editor in the app (KIND_EDITORS).
  */
 import type { z } from 'zod';
-import { calcFigures, sweepPlot, transientPlot } from '../plot/charts';
+import { calcFigures, harmonicBarsPlot, sweepPlot, transientPlot } from '../plot/charts';
 import {
   type Cell,
   type CellKind,
   calcCellSchema,
   checkCellSchema,
   figureCellSchema,
+  networkCellSchema,
   noteCellSchema,
   sweepCellSchema,
   tableCellSchema,
   transientCellSchema,
 } from '../sheet/sheet-format';
 import { checkPresentation, transientSummary, type PresentationBlock } from './presentation';
+import { ELEMENT_VALUES, NETWORK_CONVENTIONS } from './network-labels';
 import type { CellResult, FormattedValue, PlainResult } from './types';
 
 /** A cell of one kind, as in the sheet file. */
@@ -183,6 +185,95 @@ export const CELL_KIND_REGISTRY: { [K in CellKind]: CellKindDefinition<K> } = {
     previewWhileEditing: true,
     figures: () => ({}),
     present: (f) => caption(str(f.caption)),
+  },
+  network: {
+    label: 'Network',
+    schema: networkCellSchema,
+    defaults: {
+      frequency: '50 Hz',
+      reference: 'gnd',
+      analysis: 'steady',
+      elements: [
+        { name: 'Grid', kind: 'supply', a: 'B1', b: 'gnd', values: ['11 kV', '250 MVA', '10'] },
+        { name: 'Bank', kind: 'capacitor', a: 'B1', b: 'gnd', values: ['80 uF'] },
+      ],
+    },
+    inputs: (f) => {
+      const what =
+        f.analysis === 'scan'
+          ? `frequency scan from node ${f.node ?? '?'}, ${f.from ?? '?'} to ${f.to ?? '?'}, ${f.points ?? 500} points`
+          : f.analysis === 'harmonics'
+            ? 'harmonic flow'
+            : f.analysis === 'transient'
+              ? `switching transient over ${f.span ?? '?'}`
+              : 'steady state';
+      return `${what}; fundamental ${f.frequency || '50 Hz'}, reference node ${f.reference || 'gnd'}, ${(f.elements ?? []).length} elements`;
+    },
+    inputsInPackage: true,
+    previewWhileEditing: false,
+    figures: (r) => displays(r.values ?? {}),
+    present: (f, r) => {
+      const blocks: PresentationBlock[] = [
+        { type: 'sentence', text: NETWORK_CONVENTIONS, style: 'muted' },
+        {
+          type: 'table',
+          columns: [{ name: 'element' }, { name: 'kind' }, { name: 'from' }, { name: 'to' }, { name: 'values' }],
+          rows: (f.elements ?? []).map((e) => [
+            str(e.name),
+            str(e.kind),
+            str(e.a),
+            str(e.b),
+            (e.values ?? [])
+              .map((v, i) => (v ? `${ELEMENT_VALUES[e.kind]?.[i] ?? `value ${i + 1}`} = ${v}` : ''))
+              .filter(Boolean)
+              .join('; '),
+          ]),
+        },
+      ];
+      if (!r) return blocks;
+      for (const t of r.tables ?? [])
+        blocks.push({ type: 'sentence', text: t.title, style: 'plain' }, { type: 'table', columns: t.columns.map((name) => ({ name })), rows: t.rows });
+      if (r.scan) {
+        const scan = r.scan;
+        const markers = scan.resonances.map((x) => ({ at: x.frequency, label: `${x.type === 'parallel' ? 'par' : 'ser'} h = ${x.order.toFixed(2)}` }));
+        const sweep = { kind: 'sweep' as const, status: 'ok' as const, errors: [], warnings: [], variable: scan.frequency, outputs: [scan.impedance] };
+        const drawn = sweepPlot(sweep, { logX: true, markers });
+        if (drawn)
+          blocks.push({
+            type: 'figure',
+            label: 'Driving-point impedance',
+            svg: drawn.svg,
+            plot: drawn.data,
+            redraw: (xRange) => sweepPlot(sweep, { logX: true, markers, xRange: xRange ?? undefined }),
+          });
+      }
+      if (r.harmonics) {
+        const drawn = harmonicBarsPlot(r.harmonics.orders, r.harmonics.nodes, r.harmonics.limit?.individual ?? null);
+        if (drawn) blocks.push({ type: 'figure', label: 'Harmonic voltages', svg: drawn.svg, plot: drawn.data });
+      }
+      if (r.transient) {
+        const currents = r.transient.series.filter((s) => s.unit === 'A').slice(0, 4);
+        const voltages = r.transient.series.filter((s) => s.unit === 'V').slice(0, 4);
+        const sweep = {
+          kind: 'sweep' as const,
+          status: 'ok' as const,
+          errors: [],
+          warnings: [],
+          variable: r.transient.time,
+          outputs: [...currents, ...voltages],
+        };
+        const drawn = sweepPlot(sweep);
+        if (drawn)
+          blocks.push({
+            type: 'figure',
+            label: 'Time response',
+            svg: drawn.svg,
+            plot: drawn.data,
+            redraw: (xRange) => sweepPlot(sweep, { xRange: xRange ?? undefined }),
+          });
+      }
+      return blocks;
+    },
   },
 };
 

@@ -118,4 +118,22 @@ export interface UnevaluatedResult extends CellResultBase {
   status: 'error';
 }
 
-export type CellResult = CalcResult | CheckResult | SweepResult | TransientResult | TableResult | PlainResult | UnevaluatedResult;
+/** A table of results as shown: a title, column headings and display text. */
+export interface ResultTable {
+  title: string;
+  columns: string[];
+  rows: string[][];
+}
+
+export interface NetworkResult extends CellResultBase {
+  kind: 'network';
+  analysis?: 'steady' | 'scan' | 'harmonics' | 'transient';
+  /** Every name the cell defines for the cells below, with its value as shown. */
+  values: Record<string, FormattedValue>;
+  tables: ResultTable[];
+  scan?: { frequency: SeriesData; impedance: SeriesData; resonances: { type: 'parallel' | 'series'; frequency: number; order: number }[] };
+  harmonics?: { orders: number[]; nodes: { node: string; individual: number[] }[]; limit: { individual: number; thd: number; basis: string } | null };
+  transient?: { time: SeriesData; series: SeriesData[] };
+}
+
+export type CellResult = NetworkResult | CalcResult | CheckResult | SweepResult | TransientResult | TableResult | PlainResult | UnevaluatedResult;

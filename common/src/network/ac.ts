@@ -9,6 +9,7 @@
  * with its resonances located where the reactance changes sign; the harmonic flow of the injections'
  * spectra, with IEEE Std 519-2014's distortion of the voltage.
  */
+import { checkDeadline } from '../language/deadline';
 import { SingularMatrixError, complexLu, complexSolve, type ComplexLu } from './lu';
 import { NetworkError, seriesBranch, topologyOf, type Network, type NetworkElement, type Topology } from './model';
 
@@ -35,6 +36,7 @@ export function prepare(network: Network, options: { switchesClosed?: boolean } 
 
 /** The nodal matrix at angular frequency ω, factorised; a singular one is refused with a sentence naming the unknown. */
 function factorise(p: PreparedNetwork, omega: number): ComplexLu {
+  checkDeadline();
   const { topology, network } = p;
   const n = topology.size;
   const re = new Float64Array(n * n);
@@ -209,13 +211,9 @@ export interface Scan {
  * the reactance between two points of the scan, located by bisection to 1e-12 of the frequency (a sign
  * change through a pole, as in a lossless parallel resonance, is located the same way).
  */
-export function frequencyScan(p: PreparedNetwork, node: string, frequencies: number[], options: { deadline?: number } = {}): Scan {
+export function frequencyScan(p: PreparedNetwork, node: string, frequencies: number[]): Scan {
   const impedances: Complex[] = [];
-  for (let k = 0; k < frequencies.length; k++) {
-    if (options.deadline !== undefined && (k & 63) === 0 && Date.now() > options.deadline)
-      throw new NetworkError('the frequency scan took longer than the time allowed for an evaluation');
-    impedances.push(drivingPointImpedance(p, node, frequencies[k]));
-  }
+  for (let k = 0; k < frequencies.length; k++) impedances.push(drivingPointImpedance(p, node, frequencies[k]));
   const resonances: Resonance[] = [];
   const f1 = p.network.frequency;
   const reactive = (z: Complex) => Math.abs(z.im) > 1e-12 * abs(z);

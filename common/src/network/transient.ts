@@ -17,6 +17,7 @@
  * of the solver's steps, where the slope (from the same linear solve, differentiated) changes sign.
  */
 import { Solver } from 'odex';
+import { checkDeadline } from '../language/deadline';
 import { extremaIn, summarise, type Extremum } from '../circuits/transient';
 import { harmonicFlow, prepare } from './ac';
 import { SingularMatrixError, realLu, realSolve, type RealLu } from './lu';
@@ -27,7 +28,6 @@ export interface TransientOptions {
   points: number;
   /** Relative and absolute tolerance of the solver on scaled states. */
   tolerance?: number;
-  deadline?: number;
 }
 
 export interface Peaks {
@@ -350,7 +350,6 @@ export function networkTransient(network: Network, options: TransientOptions): N
   let y = y0.map((x, k) => x / scale[k]);
   let next = 0;
   let steps = 0;
-  let evaluations = 0;
   const tolerance = options.tolerance ?? 1e-10;
 
   for (let segment = 0; segment + 1 < bounds.length; segment++) {
@@ -360,9 +359,7 @@ export function networkTransient(network: Network, options: TransientOptions): N
     const z = new Float64Array(st.size);
     const zDot = new Float64Array(st.size);
     const f = (x: number, state: number[]) => {
-      evaluations++;
-      if (options.deadline !== undefined && (evaluations & 1023) === 0 && Date.now() > options.deadline)
-        throw new NetworkError('the switching transient took longer than the time allowed for an evaluation');
+      checkDeadline();
       return derivatives(st, x, state, solveAt(st, x, state, false, z), new Array<number>(nStates));
     };
     /** Outputs and their slopes at time x from states `state`. */

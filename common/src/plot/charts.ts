@@ -37,6 +37,8 @@ export interface ChartOptions {
   logX?: boolean;
   /** Draw only this range of the horizontal variable (a zoom), in the variable's unit. */
   xRange?: [number, number];
+  /** Vertical marks across every panel at these values of the variable, each with its label (resonances). */
+  markers?: { at: number; label: string }[];
 }
 
 /** One plotted quantity: its name, unit and values (as drawn: a complex output's magnitude or phase). */
@@ -128,6 +130,13 @@ export function sweepPlot(result: SweepResult, options: ChartOptions = {}): Plot
           panel.unit,
         );
     out.push(...drawAxes(frame, x, y, axisLabel(v.name, v.unit), label));
+    const [lo, hi] = x.domain() as [number, number];
+    for (const m of options.markers ?? []) {
+      if (!(m.at >= Math.min(lo, hi) && m.at <= Math.max(lo, hi))) continue;
+      const xm = x(m.at);
+      out.push(el('line', { x1: xm, x2: xm, y1: top, y2: top + panelH, stroke: PLOT_COLOURS.copper, 'stroke-width': 1, 'stroke-dasharray': '4 3' }));
+      if (!panel.phase) out.push(text(xm + 3, top + 10, m.label, { 'font-size': 9, fill: PLOT_COLOURS.copper }));
+    }
     ys.forEach((vals, i) => out.push(el('path', { d: path(v.values, vals, x, y), fill: 'none', stroke: TRACE[i % TRACE.length], 'stroke-width': 1.6 })));
     if (panel.series.length > 1)
       out.push(
@@ -312,4 +321,53 @@ export function calcFigures(result: CalcResult): CalcFigure[] {
 function polar(display: string): [string | undefined, string | undefined] {
   const m = /^(.*?)\s*∠\s*(.*)$/.exec(display);
   return m ? [m[1], m[2]] : [undefined, undefined];
+}
+
+/**
+ * Harmonic voltages as bars: each order's individual distortion (percent of the fundamental) at each node,
+ * side by side, against the limit for one order drawn as a line across (when a limit applies).
+ */
+export function harmonicBarsPlot(orders: number[], nodes: { node: string; individual: number[] }[], limit: number | null): Plot | null {
+  if (!orders.length || !nodes.length) return null;
+  const left = 64;
+  const frame: Frame = { left, top: 16, width: W - left - 20, height: 220 };
+  const slot = frame.width / orders.length;
+  const bar = Math.max(2, (slot * 0.8) / nodes.length);
+  const top = Math.max(limit ?? 0, ...nodes.flatMap((n) => n.individual.filter(Number.isFinite))) * 1.15 || 1;
+  const y = scaleFor([0, top], [frame.top + frame.height, frame.top], false, 0, [0, top]);
+  const x = scaleFor([0, orders.length], [left, left + frame.width], false, 0, [0, orders.length]);
+  const out = drawAxes(frame, x, y, 'harmonic order', axisLabel('individual distortion', '%'), { xTicks: false });
+  orders.forEach((h, k) => {
+    const x0 = left + k * slot + slot * 0.1;
+    nodes.forEach((n, i) => {
+      const v = n.individual[k];
+      if (!Number.isFinite(v)) return;
+      out.push(el('rect', { x: x0 + i * bar, y: y(v), width: bar * 0.9, height: Math.max(0, y(0) - y(v)), fill: TRACE[i % TRACE.length] }));
+    });
+    out.push(text(left + k * slot + slot / 2, frame.top + frame.height + 14, String(h), { 'font-size': 10, 'text-anchor': 'middle' }));
+  });
+  out.push(text(left + frame.width / 2, frame.top + frame.height + 30, 'harmonic order h', { 'text-anchor': 'middle', 'font-size': 12 }));
+  if (limit !== null)
+    out.push(
+      el('line', { x1: left, x2: left + frame.width, y1: y(limit), y2: y(limit), stroke: PLOT_COLOURS.copper, 'stroke-width': 1.2, 'stroke-dasharray': '6 3' }),
+      text(left + frame.width - 4, y(limit) - 4, `limit ${limit} %`, { 'font-size': 10, 'text-anchor': 'end', fill: PLOT_COLOURS.copper }),
+    );
+  if (nodes.length > 1)
+    out.push(
+      ...legend(
+        left + 10,
+        frame.top + 12,
+        nodes.map((n, i) => ({ label: n.node, colour: TRACE[i % TRACE.length] })),
+      ),
+    );
+  return {
+    svg: svgDocument(W, frame.top + frame.height + 46, 'Harmonic voltages against their limit', out),
+    data: {
+      x: { name: 'h', unit: '', values: orders },
+      series: nodes.map((n) => ({ name: n.node, unit: '%', values: n.individual })),
+      frame: { left, width: frame.width, svgWidth: W },
+      domain: [orders[0], orders[orders.length - 1]],
+      log: false,
+    },
+  };
 }

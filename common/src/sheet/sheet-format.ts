@@ -7,7 +7,7 @@ import { z } from 'zod';
 
 export const SHEET_FORMAT = 'ampwright.sheet/1';
 
-export const CELL_KINDS = ['note', 'calc', 'check', 'sweep', 'transient', 'table', 'figure'] as const;
+export const CELL_KINDS = ['note', 'calc', 'check', 'sweep', 'transient', 'table', 'figure', 'network'] as const;
 export type CellKind = (typeof CELL_KINDS)[number];
 
 const text = (what: string) => z.string({ error: `${what} must be text` });
@@ -68,9 +68,38 @@ export const tableCellSchema = z.looseObject({
 });
 export const figureCellSchema = z.looseObject({ kind: z.literal('figure'), caption: z.string().optional() });
 
+/** The most elements a network cell holds. */
+export const NETWORK_MAX_ELEMENTS = 2000;
+export const NETWORK_ELEMENT_KINDS = ['resistor', 'inductor', 'capacitor', 'source', 'supply', 'transformer', 'injection', 'switch'] as const;
+export const NETWORK_ANALYSES = ['steady', 'scan', 'harmonics', 'transient'] as const;
+const short = (what: string) => text(what).max(2000, `${what} is longer than 2000 characters`);
+export const networkElementSchema = z.looseObject({
+  name: short("An element's name"),
+  kind: z.enum(NETWORK_ELEMENT_KINDS, { error: `an element's kind must be one of ${NETWORK_ELEMENT_KINDS.join(', ')}` }),
+  a: short("An element's first node"),
+  b: short("An element's second node"),
+  values: z.array(short("An element's value")).max(4, 'an element has at most 4 values'),
+});
+export const networkCellSchema = z.looseObject({
+  kind: z.literal('network'),
+  frequency: short('The fundamental frequency'),
+  reference: short('The reference node'),
+  elements: z.array(networkElementSchema).max(NETWORK_MAX_ELEMENTS, `a network has at most ${NETWORK_MAX_ELEMENTS} elements`),
+  analysis: z.enum(NETWORK_ANALYSES, { error: `analysis must be one of ${NETWORK_ANALYSES.join(', ')}` }),
+  /** The scan: the node looked into, the range and the number of points (log spaced). */
+  node: short('The node the scan looks into').optional(),
+  from: short('The start of the scan').optional(),
+  to: short('The end of the scan').optional(),
+  points: z.number({ error: 'points must be a number' }).int().min(2).max(20000).optional(),
+  /** The transient's span. */
+  span: short('The time span').optional(),
+  /** The nominal line-to-line voltage the IEEE 519 limits are chosen by (harmonic flow). */
+  limitsVoltage: short('The voltage for the distortion limits').optional(),
+});
+
 export const cellSchema = z.discriminatedUnion(
   'kind',
-  [noteCellSchema, calcCellSchema, checkCellSchema, sweepCellSchema, transientCellSchema, tableCellSchema, figureCellSchema],
+  [noteCellSchema, calcCellSchema, checkCellSchema, sweepCellSchema, transientCellSchema, tableCellSchema, figureCellSchema, networkCellSchema],
   { error: (issue) => (issue.code === 'invalid_union' ? `kind must be one of ${CELL_KINDS.join(', ')}` : undefined) },
 );
 
@@ -87,6 +116,8 @@ export type CalcCell = z.infer<typeof calcCellSchema>;
 export type CheckCell = z.infer<typeof checkCellSchema>;
 export type SweepCell = z.infer<typeof sweepCellSchema>;
 export type TransientCell = z.infer<typeof transientCellSchema>;
+export type NetworkCell = z.infer<typeof networkCellSchema>;
+export type NetworkElementRow = z.infer<typeof networkElementSchema>;
 export type TableCell = z.infer<typeof tableCellSchema>;
 export type FigureCell = z.infer<typeof figureCellSchema>;
 export type Cell = z.infer<typeof cellSchema>;

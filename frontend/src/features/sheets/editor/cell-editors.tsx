@@ -5,6 +5,7 @@ import { monoFont, palette } from '../../../app/theme';
 import { TableGrid, type GridValue } from '../components/table-grid';
 import type { CellBody } from '../api/change-sheet';
 import { CodeEditor, type EditorKeys } from './code-editor';
+import { NetworkEditor } from './network-editor';
 
 export interface KindEditorProps extends EditorKeys {
   value: CellBody;
@@ -297,4 +298,5 @@ export const KIND_EDITORS: Record<CellKind, (p: KindEditorProps) => React.ReactE
   transient: TransientEditor,
   table: TableEditor,
   figure: FigureEditor,
+  network: NetworkEditor,
 };
