@@ -6,6 +6,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { analyticSolution } from '../common/src/circuits/transient';
+import { evaluateSheet, type TransientResult } from '../common/src/index';
 import type { Network, NetworkElement } from '../common/src/network/model';
 import { networkTransient } from '../common/src/network/transient';
 import { ngspiceTransient, type TransientRun } from './ngspice';
@@ -120,5 +121,21 @@ describe('network switching transients against the series-RLC closed form', () =
     // The first current peak where di/dt = 0, located from the solution: the closed form's slope vanishes there.
     const first = r.currentPeaks.L1.peak;
     expect(Math.abs(exact.i(first.t) - first.value)).toBeLessThan(1e-12 * iPeak);
+  });
+
+  it('a series RLC energised by a switch gives the transient cell’s own peaks to 1e-12 (the same circuit as a transient cell)', () => {
+    const r = networkTransient(SERIES_RLC, { span: 0.04, points: 801, tolerance: 1e-13 });
+    const cell = evaluateSheet({
+      cells: [
+        { kind: 'transient', R: '2 ohm', L: '20 mH', C: '100 uF', source: 'sqrt(2) * 230 V * cos(2 pi * 50 Hz * t + 0.3 rad)', span: '40 ms', points: 801 },
+      ],
+    }).cells[0] as TransientResult;
+    expect(cell.errors).toEqual([]);
+    const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
+    const peaks = cell.peaks!;
+    expect(rel(r.currentPeaks.L1.peak.value, peaks.current.peak.value.si as number)).toBeLessThan(1e-12);
+    expect(rel(r.currentPeaks.L1.peak.t, peaks.current.peak.time.si as number)).toBeLessThan(1e-9);
+    expect(rel(r.nodePeaks.n4.max.value, peaks.capacitorVoltage.max.value.si as number)).toBeLessThan(1e-12);
+    expect(rel(r.nodePeaks.n4.min.value, peaks.capacitorVoltage.min.value.si as number)).toBeLessThan(1e-12);
   });
 });

@@ -6,6 +6,7 @@
  * 1e-9 of the largest value of the solution, for values that are zero in one and rounding in the other).
  */
 import { describe, expect, it } from 'vitest';
+import { evaluateSheet } from '../common/src/index';
 import { drivingPointImpedance, frequencyScan, harmonicFlow, prepare, steadyState, type Complex } from '../common/src/network/ac';
 import { ngspiceAc } from './ngspice';
 import { NETWORKS } from './networks';
@@ -67,6 +68,20 @@ describe('the network cell against hand formulas', () => {
       const expected = { re: (230 * z.re) / d, im: (-230 * z.im) / d };
       const i = s.elements.R1.current;
       expect(Math.hypot(i.re - expected.re, i.im - expected.im) / abs(expected)).toBeLessThan(1e-12);
+    }
+  });
+
+  it('a series RLC written as a network has the impedance of the engine’s impedance_RLC to 1e-12 (E over the current it draws)', () => {
+    const network = NETWORKS['single series RLC'];
+    for (const f of [20, 50, 112.54, 400]) {
+      const calc = evaluateSheet({ cells: [{ kind: 'calc', source: `Z = impedance_RLC(2 ohm, 20 mH, 100 uF, ${f} Hz)` }] }).cells[0] as {
+        values: Record<string, { si: { re: number; im: number } }>;
+      };
+      const zCell = calc.values.Z.si;
+      const i = steadyState(prepare(network), f).elements.R1.current;
+      const d = i.re * i.re + i.im * i.im;
+      const z = { re: (230 * i.re) / d, im: (-230 * i.im) / d };
+      expect(Math.hypot(z.re - zCell.re, z.im - zCell.im) / Math.hypot(zCell.re, zCell.im)).toBeLessThan(1e-12);
     }
   });
 

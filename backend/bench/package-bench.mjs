@@ -8,30 +8,12 @@ import { join } from 'node:path';
 import { createRequire } from 'node:module';
 
 const require = createRequire(import.meta.url);
-const { evaluateSheet, ENGINE_VERSION } = require('@ampwright/common');
 const { buildPackagePdf } = require('../dist/packages/package-pdf.js');
+const { sampleSnapshot } = require('../dist/packages/sample-snapshot.js');
 const { makeSelfSignedP12, signPdf } = require('../dist/packages/signing.js');
 const PDFDocument = require('pdfkit');
 
-function snapshotOf(cells) {
-  const results = evaluateSheet({ cells }).cells;
-  const now = '2026-01-01T00:00:00.000Z';
-  return {
-    format: 'ampwright.revision/1',
-    revision: { code: 'A', number: 1 },
-    firm: 'Bench Firm',
-    project: { jobNumber: 'B-1', title: 'Bench project', clientOrganisation: 'Bench client', site: 'Bench site' },
-    sheetNumber: 'C-1',
-    sheet: { format: 'ampwright.sheet/1', title: 'Bench sheet', cells },
-    cellIds: cells.map((_, i) => `00000000-0000-4000-8000-${String(i).padStart(12, '0')}`),
-    results,
-    engineVersion: ENGINE_VERSION,
-    people: { preparedBy: 'P', checkedBy: 'C', approvedBy: 'A' },
-    dates: { checkRequestedAt: now, checkedAt: now, approvedAt: now, issuedAt: now },
-    queries: [],
-    attachments: [],
-  };
-}
+const snapshotOf = (cells) => sampleSnapshot({ title: 'Bench sheet', cells });
 
 const cells = [];
 for (let k = 0; k < 27; k++) {

@@ -94,3 +94,6 @@ export {
 } from './api/error-codes';
 export type { Plot, PlotAxis, PlotData } from './plot/charts';
 export { ELEMENT_VALUES, NETWORK_CONVENTIONS } from './cells/network-labels';
+export { prepare as prepareNetwork, steadyState, frequencyScan, harmonicFlow } from './network/ac';
+export { networkTransient } from './network/transient';
+export type { Network, NetworkElement } from './network/model';

@@ -274,13 +274,17 @@ export function evaluateNetworkCell(cell: NetworkCell, cellIndex: number, scope:
         columns: ['quantity', 'highest', 'lowest', 'largest magnitude'],
         rows,
       });
+      // The series in the order the chart takes them: the switches' currents first, then the largest peaks.
+      const size = (p: Peaks) => Math.abs(p.peak.value);
+      const currents = elements
+        .filter((e) => e.kind !== 'injection')
+        .sort((x, y) => Number(y.kind === 'switch') - Number(x.kind === 'switch') || size(run.currentPeaks[y.name]) - size(run.currentPeaks[x.name]));
+      const voltages = Object.keys(run.nodes).sort((x, y) => size(run.nodePeaks[y]) - size(run.nodePeaks[x]));
       result.transient = {
         time: { name: 't', unit: 's', values: run.t },
         series: [
-          ...elements
-            .filter((e) => e.kind !== 'resistor' && e.kind !== 'injection')
-            .map((e) => ({ name: `i(${e.name})`, unit: 'A', values: run.currents[e.name] })),
-          ...Object.keys(run.nodes).map((n) => ({ name: `v(${n})`, unit: 'V', values: run.nodes[n] })),
+          ...currents.map((e) => ({ name: `i(${e.name})`, unit: 'A', values: run.currents[e.name] })),
+          ...voltages.map((n) => ({ name: `v(${n})`, unit: 'V', values: run.nodes[n] })),
         ],
       };
     }

@@ -212,8 +212,23 @@ export interface Scan {
  * change through a pole, as in a lossless parallel resonance, is located the same way).
  */
 export function frequencyScan(p: PreparedNetwork, node: string, frequencies: number[]): Scan {
+  /**
+   * Ideal branches resonating exactly at f (two tuned L–C branches in parallel, say) leave a circulating
+   * current undetermined there, though the impedance seen from the node is not: it is taken a part in 1e9 to
+   * either side, where the network has one solution.
+   */
+  const drivingPoint = (f: number): Complex => {
+    try {
+      return drivingPointImpedance(p, node, f);
+    } catch (err) {
+      if (!(err instanceof NetworkError)) throw err;
+      const below = drivingPointImpedance(p, node, f * (1 - 1e-9));
+      const above = drivingPointImpedance(p, node, f * (1 + 1e-9));
+      return { re: (below.re + above.re) / 2, im: (below.im + above.im) / 2 };
+    }
+  };
   const impedances: Complex[] = [];
-  for (let k = 0; k < frequencies.length; k++) impedances.push(drivingPointImpedance(p, node, frequencies[k]));
+  for (let k = 0; k < frequencies.length; k++) impedances.push(drivingPoint(frequencies[k]));
   const resonances: Resonance[] = [];
   const f1 = p.network.frequency;
   const reactive = (z: Complex) => Math.abs(z.im) > 1e-12 * abs(z);
@@ -227,7 +242,7 @@ export function frequencyScan(p: PreparedNetwork, node: string, frequencies: num
     for (let it = 0; it < 200 && hi - lo > 1e-12 * hi; it++) {
       const mid = Math.sqrt(lo * hi);
       if (mid <= lo || mid >= hi) break;
-      const zm = drivingPointImpedance(p, node, mid);
+      const zm = drivingPoint(mid);
       if (zm.im === 0) {
         lo = hi = mid;
         break;
@@ -236,7 +251,7 @@ export function frequencyScan(p: PreparedNetwork, node: string, frequencies: num
       else hi = mid;
     }
     const f = Math.sqrt(lo * hi);
-    resonances.push({ type: rising ? 'series' : 'parallel', frequency: f, order: f / f1, impedance: drivingPointImpedance(p, node, f) });
+    resonances.push({ type: rising ? 'series' : 'parallel', frequency: f, order: f / f1, impedance: drivingPoint(f) });
   }
   return { node, frequencies, impedances, resonances };
 }

@@ -9,6 +9,7 @@
  * The algorithm is the textbook one (Golub and Van Loan, Matrix Computations, 3.4, Gaussian elimination
  * with partial pivoting; from memory).
  */
+import { checkDeadline } from '../language/deadline';
 
 export class SingularMatrixError extends Error {
   constructor(readonly unknown: number) {
@@ -33,6 +34,7 @@ export function complexLu(n: number, re: Float64Array, im: Float64Array): Comple
   const floor = scale * TINY;
   for (let i = 0; i < n; i++) perm[i] = i;
   for (let k = 0; k < n; k++) {
+    if ((k & 63) === 63) checkDeadline(true);
     let p = k;
     let best = -1;
     for (let i = k; i < n; i++) {
@@ -138,6 +140,7 @@ export function realLu(n: number, a: Float64Array): RealLu {
   const floor = scale * TINY;
   for (let i = 0; i < n; i++) perm[i] = i;
   for (let k = 0; k < n; k++) {
+    if ((k & 63) === 63) checkDeadline(true);
     let p = k;
     for (let i = k + 1; i < n; i++) if (Math.abs(a[i * n + k]) > Math.abs(a[p * n + k])) p = i;
     if (!(Math.abs(a[p * n + k]) > floor)) throw new SingularMatrixError(k);

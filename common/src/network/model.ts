@@ -106,6 +106,8 @@ const nonNegative = (x: number) => Number.isFinite(x) && x >= 0;
 export const MAX_ORDER = 50;
 /** Elements in one network cell. */
 export const MAX_ELEMENTS = 2000;
+/** Unknowns (node voltages and branch currents) one network may have: a dense matrix of 1000² complex numbers is 16 MB. */
+export const MAX_UNKNOWNS = 1000;
 
 function checkValues(el: NetworkElement): void {
   const at = `row ${el.row} (${el.name})`;
@@ -294,5 +296,9 @@ export function topologyOf(network: Network, { switchesClosed = true }: { switch
     branchIndex.set(k, unknownNames.length);
     unknownNames.push(`the current of ${el.name}`);
   });
+  if (unknownNames.length > MAX_UNKNOWNS)
+    throw new NetworkError(
+      `the network has ${nodes.length} nodes and ${branchIndex.size} branch currents to solve for; at most ${MAX_UNKNOWNS} together are solved in a sheet`,
+    );
   return { nodeIndex, nodes, branchIndex, unknownNames, size: unknownNames.length };
 }

@@ -131,12 +131,13 @@ export function sweepPlot(result: SweepResult, options: ChartOptions = {}): Plot
         );
     out.push(...drawAxes(frame, x, y, axisLabel(v.name, v.unit), label));
     const [lo, hi] = x.domain() as [number, number];
-    for (const m of options.markers ?? []) {
-      if (!(m.at >= Math.min(lo, hi) && m.at <= Math.max(lo, hi))) continue;
+    (options.markers ?? []).forEach((m, k) => {
+      if (!(m.at >= Math.min(lo, hi) && m.at <= Math.max(lo, hi))) return;
       const xm = x(m.at);
       out.push(el('line', { x1: xm, x2: xm, y1: top, y2: top + panelH, stroke: PLOT_COLOURS.copper, 'stroke-width': 1, 'stroke-dasharray': '4 3' }));
-      if (!panel.phase) out.push(text(xm + 3, top + 10, m.label, { 'font-size': 9, fill: PLOT_COLOURS.copper }));
-    }
+      // Labels one under another, so that resonances close together stay readable.
+      if (!panel.phase) out.push(text(xm + 3, top + 11 + 11 * (k % 6), m.label, { 'font-size': 9, fill: PLOT_COLOURS.copper }));
+    });
     ys.forEach((vals, i) => out.push(el('path', { d: path(v.values, vals, x, y), fill: 'none', stroke: TRACE[i % TRACE.length], 'stroke-width': 1.6 })));
     if (panel.series.length > 1)
       out.push(

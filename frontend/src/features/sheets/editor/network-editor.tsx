@@ -155,6 +155,13 @@ export function NetworkEditor(p: KindEditorProps) {
           </tbody>
         </Box>
       </Box>
+      {p.errors.length > 0 && (
+        <Box sx={{ color: palette.fail, fontSize: 13 }} data-testid="network-errors">
+          {p.errors.map((d, k) => (
+            <div key={k}>{d.message}</div>
+          ))}
+        </Box>
+      )}
       <Box>
         <Button
           size="small"
