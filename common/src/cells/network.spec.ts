@@ -150,5 +150,18 @@ describe('the network cell', () => {
       );
       expect(e.message).toMatch(/row 2 \(C1\), row 3 \(S1\), row 4 \(C2\) form a loop of capacitors.*once the switches close at 0\.001 s/);
     });
+    it('a network too large to solve in a sheet (more than 1000 unknowns), before any matrix is made', () => {
+      const chain: Row[] = [['V1', 'source', 'n0', 'gnd', '230 V']];
+      for (let k = 1; k <= 1001; k++) chain.push([`R${k}`, 'resistor', `n${k - 1}`, `n${k}`, '1 ohm']);
+      chain.push(['G', 'resistor', 'n1001', 'gnd', '1 kohm']);
+      const e = refusal(rows(...chain));
+      expect(e.message).toMatch(/1002 nodes and 1 branch currents to solve for; at most 1000/);
+    });
+    it('a transient that would keep more values than allowed (quantities × points)', () => {
+      const ladder: Row[] = [['V1', 'source', 'n0', 'gnd', '230 V', '1 ohm']];
+      for (let k = 1; k <= 100; k++) ladder.push([`L${k}`, 'inductor', `n${k - 1}`, `n${k}`, '1 mH'], [`C${k}`, 'capacitor', `n${k}`, 'gnd', '10 uF']);
+      const e = refusal(rows(...ladder), { analysis: 'transient', span: '5 ms', points: 20000 });
+      expect(e.message).toMatch(/302 quantities at 20000 points, more than 4,000,000 values: ask for fewer points/);
+    });
   });
 });

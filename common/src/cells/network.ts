@@ -274,7 +274,7 @@ export function evaluateNetworkCell(cell: NetworkCell, cellIndex: number, scope:
         columns: ['quantity', 'highest', 'lowest', 'largest magnitude'],
         rows,
       });
-      // The series in the order the chart takes them: the switches' currents first, then the largest peaks.
+      // The series the chart draws: the switches' currents first, then the largest peaks.
       const size = (p: Peaks) => Math.abs(p.peak.value);
       const currents = elements
         .filter((e) => e.kind !== 'injection')
@@ -282,9 +282,10 @@ export function evaluateNetworkCell(cell: NetworkCell, cellIndex: number, scope:
       const voltages = Object.keys(run.nodes).sort((x, y) => size(run.nodePeaks[y]) - size(run.nodePeaks[x]));
       result.transient = {
         time: { name: 't', unit: 's', values: run.t },
+        // Only what the chart draws is kept with the result: four currents and four voltages.
         series: [
-          ...currents.map((e) => ({ name: `i(${e.name})`, unit: 'A', values: run.currents[e.name] })),
-          ...voltages.map((n) => ({ name: `v(${n})`, unit: 'V', values: run.nodes[n] })),
+          ...currents.slice(0, 4).map((e) => ({ name: `i(${e.name})`, unit: 'A', values: run.currents[e.name] })),
+          ...voltages.slice(0, 4).map((n) => ({ name: `v(${n})`, unit: 'V', values: run.nodes[n] })),
         ],
       };
     }

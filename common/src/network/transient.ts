@@ -23,6 +23,9 @@ import { harmonicFlow, prepare } from './ac';
 import { SingularMatrixError, realLu, realSolve, type RealLu } from './lu';
 import { NetworkError, seriesBranch, type Network, type NetworkElement, type SeriesBranch } from './model';
 
+/** The most values (quantities × points) one transient keeps: 32 MB of samples. */
+export const MAX_SAMPLES = 4_000_000;
+
 export interface TransientOptions {
   span: number;
   points: number;
@@ -343,6 +346,10 @@ export function networkTransient(network: Network, options: TransientOptions): N
     return out;
   };
 
+  if (nOutputs * points > MAX_SAMPLES)
+    throw new NetworkError(
+      `the transient would keep ${nOutputs} quantities at ${points} points, more than ${MAX_SAMPLES.toLocaleString('en')} values: ask for fewer points`,
+    );
   const t = Array.from({ length: points }, (_, k) => (span * k) / (points - 1));
   const samples = Array.from({ length: nOutputs }, () => new Array<number>(points));
   const extrema: Extremum[][] = Array.from({ length: nOutputs }, () => []);
