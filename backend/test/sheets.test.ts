@@ -303,6 +303,46 @@ describe('projects and sheets', () => {
     expect(last.cells.at(-1).results).toMatchObject({ kind: 'check', pass: true });
   });
 
+  it('evaluates a network cell on save, hands its results to a check below, and names the row of a bad node', async () => {
+    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'N-110', title: 'Network' }).expect(201);
+    const id = created.body.id;
+    const elements = [
+      { name: 'Grid', kind: 'supply', a: 'B', b: 'gnd', values: ['11 kV', '250 MVA', '20'] },
+      { name: 'Bank', kind: 'capacitor', a: 'B', b: 'gnd', values: ['80 uF'] },
+      { name: 'Drive', kind: 'injection', a: 'gnd', b: 'B', values: ['[1, 5, 7]', '[100 A, 20 A, 14 A]'] },
+    ];
+    const net = await as(app, engineer, 'post', `/api/sheets/${id}/cells`)
+      .send({ version: 1, position: 0, cell: { kind: 'network', frequency: '50 Hz', reference: 'gnd', analysis: 'harmonics', elements } })
+      .expect(201);
+    expect(net.body.changed[0].results).toMatchObject({ kind: 'network', status: 'ok', harmonics: { orders: [5, 7] } });
+    expect(net.body.changed[0].results.values.THD_B.si).toBeGreaterThan(0);
+    const check = await as(app, engineer, 'post', `/api/sheets/${id}/cells`)
+      .send({ version: 2, position: 1, cell: { kind: 'check', condition: 'THD_B <= 5 %', basis: 'IEEE Std 519-2014, Table 1' } })
+      .expect(201);
+    expect(check.body.changed[0].results).toMatchObject({ kind: 'check', pass: true });
+    const bad = await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${net.body.changed[0].id}`)
+      .send({
+        version: 3,
+        cell: {
+          kind: 'network',
+          frequency: '50 Hz',
+          reference: 'gnd',
+          analysis: 'harmonics',
+          elements: [...elements.slice(0, 2), { ...elements[2], b: 'Bx' }],
+        },
+      })
+      .expect(200);
+    const results = bad.body.changed.find((c: { id: string }) => c.id === net.body.changed[0].id).results;
+    expect(results.errors[0]).toMatchObject({ line: 3, message: expect.stringMatching(/node Bx is joined only by row 3 \(Drive\)/) });
+    // The check below no longer has THD_B, and says so rather than keep the old outcome.
+    expect(bad.body.changed.find((c: { id: string }) => c.id === check.body.changed[0].id).results.status).toBe('error');
+    // A kind of element the format does not know is refused, naming the field.
+    await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${net.body.changed[0].id}`)
+      .send({ version: 4, cell: { kind: 'network', frequency: '50 Hz', reference: 'gnd', analysis: 'steady', elements: [{ ...elements[0], kind: 'diode' }] } })
+      .expect(400)
+      .expect((res) => expect(res.body).toMatchObject({ code: 'INVALID_CELL', details: [{ field: 'cell.elements.0.kind' }] }));
+  });
+
   it('turns a CSV upload into a table cell, and stores nothing when a row is bad or the file is not text', async () => {
     const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'C-107', title: 'Spectrum' }).expect(201);
     const id = created.body.id;
