@@ -94,7 +94,7 @@ export function NetworkEditor(p: KindEditorProps) {
                   <td>
                     <select
                       aria-label={`Row ${i + 1} kind`}
-                      style={cellInput}
+                      style={{ ...cellInput, minWidth: 112 }}
                       value={e.kind}
                       onChange={(x) => setRow(i, { kind: x.target.value as NetworkElementRow['kind'], values: [] })}
                     >
