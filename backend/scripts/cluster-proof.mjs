@@ -137,8 +137,9 @@ main(async () => {
 
   // Every node in sync, then each asked for every acknowledged save, and for a checksum of the tables.
   at('waiting for every node to be Synced');
+  // A node that has just rejoined may still be applying what it received; on a slow machine that takes a while.
   await waitFor(() => NODES.every((node) => nodeState(node).state === 'Synced'), {
-    timeoutMs: 120000,
+    timeoutMs: 300000,
     intervalMs: 250,
     what: () => `every node to be Synced (${NODES.map((node) => `${node.name}: ${nodeState(node).state ?? 'no answer'}`).join(', ')})`,
   });
