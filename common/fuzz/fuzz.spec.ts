@@ -8,7 +8,8 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { evaluateSheet } from '../src/cells/evaluate-sheet';
 import type { CellResult } from '../src/cells/types';
-import { doublingSheet, hostileSheet } from './hostile-expressions';
+import { runWithDeadline } from '../src/language/deadline';
+import { doublingSheet, hostileNetworkSheet, hostileSheet } from './hostile-expressions';
 
 const RUNS = Number(process.env.FUZZ_RUNS ?? 10_000);
 const SEED = process.env.FUZZ_SEED === 'random' ? Date.now() % 2 ** 31 : Number(process.env.FUZZ_SEED ?? 20261202);
@@ -64,4 +65,17 @@ describe('fuzzing the language', () => {
       { numRuns: 40, seed: SEED },
     );
   });
+
+  it('evaluates generated hostile network cells with clear messages, or stops them at the deadline (fixed seed)', () => {
+    fc.assert(
+      fc.property(hostileNetworkSheet, (sheet) => {
+        const started = performance.now();
+        // As the server runs it: with its 2 s deadline, past which the sheet is stopped with a sentence.
+        const run = runWithDeadline(Date.now() + DEADLINE_MS, () => evaluateSheet(sheet as never));
+        expect(performance.now() - started, 'long past the deadline').toBeLessThan(DEADLINE_MS + 1000);
+        if (!run.passed) expect(problems(run.value.cells)).toEqual([]);
+      }),
+      { numRuns: Number(process.env.FUZZ_NETWORK_RUNS ?? 400), seed: SEED },
+    );
+  }, 600_000);
 });

@@ -182,3 +182,67 @@ export const hostileSheet = fc.tuple(fc.array(hostileSource, { minLength: 1, max
     { kind: 'check' as const, condition },
   ],
 }));
+
+/** Values that fit each kind of element (most of the time), or not. */
+const FITTING: Record<string, string[][]> = {
+  resistor: [['10 ohm', '0.5 ohm', '1 kohm', '1e-6 ohm', '1e6 ohm']],
+  inductor: [['1 mH', '20 mH', '1 uH', '10 H']],
+  capacitor: [['10 uF', '100 uF', '1 nF', '1 F']],
+  source: [
+    ['230 V', 'phasor(230 V, -30 deg)', '11 kV'],
+    ['', '0.1 ohm', '0.1 ohm + j 1 ohm', 'j 2 ohm', '-j 1 ohm'],
+  ],
+  supply: [
+    ['400 V', '11 kV'],
+    ['250 MVA', '10 MVA'],
+    ['10', '0', '1e6'],
+  ],
+  transformer: [['1.6 MVA'], ['6 %', '0 %', '120 %'], ['8', '0'], ['400 V']],
+  injection: [['[1, 5, 7]'], ['[10 A, 2 A, 1 A]', '[0 A, 2 A, 1 A]'], ['', '[0 deg, 30 deg, 10 deg]']],
+  switch: [['5 ms', '0 s', '1 s', '-1 s']],
+};
+const hostileValue = fc.oneof(fc.constantFrom('', '0', '-1 ohm', '1e308 ohm', 'R + 1', 'x'), expr, extreme);
+const NETWORK_KINDS = ['resistor', 'inductor', 'capacitor', 'source', 'supply', 'transformer', 'injection', 'switch'] as const;
+const networkElement = fc.constantFrom(...NETWORK_KINDS).chain((kind) =>
+  fc.record({
+    // Numbered in order below; now and then a bad or repeated name.
+    name: fc.oneof({ weight: 12, arbitrary: fc.constant('') }, { weight: 1, arbitrary: fc.constantFrom('A', 'x_1', 'E1', '') }),
+    kind: fc.constant(kind),
+    a: fc.oneof({ weight: 9, arbitrary: fc.constantFrom('A', 'B', 'C', 'gnd') }, { weight: 1, arbitrary: fc.constantFrom('Ax', '') }),
+    b: fc.constantFrom('A', 'B', 'C', 'gnd', 'gnd'),
+    values: fc.tuple(
+      ...FITTING[kind].map((pool) => fc.oneof({ weight: 12, arbitrary: fc.constantFrom(...pool) }, { weight: 1, arbitrary: hostileValue })),
+    ) as fc.Arbitrary<string[]>,
+  }),
+);
+
+/** A network cell with a few elements between a few nodes, any analysis, and a check of one of its names below. */
+export const hostileNetworkSheet = fc
+  .tuple(
+    fc.array(networkElement, { minLength: 1, maxLength: 7 }),
+    fc.constantFrom('steady', 'scan', 'harmonics', 'transient'),
+    fc.record({
+      frequency: fc.oneof(
+        { weight: 8, arbitrary: fc.constantFrom('50 Hz', '60 Hz') },
+        { weight: 1, arbitrary: fc.constantFrom('0 Hz', '2 pi 50 Hz', '50', '') },
+      ),
+      node: fc.constantFrom('A', 'B', 'A', 'B', 'gnd', 'Z'),
+      from: fc.oneof({ weight: 8, arbitrary: fc.constant('10 Hz') }, { weight: 1, arbitrary: fc.constantFrom('0 Hz', '2 kHz') }),
+      to: fc.oneof({ weight: 8, arbitrary: fc.constant('2.5 kHz') }, { weight: 1, arbitrary: fc.constantFrom('10 Hz', '1e12 Hz') }),
+      points: fc.integer({ min: 2, max: 3000 }),
+      span: fc.oneof({ weight: 8, arbitrary: fc.constantFrom('10 ms', '40 ms') }, { weight: 1, arbitrary: fc.constantFrom('0 s', '1 s', '1e9 s') }),
+    }),
+  )
+  .map(([elements, analysis, settings]) => ({
+    cells: [
+      { kind: 'calc' as const, source: 'R = 5 ohm' },
+      {
+        kind: 'network' as const,
+        reference: 'gnd',
+        analysis,
+        ...settings,
+        elements: elements.map((e, k) => ({ ...e, name: e.name || `E${k + 1}` })),
+      },
+      { kind: 'check' as const, condition: 'THD_A <= 5 %' },
+    ],
+  }));

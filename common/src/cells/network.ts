@@ -55,11 +55,12 @@ export function evaluateNetworkCell(cell: NetworkCell, cellIndex: number, scope:
       throw new EngineError(`${what}: ${(err as Error).message}`, row, 1);
     }
   };
-  const quantityIn = <T>(convert: () => T, what: string, row: number): T => {
+  /** A conversion of a value; its message already names what it is (`row 2 (C1), C must be a capacitance`). */
+  const quantityIn = <T>(convert: () => T, _what: string, row: number): T => {
     try {
       return convert();
     } catch (err) {
-      throw new EngineError(`${what}: ${(err as Error).message}`, row, 1);
+      throw new EngineError((err as Error).message, row, 1);
     }
   };
   const realOf = (text: string | undefined, dim: Dimension, what: string, row = 1) => {
