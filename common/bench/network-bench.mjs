@@ -42,9 +42,16 @@ function plainImpedance(network, probe, f) {
   const stamp = (a, b, yr, yi) => {
     const i = index.get(a) ?? -1;
     const j = index.get(b) ?? -1;
-    if (i >= 0) ((re[i * n + i] += yr), (im[i * n + i] += yi));
-    if (j >= 0) ((re[j * n + j] += yr), (im[j * n + j] += yi));
-    if (i >= 0 && j >= 0) ((re[i * n + j] -= yr), (im[i * n + j] -= yi), (re[j * n + i] -= yr), (im[j * n + i] -= yi));
+    const add = (r, c, sr, si) => {
+      re[r * n + c] += sr;
+      im[r * n + c] += si;
+    };
+    if (i >= 0) add(i, i, yr, yi);
+    if (j >= 0) add(j, j, yr, yi);
+    if (i >= 0 && j >= 0) {
+      add(i, j, -yr, -yi);
+      add(j, i, -yr, -yi);
+    }
   };
   for (const e of network.elements) {
     if (e.kind === 'resistor') stamp(e.a, e.b, 1 / e.R, 0);
@@ -61,8 +68,14 @@ function plainImpedance(network, probe, f) {
     }
     const i = index.get(e.a) ?? -1;
     const j = index.get(e.b) ?? -1;
-    if (i >= 0) ((re[i * n + m] += 1), (re[m * n + i] += 1));
-    if (j >= 0) ((re[j * n + m] -= 1), (re[m * n + j] -= 1));
+    if (i >= 0) {
+      re[i * n + m] += 1;
+      re[m * n + i] += 1;
+    }
+    if (j >= 0) {
+      re[j * n + m] -= 1;
+      re[m * n + j] -= 1;
+    }
     re[m * n + m] -= R;
     im[m * n + m] -= w * L;
   });

@@ -188,6 +188,23 @@ describe('the sheet editor in a real browser', () => {
     await expect.poll(() => readout.textContent()).not.toBe(before);
     await page.getByRole('button', { name: 'Whole range' }).click();
     await page.getByTestId('chart-range').waitFor({ state: 'hidden' });
+    // By keyboard: the chart is a slider over its points; + zooms in around the point read, the Pan buttons
+    // move the range, − zooms out, Escape shows the whole range.
+    const slider = page.getByRole('slider', { name: 'Frequency response: point read' });
+    await slider.focus();
+    await page.keyboard.press('Home');
+    await expect.poll(() => readout.textContent()).toMatch(/^\w+ = [\d.e+-]+ Hz · /);
+    const first = await readout.textContent();
+    await page.keyboard.press('Shift+ArrowRight');
+    await expect.poll(() => readout.textContent()).not.toBe(first);
+    expect(await slider.getAttribute('aria-valuenow')).toBe('10');
+    await page.keyboard.press('+');
+    const zoomed = await page.getByTestId('chart-range').textContent();
+    await page.getByRole('button', { name: 'Pan to higher values' }).click();
+    await expect.poll(() => page.getByTestId('chart-range').textContent()).not.toBe(zoomed);
+    await slider.focus();
+    await page.keyboard.press('Escape');
+    await page.getByTestId('chart-range').waitFor({ state: 'hidden' });
     // The series plotted, as CSV with a unit in each column's name.
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Export as CSV' }).click()]);
     const csv = await (await download.createReadStream()).toArray();

@@ -1,7 +1,9 @@
 /**
  * A chart of series (a sweep, a transient) that can be read and zoomed: the values of every series at the
  * point under the pointer, with their units; a drag across the chart zooms to that range, Zoom in to its
- * middle half, Whole range back; Export as CSV saves the series plotted. The picture is common/plot's,
+ * middle half, Whole range back; Export as CSV saves the series plotted. By keyboard the chart is a slider
+ * over its points: ← → move the read-out (with Shift ten points), Home and End go to the ends, + and − zoom
+ * in and out around the point read, Escape shows the whole range; the Pan buttons move a zoomed range. The picture is common/plot's,
  * drawn again for a range by the block's `redraw` — the package prints the whole range.
  */
 import { Box, Button, Stack, Typography } from '@mui/material';
@@ -39,12 +41,17 @@ export function plotCsv(plot: PlotData): string {
 }
 
 export function ChartFigure({ block }: { block: Figure }) {
-  const [range, setRange] = useState<[number, number] | null>(null);
+  const [range, setShownRange] = useState<[number, number] | null>(null);
   const drawn = useMemo(() => (range && block.redraw ? block.redraw(range) : null), [range, block]);
   const svg = drawn?.svg ?? block.svg;
   const plot = drawn?.data ?? block.plot!;
   const host = useRef<HTMLDivElement>(null);
   const [at, setAt] = useState<number | null>(null);
+  /** Another range drawn: its points are others, so the read-out starts again. */
+  const setRange = (next: [number, number] | null) => {
+    setAt(null);
+    setShownRange(next);
+  };
   const dragFrom = useRef<{ fraction: number; clientX: number } | null>(null);
 
   /** Where the pointer is across the plot area, 0 to 1 (null: outside it). */
@@ -71,7 +78,39 @@ export function ChartFigure({ block }: { block: Figure }) {
     if (!from || f === null || Math.abs(e.clientX - from.clientX) < 8) return;
     setRange([valueAt(plot, Math.min(from.fraction, f)), valueAt(plot, Math.max(from.fraction, f))]);
   };
-  const zoomIn = () => setRange([valueAt(plot, 0.25), valueAt(plot, 0.75)]);
+  const whole = block.plot!.domain;
+  /** A range `scale` times the one shown, centred on `centre` (a value of the variable), kept inside the whole range. */
+  const zoomAround = (centre: number, scale: number) => {
+    const [w0, w1] = whole;
+    const [d0, d1] = plot.domain;
+    const span = plot.log ? Math.log(d1 / d0) * scale : (d1 - d0) * scale;
+    if (span >= (plot.log ? Math.log(w1 / w0) : w1 - w0)) return setRange(null);
+    let lo = plot.log ? Math.log(centre) - span / 2 : centre - span / 2;
+    lo = Math.max(plot.log ? Math.log(w0) : w0, Math.min(lo, (plot.log ? Math.log(w1) : w1) - span));
+    setRange(plot.log ? [Math.exp(lo), Math.exp(lo + span)] : [lo, lo + span]);
+  };
+  const centreValue = () => (at !== null ? plot.x.values[at] : valueAt(plot, 0.5));
+  const zoomIn = () => zoomAround(centreValue(), 0.5);
+  /** Moves a zoomed range by half its width, within the whole range. */
+  const pan = (direction: -1 | 1) => zoomAround(valueAt(plot, 0.5 + direction * 0.5), 1);
+  const onKey = (e: React.KeyboardEvent) => {
+    const last = plot.x.values.length - 1;
+    const step = e.shiftKey ? 10 : 1;
+    const moves: Record<string, () => void> = {
+      ArrowLeft: () => setAt(Math.max(0, (at ?? 0) - step)),
+      ArrowRight: () => setAt(Math.min(last, (at ?? -1) + step)),
+      Home: () => setAt(0),
+      End: () => setAt(last),
+      '+': zoomIn,
+      '=': zoomIn,
+      '-': () => zoomAround(centreValue(), 2),
+      Escape: () => setRange(null),
+    };
+    const move = moves[e.key];
+    if (!move) return;
+    e.preventDefault();
+    move();
+  };
   const exportCsv = () => {
     const url = URL.createObjectURL(new Blob([plotCsv(plot)], { type: 'text/csv' }));
     const a = document.createElement('a');
@@ -82,7 +121,7 @@ export function ChartFigure({ block }: { block: Figure }) {
   };
   const readout =
     at === null
-      ? 'Point at the chart to read its values; drag across it to zoom.'
+      ? 'Point at the chart to read its values (or focus it and use ← →); drag across it to zoom.'
       : [`${plot.x.name} = ${withUnit(plot.x.values[at], plot.x.unit)}`, ...plot.series.map((s) => `${s.name} = ${withUnit(s.values[at], s.unit)}`)].join(
           ' · ',
         );
@@ -94,7 +133,15 @@ export function ChartFigure({ block }: { block: Figure }) {
         onPointerLeave={() => setAt(null)}
         onPointerDown={onDown}
         onPointerUp={onUp}
-        sx={{ cursor: 'crosshair', touchAction: 'pan-y', userSelect: 'none' }}
+        tabIndex={0}
+        role="slider"
+        aria-label={`${block.label}: point read`}
+        aria-valuemin={0}
+        aria-valuemax={plot.x.values.length - 1}
+        aria-valuenow={at ?? 0}
+        aria-valuetext={readout}
+        onKeyDown={onKey}
+        sx={{ cursor: 'crosshair', touchAction: 'pan-y', userSelect: 'none', '&:focus-visible': { outline: '2px solid', outlineOffset: 2 } }}
       >
         <SvgFigure svg={svg} label={block.label} />
       </Box>
@@ -104,6 +151,15 @@ export function ChartFigure({ block }: { block: Figure }) {
       <Stack direction="row" spacing={1} sx={{ flexWrap: 'wrap' }} role="group" aria-label={`${block.label}: zoom and export`}>
         <Button size="small" onClick={zoomIn}>
           Zoom in
+        </Button>
+        <Button size="small" onClick={() => zoomAround(centreValue(), 2)} disabled={!range}>
+          Zoom out
+        </Button>
+        <Button size="small" onClick={() => pan(-1)} disabled={!range} aria-label="Pan to lower values">
+          ← Pan
+        </Button>
+        <Button size="small" onClick={() => pan(1)} disabled={!range} aria-label="Pan to higher values">
+          Pan →
         </Button>
         <Button size="small" onClick={() => setRange(null)} disabled={!range}>
           Whole range
