@@ -6,7 +6,7 @@ import { NestExpressApplication } from '@nestjs/platform-express';
 import cookieParser from 'cookie-parser';
 import helmet from 'helmet';
 import { AppModule } from './app.module';
-import type { NextFunction, Request, Response } from 'express';
+import { json, type NextFunction, type Request, type Response } from 'express';
 import { createLogger } from './core/logger';
 import { assignRequestId } from './core/middleware/request-id';
 import { describeApi } from './core/openapi';
@@ -35,6 +35,9 @@ export function configureApp(app: INestApplication): INestApplication {
     }
     next();
   });
+  // A cell's body may carry a table of up to 200 000 values (TABLE_MAX_VALUES): the routes that save a cell
+  // read up to 8 MB of JSON; every other route 2 MB. The second parser passes over a body already read.
+  express.use(/^\/api\/sheets\/[^/]+\/cells(\/[^/]+)?$/, json({ limit: '8mb' }));
   express.useBodyParser('json', { limit: '2mb' });
   // Body-parser failures become our own exceptions here, before Nest rewraps them with the parser's wording.
   express.use((err: unknown, _req: Request, _res: Response, next: NextFunction) => next(bodyParserError(err) ?? err));

@@ -303,6 +303,28 @@ describe('projects and sheets', () => {
     expect(last.cells.at(-1).results).toMatchObject({ kind: 'check', pass: true });
   });
 
+  it('saves back an edited table of 20 000 rows × 10 columns (a body of several MB), and refuses one over 200 000 values naming the limit', async () => {
+    const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'T-200', title: 'Wide table' }).expect(201);
+    const id = created.body.id;
+    const columns = Array.from({ length: 10 }, (_, j) => ({ name: `c${j}`, unit: 'A' }));
+    // Seventeen significant digits a value: about 4 MB of JSON, more than the 2 MB other routes take.
+    const rows = Array.from({ length: 20_000 }, (_, i) => columns.map((_c, j) => (i + 1) * (j + 1) * 1.0000000000000002 + 0.123456789012345));
+    const added = await as(app, engineer, 'post', `/api/sheets/${id}/cells`)
+      .send({ version: 1, position: 0, cell: { kind: 'table', columns, rows } })
+      .expect(201);
+    rows[19_999][9] = 7.5;
+    const edited = await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${added.body.changed[0].id}`)
+      .send({ version: 2, cell: { kind: 'table', columns, rows } })
+      .expect(200);
+    expect(edited.body.version).toBe(3);
+    const read = await as(app, engineer, 'get', `/api/sheets/${id}`).expect(200);
+    expect(read.body.cells[0].fields.rows[19_999][9]).toBe(7.5);
+    const wider = await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${added.body.changed[0].id}`)
+      .send({ version: 3, cell: { kind: 'table', columns: [...columns, { name: 'c10' }], rows: rows.map((r) => [...r, 1]) } })
+      .expect(400);
+    expect(wider.body).toMatchObject({ code: 'INVALID_CELL', details: [{ field: 'cell.rows', message: expect.stringMatching(/at most 200,000 values/) }] });
+  });
+
   it('evaluates a network cell on save, hands its results to a check below, and names the row of a bad node', async () => {
     const created = await as(app, engineer, 'post', `/api/projects/${projectId}/sheets`).send({ number: 'N-110', title: 'Network' }).expect(201);
     const id = created.body.id;

@@ -50,6 +50,17 @@ describe('csvToTableCell with hostile files', () => {
     expect(csvToTableCell(tall)).toEqual({ ok: false, problems: [{ line: 20_002, message: 'a table holds at most 20,000 rows' }] });
   });
 
+  it('stops at 200 000 values (rows × columns), so that the table can always be saved back', () => {
+    const header = Array.from({ length: 20 }, (_, j) => `c${j}`).join(',');
+    const line = Array.from({ length: 20 }, (_, j) => String(j)).join(',');
+    const wide = [header, ...Array.from({ length: 10_001 }, () => line)].join('\n');
+    expect(csvToTableCell(wide)).toEqual({
+      ok: false,
+      problems: [{ line: 10_002, message: 'a table holds at most 200,000 values (rows × columns): with 20 columns, at most 10,000 rows' }],
+    });
+    expect(csvToTableCell([header, ...Array.from({ length: 10_000 }, () => line)].join('\n')).ok).toBe(true);
+  });
+
   it('lists the first 20 problems and counts the rest', () => {
     const r = csvToTableCell(`h\n${'x\n'.repeat(500)}`);
     expect(r.ok).toBe(false);

@@ -11,7 +11,7 @@
  */
 import Papa from 'papaparse';
 import { readDecimal, type DecimalMark } from './decimal';
-import { TABLE_MAX_COLUMNS, TABLE_MAX_ROWS, type TableCell } from './sheet-format';
+import { TABLE_MAX_COLUMNS, TABLE_MAX_ROWS, TABLE_MAX_VALUES, type TableCell } from './sheet-format';
 
 /** What the import detected in the file. */
 export interface CsvDetected {
@@ -98,6 +98,14 @@ export function csvToTableCell(input: string): CsvTableResult {
       }
       if (rows - 1 > MAX_CSV_ROWS) {
         stopped = { line, message: `a table holds at most ${MAX_CSV_ROWS.toLocaleString('en')} rows` };
+        parser.abort();
+        return;
+      }
+      if ((rows - 1) * columns.length > TABLE_MAX_VALUES) {
+        stopped = {
+          line,
+          message: `a table holds at most ${TABLE_MAX_VALUES.toLocaleString('en')} values (rows × columns): with ${columns.length} columns, at most ${Math.floor(TABLE_MAX_VALUES / columns.length).toLocaleString('en')} rows`,
+        };
         parser.abort();
         return;
       }

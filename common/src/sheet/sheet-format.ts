@@ -54,18 +54,31 @@ export const transientCellSchema = z.looseObject({
   span: text('The time span'),
   points: z.number({ error: 'points must be a number' }).int().min(2).max(20000).optional(),
 });
-/** The most rows and columns a table cell holds (a CSV import, a paste, a file). */
+/** The most rows and columns a table cell holds (a CSV import, a paste, a file), and the most values in all. */
 export const TABLE_MAX_ROWS = 20_000;
 export const TABLE_MAX_COLUMNS = 200;
-export const tableCellSchema = z.looseObject({
-  kind: z.literal('table'),
-  columns: z
-    .array(z.looseObject({ name: text('A column name'), unit: z.string().optional() }))
-    .max(TABLE_MAX_COLUMNS, `a table has at most ${TABLE_MAX_COLUMNS} columns`),
-  rows: z
-    .array(z.array(z.union([z.number(), z.string(), z.null()])).max(TABLE_MAX_COLUMNS, `a table row has at most ${TABLE_MAX_COLUMNS} values`))
-    .max(TABLE_MAX_ROWS, `a table has at most ${TABLE_MAX_ROWS.toLocaleString('en')} rows`),
-});
+/** Rows × columns: a table this size saves back in one request (under 8 MB of JSON, see the server's body limits). */
+export const TABLE_MAX_VALUES = 200_000;
+/** A value typed as text: a number as written, at most this long. */
+export const TABLE_MAX_TEXT = 32;
+export const tableCellSchema = z
+  .looseObject({
+    kind: z.literal('table'),
+    columns: z
+      .array(z.looseObject({ name: text('A column name'), unit: z.string().optional() }))
+      .max(TABLE_MAX_COLUMNS, `a table has at most ${TABLE_MAX_COLUMNS} columns`),
+    rows: z
+      .array(
+        z
+          .array(z.union([z.number(), z.string().max(TABLE_MAX_TEXT, `a table value is at most ${TABLE_MAX_TEXT} characters`), z.null()]))
+          .max(TABLE_MAX_COLUMNS, `a table row has at most ${TABLE_MAX_COLUMNS} values`),
+      )
+      .max(TABLE_MAX_ROWS, `a table has at most ${TABLE_MAX_ROWS.toLocaleString('en')} rows`),
+  })
+  .refine((t) => t.rows.length * t.rows.reduce((width, r) => Math.max(width, r.length), t.columns.length) <= TABLE_MAX_VALUES, {
+    message: `a table holds at most ${TABLE_MAX_VALUES.toLocaleString('en')} values (rows × columns)`,
+    path: ['rows'],
+  });
 export const figureCellSchema = z.looseObject({ kind: z.literal('figure'), caption: z.string().optional() });
 
 /** The most elements a network cell holds. */

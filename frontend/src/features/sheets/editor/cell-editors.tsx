@@ -1,6 +1,6 @@
 /** The editors of each kind of cell. Each edits a whole cell body and hands it to `onChange`. */
 import { Box, Button, MenuItem, Stack, TextField } from '@mui/material';
-import { TABLE_MAX_COLUMNS, TABLE_MAX_ROWS, type CellKind, type Diagnostic } from '@ampwright/common';
+import { TABLE_MAX_COLUMNS, TABLE_MAX_ROWS, TABLE_MAX_VALUES, type CellKind, type Diagnostic } from '@ampwright/common';
 import { monoFont, palette } from '../../../app/theme';
 import { TableGrid, type GridValue } from '../components/table-grid';
 import type { CellBody } from '../api/change-sheet';
@@ -237,17 +237,19 @@ export function TableEditor(p: KindEditorProps) {
       </Button>
     </Stack>
   );
+  // Rows × columns stay within what one save carries.
+  const maxRows = Math.min(TABLE_MAX_ROWS, Math.floor(TABLE_MAX_VALUES / Math.max(1, columns.length)));
   return (
     <TableGrid
       label={`${p.label} table`}
       columns={columns}
       rows={rows}
-      maxRows={TABLE_MAX_ROWS}
+      maxRows={maxRows}
       columnHeader={header}
       onSet={(row, column, block) => set(columns, setBlock(rows, columns.length, row, column, block))}
       toolbar={(sel) => (
         <Stack direction="row" spacing={1} sx={{ mt: 0.5, flexWrap: 'wrap' }}>
-          <Button size="small" onClick={() => set(columns, [...rows, columns.map(() => null)])} disabled={!columns.length || rows.length >= TABLE_MAX_ROWS}>
+          <Button size="small" onClick={() => set(columns, [...rows, columns.map(() => null)])} disabled={!columns.length || rows.length >= maxRows}>
             Add row
           </Button>
           <Button
@@ -264,7 +266,7 @@ export function TableEditor(p: KindEditorProps) {
           </Button>
           <Button
             size="small"
-            disabled={columns.length >= TABLE_MAX_COLUMNS}
+            disabled={columns.length >= TABLE_MAX_COLUMNS || rows.length * (columns.length + 1) > TABLE_MAX_VALUES}
             onClick={() =>
               set(
                 [...columns, { name: `x${columns.length + 1}` }],
