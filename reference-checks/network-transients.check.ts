@@ -7,17 +7,11 @@
 import { describe, expect, it } from 'vitest';
 import { analyticSolution } from '../common/src/circuits/transient';
 import { evaluateSheet, type TransientResult } from '../common/src/index';
-import type { Network, NetworkElement } from '../common/src/network/model';
+import type { Network } from '../common/src/network/model';
 import { networkTransient } from '../common/src/network/transient';
 import { ngspiceTransient, type TransientRun } from './ngspice';
-import { NETWORKS } from './networks';
+import { NETWORKS, network } from './networks';
 
-type Values = NetworkElement extends infer E ? (E extends NetworkElement ? Omit<E, 'row'> : never) : never;
-const network = (elements: Values[]): Network => ({
-  reference: 'gnd',
-  frequency: 50,
-  elements: elements.map((e, k) => ({ ...e, row: k + 1 }) as NetworkElement),
-});
 const w1 = 2 * Math.PI * 50;
 /** Agreement asked: 1e-4 of the peak; met to 1e-5 (ngspice's own steps of 0.2 µs keep it from 1e-6). */
 const TOL = 1e-5;

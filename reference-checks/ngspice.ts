@@ -13,12 +13,8 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import type { Complex } from '../common/src/network/ac';
 import type { Network, NetworkElement } from '../common/src/network/model';
-
-export interface Complex {
-  re: number;
-  im: number;
-}
 
 const node = (network: Network, name: string) => (name === network.reference ? '0' : `n_${name}`);
 
@@ -127,7 +123,6 @@ function simulate(elements: string[], analysis: string, vectors: string[]): numb
     ].join('\n');
     const file = join(dir, 'network.cir');
     writeFileSync(file, deck);
-    if (process.env.NGSPICE_KEEP) writeFileSync(process.env.NGSPICE_KEEP, deck);
     const r = spawnSync('ngspice', ['-b', file], { encoding: 'utf8', timeout: 120000 });
     if (r.status !== 0) throw new Error(`ngspice failed:\n${r.stdout}\n${r.stderr}`);
     const tables = groups.map((_g, k) =>

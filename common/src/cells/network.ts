@@ -55,8 +55,8 @@ export function evaluateNetworkCell(cell: NetworkCell, cellIndex: number, scope:
       throw new EngineError(`${what}: ${(err as Error).message}`, row, 1);
     }
   };
-  /** A conversion of a value; its message already names what it is (`row 2 (C1), C must be a capacitance`). */
-  const quantityIn = <T>(convert: () => T, _what: string, row: number): T => {
+  /** A conversion of a value, its failure placed on the row; its message already names what it is (`row 2 (C1), C must be a capacitance`). */
+  const onRow = <T>(row: number, convert: () => T): T => {
     try {
       return convert();
     } catch (err) {
@@ -65,7 +65,7 @@ export function evaluateNetworkCell(cell: NetworkCell, cellIndex: number, scope:
   };
   const realOf = (text: string | undefined, dim: Dimension, what: string, row = 1) => {
     const v = read(text, what, row);
-    return quantityIn(() => real(v, dim, what), what, row);
+    return onRow(row, () => real(v, dim, what));
   };
   const define = (name: string, value: unknown) => {
     scope.define(name, value, place);
@@ -77,7 +77,7 @@ export function evaluateNetworkCell(cell: NetworkCell, cellIndex: number, scope:
     const fText = cell.frequency?.trim() ? cell.frequency : '50 Hz';
     const fValue = read(fText, 'the fundamental frequency');
     if (frequencyKind(fValue) === 'angular') throw new EngineError('the fundamental frequency must be in Hz, not rad/s (divide by 2 pi)', 1, 1);
-    const frequency = quantityIn(() => real(fValue, 'frequency', 'the fundamental frequency'), 'the fundamental frequency', 1);
+    const frequency = onRow(1, () => real(fValue, 'frequency', 'the fundamental frequency'));
     const omega1 = 2 * Math.PI * frequency;
     const reference = cell.reference?.trim() || 'gnd';
     if (!PART.test(reference)) throw new EngineError(`the reference node "${reference}" must be letters and digits, starting with a letter`, 1, 1);
@@ -110,8 +110,8 @@ export function evaluateNetworkCell(cell: NetworkCell, cellIndex: number, scope:
         case 'capacitor':
           return { ...base, kind: 'capacitor', C: realOf(v(0), 'capacitance', what(0), r) };
         case 'source': {
-          const E = quantityIn(() => si(read(v(0), what(0), r), 'voltage', what(0)), what(0), r);
-          const Z = v(1)?.trim() ? quantityIn(() => si(read(v(1), what(1), r), 'impedance', what(1)), what(1), r) : 0;
+          const E = onRow(r, () => si(read(v(0), what(0), r), 'voltage', what(0)));
+          const Z = v(1)?.trim() ? onRow(r, () => si(read(v(1), what(1), r), 'impedance', what(1))) : 0;
           const e = typeof E === 'number' ? { re: E, im: 0 } : E;
           const z = typeof Z === 'number' ? { re: Z, im: 0 } : Z;
           if (z.im < 0) throw new NetworkError(`${what(1)}: the internal impedance must be resistive or inductive (its reactance is negative here)`, r);
@@ -135,7 +135,7 @@ export function evaluateNetworkCell(cell: NetworkCell, cellIndex: number, scope:
             U: realOf(v(3), 'voltage', what(3), r),
           };
         case 'injection':
-          return { ...base, kind: 'injection', spectrum: spectrumOf(row, r, what, read, quantityIn) };
+          return { ...base, kind: 'injection', spectrum: spectrumOf(row, r, what, read, onRow) };
         case 'switch':
           return { ...base, kind: 'switch', closesAt: realOf(v(0), 'time', what(0), r) };
       }
@@ -306,7 +306,7 @@ function spectrumOf(
   r: number,
   what: (i: number) => string,
   read: (text: string | undefined, what: string, row: number) => unknown,
-  quantityIn: <T>(convert: () => T, what: string, row: number) => T,
+  onRow: <T>(row: number, convert: () => T) => T,
 ): HarmonicLine[] {
   const list = (x: unknown): unknown[] =>
     x && typeof (x as { toArray?: unknown }).toArray === 'function' ? ((x as { toArray(): unknown[] }).toArray().flat(2) as unknown[]) : [x];
@@ -319,9 +319,9 @@ function spectrumOf(
       r,
     );
   return orders.map((h, k) => ({
-    order: quantityIn(() => real(h, 'none', 'an order'), what(0), r),
-    current: quantityIn(() => real(currents[k], 'current', 'a current'), what(1), r),
-    angle: quantityIn(() => angleValue(angles[k]), what(2), r),
+    order: onRow(r, () => real(h, 'none', `${what(0)} (number ${k + 1})`)),
+    current: onRow(r, () => real(currents[k], 'current', `${what(1)} (number ${k + 1})`)),
+    angle: onRow(r, () => angleValue(angles[k], `${what(2)} (number ${k + 1})`)),
   }));
 }
 

@@ -155,7 +155,7 @@ function checkValues(el: NetworkElement): void {
 }
 
 /** Union–find over node indices. */
-class Groups {
+export class Groups {
   private parent: number[];
   constructor(n: number) {
     this.parent = Array.from({ length: n }, (_, k) => k);
@@ -214,8 +214,25 @@ function pathBetween(edges: NetworkElement[], from: string, to: string): Network
   return path.reverse();
 }
 
-const describe = (el: NetworkElement) => `row ${el.row} (${el.name})`;
-const list = (items: string[]) => (items.length <= 1 ? items.join('') : `${items.slice(0, -1).join(', ')} and ${items[items.length - 1]}`);
+/**
+ * The first loop closed by the elements `picked` (in the table's order): its elements in row order, or null.
+ * A loop of ideal sources, switches (and in a transient capacitors) has no solution; the refusal lists it.
+ */
+export function firstLoop(elements: NetworkElement[], picked: (el: NetworkElement, k: number) => boolean): NetworkElement[] | null {
+  const index = new Map<string, number>();
+  const id = (node: string) => index.get(node) ?? index.set(node, index.size).get(node)!;
+  const groups = new Groups(2 * elements.length);
+  const soFar: NetworkElement[] = [];
+  for (const [k, el] of elements.entries()) {
+    if (!picked(el, k)) continue;
+    if (!groups.join(id(el.a), id(el.b))) return [...pathBetween(soFar, el.a, el.b), el].sort((x, y) => x.row - y.row);
+    soFar.push(el);
+  }
+  return null;
+}
+
+export const describe = (el: NetworkElement) => `row ${el.row} (${el.name})`;
+export const list = (items: string[]) => (items.length <= 1 ? items.join('') : `${items.slice(0, -1).join(', ')} and ${items[items.length - 1]}`);
 
 /**
  * Checks the network and numbers its unknowns. Every refusal is a sentence naming the row: a misspelt or
@@ -267,25 +284,19 @@ export function topologyOf(network: Network, { switchesClosed = true }: { switch
   }
 
   // Loops of ideal sources and switches.
-  const ideal = new Groups(nodes.length + 1);
-  const idealSoFar: NetworkElement[] = [];
-  for (const el of elements) {
-    if (!conducts(el) || !zeroImpedance(el)) continue;
-    if (!ideal.join(at(el.a), at(el.b))) {
-      const loop = [...pathBetween(idealSoFar, el.a, el.b), el];
-      const sources = loop.filter((o) => o.kind === 'source');
-      const why =
-        sources.length === 1
-          ? `source ${sources[0].name} is shorted`
-          : sources.length > 1
-            ? 'the sources would fight with nothing between them'
-            : 'the switches close a loop with no impedance in it';
-      throw new NetworkError(
-        `${list(loop.map(describe))} form a loop of ideal sources and closed switches: ${why}. Give a source its internal impedance, or remove a switch.`,
-        el.row,
-      );
-    }
-    idealSoFar.push(el);
+  const loop = firstLoop(elements, (el) => conducts(el) && zeroImpedance(el));
+  if (loop) {
+    const sources = loop.filter((o) => o.kind === 'source');
+    const why =
+      sources.length === 1
+        ? `source ${sources[0].name} is shorted`
+        : sources.length > 1
+          ? 'the sources would fight with nothing between them'
+          : 'the switches close a loop with no impedance in it';
+    throw new NetworkError(
+      `${list(loop.map(describe))} form a loop of ideal sources and closed switches: ${why}. Give a source its internal impedance, or remove a switch.`,
+      loop[loop.length - 1].row,
+    );
   }
 
   const branchIndex = new Map<number, number>();

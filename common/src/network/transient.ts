@@ -21,7 +21,7 @@ import { checkDeadline } from '../language/deadline';
 import { extremaIn, summarise, type Extremum } from '../circuits/transient';
 import { harmonicFlow, prepare } from './ac';
 import { SingularMatrixError, realLu, realSolve, type RealLu } from './lu';
-import { NetworkError, seriesBranch, type Network, type NetworkElement, type SeriesBranch } from './model';
+import { Groups, NetworkError, describe, firstLoop, list, type Network, type NetworkElement, type SeriesBranch } from './model';
 
 /** The most values (quantities × points) one transient keeps: 32 MB of samples. */
 export const MAX_SAMPLES = 4_000_000;
@@ -67,22 +67,21 @@ type Role =
 /** The resistive network of one stretch between switchings, factorised. */
 interface Stretch {
   roles: Role[];
-  /** Rows replaced by the differentiated current law of a group of nodes reached only through inductances. */
-  differentiated: boolean[];
-  /** Each node's group row (−1 in the reference's group). */
+  /**
+   * Each node's group row: the row (its group's lowest node) that holds the differentiated current law of a
+   * group of nodes reached only through inductances; −1 in the reference's group.
+   */
   groupRow: number[];
   lu: RealLu;
   size: number;
 }
 
-/** e(t) and its derivatives of a branch's EMF: √2·|E|·cos(ω1·t + angle). */
-function emf(s: SeriesBranch, omega1: number, t: number, order: 0 | 1 | 2): number {
+/** A branch's EMF e(t) = √2·|E|·cos(ω1·t + angle), or its derivative. */
+function emf(s: SeriesBranch, omega1: number, t: number, order: 0 | 1): number {
   const amplitude = Math.SQRT2 * Math.hypot(s.E.re, s.E.im);
   if (amplitude === 0) return 0;
   const phase = omega1 * t + Math.atan2(s.E.im, s.E.re);
-  if (order === 0) return amplitude * Math.cos(phase);
-  if (order === 1) return -amplitude * omega1 * Math.sin(phase);
-  return -amplitude * omega1 * omega1 * Math.cos(phase);
+  return order === 0 ? amplitude * Math.cos(phase) : -amplitude * omega1 * Math.sin(phase);
 }
 
 /** An injection's current (from a to b) and its derivatives: Σ √2·I_h·cos(h·ω1·t + θ_h). */
@@ -97,8 +96,6 @@ function injection(el: Extract<NetworkElement, { kind: 'injection' }>, omega1: n
   return sum;
 }
 
-const describe = (el: NetworkElement) => `row ${el.row} (${el.name})`;
-
 export function networkTransient(network: Network, options: TransientOptions): NetworkTransient {
   const { span, points } = options;
   if (!(Number.isFinite(span) && span > 0)) throw new NetworkError('the time span must be more than 0 s');
@@ -111,7 +108,7 @@ export function networkTransient(network: Network, options: TransientOptions): N
   const nodeNames = topology.nodes;
   const nodeIndex = topology.nodeIndex;
   const nNodes = nodeNames.length;
-  const series = elements.map((el) => seriesBranch(el, network.frequency));
+  const series = before.series;
 
   // States, and their values at t = 0 from the steady state: Re(√2·Σ X_h).
   const stateOf = new Map<number, number>();
@@ -156,30 +153,31 @@ export function networkTransient(network: Network, options: TransientOptions): N
       else if (s!.L > 0) roles.push({ type: 'inductive', state: stateOf.get(k)!, s: s! });
       else roles.push({ type: 'resistive-branch', s: s!, unknown: size++ });
     });
-    refuseLoops(roles, t);
+    // A loop of capacitors, ideal sources and closed switches (no resistance, no inductance) has no state-space model.
+    const loop = firstLoop(elements, (_el, k) => {
+      const role = roles[k];
+      return role.type === 'capacitor' || (role.type === 'resistive-branch' && role.s.R === 0);
+    });
+    if (loop)
+      throw new NetworkError(
+        `${list(loop.map(describe))} form a loop of capacitors, ideal sources and closed switches with no resistance or inductance in it${t > 0 ? ` once the switches close at ${t} s` : ''}: ` +
+          'its current at switching would be unbounded. Add the series inductance of the connection (a bank’s reactor, a cable) or a resistance.',
+        loop[loop.length - 1].row,
+      );
     // Groups of nodes joined by resistors, capacitors and resistive branches. A group without the reference
     // is reached only through inductances (and injections): its current law fixes the sum of their currents,
-    // not a voltage, so one of its rows (its first node's) becomes that law differentiated in time.
-    const root = nodeNames.map((_n, k) => k);
-    const find = (x: number): number => (root[x] === x ? x : (root[x] = find(root[x])));
+    // not a voltage, so one of its rows (its lowest node's) becomes that law differentiated in time.
     const ground = nNodes;
-    root.push(ground);
+    const joined = new Groups(nNodes + 1);
     elements.forEach((el, k) => {
       const type = roles[k].type;
-      if (type !== 'resistor' && type !== 'capacitor' && type !== 'resistive-branch') return;
-      const p = nodeIndex.get(el.a) ?? ground;
-      const q = nodeIndex.get(el.b) ?? ground;
-      const [rp, rq] = [find(p), find(q)];
-      if (rp === rq) return;
-      if (rp === ground || rq === ground) root[rp === ground ? rq : rp] = ground;
-      else root[Math.max(rp, rq)] = Math.min(rp, rq);
+      if (type === 'resistor' || type === 'capacitor' || type === 'resistive-branch') joined.join(nodeIndex.get(el.a) ?? ground, nodeIndex.get(el.b) ?? ground);
     });
-    // Each floating group's row: its lowest node (the root, as roots are kept lowest); the reference group has none.
-    const groupRow = nodeNames.map((_n, k) => {
-      const r = find(k);
-      return r === ground ? -1 : r;
-    });
-    const differentiated = nodeNames.map((_n, k) => groupRow[k] === k);
+    const lowest = new Map<number, number>();
+    for (let k = nNodes - 1; k >= 0; k--) lowest.set(joined.find(k), k);
+    // Each node's group row: its group's lowest node; the reference's group has none (−1).
+    const groupRow = nodeNames.map((_n, k) => (joined.find(k) === joined.find(ground) ? -1 : lowest.get(joined.find(k))!));
+    const differentiated = (row: number) => groupRow[row] === row;
     const a = new Float64Array(size * size);
     const at = (name: string) => nodeIndex.get(name) ?? -1;
     elements.forEach((el, k) => {
@@ -193,15 +191,15 @@ export function networkTransient(network: Network, options: TransientOptions): N
           [p, q, -role.G],
           [q, p, -role.G],
         ] as const)
-          if (r >= 0 && c >= 0 && !differentiated[r]) a[r * size + c] += g;
+          if (r >= 0 && c >= 0 && !differentiated(r)) a[r * size + c] += g;
       } else if (role.type === 'capacitor' || role.type === 'resistive-branch') {
         const m = role.unknown;
         if (p >= 0) {
-          if (!differentiated[p]) a[p * size + m] += 1;
+          if (!differentiated(p)) a[p * size + m] += 1;
           a[m * size + p] += 1;
         }
         if (q >= 0) {
-          if (!differentiated[q]) a[q * size + m] -= 1;
+          if (!differentiated(q)) a[q * size + m] -= 1;
           a[m * size + q] -= 1;
         }
         if (role.type === 'resistive-branch') a[m * size + m] -= role.s.R;
@@ -222,7 +220,7 @@ export function networkTransient(network: Network, options: TransientOptions): N
       }
     });
     try {
-      return { roles, differentiated, groupRow, lu: realLu(size, a), size };
+      return { roles, groupRow, lu: realLu(size, a), size };
     } catch (err) {
       if (err instanceof SingularMatrixError) {
         const what = err.unknown < nNodes ? `node ${nodeNames[err.unknown]}` : 'a branch current';
@@ -234,34 +232,6 @@ export function networkTransient(network: Network, options: TransientOptions): N
       throw err;
     }
   };
-
-  /** Loops of capacitors, ideal sources and closed switches (no resistance, no inductance) have no state-space model. */
-  function refuseLoops(roles: Role[], t: number) {
-    const parent = new Map<string, string>();
-    const find = (x: string): string => {
-      while (parent.has(x) && parent.get(x) !== x) x = parent.get(x)!;
-      return x;
-    };
-    const stiff: NetworkElement[] = [];
-    elements.forEach((el, k) => {
-      const role = roles[k];
-      const ideal = role.type === 'capacitor' || (role.type === 'resistive-branch' && role.s.R === 0);
-      if (!ideal) return;
-      const ra = find(el.a);
-      const rb = find(el.b);
-      if (ra === rb) {
-        const loop = [...stiff.filter((o) => find(o.a) === ra), el].map(describe);
-        throw new NetworkError(
-          `${loop.join(', ')} form a loop of capacitors, ideal sources and closed switches with no resistance or inductance in it${t > 0 ? ` once the switches close at ${t} s` : ''}: ` +
-            'its current at switching would be unbounded. Add the series inductance of the connection (a bank’s reactor, a cable) or a resistance.',
-          el.row,
-        );
-      }
-      parent.set(ra, rb);
-      parent.set(rb, rb);
-      stiff.push(el);
-    });
-  }
 
   /**
    * Solves the resistive network for the states y (scaled) at time t; with `slope`, the same for the
@@ -280,8 +250,8 @@ export function networkTransient(network: Network, options: TransientOptions): N
       else if (role.type === 'inductive') {
         const i = y[role.state] * scale[role.state];
         // The branch current leaves a and enters b: on the right-hand side of the current law, −i at a, +i at b.
-        if (p >= 0 && !st.differentiated[p]) b[p] -= i;
-        if (q >= 0 && !st.differentiated[q]) b[q] += i;
+        if (p >= 0 && st.groupRow[p] !== p) b[p] -= i;
+        if (q >= 0 && st.groupRow[q] !== q) b[q] += i;
         // A group's differentiated row: ±(e + R·i)/L for a branch that leaves the group (differentiated once more with the slope).
         const ga = p >= 0 ? st.groupRow[p] : -1;
         const gb = q >= 0 ? st.groupRow[q] : -1;
@@ -295,8 +265,8 @@ export function networkTransient(network: Network, options: TransientOptions): N
         // Its current leaves a and enters b: in the current law of a node, and differentiated (once more with
         // the slope) in the row of a group it leaves or enters.
         const j = injection(e, omega1, t, d);
-        if (p >= 0 && !st.differentiated[p]) b[p] -= j;
-        if (q >= 0 && !st.differentiated[q]) b[q] += j;
+        if (p >= 0 && st.groupRow[p] !== p) b[p] -= j;
+        if (q >= 0 && st.groupRow[q] !== q) b[q] += j;
         const ga = p >= 0 ? st.groupRow[p] : -1;
         const gb = q >= 0 ? st.groupRow[q] : -1;
         if (ga !== gb) {

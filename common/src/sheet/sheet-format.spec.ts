@@ -48,6 +48,27 @@ describe('parseSheetFile', () => {
     });
   });
 
+  it('holds a table to 200 000 values and a typed value to 32 characters, and a cell text to a million characters', () => {
+    const table = (rows: number, columns: number, value: number | string = 1) => ({
+      kind: 'table',
+      columns: Array.from({ length: columns }, (_, k) => ({ name: `c${k}` })),
+      rows: Array.from({ length: rows }, () => Array<number | string>(columns).fill(value)),
+    });
+    expect(parseSheetFile({ ...example, cells: [table(20_000, 10)] }).ok).toBe(true);
+    expect(parseSheetFile({ ...example, cells: [table(20_000, 11)] })).toEqual({
+      ok: false,
+      problems: [{ path: 'cells[0].rows', message: 'a table holds at most 200,000 values (rows × columns)' }],
+    });
+    expect(parseSheetFile({ ...example, cells: [table(1, 1, '1'.repeat(33))] })).toMatchObject({
+      ok: false,
+      problems: [{ path: 'cells[0].rows[0][0]', message: 'a table value is at most 32 characters' }],
+    });
+    expect(parseSheetFile({ ...example, cells: [{ kind: 'calc', source: 'x'.repeat(1_000_001) }] })).toEqual({
+      ok: false,
+      problems: [{ path: 'cells[0].source', message: "A calc cell's source is longer than 1,000,000 characters" }],
+    });
+  });
+
   it('reports the place of a bad cell', () => {
     const result = parseSheetFile({ ...example, cells: [example.cells[0], { kind: 'calc', source: 7 }] });
     expect(result.ok).toBe(false);

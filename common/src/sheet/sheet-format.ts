@@ -22,11 +22,14 @@ export const settingsSchema = z.looseObject({
   complexForm: z.enum(['polar', 'rectangular'], { error: 'complexForm must be "polar" or "rectangular"' }).optional(),
 });
 
-export const noteCellSchema = z.looseObject({ kind: z.literal('note'), text: text("A note cell's text") });
-export const calcCellSchema = z.looseObject({ kind: z.literal('calc'), source: text("A calc cell's source") });
+/** The longest text a note, calc or check cell holds (a cell's save may carry up to 8 MB, for a table). */
+export const CELL_TEXT_MAX = 1_000_000;
+const cellText = (what: string) => text(what).max(CELL_TEXT_MAX, `${what} is longer than ${CELL_TEXT_MAX.toLocaleString('en')} characters`);
+export const noteCellSchema = z.looseObject({ kind: z.literal('note'), text: cellText("A note cell's text") });
+export const calcCellSchema = z.looseObject({ kind: z.literal('calc'), source: cellText("A calc cell's source") });
 export const checkCellSchema = z.looseObject({
   kind: z.literal('check'),
-  condition: text("A check cell's condition"),
+  condition: cellText("A check cell's condition"),
   basis: text("A check cell's basis").optional(),
   severity: z.enum(['mandatory', 'advisory'], { error: 'severity must be "mandatory" or "advisory"' }).optional(),
 });

@@ -6,6 +6,7 @@ import { TableGrid, type GridValue } from '../components/table-grid';
 import type { CellBody } from '../api/change-sheet';
 import { CodeEditor, type EditorKeys } from './code-editor';
 import { NetworkEditor } from './network-editor';
+import { fieldText, wholeNumberOrText } from './field-text';
 
 export interface KindEditorProps extends EditorKeys {
   value: CellBody;
@@ -16,13 +17,11 @@ export interface KindEditorProps extends EditorKeys {
   label: string;
 }
 
-const str = (v: unknown) => (typeof v === 'string' ? v : v === undefined || v === null ? '' : String(v));
-
 export function CalcEditor(p: KindEditorProps) {
   return (
     <CodeEditor
       label={`${p.label} source`}
-      value={str(p.value.source)}
+      value={fieldText(p.value.source)}
       onChange={(source) => p.onChange({ ...p.value, source })}
       errors={p.errors}
       warnings={p.warnings}
@@ -42,7 +41,7 @@ export function NoteEditor(p: KindEditorProps) {
       minRows={3}
       fullWidth
       autoFocus
-      value={str(p.value.text)}
+      value={fieldText(p.value.text)}
       onChange={(e) => p.onChange({ ...p.value, text: e.target.value })}
       slotProps={{ htmlInput: { style: { fontFamily: monoFont, fontSize: 13 } } }}
     />
@@ -55,7 +54,7 @@ export function CheckEditor(p: KindEditorProps) {
       <CodeEditor
         label={`${p.label} condition`}
         singleLine
-        value={str(p.value.condition)}
+        value={fieldText(p.value.condition)}
         onChange={(condition) => p.onChange({ ...p.value, condition })}
         errors={p.errors}
         warnings={p.warnings}
@@ -69,7 +68,7 @@ export function CheckEditor(p: KindEditorProps) {
           label="Basis (where the limit comes from)"
           size="small"
           fullWidth
-          value={str(p.value.basis)}
+          value={fieldText(p.value.basis)}
           onChange={(e) => p.onChange({ ...p.value, basis: e.target.value })}
         />
         <TextField
@@ -77,7 +76,7 @@ export function CheckEditor(p: KindEditorProps) {
           label="Severity"
           size="small"
           sx={{ minWidth: 160 }}
-          value={str(p.value.severity) || 'mandatory'}
+          value={fieldText(p.value.severity) || 'mandatory'}
           onChange={(e) => p.onChange({ ...p.value, severity: e.target.value })}
         >
           <MenuItem value="mandatory">Mandatory</MenuItem>
@@ -88,24 +87,28 @@ export function CheckEditor(p: KindEditorProps) {
   );
 }
 
-const toInt = (s: string): number | string => (/^\s*\d+\s*$/.test(s) ? Number(s) : s);
-
 export function SweepEditor(p: KindEditorProps) {
   const outputs = Array.isArray(p.value.outputs) ? (p.value.outputs as string[]) : [];
   const set = (k: string, v: unknown) => p.onChange({ ...p.value, [k]: v });
   return (
     <Stack spacing={1.5}>
       <Stack direction={{ xs: 'column', sm: 'row' }} spacing={1.5}>
-        <TextField label="Variable" size="small" value={str(p.value.variable)} onChange={(e) => set('variable', e.target.value)} autoFocus />
-        <TextField label="From" size="small" value={str(p.value.from)} onChange={(e) => set('from', e.target.value)} />
-        <TextField label="To" size="small" value={str(p.value.to)} onChange={(e) => set('to', e.target.value)} />
-        <TextField label="Points" size="small" value={str(p.value.points)} onChange={(e) => set('points', toInt(e.target.value))} helperText="2 to 20 000" />
+        <TextField label="Variable" size="small" value={fieldText(p.value.variable)} onChange={(e) => set('variable', e.target.value)} autoFocus />
+        <TextField label="From" size="small" value={fieldText(p.value.from)} onChange={(e) => set('from', e.target.value)} />
+        <TextField label="To" size="small" value={fieldText(p.value.to)} onChange={(e) => set('to', e.target.value)} />
+        <TextField
+          label="Points"
+          size="small"
+          value={fieldText(p.value.points)}
+          onChange={(e) => set('points', wholeNumberOrText(e.target.value))}
+          helperText="2 to 20 000"
+        />
         <TextField
           select
           label="Spacing"
           size="small"
           sx={{ minWidth: 130 }}
-          value={str(p.value.spacing) || 'linear'}
+          value={fieldText(p.value.spacing) || 'linear'}
           onChange={(e) => set('spacing', e.target.value)}
         >
           <MenuItem value="linear">Linear</MenuItem>
@@ -151,7 +154,7 @@ export function TransientEditor(p: KindEditorProps) {
           label={label}
           size="small"
           autoFocus={i === 0}
-          value={str(p.value[k])}
+          value={fieldText(p.value[k])}
           onChange={(e) =>
             e.target.value === '' && (k === 'q0' || k === 'i0')
               ? p.onChange(Object.fromEntries(Object.entries(p.value).filter(([x]) => x !== k)) as CellBody)
@@ -160,7 +163,7 @@ export function TransientEditor(p: KindEditorProps) {
           slotProps={{ htmlInput: { style: { fontFamily: monoFont } } }}
         />
       ))}
-      <TextField label="Points" size="small" value={str(p.value.points)} onChange={(e) => set('points', toInt(e.target.value))} />
+      <TextField label="Points" size="small" value={fieldText(p.value.points)} onChange={(e) => set('points', wholeNumberOrText(e.target.value))} />
     </Box>
   );
 }
@@ -172,7 +175,7 @@ export function FigureEditor(p: KindEditorProps) {
       size="small"
       fullWidth
       autoFocus
-      value={str(p.value.caption)}
+      value={fieldText(p.value.caption)}
       onChange={(e) => p.onChange({ ...p.value, caption: e.target.value })}
     />
   );

@@ -3,6 +3,7 @@ import { Box, Button, MenuItem, Stack, TextField } from '@mui/material';
 import { ELEMENT_VALUES, NETWORK_ELEMENT_KINDS, NETWORK_MAX_ELEMENTS, type NetworkElementRow } from '@ampwright/common';
 import { monoFont, palette } from '../../../app/theme';
 import type { KindEditorProps } from './cell-editors';
+import { fieldText, wholeNumberOrText } from './field-text';
 
 const ANALYSES: [string, string][] = [
   ['steady', 'Steady state'],
@@ -10,9 +11,6 @@ const ANALYSES: [string, string][] = [
   ['harmonics', 'Harmonic flow'],
   ['transient', 'Switching transient'],
 ];
-
-const str = (v: unknown) => (typeof v === 'string' ? v : v === undefined || v === null ? '' : String(v));
-const toInt = (s: string): number | string => (/^\s*\d+\s*$/.test(s) ? Number(s) : s);
 
 const cellInput: React.CSSProperties = {
   width: '100%',
@@ -34,15 +32,15 @@ export function NetworkEditor(p: KindEditorProps) {
       'elements',
       elements.map((e, k) => (k === i ? { ...e, ...patch } : e)),
     );
-  const analysis = str(p.value.analysis) || 'steady';
+  const analysis = fieldText(p.value.analysis) || 'steady';
   const field = (k: string, label: string, helper?: string) => (
     <TextField
       key={k}
       label={label}
       size="small"
-      value={str(p.value[k])}
+      value={fieldText(p.value[k])}
       helperText={helper}
-      onChange={(e) => set(k, k === 'points' ? toInt(e.target.value) : e.target.value)}
+      onChange={(e) => set(k, k === 'points' ? wholeNumberOrText(e.target.value) : e.target.value)}
       slotProps={{ htmlInput: { style: { fontFamily: monoFont } } }}
     />
   );
