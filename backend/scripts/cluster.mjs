@@ -30,7 +30,9 @@ function startNodeChecks() {
   startChild(
     process.execPath,
     [join(ROOT, 'backend', 'scripts', 'galera-check.mjs'), ...NODES.map((node, k) => `${CLUSTER.checkPorts[k]}=${node.config}=${node.socket}`)],
-    { stdio: ['ignore', 'inherit', 'inherit'] },
+    // Detached, like HAProxy: a Ctrl-C reaches the terminal's whole process group, and these must outlive the
+    // apps (stopAll stops them in order) or the apps' database connections are cut under them.
+    { stdio: ['ignore', 'inherit', 'inherit'], detached: true },
   );
 }
 
@@ -107,7 +109,7 @@ export async function startClusterStack({ seed = true, appEnv = {} } = {}) {
   startNodeChecks();
   for (const port of [CLUSTER.dbPort, CLUSTER.frontPort, CLUSTER.statsPort]) await requireFreePort(port, 'HAProxy');
   log(`starting HAProxy: database on 127.0.0.1:${CLUSTER.dbPort}, apps on 127.0.0.1:${CLUSTER.frontPort}, its statistics on :${CLUSTER.statsPort}`);
-  startChild('haproxy', ['-f', haproxyConfig(), '-db'], { stdio: ['ignore', 'inherit', 'inherit'] });
+  startChild('haproxy', ['-f', haproxyConfig(), '-db'], { stdio: ['ignore', 'inherit', 'inherit'], detached: true });
   await startFakes({ ...CLUSTER.fakes, s3Dir: join(CLUSTER_DIR, 's3') });
   // HAProxy's own view (its statistics as CSV: proxy, server, …, status): a node it sends queries to.
   await waitFor(
