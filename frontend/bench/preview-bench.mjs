@@ -124,7 +124,6 @@ main(async () => {
       if (t >= 3) for (const k of Object.keys(times)) times[k].push(r[k]);
       await page.waitForTimeout(100);
     }
-    console.log('worker ms', await page.evaluate(() => JSON.stringify(globalThis.__pm)));
     if (cdp) {
       const { profile } = await cdp.send('Profiler.stop');
       (await import('node:fs')).writeFileSync(process.env.BENCH_PROFILE, JSON.stringify(profile));

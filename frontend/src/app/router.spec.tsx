@@ -3,6 +3,7 @@ import { createMemoryRouter, RouterProvider } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { AppProviders } from './providers';
 import { routes } from './router';
+import { sheetOf } from '../test-fixtures';
 
 const health = { status: 'ok', version: '0', engineVersion: '0', checks: { database: 'up', mail: 'up', objectStore: 'up' } };
 const me = (roles: string[]) => ({
@@ -24,25 +25,7 @@ function serve(roles: string[] | null) {
           : new Response(JSON.stringify({ statusCode: 401, code: 'UNAUTHENTICATED', message: 'Sign in to continue.' }), { status: 401 });
       if (url.endsWith('/api/sheets/s1'))
         return new Response(
-          JSON.stringify({
-            id: 's1',
-            projectId: 'p1',
-            number: 'C-1',
-            title: 'Probe sheet',
-            settings: {},
-            state: 'being-prepared',
-            version: 1,
-            engineVersion: '0',
-            preparer: { id: 'u1', name: 'Probe Person' },
-            checker: null,
-            approver: null,
-            revisionCode: 'A',
-            revisionNumber: 1,
-            openQueries: 0,
-            coPreparers: [],
-            authorIds: ['u1'],
-            cells: [],
-          }),
+          JSON.stringify(sheetOf(1, [], { title: 'Probe sheet', engineVersion: '0', preparer: { id: 'u1', name: 'Probe Person' }, authorIds: ['u1'] })),
         );
       return new Response('[]');
     }),

@@ -4,38 +4,11 @@ import type { CellDto, CellResult, SheetContentsDto, SheetDto } from '@ampwright
 import type { ReactNode } from 'react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { sheetKeys } from './sheet-keys';
+import { calcCell, sheetOf } from '../../../test-fixtures';
 import { EditConflict, mergeContents, mergeSave, sameCell, useCellChange } from './change-sheet';
 
-const cell = (id: string, position: number, source: string, changedBy = 'A'): CellDto => ({
-  id,
-  position,
-  kind: 'calc',
-  fields: { source },
-  results: null,
-  changedBy,
-  changedAt: '2026-01-01T00:00:00.000Z',
-  agreedBy: null,
-  changedAfterAgreement: false,
-});
-const sheet = (version: number, cells: CellDto[]): SheetDto => ({
-  id: 's1',
-  projectId: 'p1',
-  number: 'C-1',
-  title: 'T',
-  settings: {},
-  state: 'being-prepared',
-  version,
-  engineVersion: null,
-  preparer: { id: 'u', name: 'A' },
-  checker: null,
-  approver: null,
-  revisionCode: 'A',
-  revisionNumber: 1,
-  openQueries: 0,
-  coPreparers: [],
-  authorIds: ['u'],
-  cells,
-});
+const cell = calcCell;
+const sheet = sheetOf;
 
 describe('mergeSave', () => {
   it('replaces changed cells, drops removed ones, adds new ones in position order and raises the version', () => {

@@ -58,7 +58,14 @@ export class EditConflict extends Error {
 export function mergeSave(sheet: SheetDto, result: SaveResultDto): SheetDto {
   const changed = new Map(result.changed.map((c) => [c.id, c]));
   const removed = new Set(result.removed);
-  const cells = sheet.cells.filter((c) => !removed.has(c.id)).map((c) => changed.get(c.id) ?? c);
+  const cells = sheet.cells
+    .filter((c) => !removed.has(c.id))
+    .map((c) => {
+      const next = changed.get(c.id);
+      // A cell whose content is as it was keeps its fields object (only its results are new), so what is drawn
+      // from the content is not drawn again.
+      return !next ? c : next.kind === c.kind && sameCell(next.fields, c.fields) ? ({ ...next, fields: c.fields } as CellDto) : next;
+    });
   for (const c of result.changed) if (!sheet.cells.some((x) => x.id === c.id)) cells.push(c);
   cells.sort((a, b) => a.position - b.position);
   return { ...sheet, version: Math.max(sheet.version, result.version), cells };

@@ -1,6 +1,6 @@
 /** What a cell shows on screen: the blocks of its presentation (typeset lines, check outcomes, charts, tables, notes) and its problems. */
 import { Alert, Box, Chip, LinearProgress, Stack, Table, TableBody, TableCell, TableRow, Typography } from '@mui/material';
-import { Fragment, useMemo, type ReactNode } from 'react';
+import { Fragment, memo, useMemo, type ReactNode } from 'react';
 import type { BlockOf, BlockType, CellResult, Diagnostic, PresentationBlock } from '@ampwright/common';
 import { presentCell } from '@ampwright/common/cells/kinds';
 import { monoFont, palette } from '../../../app/theme';
@@ -29,7 +29,7 @@ export function Problems({ errors, warnings }: { errors: Diagnostic[]; warnings:
   );
 }
 
-export function SourceText({ text }: { text: string }) {
+export const SourceText = memo(function SourceText({ text }: { text: string }) {
   return (
     <ScrollBox
       component="pre"
@@ -48,7 +48,7 @@ export function SourceText({ text }: { text: string }) {
       {text || ' '}
     </ScrollBox>
   );
-}
+});
 
 function Lines({ lines }: BlockOf<'lines'>) {
   return (
@@ -99,7 +99,16 @@ function Outcome({ check: p, formula, working }: BlockOf<'outcome'>) {
   return (
     <Box>
       <Stack direction="row" spacing={1} sx={{ alignItems: 'center', mb: 1 }}>
-        <Chip size="small" label={p.outcome} color={TONE_COLOUR[p.tone]} role="status" aria-label={`Check: ${p.outcome}`} data-testid="check-outcome" />
+        {/* Its colours change at once: MUI's fading background would show the new dark text on the old green for 300 ms. */}
+        <Chip
+          size="small"
+          label={p.outcome}
+          color={TONE_COLOUR[p.tone]}
+          role="status"
+          aria-label={`Check: ${p.outcome}`}
+          data-testid="check-outcome"
+          sx={{ transition: 'none' }}
+        />
         {p.advisory && <Chip size="small" variant="outlined" label="Advisory" />}
         {formula && <Tex>{formula}</Tex>}
       </Stack>
@@ -184,7 +193,15 @@ export function Presentation({ blocks }: { blocks: PresentationBlock[] }) {
 }
 
 /** What a cell shows from its fields and the results the server stored, then its problems. */
-export function CellPresentation({ kind, fields, result }: { kind: string; fields: Record<string, unknown>; result: CellResult | null }) {
+export const CellPresentation = memo(function CellPresentation({
+  kind,
+  fields,
+  result,
+}: {
+  kind: string;
+  fields: Record<string, unknown>;
+  result: CellResult | null;
+}) {
   const blocks = useMemo(() => presentCell(kind, fields, result), [kind, fields, result]);
   return (
     <Box>
@@ -192,4 +209,4 @@ export function CellPresentation({ kind, fields, result }: { kind: string; field
       {result && <Problems errors={result.errors} warnings={result.warnings} />}
     </Box>
   );
-}
+});

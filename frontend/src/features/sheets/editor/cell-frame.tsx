@@ -28,7 +28,7 @@ export interface CellActions {
   add: (position: number, kind: CellKind) => void;
   importCsv: (position: number) => void;
   move: (id: string, position: number) => void;
-  remove: (cell: CellDto) => void;
+  remove: (id: string) => void;
   scopeBefore: (position: number) => { label: string; detail?: string }[];
 }
 
@@ -57,14 +57,17 @@ export function AddCellMenu({ onAdd, onImportCsv, label = 'Add a cell' }: { onAd
       <Button size="small" onClick={(e) => setAnchor(e.currentTarget)} aria-haspopup="menu">
         {label}
       </Button>
-      <Menu anchorEl={anchor} open={!!anchor} onClose={() => setAnchor(null)}>
-        {(Object.keys(KIND_LABELS) as CellKind[]).map((kind) => (
-          <MenuItem key={kind} onClick={() => (setAnchor(null), onAdd(kind))}>
-            {KIND_LABELS[kind]}
-          </MenuItem>
-        ))}
-        <MenuItem onClick={() => (setAnchor(null), onImportCsv())}>Table from a CSV file…</MenuItem>
-      </Menu>
+      {/* Mounted only while open: a closed menu in each of a hundred cells is work for every render of them. */}
+      {anchor && (
+        <Menu anchorEl={anchor} open onClose={() => setAnchor(null)}>
+          {(Object.keys(KIND_LABELS) as CellKind[]).map((kind) => (
+            <MenuItem key={kind} onClick={() => (setAnchor(null), onAdd(kind))}>
+              {KIND_LABELS[kind]}
+            </MenuItem>
+          ))}
+          <MenuItem onClick={() => (setAnchor(null), onImportCsv())}>Table from a CSV file…</MenuItem>
+        </Menu>
+      )}
     </>
   );
 }
@@ -117,56 +120,18 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
         containIntrinsicSize: 'auto 160px',
       }}
     >
-      <Stack direction="row" spacing={1} sx={{ alignItems: 'center', mb: 1, flexWrap: 'wrap' }}>
-        <Typography variant="overline" color="text.secondary">
-          {index + 1} · {kindLabel(cell.kind)}
-        </Typography>
-        {editable && (
-          <Chip
-            size="small"
-            variant="outlined"
-            label={SAVE_LABELS[d.state]}
-            color={d.state === 'saved' ? 'default' : d.state === 'saving' || d.state === 'unsaved' ? 'primary' : 'error'}
-            // A live region: a screen reader hears the cell's save state as it changes.
-            role="status"
-            aria-label={`Cell ${index + 1}: ${SAVE_LABELS[d.state]}`}
-            data-testid="save-state"
-          />
-        )}
-        <Box sx={{ flex: 1 }} />
-        {editable && (
-          <>
-            {!active && Editor && (
-              <Button size="small" onClick={() => actions.activate(cell.id)}>
-                Edit
-              </Button>
-            )}
-            {active && (
-              <Button size="small" onClick={() => (d.flush(), actions.activate(null))}>
-                Done
-              </Button>
-            )}
-            <Tooltip title="Move up">
-              <span>
-                <Button size="small" disabled={index === 0} onClick={() => actions.move(cell.id, index - 1)} aria-label="Move up">
-                  ↑
-                </Button>
-              </span>
-            </Tooltip>
-            <Tooltip title="Move down">
-              <span>
-                <Button size="small" disabled={index === count - 1} onClick={() => actions.move(cell.id, index + 1)} aria-label="Move down">
-                  ↓
-                </Button>
-              </span>
-            </Tooltip>
-            <AddCellMenu label="Add below" onAdd={(kind) => actions.add(index + 1, kind)} onImportCsv={() => actions.importCsv(index + 1)} />
-            <Button size="small" color="error" onClick={() => actions.remove(cell)}>
-              Delete
-            </Button>
-          </>
-        )}
-      </Stack>
+      <CellHeader
+        cellId={cell.id}
+        kind={cell.kind}
+        index={index}
+        count={count}
+        active={active}
+        editable={editable}
+        hasEditor={!!Editor}
+        state={d.state}
+        flush={d.flush}
+        actions={actions}
+      />
       {d.conflict && (
         <Alert
           severity="warning"
@@ -244,6 +209,87 @@ function CellFrameInner({ sheetId, cell, index, count, active, editable, actions
 }
 
 export const CellFrame = memo(CellFrameInner);
+
+/**
+ * The cell's header: its number and kind, its save state and its tools. Apart from the cell's content and
+ * results, so a new result (a keystroke's preview, a save's answer for a hundred cells) does not draw it again.
+ */
+const CellHeader = memo(function CellHeader({
+  cellId,
+  kind,
+  index,
+  count,
+  active,
+  editable,
+  hasEditor,
+  state,
+  flush,
+  actions,
+}: {
+  cellId: string;
+  kind: string;
+  index: number;
+  count: number;
+  active: boolean;
+  editable: boolean;
+  hasEditor: boolean;
+  state: SaveState;
+  flush: () => void;
+  actions: CellActions;
+}) {
+  return (
+    <Stack direction="row" spacing={1} sx={{ alignItems: 'center', mb: 1, flexWrap: 'wrap' }}>
+      <Typography variant="overline" color="text.secondary">
+        {index + 1} · {kindLabel(kind)}
+      </Typography>
+      {editable && (
+        <Chip
+          size="small"
+          variant="outlined"
+          label={SAVE_LABELS[state]}
+          color={state === 'saved' ? 'default' : state === 'saving' || state === 'unsaved' ? 'primary' : 'error'}
+          // A live region: a screen reader hears the cell's save state as it changes.
+          role="status"
+          aria-label={`Cell ${index + 1}: ${SAVE_LABELS[state]}`}
+          data-testid="save-state"
+        />
+      )}
+      <Box sx={{ flex: 1 }} />
+      {editable && (
+        <>
+          {!active && hasEditor && (
+            <Button size="small" onClick={() => actions.activate(cellId)}>
+              Edit
+            </Button>
+          )}
+          {active && (
+            <Button size="small" onClick={() => (flush(), actions.activate(null))}>
+              Done
+            </Button>
+          )}
+          <Tooltip title="Move up">
+            <span>
+              <Button size="small" disabled={index === 0} onClick={() => actions.move(cellId, index - 1)} aria-label="Move up">
+                ↑
+              </Button>
+            </span>
+          </Tooltip>
+          <Tooltip title="Move down">
+            <span>
+              <Button size="small" disabled={index === count - 1} onClick={() => actions.move(cellId, index + 1)} aria-label="Move down">
+                ↓
+              </Button>
+            </span>
+          </Tooltip>
+          <AddCellMenu label="Add below" onAdd={(k) => actions.add(index + 1, k)} onImportCsv={() => actions.importCsv(index + 1)} />
+          <Button size="small" color="error" onClick={() => actions.remove(cellId)}>
+            Delete
+          </Button>
+        </>
+      )}
+    </Stack>
+  );
+});
 
 /** The kind's editor, with the problems of the preview underlined while the draft is ahead of the server. */
 function PreviewedEditor({

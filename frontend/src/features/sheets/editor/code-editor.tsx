@@ -35,6 +35,16 @@ const theme = EditorView.theme({
   '.cm-tooltip-autocomplete ul li[aria-selected]': { backgroundColor: palette.ink },
 });
 
+/** The one replacement that turns `from` into `to` (their common start and end kept); null when they are equal. */
+export function textChange(from: string, to: string): { from: number; to: number; insert: string } | null {
+  if (from === to) return null;
+  let start = 0;
+  while (start < from.length && start < to.length && from[start] === to[start]) start++;
+  let end = 0;
+  while (end < from.length - start && end < to.length - start && from[from.length - 1 - end] === to[to.length - 1 - end]) end++;
+  return { from: start, to: from.length - end, insert: to.slice(start, to.length - end) };
+}
+
 export function CodeEditor(props: CodeEditorProps) {
   const host = useRef<HTMLDivElement>(null);
   const view = useRef<EditorView | null>(null);
@@ -73,10 +83,15 @@ export function CodeEditor(props: CodeEditorProps) {
     return () => view.current?.destroy();
   }, []);
 
-  // A value from outside (the other person's text taken, a restore) replaces the document.
-  useEffect(() => {
+  // A value from outside (the other person's text taken, a restore) replaces what differs, as one change
+  // (the cursor stays where it is outside it), before anything else can reach the editor: a keystroke
+  // between this render and a later effect would otherwise be overwritten.
+  useLayoutEffect(() => {
     const v = view.current;
-    if (v && v.state.doc.toString() !== props.value) v.dispatch({ changes: { from: 0, to: v.state.doc.length, insert: props.value } });
+    if (v) {
+      const change = textChange(v.state.doc.toString(), props.value);
+      if (change) v.dispatch({ changes: change });
+    }
   }, [props.value]);
 
   useEffect(() => {

@@ -103,8 +103,10 @@ export function SheetEditor({
         const settle = () => setTimeout(() => (refocus.current = null), 200);
         change.mutate({ type: 'move', cellId: id, position }, { onSettled: settle, onError: report });
       },
-      remove: (cell) => {
-        const position = cellsRef.current.findIndex((c) => c.id === cell.id);
+      remove: (id) => {
+        const position = cellsRef.current.findIndex((c) => c.id === id);
+        const cell = cellsRef.current[position];
+        if (!cell) return;
         change.mutate(
           { type: 'delete', cellId: cell.id },
           { onSuccess: () => (setDeleted((d) => [...d, { cell, position }]), setNotice(`Cell ${position + 1} deleted.`)), onError: report },

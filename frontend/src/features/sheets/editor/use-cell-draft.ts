@@ -3,7 +3,7 @@
  * server's results arrive within about 300 ms), or at once on Mod-Enter. The draft is never thrown
  * away by a failed save: it stays in the editor, the save is retried, and a conflict shows both texts.
  */
-import { useCallback, useEffect, useRef, useState } from 'react';
+import { useCallback, useEffect, useLayoutEffect, useMemo, useRef, useState } from 'react';
 import { useBeforeUnload } from 'react-router-dom';
 import type { CellDto } from '@ampwright/common';
 import { cellSchema } from '@ampwright/common/sheet/sheet-format';
@@ -15,7 +15,11 @@ export type SaveState = 'saved' | 'unsaved' | 'saving' | 'invalid' | 'failed' | 
 
 export function useCellDraft(sheetId: string, cell: CellDto) {
   const change = useCellChange(sheetId);
-  const server = cellBody(cell);
+  // Stable (useMutation's result is a new object each render), so flush is, and the cell's header is not drawn again.
+  const { mutate } = change;
+  // The same object while the cell's content is (mergeSave keeps its fields), so what is drawn from it is not drawn again.
+  const { kind, fields } = cell;
+  const server = useMemo(() => cellBody({ kind, fields }), [kind, fields]);
   const [draft, setDraftState] = useState<CellBody | null>(null);
   const [conflict, setConflict] = useState<EditConflict | null>(null);
   const [invalid, setInvalid] = useState<string | null>(null);
@@ -26,11 +30,30 @@ export function useCellDraft(sheetId: string, cell: CellDto) {
   // eslint-disable-next-line react-hooks/refs -- the base must be current within this render, not after it
   if (draft === null && !change.isPending && !sameCell(base.current, server)) base.current = server;
   const timer = useRef<ReturnType<typeof setTimeout>>(undefined);
+  // The cell as this render shows it, and a saved draft waiting for the cell on screen to show it. The
+  // save's answer is merged into the cache before the save settles, but this component may still be
+  // given the cell as it was: dropping the draft then would show the old text for a render (the editor
+  // taking it, and the cursor moved) before the new one arrives.
+  const shown = useRef(server);
+  useLayoutEffect(() => {
+    shown.current = server;
+  });
+  const [landed, setLanded] = useState<CellBody | null>(null);
 
   const setDraft = (body: CellBody | null) => {
     draftRef.current = body;
     setDraftState(body);
   };
+
+  // A saved draft is dropped once the cell given to this component holds it (and nothing was typed since),
+  // in this render (React's way of adjusting state to a new prop), so no render shows the old text.
+  if (landed && sameCell(server, landed)) {
+    setLanded(null);
+    if (draft && sameCell(draft, landed)) setDraftState(null);
+  }
+  useLayoutEffect(() => {
+    draftRef.current = draft;
+  }, [draft]);
 
   const flush = useCallback(() => {
     clearTimeout(timer.current);
@@ -48,11 +71,13 @@ export function useCellDraft(sheetId: string, cell: CellDto) {
     }
     const from = base.current;
     base.current = body;
-    change.mutate(
+    mutate(
       { type: 'update', cellId: cell.id, cell: body, base: from },
       {
         onSuccess: () => {
-          if (draftRef.current && sameCell(draftRef.current, body)) setDraft(null);
+          if (!draftRef.current || !sameCell(draftRef.current, body)) return;
+          if (sameCell(shown.current, body)) setDraft(null);
+          else setLanded(body);
         },
         onError: (err) => {
           base.current = from;
@@ -60,7 +85,7 @@ export function useCellDraft(sheetId: string, cell: CellDto) {
         },
       },
     );
-  }, [cell.id, change, conflict]);
+  }, [cell.id, mutate, conflict]);
 
   const edit = useCallback(
     (body: CellBody) => {
@@ -88,6 +113,17 @@ export function useCellDraft(sheetId: string, cell: CellDto) {
     else setTimeout(flush, 0);
   };
 
-  const state: SaveState = conflict ? 'conflict' : invalid ? 'invalid' : change.isPending ? 'saving' : change.isError ? 'failed' : draft ? 'unsaved' : 'saved';
+  const unsaved = draft !== null && !(landed && sameCell(draft, landed));
+  const state: SaveState = conflict
+    ? 'conflict'
+    : invalid
+      ? 'invalid'
+      : change.isPending
+        ? 'saving'
+        : change.isError
+          ? 'failed'
+          : unsaved
+            ? 'unsaved'
+            : 'saved';
   return { value: draft ?? server, dirty: draft !== null, edit, flush, state, error: change.error, invalid, conflict, resolve, retry: flush };
 }

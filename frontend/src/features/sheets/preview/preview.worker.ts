@@ -9,7 +9,10 @@ import { evaluateSheet, runWithDeadline, type EvaluationCache } from '@ampwright
 import type { PreviewReply, PreviewRequest } from './preview-protocol';
 
 const PREVIEW_DEADLINE_MS = 2000;
-/** An evaluation still running after this sends the results it has so far, once. */
+/**
+ * An evaluation still running sends the results it has so far, once: as soon as the first cell evaluated
+ * afresh (the edited one, the cells above it being reused) is done, or after this long, whichever is first.
+ */
 const PARTIAL_AFTER_MS = 8;
 
 let cache: EvaluationCache | undefined;
@@ -20,9 +23,11 @@ self.onmessage = (event: MessageEvent<PreviewRequest>) => {
   const started = performance.now();
   try {
     let sent = false;
+    let fresh = 0;
     const outcome = runWithDeadline(Date.now() + PREVIEW_DEADLINE_MS, () =>
+      // Called before each cell evaluated afresh, with the results done so far.
       evaluateSheet(sheet, cache, (_index, done) => {
-        if (sent || performance.now() - started < PARTIAL_AFTER_MS) return;
+        if (sent || (++fresh < 2 && performance.now() - started < PARTIAL_AFTER_MS)) return;
         sent = true;
         reply({ id, partial: true, results: done.slice() });
       }),

@@ -56,6 +56,14 @@ export function difference(kind: string, preview: CellResult, stored: CellResult
   return names.length ? names.map((n) => `${n}: preview ${a[n] ?? '(none)'}, stored ${b[n] ?? '(none)'}`).join('; ') : null;
 }
 
+/**
+ * The stored result is the preview's in every part (not only what is shown): the preview's object, already
+ * drawn, then stands for it, and nothing is drawn again.
+ */
+function sameResult(preview: CellResult, stored: CellResult): boolean {
+  return preview === stored || JSON.stringify(preview) === JSON.stringify(stored);
+}
+
 export class SheetPreview {
   private stored: SheetDto | null = null;
   private readonly drafts = new Map<string, CellBody>();
@@ -156,7 +164,9 @@ export class SheetPreview {
       const p = latest?.results.get(cell.id);
       let view: CellPreview;
       if (!p) view = { result: r, preview: false, differs: null };
-      else if (caughtUp) view = { result: r, preview: false, differs: r ? difference(cell.kind, p, r) : null };
+      else if (caughtUp)
+        view =
+          r && sameResult(p, r) ? { result: p, preview: false, differs: null } : { result: r, preview: false, differs: r ? difference(cell.kind, p, r) : null };
       else view = !r || difference(cell.kind, p, r) ? { result: p, preview: true, differs: null } : { result: r, preview: false, differs: null };
       const before = this.views.get(cell.id);
       next.set(cell.id, before && before.result === view.result && before.preview === view.preview && before.differs === view.differs ? before : view);
