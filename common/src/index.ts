@@ -24,7 +24,7 @@ export type {
   SheetSummaryDto,
   TemplateSummaryDto,
 } from './api/projects';
-export { MAX_PASSWORD_BYTES, MIN_PASSWORD_LENGTH } from './api/accounts';
+export { MAX_PASSWORD_BYTES, MIN_PASSWORD_LENGTH, type AuditEventDto } from './api/accounts';
 export { PALETTE } from './plot/palette';
 export {
   CELL_KIND_REGISTRY,

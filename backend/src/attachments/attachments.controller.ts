@@ -31,7 +31,10 @@ export class AttachmentsController {
     return this.attachments.upload(auth, id, file);
   }
 
-  /** The bytes, as a download (never shown inline, so an uploaded SVG or HTML cannot run in our origin). */
+  /**
+   * The bytes, as a download (never shown inline, so an uploaded SVG or HTML cannot run in our origin).
+   * @answers file
+   */
   @Roles(...MEMBER_ROLES)
   @Get('attachments/:id/download')
   async download(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Res() res: Response): Promise<void> {

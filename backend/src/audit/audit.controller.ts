@@ -1,4 +1,5 @@
 import { Controller, Get } from '@nestjs/common';
+import type { AuditEventDto } from '@ampwright/common';
 import { Roles } from '../core/decorators/access.decorator';
 import { CurrentAuth } from '../core/decorators/current-auth.decorator';
 import type { AuthContext } from '../core/guards/auth.guard';
@@ -11,7 +12,7 @@ export class AuditController {
   /** The firm's latest audit events (owner only). */
   @Roles('owner')
   @Get()
-  async list(@CurrentAuth() auth: AuthContext) {
+  async list(@CurrentAuth() auth: AuthContext): Promise<AuditEventDto[]> {
     const events = await this.audit.forFirm(auth.firm.id);
     return events.map((e) => ({
       id: e.id,

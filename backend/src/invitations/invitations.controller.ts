@@ -6,7 +6,7 @@ import { CurrentAuth } from '../core/decorators/current-auth.decorator';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { AUTH_THROTTLE } from '../core/throttle/throttlers';
 import { AcceptInvitationDto, CreateInvitationDto, InvitationResponseDto } from './dto/invitation.dto';
-import { InvitationsService } from './invitations.service';
+import { InvitationsService, type InvitationAccepted, type InvitationPreview } from './invitations.service';
 
 @Controller('invitations')
 export class InvitationsController {
@@ -34,7 +34,7 @@ export class InvitationsController {
 
   @Public()
   @Get('preview')
-  preview(@Query('token') token: unknown) {
+  preview(@Query('token') token: unknown): Promise<InvitationPreview> {
     if (typeof token !== 'string' || token.length < 20 || token.length > 200) throw new BadRequestException('token is not a valid invitation token');
     return this.invitations.preview(token);
   }
@@ -43,7 +43,7 @@ export class InvitationsController {
   @Throttle(AUTH_THROTTLE)
   @Post('accept')
   @HttpCode(200)
-  accept(@Body() dto: AcceptInvitationDto, @Req() req: Request, @Res({ passthrough: true }) res: Response) {
+  accept(@Body() dto: AcceptInvitationDto, @Req() req: Request, @Res({ passthrough: true }) res: Response): Promise<InvitationAccepted> {
     return this.invitations.accept(dto, res, req.ip);
   }
 }

@@ -17,6 +17,7 @@ import { User } from '../users/entities/user.entity';
 import type { AcceptInvitationDto, CreateInvitationDto, InvitationResponseDto } from './dto/invitation.dto';
 import { Invitation } from './entities/invitation.entity';
 import { AuthErrorCode, InvitationErrorCode } from '@ampwright/common';
+import type { Role } from '../core/roles';
 
 export { InvitationErrorCode };
 
@@ -31,6 +32,21 @@ const toResponse = (i: Invitation): InvitationResponseDto => ({
   acceptedAt: i.acceptedAt?.toISOString() ?? null,
   revokedAt: i.revokedAt?.toISOString() ?? null,
 });
+
+/** What the invitation page shows before it is accepted (public: the token is the key). */
+export interface InvitationPreview {
+  firm: string;
+  email: string;
+  roles: string[];
+  /** The address has an account already: accepting asks for its password. */
+  hasAccount: boolean;
+}
+
+/** An accepted invitation: the firm joined, with these roles (the person is signed in to it). */
+export interface InvitationAccepted {
+  firm: string;
+  roles: Role[];
+}
 
 @Injectable()
 export class InvitationsService {
@@ -114,14 +130,14 @@ export class InvitationsService {
     return invitation;
   }
 
-  async preview(token: string): Promise<{ firm: string; email: string; roles: string[]; hasAccount: boolean }> {
+  async preview(token: string): Promise<InvitationPreview> {
     const invitation = await this.findOpen(token);
     const hasAccount = (await this.em.count(User, { email: invitation.email })) > 0;
     return { firm: invitation.firm.name, email: invitation.email, roles: invitation.roles, hasAccount };
   }
 
   /** Accepting sets the password (a new account), or checks it (an existing account), and signs in. */
-  async accept(dto: AcceptInvitationDto, res: Response, ip?: string) {
+  async accept(dto: AcceptInvitationDto, res: Response, ip?: string): Promise<InvitationAccepted> {
     const invitation = await this.findOpen(dto.token);
     let user = await this.em.findOne(User, { email: invitation.email });
     if (user) {

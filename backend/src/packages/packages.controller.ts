@@ -35,7 +35,10 @@ export class PackagesController {
     return this.packages.retry(auth, id);
   }
 
-  /** The signed PDF (members of the firm; clients of the project). */
+  /**
+   * The signed PDF (members of the firm; clients of the project).
+   * @answers file
+   */
   @Roles(...READERS)
   @Get('revisions/:id/package')
   async download(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string, @Res() res: Response): Promise<void> {

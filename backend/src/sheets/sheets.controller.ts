@@ -16,7 +16,7 @@ import {
   UseInterceptors,
 } from '@nestjs/common';
 import { FileInterceptor } from '@nestjs/platform-express';
-import type { ImportResultDto, SheetFile } from '@ampwright/common';
+import type { ImportResultDto, SheetFile, SheetSummaryDto } from '@ampwright/common';
 import { Roles } from '../core/decorators/access.decorator';
 import { CurrentAuth } from '../core/decorators/current-auth.decorator';
 import type { AuthContext } from '../core/guards/auth.guard';
@@ -31,7 +31,7 @@ export class SheetsController {
 
   @Roles(...MEMBER_ROLES)
   @Get('projects/:projectId/sheets')
-  list(@CurrentAuth() auth: AuthContext, @Param('projectId', ParseUUIDPipe) projectId: string) {
+  list(@CurrentAuth() auth: AuthContext, @Param('projectId', ParseUUIDPipe) projectId: string): Promise<SheetSummaryDto[]> {
     return this.sheets.list(auth, projectId);
   }
 
@@ -42,7 +42,10 @@ export class SheetsController {
     return this.sheets.create(auth, projectId, dto);
   }
 
-  /** The sheet (`SheetView`), its stored results sent as they are kept rather than parsed and serialised again. */
+  /**
+   * The sheet (`SheetView`), its stored results sent as they are kept rather than parsed and serialised again.
+   * @answers SheetDto
+   */
   @Roles(...MEMBER_ROLES)
   @Get('sheets/:id')
   async get(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string): Promise<StreamableFile> {

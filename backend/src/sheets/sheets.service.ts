@@ -17,6 +17,7 @@ import {
   type SaveResultDto,
   type SheetDto,
   type SheetFile,
+  type SheetSummaryDto,
 } from '@ampwright/common';
 import { ErrorCode, RequestException, SheetException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
@@ -193,7 +194,7 @@ export class SheetsService {
     };
   }
 
-  async list(auth: AuthContext, projectId: string) {
+  async list(auth: AuthContext, projectId: string): Promise<SheetSummaryDto[]> {
     const project = await this.projects.find(auth, projectId);
     const sheets = await this.em.find(Sheet, { project }, { orderBy: { number: 'asc' }, populate: ['preparer'] });
     const open = await this.repository.openQueryCounts(sheets.map((s) => s.id));
