@@ -35,6 +35,7 @@ describe('signed packages, the client portal and verification', () => {
   let client: Caller;
   let otherClient: Caller;
   let revisionId: string;
+  let issueRequestId: string;
   let pdf: Buffer;
 
   beforeAll(async () => {
@@ -66,7 +67,9 @@ describe('signed packages, the client portal and verification', () => {
     await as(app, engineer, 'post', `/api/sheets/${sheet.id}/request-check`).send({ checkerId: checker.user.id }).expect(200);
     await as(app, checker, 'post', `/api/sheets/${sheet.id}/pass`).expect(200);
     await as(app, approver, 'post', `/api/sheets/${sheet.id}/approve`).expect(200);
-    revisionId = (await as(app, approver, 'post', `/api/sheets/${sheet.id}/issue`).expect(200)).body.id;
+    const issued = await as(app, approver, 'post', `/api/sheets/${sheet.id}/issue`).expect(200);
+    revisionId = issued.body.id;
+    issueRequestId = issued.headers['x-request-id'] as string;
   });
   afterAll(async () => {
     await app?.close();
@@ -89,6 +92,16 @@ describe('signed packages, the client portal and verification', () => {
     const revision = (await as(app, engineer, 'get', `/api/revisions/${revisionId}`)).body;
     expect(revision.pdfSha256).toBe(status.pdfSha256);
   }, 90_000);
+
+  it("keeps the id of the request that issued the revision on its package job, for the job's log lines", async () => {
+    expect(issueRequestId).toMatch(/^[0-9a-f-]{36}$/);
+    const [job] = await app
+      .get(EntityManager)
+      .fork()
+      .getConnection()
+      .execute<{ request_id: string | null }[]>('select j.request_id from package_job j where j.revision_id = ?', [revisionId]);
+    expect(job.request_id).toBe(issueRequestId);
+  });
 
   it('lays out the same document from the same snapshot every time (only the signature differs)', async () => {
     const revision = (await as(app, engineer, 'get', `/api/revisions/${revisionId}`)).body;

@@ -1,4 +1,4 @@
-import { Injectable, OnModuleDestroy } from '@nestjs/common';
+import { Injectable, Logger, OnModuleDestroy } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import type { CsvTableResult } from '@ampwright/common';
 import type { Environment } from '../config/environment';
@@ -28,6 +28,7 @@ const CODES: Record<PoolFailure, EvaluationErrorCode> = {
 @Injectable()
 export class EvaluationService implements OnModuleDestroy {
   private readonly pool: EvaluationPool;
+  private readonly logger = new Logger('Evaluation');
   private readonly limits: { timeoutMs: number; waitMs: number; memoryMb: number };
 
   constructor(config: ConfigService<Environment, true>) {
@@ -82,6 +83,9 @@ export class EvaluationService implements OnModuleDestroy {
   async run<K extends TaskKind>(task: TaskOf<K>, options: { tenant: string; key?: string; reservation?: Reservation }): Promise<PoolOutcome<TaskResults[K]>> {
     const outcome = await this.pool.run(task, options);
     evaluations.inc({ kind: task.kind, outcome: outcome.ok ? 'ok' : outcome.reason });
+    // A stopped evaluation is an operator's business (a runaway sheet, a full queue): one line, with the
+    // request's id (core/logger.ts), never the sheet's content.
+    if (!outcome.ok) this.logger.warn({ event: 'evaluation stopped', kind: task.kind, reason: outcome.reason, firm: options.tenant });
     return outcome;
   }
 

@@ -5,7 +5,9 @@
  */
 import type { EntityManager, MikroORM } from '@mikro-orm/core';
 import type { ConfigService } from '@nestjs/config';
+import { Logger } from '@nestjs/common';
 import { describe, expect, it, vi } from 'vitest';
+import { currentRequestId } from '../core/middleware/request-id';
 import type { Environment } from '../config/environment';
 import type { ObjectStoreService } from '../files/object-store.service';
 import type { RevisionsService } from '../review/revisions.service';
@@ -16,7 +18,7 @@ import { PackagesService } from './packages.service';
 /** A claimed job on its `attempts`th attempt, and the service over fakes; `holds` says whether each heartbeat still holds the claim. */
 function setup(options: { claimed?: boolean; attempts?: number; holds?: boolean; finalWrites?: number; make?: () => Promise<Buffer> } = {}) {
   const revision = { id: 'r-1', code: 'A', sheet: { id: 's-1', number: 'E-101' } };
-  const job = { id: 'j-1', attempts: options.attempts ?? 1, revision };
+  const job = { id: 'j-1', attempts: options.attempts ?? 1, revision, requestId: 'issue-req-7' };
   const jobs = {
     failAbandoned: vi.fn(async () => undefined),
     claim: vi.fn(async () => options.claimed ?? true),
@@ -64,6 +66,16 @@ describe('PackagesService', () => {
     expect(updates[0][2]).toMatchObject({ status: 'done', claimToken: null });
     expect(updates[1][2]).toMatchObject({ pdfObjectKey: key, pdfSha256: expect.stringMatching(/^[0-9a-f]{64}$/) });
     expect(store.delete).not.toHaveBeenCalled();
+  });
+
+  it('runs the job on behalf of the request that queued it: its lines carry that request id', async () => {
+    const { service } = setup();
+    const seen: (string | undefined)[] = [];
+    vi.spyOn(Logger.prototype, 'log').mockImplementation(() => seen.push(currentRequestId()));
+    await service.tick();
+    expect(seen).toEqual(['issue-req-7']);
+    expect(currentRequestId()).toBeUndefined();
+    vi.restoreAllMocks();
   });
 
   it('writes nothing when its claim was taken over before storing: no file, no record, no failure', async () => {

@@ -3,6 +3,7 @@
  * it is off the request path and any app instance can take it), downloads for members and clients,
  * the client portal's list, and public verification of an uploaded PDF.
  */
+import { currentRequestId, withRequestId } from '../core/middleware/request-id';
 import { createHash, randomUUID } from 'node:crypto';
 import { hostname } from 'node:os';
 import { EntityManager, MikroORM, RequestContext } from '@mikro-orm/core';
@@ -91,7 +92,8 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
           { claimToken: token },
           { populate: ['revision', 'revision.sheet', 'revision.sheet.project', 'revision.sheet.project.firm'] },
         );
-        await this.run(job, token);
+        // On behalf of the request that queued it: its log lines carry that request's id.
+        await withRequestId(job.requestId, () => this.run(job, token));
         return true;
       });
     } catch (err) {
@@ -219,12 +221,12 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
     if (r.pdfSha256) throw new RequestException(ErrorCode.Conflict, 'The package of this revision is made already; it is never made again.');
     const job = await this.em.findOne(PackageJob, { revision: r });
     if (!job) {
-      await this.em.persist(this.em.create(PackageJob, { revision: r })).flush();
+      await this.em.persist(new PackageJob(r, currentRequestId())).flush();
     } else {
       const requeued = await this.em.nativeUpdate(
         PackageJob,
         { id: job.id, status: 'failed' },
-        { status: 'queued', attempts: 0, error: null, claimToken: null, lockedBy: null },
+        { status: 'queued', attempts: 0, error: null, claimToken: null, lockedBy: null, requestId: currentRequestId() ?? null },
       );
       if (requeued !== 1)
         throw new RequestException(ErrorCode.Conflict, 'The package of this revision is waiting or being made: only a failed one is tried again.');

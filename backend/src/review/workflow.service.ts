@@ -1,3 +1,4 @@
+import { currentRequestId } from '../core/middleware/request-id';
 import { WorkflowCode } from '@ampwright/common';
 /**
  * The life of a sheet: being prepared → with the checker → checked → approved → issued, and back from
@@ -197,7 +198,7 @@ export class WorkflowService {
       requireMove('issue', auth, factsOf(s, await em.getRepository(SheetAuthor).notIndependent(s)));
       const revision = await this.revisions.freeze(em, s, fresh);
       // The signed package is made by a worker, off this request (see PackagesService).
-      em.persist(new PackageJob(revision));
+      em.persist(new PackageJob(revision, currentRequestId()));
       s.state = 'issued';
       return revision;
     });

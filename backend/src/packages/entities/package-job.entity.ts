@@ -44,13 +44,18 @@ export class PackageJob {
   @Property({ type: 'datetime', length: 3, nullable: true })
   heartbeatAt?: Date;
 
+  /** The id of the request that queued it (issue, or try again): the job's log lines carry it. */
+  @Property({ length: 64, nullable: true })
+  requestId?: string;
+
   @Property({ type: 'datetime', length: 3 })
   createdAt: Date & Opt = new Date();
 
   @Property({ type: 'datetime', length: 3, onUpdate: () => new Date() })
   updatedAt: Date & Opt = new Date();
 
-  constructor(revision: Revision) {
+  constructor(revision: Revision, requestId?: string) {
     this.revision = revision;
+    this.requestId = requestId;
   }
 }
