@@ -114,6 +114,11 @@ export class EvaluationPool {
     this.watch.unref();
   }
 
+  /** Tasks waiting for a free process. */
+  get waiting(): number {
+    return this.queue.length;
+  }
+
   /** Resolves once every process has loaded the engine (a task's deadline starts only then anyway). */
   async ready(): Promise<void> {
     while (!this.closed && [...this.children].some((c) => !c.ready)) await new Promise((r) => setTimeout(r, 20));

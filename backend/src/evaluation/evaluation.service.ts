@@ -4,7 +4,7 @@ import type { CsvTableResult } from '@ampwright/common';
 import type { Environment } from '../config/environment';
 import { EvaluationException } from '../core/errors/app-exception';
 import type { CertificateFacts } from '../packages/signing';
-import { evaluations } from '../metrics/metrics';
+import { evaluationDuration, evaluations, measureEvaluationQueue } from '../metrics/metrics';
 import { EvaluationPool, type PoolFailure, type PoolOutcome, type Reservation } from './evaluation-pool';
 import type { TaskKind, TaskOf, TaskResults } from './sandbox-protocol';
 import { EvaluationErrorCode } from '@ampwright/common';
@@ -45,6 +45,7 @@ export class EvaluationService implements OnModuleDestroy {
       perTenantQueued: config.get('EVALUATION_QUEUE_PER_FIRM', { infer: true }),
       nodeEnv: config.get('NODE_ENV', { infer: true }),
     });
+    measureEvaluationQueue(() => this.pool.waiting);
   }
 
   /** The sentence a person reads when a sheet could not be evaluated. */
@@ -81,8 +82,11 @@ export class EvaluationService implements OnModuleDestroy {
 
   /** Runs a task in an evaluation process (sheets go through SheetEvaluator, which says what came of them). */
   async run<K extends TaskKind>(task: TaskOf<K>, options: { tenant: string; key?: string; reservation?: Reservation }): Promise<PoolOutcome<TaskResults[K]>> {
+    const started = process.hrtime.bigint();
     const outcome = await this.pool.run(task, options);
-    evaluations.inc({ kind: task.kind, outcome: outcome.ok ? 'ok' : outcome.reason });
+    const result = outcome.ok ? 'ok' : outcome.reason;
+    evaluations.inc({ kind: task.kind, outcome: result });
+    evaluationDuration.observe({ kind: task.kind, outcome: result }, Number(process.hrtime.bigint() - started) / 1e9);
     // A stopped evaluation is an operator's business (a runaway sheet, a full queue): one line, with the
     // request's id (core/logger.ts), never the sheet's content.
     if (!outcome.ok) this.logger.warn({ event: 'evaluation stopped', kind: task.kind, reason: outcome.reason, firm: options.tenant });

@@ -8,6 +8,7 @@ import type { ConfigService } from '@nestjs/config';
 import { Logger } from '@nestjs/common';
 import { describe, expect, it, vi } from 'vitest';
 import { currentRequestId } from '../core/middleware/request-id';
+import { packageJobDuration, packageJobs } from '../metrics/metrics';
 import type { Environment } from '../config/environment';
 import type { ObjectStoreService } from '../files/object-store.service';
 import type { RevisionsService } from '../review/revisions.service';
@@ -109,5 +110,26 @@ describe('PackagesService', () => {
       status: 'failed',
       error: 'failed after 3 attempts: the certificate could not be opened',
     });
+  });
+
+  it("counts each run's outcome and time for the metrics: done, retried, failed, taken over", async () => {
+    const count = async (outcome: string) => (await packageJobs.get()).values.find((v) => v.labels.outcome === outcome)?.value ?? 0;
+    const timed = async (outcome: string) =>
+      (await packageJobDuration.get()).values.find((v) => v.metricName === 'ampwright_package_job_duration_seconds_count' && v.labels.outcome === outcome)
+        ?.value ?? 0;
+    const before = { done: await count('done'), retried: await count('retried'), failed: await count('failed'), over: await count('taken-over') };
+    const doneTimes = await timed('done');
+    const broken = async () => {
+      throw new Error('the store is down');
+    };
+    await setup().service.tick();
+    await setup({ attempts: 1, make: broken }).service.tick();
+    await setup({ attempts: 3, make: broken }).service.tick();
+    await setup({ holds: false }).service.tick();
+    expect(await count('done')).toBe(before.done + 1);
+    expect(await count('retried')).toBe(before.retried + 1);
+    expect(await count('failed')).toBe(before.failed + 1);
+    expect(await count('taken-over')).toBe(before.over + 1);
+    expect(await timed('done')).toBe(doneTimes + 1);
   });
 });

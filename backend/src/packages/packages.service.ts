@@ -3,6 +3,7 @@
  * it is off the request path and any app instance can take it), downloads for members and clients,
  * the client portal's list, and public verification of an uploaded PDF.
  */
+import { packageJobDuration, packageJobs } from '../metrics/metrics';
 import { currentRequestId, withRequestId } from '../core/middleware/request-id';
 import { createHash, randomUUID } from 'node:crypto';
 import { hostname } from 'node:os';
@@ -138,6 +139,11 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
     );
     const key = `packages/${revision.sheet.id}/${revision.code}-${revision.id}-${token}.pdf`;
     let stored = false;
+    const started = process.hrtime.bigint();
+    const finished = (outcome: 'done' | 'failed' | 'retried' | 'taken-over') => {
+      packageJobs.inc({ outcome });
+      packageJobDuration.observe({ outcome }, Number(process.hrtime.bigint() - started) / 1e9);
+    };
     try {
       const pdf = await this.make(revision, progress);
       if (lost || !(await this.beat(job.id, token))) throw new ClaimLost();
@@ -154,14 +160,17 @@ export class PackagesService implements OnApplicationBootstrap, BeforeApplicatio
         const recorded = await em.nativeUpdate(Revision, { id: revision.id, pdfSha256: null }, { pdfSha256: sha, pdfObjectKey: key });
         if (recorded !== 1) throw new ClaimLost();
       });
+      finished('done');
       this.logger.log(`package of ${revision.sheet.number} revision ${revision.code} made (${pdf.length} bytes, sha256 ${sha.slice(0, 12)}…)`);
     } catch (err) {
       if (stored) await this.store.delete(key).catch(() => undefined);
       if (err instanceof ClaimLost) {
+        finished('taken-over');
         this.logger.warn(`package of revision ${revision.id}: another run took the job over; this one wrote nothing`);
         return;
       }
       const last = job.attempts >= MAX_ATTEMPTS;
+      finished(last ? 'failed' : 'retried');
       const reason = (err as Error).message.slice(0, 400);
       this.logger.warn(`package of revision ${revision.id} failed (attempt ${job.attempts}): ${reason}`);
       await this.em.nativeUpdate(
