@@ -1,7 +1,8 @@
 import type { INestApplication } from '@nestjs/common';
 import { EntityManager } from '@mikro-orm/core';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { SessionRepository } from '../src/auth/session.repository';
 import { AuditEvent } from '../src/audit/entities/audit-event.entity';
 import { Session } from '../src/auth/entities/session.entity';
 import { PasswordService } from '../src/auth/password.service';
@@ -167,6 +168,12 @@ describe('accounts: register, sign in, sessions, reset, invitations, members', (
     );
     await http().get('/api/auth/me').set('cookie', cookie).expect(200);
     expect(Number(await left())).toBeLessThanOrEqual(10.1);
+    // Its end at that cap, further use writes nothing more (the end cannot move).
+    const slide = vi.spyOn(SessionRepository.prototype, 'slide');
+    await http().get('/api/auth/me').set('cookie', cookie).expect(200);
+    await http().get('/api/auth/me').set('cookie', cookie).expect(200);
+    expect(slide).not.toHaveBeenCalled();
+    slide.mockRestore();
     // Idle past its end: signed out.
     await sql(`update session set expires_at = now(3) - interval 1 second where token_hash = (${sessionOf})`);
     await http().get('/api/auth/me').set('cookie', cookie).expect(401);

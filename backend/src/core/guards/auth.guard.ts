@@ -97,8 +97,11 @@ export class AuthGuard implements CanActivate {
     const row = await sessions.live(hashToken(token));
     if (!row || new Date(row.expires_at).getTime() < Date.now()) return undefined;
     // Sliding sessions: each use moves the end to SESSION_IDLE_MINUTES from now, never past SESSION_HOURS
-    // from sign-in. Written at most once a minute a session, not at every request.
-    if (new Date(row.expires_at).getTime() - Date.now() < this.idleMinutes * 60_000 - 60_000) {
+    // from sign-in. Written at most once a minute a session, not at every request, and no more once the end
+    // has reached that cap (it cannot move).
+    const ends = new Date(row.expires_at).getTime();
+    const cap = new Date(row.created_at).getTime() + this.hours * 3_600_000;
+    if (ends < cap && ends - Date.now() < this.idleMinutes * 60_000 - 60_000) {
       await sessions.slide(row.token_hash, this.hours, this.idleMinutes);
     }
     const roles = (typeof row.m_roles === 'string' ? JSON.parse(row.m_roles) : row.m_roles) as Role[];
