@@ -38,7 +38,8 @@ export function measureEvaluationQueue(read: () => number): void {
   queueLength = read;
 }
 
-export const evaluationQueue = new Gauge({
+// Registered with the registry; read at each scrape.
+new Gauge({
   name: 'ampwright_evaluation_queue_length',
   help: 'Evaluation tasks waiting for a free evaluation process.',
   registers: [registry],

@@ -3,8 +3,6 @@
  * it is off the request path and any app instance can take it), downloads for members and clients,
  * the client portal's list, and public verification of an uploaded PDF.
  */
-import { packageJobDuration, packageJobs } from '../metrics/metrics';
-import { currentRequestId, withRequestId } from '../core/middleware/request-id';
 import { createHash, randomUUID } from 'node:crypto';
 import { hostname } from 'node:os';
 import { EntityManager, MikroORM, RequestContext } from '@mikro-orm/core';
@@ -15,7 +13,9 @@ import { Attachment } from '../attachments/entities/attachment.entity';
 import type { Environment } from '../config/environment';
 import { ErrorCode, PackageException, RequestException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
+import { currentRequestId, withRequestId } from '../core/middleware/request-id';
 import { ObjectStoreService } from '../files/object-store.service';
+import { packageJobDuration, packageJobs } from '../metrics/metrics';
 import { ProjectPerson } from '../projects/entities/project.entity';
 import { Revision } from '../review/entities/revision.entity';
 import type { RevisionSnapshot } from '../review/revisions.service';

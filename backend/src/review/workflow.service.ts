@@ -1,4 +1,3 @@
-import { currentRequestId } from '../core/middleware/request-id';
 import { WorkflowCode } from '@ampwright/common';
 /**
  * The life of a sheet: being prepared → with the checker → checked → approved → issued, and back from
@@ -12,6 +11,7 @@ import { AuditService } from '../audit/audit.service';
 import type { AuditType } from '../audit/entities/audit-event.entity';
 import { WorkflowException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
+import { currentRequestId } from '../core/middleware/request-id';
 import type { Role } from '../core/roles';
 import { Membership } from '../firms/entities/membership.entity';
 import { NotificationsService, type NoticeTarget } from '../notifications/notifications.service';
