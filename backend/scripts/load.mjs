@@ -73,7 +73,14 @@ function addTimings(headers) {
   }
 }
 
-/** Where a save's time went on the server, on average, from the phase's Server-Timing sums. */
+/** How many saves each path has stored so far (the app's ampwright_sheet_saves_total). */
+async function savesByPath() {
+  const text = await (await fetch(`${BASE}/api/metrics`)).text();
+  const count = (path) => Number(new RegExp(`ampwright_sheet_saves_total\\{path="${path}"\\} (\\d+)`).exec(text)?.[1] ?? 0);
+  return { oneCell: count('one-cell'), wholeSheet: count('whole-sheet') };
+}
+
+/** Where a save's time went on the server, on average, from the phase's Server-Timing sums; and which path the saves took. */
 function reportTimings(t) {
   if (!t.n) return;
   const mean = (x) => (x / t.n).toFixed(1);
@@ -81,6 +88,7 @@ function reportTimings(t) {
   process.stdout.write(
     `a save on the server, mean of ${t.n}: ${mean(t.total)} ms = database ${mean(t.db)} ms + evaluation ${mean(t.eval)} ms (the engine's own ${mean(t.engine)} ms) + everything else ${mean(rest)} ms (HTTP, validation, serialisation)\n`,
   );
+  if (t.paths) process.stdout.write(`saves by path: ${t.paths.oneCell} one-cell (the edited cell alone sent), ${t.paths.wholeSheet} whole-sheet\n`);
 }
 
 /** One figure for a group of users: their latency histograms merged. */
@@ -145,6 +153,7 @@ main(async () => {
    */
   async function phase(seconds, rate) {
     saveTimings = { n: 0, db: 0, eval: 0, engine: 0, total: 0 };
+    const pathsBefore = await savesByPath();
     // The last save of a previous phase may have been cut off before its answer: start from the truth.
     for (const w of writers) w.version = (await json(`/sheets/${w.sheetId}`, { session: w.session })).data.version;
     const pause = (k, n) => new Promise((r) => setTimeout(r, rate > 0 ? (k * 1000) / (n * rate) : 0));
@@ -171,7 +180,8 @@ main(async () => {
       return user([saveRequest(w)]);
     });
     const figures = [summarise(await Promise.all(readers), seconds), summarise(await Promise.all(savers), seconds)];
-    return [...figures, saveTimings];
+    const paths = await savesByPath();
+    return [...figures, { ...saveTimings, paths: { oneCell: paths.oneCell - pathsBefore.oneCell, wholeSheet: paths.wholeSheet - pathsBefore.wholeSheet } }];
   }
 
   /**

@@ -1,7 +1,7 @@
 import type { INestApplication } from '@nestjs/common';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { as, makeCaller, type Caller } from './support/sessions';
-import { expectStoredAsFresh } from './support/stored-results';
+import { expectStoredAsFresh, savedResults } from './support/stored-results';
 import { createTestApp } from './support/test-app';
 
 describe('projects and sheets', () => {
@@ -154,7 +154,9 @@ describe('projects and sheets', () => {
     const edit = await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${rId}`)
       .send({ version: 3, cell: { kind: 'calc', source: 'R = 12 ohm' } })
       .expect(200);
-    const p = edit.body.changed.find((c: { id: string }) => c.id !== rId);
+    // The edited cell comes whole; the cell that reads it, with its new results only (its content is unchanged).
+    expect(edit.body.changed.map((c: { id: string }) => c.id)).toEqual([rId]);
+    const p = edit.body.reevaluated.find((c: { id: string }) => c.id !== rId);
     expect(p.results.values.P.si).toBe(48);
     const moved = await as(app, engineer, 'post', `/api/sheets/${id}/cells/${rId}/move`).send({ version: 4, position: 1 }).expect(200);
     expect(moved.body.changed.find((c: { id: string }) => c.id === p.id).results.errors[0].message).toMatch(/R is used before it is defined/);
@@ -220,7 +222,7 @@ describe('projects and sheets', () => {
     const fixed = await as(app, engineer, 'patch', `/api/sheets/${created.body.id}/cells/${calc.id}`)
       .send({ version: saved.body.version, cell: { kind: 'calc', source: 'x = 3' } })
       .expect(200);
-    expect(fixed.body.changed.find((c: { id: string }) => c.id === check.id).results).toMatchObject({ kind: 'check', pass: false });
+    expect(savedResults(fixed.body, check.id)).toMatchObject({ kind: 'check', pass: false });
   });
 
   it('stores a change with its results at once: no read shows a version with results of another', async () => {
@@ -354,10 +356,10 @@ describe('projects and sheets', () => {
         },
       })
       .expect(200);
-    const results = bad.body.changed.find((c: { id: string }) => c.id === net.body.changed[0].id).results;
+    const results = savedResults(bad.body, net.body.changed[0].id)!;
     expect(results.errors[0]).toMatchObject({ line: 3, message: expect.stringMatching(/node Bx is joined only by row 3 \(Drive\)/) });
     // The check below no longer has THD_B, and says so rather than keep the old outcome.
-    expect(bad.body.changed.find((c: { id: string }) => c.id === check.body.changed[0].id).results.status).toBe('error');
+    expect(savedResults(bad.body, check.body.changed[0].id)?.status).toBe('error');
     // A kind of element the format does not know is refused, naming the field.
     await as(app, engineer, 'patch', `/api/sheets/${id}/cells/${net.body.changed[0].id}`)
       .send({ version: 4, cell: { kind: 'network', frequency: '50 Hz', reference: 'gnd', analysis: 'steady', elements: [{ ...elements[0], kind: 'diode' }] } })

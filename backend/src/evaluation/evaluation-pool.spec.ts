@@ -48,6 +48,42 @@ describe('EvaluationPool (child processes from dist/)', () => {
     expect(third.ok && third.value.results).toHaveLength(3);
   });
 
+  it('evaluates a one-cell edit of the sheet it keeps, sent as that cell alone, and says when it does not keep that sheet', async () => {
+    const stored = sheet('x = 2 V', [
+      { kind: 'calc', source: 'y = x / 2 ohm' },
+      { kind: 'calc', source: 'z = 3 A' },
+    ]);
+    const first = await pool.run({ kind: 'evaluate', sheet: stored, key: 's2' }, { tenant: 'a', key: 's2' });
+    // The process names the sheet it keeps by its fingerprint, for the server to store with the results.
+    expect(first.ok && first.value.fingerprint).toBe(sheetFingerprint(stored));
+    const base = sheetFingerprint(stored);
+    const edited = await pool.run({ kind: 'edit', key: 's2', base, index: 0, cell: { kind: 'calc', source: 'x = 6 V' } }, { tenant: 'a', key: 's2' });
+    const value = edited.ok && !('held' in edited.value) ? edited.value : undefined;
+    // Evaluated as the kept sheet with cell 0 replaced: cells 0 and 1 afresh, z as kept; only those two come back.
+    expect(value).toMatchObject({ complete: false, evaluated: [0, 1] });
+    expect(value?.results.map(([index]) => index)).toEqual([0, 1]);
+    expect((value?.results[1][1] as { values: Record<string, { si: number }> }).values.y.si).toBe(3);
+    // It now keeps the edited sheet, under the fingerprint the whole edited sheet has.
+    const whole = sheet('x = 6 V', stored.cells.slice(1));
+    expect(value?.fingerprint).toBe(sheetFingerprint(whole));
+    // The old base, another sheet's id, or a cell beyond the sheet: nothing evaluated, and it says so.
+    for (const task of [
+      { base, index: 0, key: 's2' },
+      { base: value!.fingerprint!, index: 0, key: 's-unknown' },
+      { base: value!.fingerprint!, index: 3, key: 's2' },
+      { base: value!.fingerprint!, index: -1, key: 's2' },
+    ]) {
+      const missed = await pool.run({ kind: 'edit', ...task, cell: { kind: 'calc', source: 'x = 1 V' } }, { tenant: 'a', key: task.key });
+      expect(missed).toEqual({ ok: true, value: { held: false } });
+    }
+    // A miss leaves what it keeps: the next edit of the right base is evaluated.
+    const again = await pool.run(
+      { kind: 'edit', key: 's2', base: value!.fingerprint!, index: 2, cell: { kind: 'calc', source: 'z = 4 A' } },
+      { tenant: 'a', key: 's2' },
+    );
+    expect(again.ok && !('held' in again.value) && again.value.evaluated).toEqual([2]);
+  });
+
   it('stops a task at its deadline, saying at which cell when it stopped itself, and the process lives on', async () => {
     expect(await pool.run({ kind: 'evaluate', sheet: RUNAWAY }, { tenant: 'a' })).toMatchObject({ ok: false, reason: 'timeout' });
     // Many cells, each quick: the evaluation stops itself between them and says at which.

@@ -1,19 +1,22 @@
 /**
  * An evaluation process (forked by EvaluationPool with a heap cap of its own). It evaluates sheets,
  * keeping the incremental-evaluation cache of the sheets it evaluated last (by sheet id), so a save
- * re-evaluates only the cells it can affect; it also parses CSV uploads and opens PKCS#12 files. The
+ * re-evaluates only the cells it can affect and a one-cell edit need send only that cell; it also parses CSV uploads and opens PKCS#12 files. The
  * cache only saves work — a result is reused only when the cell and everything it reads are unchanged —
  * so a cold or lost cache gives the same results, just later (common/src/cells/incremental.spec.ts).
  * The process holds no secret of the server (its environment is emptied) and exits with its parent.
  */
-import { csvToTableCell, ENGINE_VERSION, evaluateSheet, runWithDeadline, type EvaluationCache } from '@ampwright/common';
+import { csvToTableCell, ENGINE_VERSION, evaluateSheet, runWithDeadline, type EvaluationCache, type SheetFile } from '@ampwright/common';
 import { isPlainText } from '../files/plain-text';
 import { sheetFingerprint } from './sheet-fingerprint';
-import type { SandboxReply, SandboxRequest, SandboxTask, TaskResults } from './sandbox-protocol';
+import type { SandboxReply, SandboxRequest, SandboxTask, SheetEvaluated, TaskOf, TaskResults } from './sandbox-protocol';
 
 const KEPT = 64;
-/** By sheet id: the cache of the last evaluation of that sheet, and the fingerprint of the sheet it evaluated. */
-const caches = new Map<string, { fingerprint: string; cache: EvaluationCache }>();
+/**
+ * By sheet id: the last evaluation of that sheet — its cache, the sheet evaluated and that sheet's
+ * fingerprint. Kept only when the evaluation finished.
+ */
+const caches = new Map<string, { fingerprint: string; sheet: SheetFile; cache: EvaluationCache }>();
 
 /** The evaluation stopped at its deadline while evaluating cell `cell` (an index). */
 class Stopped extends Error {
@@ -22,29 +25,51 @@ class Stopped extends Error {
   }
 }
 
-function evaluate(task: Extract<SandboxTask, { kind: 'evaluate' }>, timeoutMs: number): TaskResults['evaluate'] {
-  const kept = task.key ? caches.get(task.key) : undefined;
-  if (task.key) caches.delete(task.key); // kept again only if this evaluation finishes
+type Kept = typeof caches extends Map<string, infer V> ? V : never;
+
+/**
+ * Evaluates `sheet` reusing `kept` (the evaluation of the sheet before it, if any) and keeps the new one
+ * under `key`. Every cell's results come back, or — when `base` names the kept sheet — only those of the
+ * cells evaluated afresh and of those `want` lists: the caller holds the others already.
+ */
+function evaluateKept(sheet: SheetFile, timeoutMs: number, kept: Kept | undefined, key?: string, base?: string, want: number[] = []): SheetEvaluated {
+  if (key) caches.delete(key); // kept again only if this evaluation finishes
   let at: number | undefined;
   const started = performance.now();
-  const outcome = runWithDeadline(Date.now() + timeoutMs, () => evaluateSheet(task.sheet, kept?.cache, (index) => (at = index)));
+  const outcome = runWithDeadline(Date.now() + timeoutMs, () => evaluateSheet(sheet, kept?.cache, (index) => (at = index)));
   if (outcome.passed) throw new Stopped(at);
   const engineMs = performance.now() - started;
   const evaluation = outcome.value;
-  if (task.key) {
-    caches.set(task.key, { fingerprint: sheetFingerprint(task.sheet), cache: evaluation.cache });
+  const fingerprint = key ? sheetFingerprint(sheet) : undefined;
+  if (key && fingerprint) {
+    caches.set(key, { fingerprint, sheet, cache: evaluation.cache });
     if (caches.size > KEPT) caches.delete(caches.keys().next().value as string);
   }
   // Only what differs from `base` when the kept evaluation was of it (the same cells and settings).
-  const complete = !(kept && task.base !== undefined && kept.fingerprint === task.base);
-  const sent = complete ? evaluation.cells.map((_, index) => index) : [...new Set([...evaluation.evaluated, ...(task.want ?? [])])].sort((a, b) => a - b);
+  const complete = !(kept && base !== undefined && kept.fingerprint === base);
+  const sent = complete ? evaluation.cells.map((_, index) => index) : [...new Set([...evaluation.evaluated, ...want])].sort((a, b) => a - b);
   return {
     results: sent.filter((index) => index < evaluation.cells.length).map((index) => [index, evaluation.cells[index]]),
     complete,
     engineVersion: ENGINE_VERSION,
     evaluated: evaluation.evaluated,
     engineMs,
+    fingerprint,
   };
+}
+
+function evaluate(task: TaskOf<'evaluate'>, timeoutMs: number): TaskResults['evaluate'] {
+  return evaluateKept(task.sheet, timeoutMs, task.key ? caches.get(task.key) : undefined, task.key, task.base, task.want);
+}
+
+/** One cell of a kept sheet replaced: evaluated only when what is kept is the sheet `base` names. */
+function edit(task: TaskOf<'edit'>, timeoutMs: number): TaskResults['edit'] {
+  const kept = caches.get(task.key);
+  if (!kept || kept.fingerprint !== task.base || !Number.isInteger(task.index) || task.index < 0 || task.index >= kept.sheet.cells.length)
+    return { held: false };
+  const cells = kept.sheet.cells.slice();
+  cells[task.index] = task.cell;
+  return evaluateKept({ ...kept.sheet, cells }, timeoutMs, kept, task.key, task.base, [task.index]);
 }
 
 async function certificate(task: Extract<SandboxTask, { kind: 'certificate' }>): Promise<TaskResults['certificate']> {
@@ -61,6 +86,8 @@ async function run(task: SandboxTask, timeoutMs: number): Promise<TaskResults[Sa
   switch (task.kind) {
     case 'evaluate':
       return evaluate(task, timeoutMs);
+    case 'edit':
+      return edit(task, timeoutMs);
     case 'csv':
       return isPlainText(task.bytes) ? csvToTableCell(Buffer.from(task.bytes).toString('utf8')) : { ok: false, binary: true };
     case 'certificate':

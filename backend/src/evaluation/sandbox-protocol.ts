@@ -3,7 +3,7 @@
  * unbounded time or memory to work through — a sheet, a CSV upload, a PKCS#12 file — is handled there,
  * where running out of memory or time ends one process and never the server.
  */
-import type { CellResult, CsvTableResult, SheetFile } from '@ampwright/common';
+import type { Cell, CellResult, CsvTableResult, SheetFile } from '@ampwright/common';
 import type { CertificateFacts } from '../packages/signing';
 
 /** What evaluating a sheet gave, as the process knows it. */
@@ -20,11 +20,18 @@ export interface SheetEvaluated {
   evaluated: number[];
   /** The engine's own time on the sheet, in ms (without the messages to and from the process). */
   engineMs: number;
+  /** The fingerprint (sheetFingerprint) of the sheet evaluated, which the process keeps its evaluation under (with a `key`). */
+  fingerprint?: string;
 }
 
 export interface TaskResults {
   /** Evaluates a sheet; `key` (a stored sheet's id) lets the process reuse what it kept of that sheet. */
   evaluate: SheetEvaluated;
+  /**
+   * Evaluates a kept sheet with one cell replaced; `held: false` (nothing evaluated) when the process does not
+   * keep the evaluation of the sheet `base` names — the caller then sends the whole sheet.
+   */
+  edit: SheetEvaluated | { held: false };
   /** Parses an uploaded CSV as a table cell; `binary` when the bytes are not UTF-8 text. */
   csv: CsvTableResult | { ok: false; binary: true };
   /** Opens an uploaded PKCS#12 file and describes its certificate. */
@@ -38,6 +45,11 @@ export type SandboxTask =
    * of that sheet, only what differs from it comes back, with the results of the cells `want` lists.
    */
   | { kind: 'evaluate'; sheet: SheetFile; key?: string; base?: string; want?: number[] }
+  /**
+   * The usual save, sent small: the sheet `key` as the process kept it (its fingerprint `base`) with the cell
+   * at `index` replaced by `cell`. What differs from `base` comes back, with the edited cell's results.
+   */
+  | { kind: 'edit'; key: string; base: string; index: number; cell: Cell }
   | { kind: 'csv'; bytes: Uint8Array }
   | { kind: 'certificate'; p12: Uint8Array; password: string };
 

@@ -1,6 +1,7 @@
 import { Injectable } from '@nestjs/common';
-import type { CellResult, SheetFile } from '@ampwright/common';
-import type { PoolFailure, Reservation } from './evaluation-pool';
+import type { Cell, CellResult, SheetFile } from '@ampwright/common';
+import type { PoolFailure, PoolOutcome, Reservation } from './evaluation-pool';
+import type { SheetEvaluated } from './sandbox-protocol';
 import { EvaluationService } from './evaluation.service';
 
 /** Why a sheet could not be evaluated: a domain outcome, never an HTTP error (the caller decides what to answer). */
@@ -23,6 +24,8 @@ interface Evaluated {
   engineMs: number;
   /** From asking to answer, waiting for a process included, in ms. */
   totalMs: number;
+  /** The fingerprint (sheetFingerprint) of the sheet evaluated, to store with its results; absent without a `key`. */
+  fingerprint?: string;
 }
 
 /** What evaluating a sheet gave: every cell's results, in the sheet's order. */
@@ -52,6 +55,14 @@ export interface ChangeOptions extends EvaluateOptions {
   want?: number[];
 }
 
+/** A one-cell edit: the cell at `index` of the sheet whose fingerprint is `base` becomes `cell`. */
+export interface EditOptions extends EvaluateOptions {
+  key: string;
+  base: string;
+  index: number;
+  cell: Cell;
+}
+
 /**
  * Evaluates sheets in the evaluation processes (evaluation-pool.ts, evaluation.child.ts) through the
  * typed messages of sandbox-protocol.ts, and says what came of it.
@@ -62,7 +73,7 @@ export class SheetEvaluator {
 
   /** Evaluates a sheet from scratch: every cell's results. */
   async evaluate(sheet: SheetFile, options: EvaluateOptions): Promise<SheetOutcome> {
-    const outcome = await this.run(sheet, options);
+    const outcome = await this.send(sheet, options);
     if (!outcome.ok) return outcome;
     const results: CellResult[] = [];
     for (const [index, result] of outcome.results) results[index] = result;
@@ -71,19 +82,37 @@ export class SheetEvaluator {
 
   /** Evaluates a sheet after a change, reusing what its process kept of the sheet before it (see ChangeOutcome). */
   evaluateChange(sheet: SheetFile, options: ChangeOptions): Promise<ChangeOutcome> {
-    return this.run(sheet, options);
+    return this.send(sheet, options);
   }
 
-  private async run(sheet: SheetFile, options: EvaluateOptions & Partial<ChangeOptions>): Promise<ChangeOutcome> {
+  private async send(sheet: SheetFile, options: EvaluateOptions & Partial<ChangeOptions>): Promise<ChangeOutcome> {
     const started = performance.now();
     const outcome = await this.evaluation.run(
       { kind: 'evaluate', sheet, key: options.key, base: options.base, want: options.want },
       { tenant: options.firm, key: options.key, reservation: options.reservation },
     );
+    return this.outcome(outcome, started);
+  }
+
+  /**
+   * Evaluates a one-cell edit without sending the sheet: its process must keep the evaluation of the sheet
+   * `base` names (the stored one); `held: false` when it does not, and nothing was evaluated — the caller
+   * then sends the whole sheet (evaluateChange). The results are those that differ from `base`'s, with the
+   * edited cell's.
+   */
+  async evaluateEdit(options: EditOptions): Promise<ChangeOutcome | { held: false; totalMs: number }> {
+    const started = performance.now();
+    const { key, base, index, cell } = options;
+    const outcome = await this.evaluation.run({ kind: 'edit', key, base, index, cell }, { tenant: options.firm, key, reservation: options.reservation });
+    if (outcome.ok && 'held' in outcome.value) return { held: false, totalMs: performance.now() - started };
+    return this.outcome(outcome as PoolOutcome<SheetEvaluated>, started);
+  }
+
+  private outcome(outcome: PoolOutcome<SheetEvaluated>, started: number): ChangeOutcome {
     const totalMs = performance.now() - started;
     if (outcome.ok) {
-      const { results, complete, engineVersion, evaluated, engineMs } = outcome.value;
-      return { ok: true, results: new Map(results), complete, engineVersion, evaluated, engineMs, totalMs };
+      const { results, complete, engineVersion, evaluated, engineMs, fingerprint } = outcome.value;
+      return { ok: true, results: new Map(results), complete, engineVersion, evaluated, engineMs, totalMs, fingerprint };
     }
     const where = outcome.cell !== undefined ? ` It was evaluating cell ${outcome.cell + 1} when it was stopped.` : '';
     return { ok: false, reason: outcome.reason, message: this.evaluation.sentence(outcome.reason, outcome.message) + where, cell: outcome.cell, totalMs };

@@ -1,7 +1,7 @@
 /**
  * What the app measures, in Prometheus's text format (prom-client): the process (CPU, memory, event-loop lag,
  * garbage collection), every request's time by method, route pattern and status, every evaluation's outcome
- * and time, the evaluation queue's length, and every package job's time and outcome. One registry per
+ * and time, the evaluation queue's length, saves by path, and every package job's time and outcome. One registry per
  * process; each app instance is scraped on its own.
  */
 import { collectDefaultMetrics, Counter, Gauge, Histogram, Registry } from 'prom-client';
@@ -60,5 +60,12 @@ export const packageJobs = new Counter({
   name: 'ampwright_package_jobs_total',
   help: 'Package jobs run, by outcome: done; failed for good; failed and queued again (retried); taken over by another run.',
   labelNames: ['outcome'] as const,
+  registers: [registry],
+});
+
+export const sheetSaves = new Counter({
+  name: 'ampwright_sheet_saves_total',
+  help: "Saved changes to sheets, by path: one-cell (only the edited cell sent to the process keeping the sheet's evaluation) or whole-sheet.",
+  labelNames: ['path'] as const,
   registers: [registry],
 });

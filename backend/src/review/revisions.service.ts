@@ -191,6 +191,7 @@ export class RevisionsService {
     for (const extra of existing.values()) em.remove(extra);
     // The stored results are now the snapshot's, not those of an evaluation of a version.
     sheet.resultsVersion = null;
+    sheet.resultsFingerprint = null;
   }
 
   toSummary(r: Revision): RevisionSummaryDto {

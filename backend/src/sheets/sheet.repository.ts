@@ -50,8 +50,12 @@ export interface SheetHeadingRow {
   resultsVersion: number | null;
   /** The engine that evaluated the stored results. */
   engineVersion: string | null;
-  /** With `heading(…, { cells: true })`: the cells of the version read, in order. */
+  /** The fingerprint of the content the stored results are the evaluation of (null: not known). */
+  resultsFingerprint: string | null;
+  /** With `heading(…, { cells: true })`: the cells of the version read, in order; with `{ cell }`, that one cell (or none). */
   cells?: CellRecord[];
+  /** With `heading(…, { cell })`: the ids of every cell of the version read, in order (absent if too many to list in one statement). */
+  cellIds?: string[];
 }
 
 /** The results of an evaluation of a whole sheet, stored only while the sheet is still at the version evaluated. */
@@ -62,12 +66,15 @@ export interface ResultsToStore {
   results: ReadonlyMap<string, CellResult>;
   /** The engine that evaluated them; null when the sheet could not be evaluated (the results say why). */
   engineVersion: string | null;
+  /** The fingerprint of the sheet evaluated (null: not known, or not evaluated). */
+  fingerprint: string | null;
 }
 
 /**
  * A saved change with its results, written together: the sheet goes from `version` to `version + 1` with
  * its results. `partial`: `results` holds only the cells evaluated afresh (and the edited one); the others'
- * stored results stay, which is right only while they are those of `version` by the same engine.
+ * stored results stay, which is right only while they are those of `version` by the same engine, of the
+ * content whose fingerprint is `base`.
  */
 export interface ChangeToStore {
   version: number;
@@ -76,6 +83,10 @@ export interface ChangeToStore {
   results: ReadonlyMap<string, CellResult>;
   partial: boolean;
   engineVersion: string | null;
+  /** With `partial`: the fingerprint of the content whose stored results these complete. */
+  base?: string;
+  /** The fingerprint of the content saved, which these results are of (null: not known, or not evaluated). */
+  fingerprint: string | null;
 }
 
 /** The sheet's row as a save finds it under its lock. */
@@ -84,6 +95,7 @@ export interface SaveLock {
   state: SheetState;
   resultsVersion: number | null;
   engineVersion: string | null;
+  resultsFingerprint: string | null;
 }
 
 const parsedJson = (v: unknown) => (typeof v === 'string' ? JSON.parse(v) : v);
@@ -237,6 +249,15 @@ const cellRecord = (r: CellRecordRow): CellRecord => ({
   changedAfterAgreement: !!r.changed_after_agreement,
 });
 
+/**
+ * The cells' ids in order from GROUP_CONCAT, or undefined when MariaDB cut the list at group_concat_max_len
+ * (its length is not that of every id and separator): the caller then reads the cells themselves.
+ */
+export function idList(row: { cell_ids?: string | null; cell_count?: number | string | null; cell_ids_length?: number | string | null }): string[] | undefined {
+  if (!row.cell_ids) return Number(row.cell_count ?? 0) === 0 ? [] : undefined;
+  return row.cell_ids.length === Number(row.cell_ids_length) ? row.cell_ids.split(',') : undefined;
+}
+
 const affected = (res: unknown) => (res as { affectedRows?: number }).affectedRows ?? 0;
 const placeholders = (n: number) => Array.from({ length: n }, () => '?').join(', ');
 
@@ -248,9 +269,10 @@ export class SheetRepository extends EntityRepository<Sheet> {
 
   /**
    * A sheet of a firm as a save needs it, without entities (another firm's sheet is null); with `cells`, its
-   * cells as a save changes them too, read in the same statement — so they are the cells of the version read.
+   * cells as a save changes them too, read in the same statement — so they are the cells of the version read;
+   * with `cell` (an id), only that cell as a save changes it and the ids of all, in order (a one-cell edit).
    */
-  async heading(firmId: string, id: string, options: { cells?: boolean } = {}): Promise<SheetHeadingRow | null> {
+  async heading(firmId: string, id: string, options: { cells?: boolean; cell?: string } = {}): Promise<SheetHeadingRow | null> {
     type Row = PeopleRow & {
       id: string;
       state: SheetState;
@@ -261,14 +283,24 @@ export class SheetRepository extends EntityRepository<Sheet> {
       extra: unknown;
       results_version: number | null;
       engine_version: string | null;
+      results_fingerprint: string | null;
+      cell_ids?: string | null;
+      cell_count?: number | string | null;
+      cell_ids_length?: number | string | null;
     };
-    const columns = `s.id, s.state, s.version, s.revision_number, s.title, s.settings, s.extra, s.results_version, s.engine_version, ${PEOPLE_COLUMNS}`;
+    const columns = `s.id, s.state, s.version, s.revision_number, s.title, s.settings, s.extra, s.results_version, s.engine_version, s.results_fingerprint, ${PEOPLE_COLUMNS}`;
     const rows = await this.em.execute<(Row & Partial<CellRecordRow>)[]>(
       options.cells
         ? `select ${columns}, c.id as cell_id, ${CELL_RECORD_COLUMNS} ${SHEET_JOINS} left join cell c on c.sheet_id = s.id ${CELL_PEOPLE}
              ${OF_FIRM} order by c.position`
-        : `select ${columns} ${SHEET_OF_FIRM}`,
-      [id, firmId],
+        : options.cell !== undefined
+          ? `select ${columns}, x.cell_ids, x.cell_count, x.cell_ids_length, c.id as cell_id, ${CELL_RECORD_COLUMNS} ${SHEET_JOINS}
+               left join (select sheet_id, group_concat(id order by position separator ',') as cell_ids, count(*) as cell_count,
+                                 sum(char_length(id)) + count(*) - 1 as cell_ids_length
+                            from cell where sheet_id = ? group by sheet_id) x on x.sheet_id = s.id
+               left join cell c on c.sheet_id = s.id and c.id = ? ${CELL_PEOPLE} ${OF_FIRM}`
+          : `select ${columns} ${SHEET_OF_FIRM}`,
+      options.cell !== undefined && !options.cells ? [id, options.cell, id, firmId] : [id, firmId],
     );
     const [s] = rows;
     if (!s) return null;
@@ -283,7 +315,11 @@ export class SheetRepository extends EntityRepository<Sheet> {
       ...peopleOf(s),
       resultsVersion: s.results_version,
       engineVersion: s.engine_version,
-      ...(options.cells ? { cells: rows.filter((r) => r.cell_id).map((r) => cellRecord({ ...(r as CellRecordRow), id: r.cell_id! })) } : {}),
+      resultsFingerprint: s.results_fingerprint,
+      ...(options.cells || options.cell !== undefined
+        ? { cells: rows.filter((r) => r.cell_id).map((r) => cellRecord({ ...(r as CellRecordRow), id: r.cell_id! })) }
+        : {}),
+      ...(options.cell !== undefined && !options.cells ? { cellIds: idList(s) } : {}),
     };
   }
 
@@ -348,19 +384,20 @@ export class SheetRepository extends EntityRepository<Sheet> {
       `update sheet s join cell c on c.sheet_id = s.id and c.id in (${placeholders(ids.length)})
           set ${columns.map(edited).join(', ')},
               c.results = ${results.length ? `case c.id ${results.map(() => 'when ? then ?').join(' ')} else c.results end` : 'c.results'},
-              s.version = ?, s.results_version = ?, s.engine_version = coalesce(?, s.engine_version), s.updated_at = ?
+              s.version = ?, s.results_version = ?, s.engine_version = coalesce(?, s.engine_version), s.results_fingerprint = ?, s.updated_at = ?
         where s.id = ? and s.version = ? and s.state in (${placeholders(change.states.length)})
-              ${change.partial ? 'and s.results_version = ? and s.engine_version = ?' : ''}`,
+              ${change.partial ? 'and s.results_version = ? and s.engine_version = ? and s.results_fingerprint = ?' : ''}`,
       [
         ...ids,
         ...values.flatMap((v) => [cell.id, v]),
         ...results.flatMap(([id, r]) => [id, JSON.stringify(r)]),
         ...this.raised(change),
+        change.fingerprint,
         new Date(),
         sheetId,
         change.version,
         ...change.states,
-        ...(change.partial ? [change.version, change.engineVersion] : []),
+        ...(change.partial ? [change.version, change.engineVersion, change.base ?? ''] : []),
       ],
       'run',
     );
@@ -374,23 +411,30 @@ export class SheetRepository extends EntityRepository<Sheet> {
 
   /** Locks a sheet's row for a save's transaction and says where it stands (null: deleted). */
   async lockForSave(sheetId: string): Promise<SaveLock | null> {
-    const [row] = await this.em.execute<{ version: number; state: SheetState; results_version: number | null; engine_version: string | null }[]>(
-      'select version, state, results_version, engine_version from sheet where id = ? for update',
-      [sheetId],
-    );
-    return row ? { version: row.version, state: row.state, resultsVersion: row.results_version, engineVersion: row.engine_version } : null;
+    const [row] = await this.em.execute<
+      { version: number; state: SheetState; results_version: number | null; engine_version: string | null; results_fingerprint: string | null }[]
+    >('select version, state, results_version, engine_version, results_fingerprint from sheet where id = ? for update', [sheetId]);
+    return row
+      ? {
+          version: row.version,
+          state: row.state,
+          resultsVersion: row.results_version,
+          engineVersion: row.engine_version,
+          resultsFingerprint: row.results_fingerprint,
+        }
+      : null;
   }
 
   /** In a save's transaction, under lockForSave: raises the version and writes the results given. */
-  async raiseWithResults(sheetId: string, change: Pick<ChangeToStore, 'version' | 'results' | 'engineVersion'>): Promise<void> {
+  async raiseWithResults(sheetId: string, change: Pick<ChangeToStore, 'version' | 'results' | 'engineVersion' | 'fingerprint'>): Promise<void> {
     await this.setByCell(
       sheetId,
       'results',
       [...change.results].map(([id, r]) => [id, JSON.stringify(r)]),
     );
     await this.em.execute(
-      'update sheet set version = ?, results_version = ?, engine_version = coalesce(?, engine_version), updated_at = ? where id = ?',
-      [...this.raised(change), new Date(), sheetId],
+      'update sheet set version = ?, results_version = ?, engine_version = coalesce(?, engine_version), results_fingerprint = ?, updated_at = ? where id = ?',
+      [...this.raised(change), change.fingerprint, new Date(), sheetId],
       'run',
     );
   }
@@ -457,8 +501,8 @@ export class SheetRepository extends EntityRepository<Sheet> {
         [...store.results].map(([id, r]) => [id, JSON.stringify(r)]),
       );
       await em.execute(
-        'update sheet set results_version = ?, engine_version = coalesce(?, engine_version) where id = ?',
-        [store.engineVersion === null ? null : store.version, store.engineVersion, sheetId],
+        'update sheet set results_version = ?, engine_version = coalesce(?, engine_version), results_fingerprint = ? where id = ?',
+        [store.engineVersion === null ? null : store.version, store.engineVersion, store.engineVersion === null ? null : store.fingerprint, sheetId],
         'run',
       );
       return true;

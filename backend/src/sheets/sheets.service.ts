@@ -22,10 +22,9 @@ import {
 import { ErrorCode, RequestException, SheetException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService, type Reservation } from '../evaluation/evaluation.service';
-import { SheetEvaluator } from '../evaluation/sheet-evaluator';
+import { SheetEvaluator, type ChangeOutcome } from '../evaluation/sheet-evaluator';
 import { addTiming, timed } from '../core/timing/server-timing';
 import { SheetRepository, type CellRecord, type CellWrites, type ChangeToStore, type SheetHeadingRow } from './sheet.repository';
-import { sheetFingerprint } from '../evaluation/sheet-fingerprint';
 import { Membership } from '../firms/entities/membership.entity';
 import { SheetAuthor } from './entities/sheet-author.entity';
 import { User } from '../users/entities/user.entity';
@@ -38,6 +37,7 @@ import { Sheet, type SheetState } from './entities/sheet.entity';
 import { actorOf, enforce } from '../core/errors/refusal';
 import { sheetFromFile } from './sheet-file';
 import { AuditService } from '../audit/audit.service';
+import { sheetSaves } from '../metrics/metrics';
 import { SheetErrorCode } from '@ampwright/common';
 
 export { SheetErrorCode };
@@ -64,6 +64,47 @@ interface Applied {
 interface Heading {
   title: string;
   settings: Record<string, unknown>;
+}
+
+/** An evaluation's results as a save stores them (ChangeToStore without the version and states). */
+type Evaluated = Pick<ChangeToStore, 'results' | 'partial' | 'engineVersion' | 'base' | 'fingerprint'>;
+
+/**
+ * The fingerprint of the content whose evaluation the stored results are, when they are this version's by
+ * this engine: the evaluation process then sends back only what differs from them.
+ */
+function storedBase(found: SheetHeadingRow): string | undefined {
+  return found.resultsVersion === found.version && found.engineVersion === ENGINE_VERSION ? (found.resultsFingerprint ?? undefined) : undefined;
+}
+
+/** A stored cell as the sheet file has it. */
+const cellFile = (c: Pick<CellRecord, 'kind' | 'fields'>) => ({ kind: c.kind, ...c.fields }) as SheetFile['cells'][number];
+
+/**
+ * A saved change's answer: each cell the change touched, whole, with its results; and the results of every
+ * other cell evaluated afresh (its content is as the editor has it).
+ */
+function answer(version: number, cells: readonly CellRecord[], applied: Applied, results: ReadonlyMap<string, CellResult>): SaveResult {
+  const touched = cells.filter((c) => applied.touched.has(c.id));
+  return {
+    version: version + 1,
+    changed: touched.map(
+      (c) =>
+        ({
+          id: c.id,
+          position: c.position,
+          kind: c.kind,
+          fields: c.fields,
+          results: results.get(c.id) ?? null,
+          changedBy: c.changedBy,
+          changedAt: c.changedAt.toISOString(),
+          agreedBy: c.agreedBy,
+          changedAfterAgreement: c.changedAfterAgreement,
+        }) as CellDto,
+    ),
+    reevaluated: [...results].filter(([id]) => !applied.touched.has(id)).map(([id, r]) => ({ id, results: r })),
+    removed: applied.removed ?? [],
+  };
 }
 
 /**
@@ -190,7 +231,7 @@ export class SheetsService {
       format: SHEET_FORMAT,
       title: sheet.title,
       settings: sheet.settings,
-      cells: cells.map((c) => ({ kind: c.kind, ...c.fields }) as SheetFile['cells'][number]),
+      cells: cells.map(cellFile),
     };
   }
 
@@ -271,21 +312,19 @@ export class SheetsService {
   }
 
   /**
-   * The path of every save (DEVELOPERS.md, "The path of a save"): the sheet read once (with the rulebook's
-   * say on who may edit it) and the change applied to its cells in memory; one evaluation of the changed
-   * sheet, outside any lock, whose process sends back only what differs from the stored results; and one
-   * write of the change with those results, raising the version only if it is still the one the change was
-   * made to — so of two concurrent saves exactly one wins, the other gets 409 with what its editor needs to
-   * merge. The usual one-cell edit is that write in one statement; any other change is one short transaction.
+   * The path of every save but the one-cell edit's (DEVELOPERS.md, "The path of a save"): the sheet read once
+   * (with the rulebook's say on who may edit it) and the change applied to its cells in memory; one evaluation
+   * of the changed sheet, outside any lock, whose process sends back only what differs from the stored
+   * results; and one write of the change with those results, raising the version only if it is still the one
+   * the change was made to — so of two concurrent saves exactly one wins, the other gets 409 with what its
+   * editor needs to merge.
    */
   private async change(auth: AuthContext, id: string, version: number, apply: Change): Promise<SaveResult> {
     const found = await timed('db', () => this.editableHeading(auth, id, { cells: true }));
     if (found.version !== version) throw await this.stale(id);
     const cells = found.cells ?? [];
     const heading: Heading = { title: found.title, settings: found.settings };
-    // The fingerprint of the sheet as stored, when the stored results are its own by this engine: the
-    // evaluation process then sends back only the results that differ from them.
-    const base = found.resultsVersion === version && found.engineVersion === ENGINE_VERSION ? sheetFingerprint(this.toFile(found, cells)) : undefined;
+    const base = storedBase(found);
     const placed = new Map(cells.map((c) => [c.id, c.position]));
     const applied = apply(heading, cells);
     const removed = new Set(applied.removed ?? []);
@@ -300,71 +339,95 @@ export class SheetsService {
     const now = [...kept, ...inserted].sort((a, b) => a.position - b.position);
     const headingChanged = heading.title !== found.title || heading.settings !== found.settings;
     const file = this.toFile({ extra: found.extra, ...heading }, now);
-    const actor = auth.user;
     // A place in the firm's evaluation queue is held before anything is evaluated or written: a firm whose
     // queue is full is told so (429) and its change is not saved, rather than saved and left unevaluated.
     return this.evaluation.holding(auth.firm.id, async (reservation) => {
       const want = now.flatMap((c, index) => (applied.touched.has(c.id) ? [index] : []));
-      let evaluated = await this.evaluateChange(id, file, now, { firm: auth.firm.id, reservation, base, want });
-      const store = (partial: boolean): ChangeToStore => ({
-        version,
-        states: EDITABLE,
-        results: evaluated.results,
-        partial,
-        engineVersion: evaluated.engineVersion,
-      });
-      // Safe to repeat when the database aborts it for a conflicting write (a Galera node's certification
-      // failure): each attempt locks the sheet and checks its version again, so it is stored once at most.
-      const write = (change: ChangeToStore) =>
-        timed('db', () =>
-          retryOnWriteConflict(async (): Promise<'saved' | 'stale' | 'results-moved'> => {
-            const simple = !headingChanged && actor.id === found.preparer.id && !inserted.length && !removed.size && !writes.moved.length;
-            if (simple && writes.edited.length === 1 && (await this.repository.saveCellEdit(id, writes.edited[0], change))) return 'saved';
-            return this.em.transactional(async (em) => {
-              const row = await this.repository.lockForSave(id);
-              if (!row || row.version !== version || !EDITABLE.includes(row.state)) return 'stale';
-              if (change.partial && (row.resultsVersion !== version || row.engineVersion !== change.engineVersion)) return 'results-moved';
-              if (actor.id !== found.preparer.id) await em.getRepository(SheetAuthor).recordEdit(id, found.revisionNumber, actor.id);
-              await this.repository.writeCells(id, writes);
-              if (headingChanged) await this.repository.writeHeading(id, heading);
-              await this.repository.raiseWithResults(id, change);
-              return 'saved';
-            });
-          }),
-        );
-      let saved = await write(store(evaluated.partial));
+      const ids = now.map((c) => c.id);
+      let evaluated = this.storable(ids, await this.evaluator.evaluateChange(file, { firm: auth.firm.id, reservation, key: id, base, want }), base);
+      const write = (results: Evaluated) => this.write(auth, found, writes, headingChanged ? heading : undefined, results);
+      let saved = await write(evaluated);
       if (saved === 'results-moved') {
         // The stored results changed since they were read (another engine, or evaluated afresh): every cell's.
-        evaluated = await this.evaluateChange(id, file, now, { firm: auth.firm.id, reservation, want });
-        saved = await write(store(false));
+        evaluated = this.storable(ids, await this.evaluator.evaluateChange(file, { firm: auth.firm.id, reservation, key: id, want }));
+        saved = await write(evaluated);
       }
       if (saved !== 'saved') throw await this.stale(id);
-      // The answer: each cell the change touched or whose results were written, built from what is in hand.
-      return {
-        version: version + 1,
-        changed: now
-          .filter((c) => applied.touched.has(c.id) || evaluated.results.has(c.id))
-          .map(
-            (c) =>
-              ({
-                id: c.id,
-                position: c.position,
-                kind: c.kind,
-                fields: c.fields,
-                results: evaluated.results.get(c.id) ?? null,
-                changedBy: c.changedBy,
-                changedAt: c.changedAt.toISOString(),
-                agreedBy: c.agreedBy,
-                changedAfterAgreement: c.changedAfterAgreement,
-              }) as CellDto,
-          ),
-        removed: applied.removed ?? [],
-      };
+      sheetSaves.inc({ path: 'whole-sheet' });
+      return answer(version, now, applied, evaluated.results);
     });
   }
 
+  /**
+   * The usual save — one cell's content edited by the preparer — sent small: the sheet's heading, that cell
+   * and the cells' ids read in one statement, and only that cell sent to the evaluation process that keeps the
+   * stored sheet's evaluation (named by its fingerprint); then the same write as every save. Whatever this path
+   * cannot do — the process does not keep that evaluation (another instance saved last, or it restarted), the
+   * stored results are not this version's, a co-preparer edits — the whole-sheet path (`change`) does.
+   */
+  private async changeOneCell(auth: AuthContext, id: string, cellId: string, version: number, apply: Change): Promise<SaveResult> {
+    const found = await timed('db', () => this.editableHeading(auth, id, { cell: cellId }));
+    if (found.version !== version) throw await this.stale(id);
+    const ids = found.cellIds ?? [];
+    const index = ids.indexOf(cellId);
+    const base = storedBase(found);
+    const [cell] = found.cells ?? [];
+    if (!cell || index < 0 || base === undefined || auth.user.id !== found.preparer.id) return this.change(auth, id, version, apply);
+    const applied = apply({ title: found.title, settings: found.settings }, [cell]);
+    const saved = await this.evaluation.holding(auth.firm.id, async (reservation) => {
+      const outcome = await this.evaluator.evaluateEdit({ firm: auth.firm.id, reservation, key: id, base, index, cell: cellFile(cell) });
+      if ('held' in outcome) {
+        addTiming('eval', outcome.totalMs);
+        return undefined;
+      }
+      const evaluated = this.storable(ids, outcome, base);
+      const written = await this.write(auth, found, { inserted: [], edited: [cell], moved: [], removed: [] }, undefined, evaluated);
+      if (written === 'stale') throw await this.stale(id);
+      if (written !== 'saved') return undefined;
+      sheetSaves.inc({ path: 'one-cell' });
+      return answer(version, [cell], applied, evaluated.results);
+    });
+    return saved ?? this.change(auth, id, version, apply);
+  }
+
+  /**
+   * Writes a change with its results, only while the sheet is still at the version read (and, for results
+   * that complete the stored ones, while those are still of the content `base` names). Safe to repeat when
+   * the database aborts it for a conflicting write (a Galera node's certification failure): each attempt
+   * checks the version again, so it is stored once at most. The usual one-cell edit is one statement; any
+   * other change is one short transaction.
+   */
+  private write(
+    auth: AuthContext,
+    found: SheetHeadingRow,
+    writes: CellWrites,
+    heading: Heading | undefined,
+    evaluated: Evaluated,
+  ): Promise<'saved' | 'stale' | 'results-moved'> {
+    const { id, version } = found;
+    const byPreparer = auth.user.id === found.preparer.id;
+    const change: ChangeToStore = { version, states: EDITABLE, ...evaluated };
+    return timed('db', () =>
+      retryOnWriteConflict(async () => {
+        const simple = !heading && byPreparer && !writes.inserted.length && !writes.removed.length && !writes.moved.length;
+        if (simple && writes.edited.length === 1 && (await this.repository.saveCellEdit(id, writes.edited[0], change))) return 'saved';
+        return this.em.transactional(async (em) => {
+          const row = await this.repository.lockForSave(id);
+          if (!row || row.version !== version || !EDITABLE.includes(row.state)) return 'stale';
+          if (change.partial && (row.resultsVersion !== version || row.engineVersion !== change.engineVersion || row.resultsFingerprint !== change.base))
+            return 'results-moved';
+          if (!byPreparer) await em.getRepository(SheetAuthor).recordEdit(id, found.revisionNumber, auth.user.id);
+          await this.repository.writeCells(id, writes);
+          if (heading) await this.repository.writeHeading(id, heading);
+          await this.repository.raiseWithResults(id, change);
+          return 'saved';
+        });
+      }),
+    );
+  }
+
   /** A sheet the caller may change, read as a save needs it (one query, no entities); 404 or the rulebook's refusal otherwise. */
-  private async editableHeading(auth: AuthContext, id: string, options: { cells?: boolean } = {}): Promise<SheetHeadingRow> {
+  private async editableHeading(auth: AuthContext, id: string, options: { cells?: boolean; cell?: string } = {}): Promise<SheetHeadingRow> {
     const heading = await this.repository.heading(auth.firm.id, id, options);
     if (!heading) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
     await this.assertMayEdit(auth, heading);
@@ -385,29 +448,29 @@ export class SheetsService {
   }
 
   /**
-   * Evaluates a changed sheet: the results by cell id — only those that differ from the stored ones
-   * (`partial`) when the process held the evaluation of `base`, every cell's otherwise. A sheet that cannot
-   * be evaluated at all (deadline, memory) gets, in every cell, the reason instead of a number: no result
-   * of an older state stays on screen. The change itself is saved.
+   * What an evaluation gives to store, by cell id (`ids`: the sheet's cells in order): only the results that
+   * differ from the stored ones (`partial`) when the process held the evaluation of the stored content, every
+   * cell's otherwise. A sheet that cannot be evaluated at all (deadline, memory) gets, in every cell, the
+   * reason instead of a number: no result of an older state stays on screen. The change itself is saved.
    */
-  private async evaluateChange(
-    id: string,
-    file: SheetFile,
-    cells: readonly { id: string }[],
-    options: { firm: string; reservation: Reservation; base?: string; want: number[] },
-  ): Promise<{ results: Map<string, CellResult>; partial: boolean; engineVersion: string | null }> {
-    const outcome = await this.evaluator.evaluateChange(file, { ...options, key: id });
+  private storable(ids: readonly string[], outcome: ChangeOutcome, base?: string): Evaluated {
     addTiming('eval', outcome.totalMs);
-    if (!outcome.ok) return { results: this.unevaluated(cells, outcome.message), partial: false, engineVersion: null };
+    if (!outcome.ok) return { results: this.unevaluated(ids, outcome.message), partial: false, engineVersion: null, fingerprint: null };
     addTiming('engine', outcome.engineMs);
     const results = new Map<string, CellResult>();
-    for (const [index, result] of outcome.results) results.set(cells[index].id, result);
-    return { results, partial: !outcome.complete, engineVersion: outcome.engineVersion };
+    for (const [index, result] of outcome.results) results.set(ids[index], result);
+    return {
+      results,
+      partial: !outcome.complete,
+      engineVersion: outcome.engineVersion,
+      base: outcome.complete ? undefined : base,
+      fingerprint: outcome.fingerprint ?? null,
+    };
   }
 
-  private unevaluated(cells: readonly { id: string }[], message: string): Map<string, CellResult> {
-    const list = unevaluatedResults(cells.length, message);
-    return new Map(cells.map((c, i) => [c.id, list[i]]));
+  private unevaluated(ids: readonly string[], message: string): Map<string, CellResult> {
+    const list = unevaluatedResults(ids.length, message);
+    return new Map(ids.map((id, i) => [id, list[i]]));
   }
 
   /**
@@ -432,8 +495,18 @@ export class SheetsService {
     options: { firm: string; reservation: Reservation },
   ): Promise<void> {
     const outcome = await this.evaluator.evaluate(file, { ...options, key: sheetId });
-    const results = outcome.ok ? new Map(cells.map((c, i) => [c.id, outcome.results[i]])) : this.unevaluated(cells, outcome.message);
-    await this.repository.storeResults(sheetId, { version, results, engineVersion: outcome.ok ? outcome.engineVersion : null });
+    const results = outcome.ok
+      ? new Map(cells.map((c, i) => [c.id, outcome.results[i]]))
+      : this.unevaluated(
+          cells.map((c) => c.id),
+          outcome.message,
+        );
+    await this.repository.storeResults(sheetId, {
+      version,
+      results,
+      engineVersion: outcome.ok ? outcome.engineVersion : null,
+      fingerprint: outcome.ok ? (outcome.fingerprint ?? null) : null,
+    });
   }
 
   update(auth: AuthContext, id: string, dto: UpdateSheetDto): Promise<SaveResult> {
@@ -501,8 +574,9 @@ export class SheetsService {
   async updateCell(auth: AuthContext, id: string, cellId: string, dto: UpdateCellDto): Promise<SaveResult> {
     const { kind, fields } = splitCell(dto.cell);
     const actor = auth.user;
-    const withdrawn: string[] = [];
-    const result = await this.change(auth, id, dto.version, (_heading, cells) => {
+    // A set: the change may be applied twice (the one-cell path, then the whole-sheet path).
+    const withdrawn = new Set<string>();
+    const result = await this.changeOneCell(auth, id, cellId, dto.version, (_heading, cells) => {
       const cell = cells.find((c) => c.id === cellId);
       if (!cell) throw new RequestException(ErrorCode.NotFound, 'No such cell in this sheet.');
       const changed = cell.kind !== kind || JSON.stringify(cell.fields) !== JSON.stringify(fields);
@@ -510,7 +584,7 @@ export class SheetsService {
       // An edit withdraws the checker's agreement, and marks the cell for the checker to look at again.
       if (changed && cell.agreedById) {
         Object.assign(cell, { agreedById: null, agreedBy: null, agreedAt: null, changedAfterAgreement: true });
-        withdrawn.push(cell.id);
+        withdrawn.add(cell.id);
       }
       return { touched: new Set([cell.id]), edited: new Set([cell.id]) };
     });

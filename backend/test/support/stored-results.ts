@@ -1,4 +1,5 @@
 import type { INestApplication } from '@nestjs/common';
+import type { CellResult, SaveResultDto } from '@ampwright/common';
 import { expect } from 'vitest';
 import { as, type Caller } from './sessions';
 
@@ -9,4 +10,9 @@ export async function expectStoredAsFresh(app: INestApplication, caller: Caller,
   const fresh = (await as(app, caller, 'post', '/api/evaluate').send(file).expect(200)).body;
   expect(stored.cells.map((c: { results: unknown }) => c.results)).toEqual(fresh.cells);
   return stored;
+}
+
+/** A cell's results as a save's answer gives them: whole in `changed` when the save touched it, in `reevaluated` otherwise. */
+export function savedResults(answer: SaveResultDto, cellId: string): CellResult | undefined {
+  return (answer.changed.find((c) => c.id === cellId)?.results ?? answer.reevaluated.find((c) => c.id === cellId)?.results) || undefined;
 }

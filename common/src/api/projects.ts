@@ -82,13 +82,21 @@ export interface CoPreparersBody {
 }
 
 /**
- * The answer to a saved change: the sheet's new version, every cell the change touched or whose results
- * were evaluated afresh (with their results), and the ids of cells removed.
+ * The answer to a saved change: the sheet's new version, every cell the change touched (its content, place
+ * or people), whole with its results; the results of the other cells evaluated afresh (their content is
+ * as the editor has it); and the ids of cells removed.
  */
 export interface SaveResultDto {
   version: number;
   changed: CellDto[];
+  reevaluated: CellResultsDto[];
   removed: string[];
+}
+
+/** A cell's new results, by its id. */
+export interface CellResultsDto {
+  id: string;
+  results: CellResult;
 }
 
 /** The answer to a CSV import: the save, and what was detected in the file (delimiter, decimal mark, size). */

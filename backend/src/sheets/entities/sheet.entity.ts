@@ -73,6 +73,14 @@ export class Sheet {
   @Property({ type: 'integer', nullable: true })
   resultsVersion?: number | null;
 
+  /**
+   * The fingerprint (sheetFingerprint: settings and cells) of the content whose evaluation the stored results
+   * are, as the evaluation process computed it; null when not known. A one-cell edit names it to the
+   * process that keeps the sheet's evaluation, so it sends only the edited cell (SheetsService.editCell).
+   */
+  @Property({ length: 64, nullable: true })
+  resultsFingerprint?: string | null;
+
   @Property({ type: 'datetime' })
   createdAt: Date & Opt = new Date();
 

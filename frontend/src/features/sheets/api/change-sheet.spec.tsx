@@ -13,7 +13,7 @@ const sheet = sheetOf;
 describe('mergeSave', () => {
   it('replaces changed cells, drops removed ones, adds new ones in position order and raises the version', () => {
     const before = sheet(3, [cell('a', 0, 'x = 1'), cell('b', 1, 'y = 2'), cell('c', 2, 'z = 3')]);
-    const after = mergeSave(before, { version: 4, changed: [cell('b', 0, 'y = 5'), cell('n', 1, 'n = 1')], removed: ['a'] });
+    const after = mergeSave(before, { version: 4, changed: [cell('b', 0, 'y = 5'), cell('n', 1, 'n = 1')], reevaluated: [], removed: ['a'] });
     expect(after.version).toBe(4);
     expect(after.cells.map((c) => [c.id, c.position])).toEqual([
       ['b', 0],
@@ -22,6 +22,15 @@ describe('mergeSave', () => {
     ]);
     expect(after.cells[0].fields.source).toBe('y = 5');
     expect(after.cells[2]).toBe(before.cells[2]); // untouched cells keep their identity, so they do not re-render
+  });
+
+  it('puts the new results of cells evaluated afresh in place, keeping their content', () => {
+    const result = { kind: 'calc', status: 'ok', errors: [], warnings: [], values: { y: { si: 7 } } } as unknown as CellResult;
+    const before = sheet(3, [cell('a', 0, 'x = 1'), cell('b', 1, 'y = 2 * x')]);
+    const after = mergeSave(before, { version: 4, changed: [cell('a', 0, 'x = 3.5')], reevaluated: [{ id: 'b', results: result }], removed: [] });
+    expect(after.cells[1].results).toBe(result);
+    expect(after.cells[1].fields).toBe(before.cells[1].fields);
+    expect(after.cells[0].fields.source).toBe('x = 3.5');
   });
 });
 
@@ -82,7 +91,7 @@ describe('useCellChange after someone else saved', () => {
     const theirs = contents(5, [cell('a', 0, 'x = 1'), cell('b', 1, 'y = 9', 'B')]);
     const sent = serverAnswers(
       { status: 409, body: { code: 'STALE_VERSION', message: 'stale', current: theirs } },
-      { status: 200, body: { version: 6, changed: [cell('a', 0, 'x = 2')], removed: [] } },
+      { status: 200, body: { version: 6, changed: [cell('a', 0, 'x = 2')], reevaluated: [], removed: [] } },
     );
     const { client, result } = setup(sheet(4, [cell('a', 0, 'x = 1'), cell('b', 1, 'y = 2')]));
     await act(() =>

@@ -54,17 +54,25 @@ export class EditConflict extends Error {
   }
 }
 
-/** The cached sheet with a save's answer merged in. */
+/**
+ * The cached sheet with a save's answer merged in: the cells it touched replaced, the new results of the
+ * others evaluated afresh put in place, the removed ones gone.
+ */
 export function mergeSave(sheet: SheetDto, result: SaveResultDto): SheetDto {
   const changed = new Map(result.changed.map((c) => [c.id, c]));
+  const results = new Map(result.reevaluated.map((r) => [r.id, r.results]));
   const removed = new Set(result.removed);
   const cells = sheet.cells
     .filter((c) => !removed.has(c.id))
     .map((c) => {
       const next = changed.get(c.id);
+      if (!next) {
+        const fresh = results.get(c.id);
+        return fresh ? ({ ...c, results: fresh } as CellDto) : c;
+      }
       // A cell whose content is as it was keeps its fields object (only its results are new), so what is drawn
       // from the content is not drawn again.
-      return !next ? c : next.kind === c.kind && sameCell(next.fields, c.fields) ? ({ ...next, fields: c.fields } as CellDto) : next;
+      return next.kind === c.kind && sameCell(next.fields, c.fields) ? ({ ...next, fields: c.fields } as CellDto) : next;
     });
   for (const c of result.changed) if (!sheet.cells.some((x) => x.id === c.id)) cells.push(c);
   cells.sort((a, b) => a.position - b.position);
@@ -129,7 +137,7 @@ export function useCellChange(sheetId: string) {
       if (change.type === 'update' && (!target || !sameCell(cellBody(target), change.base))) throw new EditConflict(target);
       if (change.type === 'delete' && !target) {
         void queryClient.invalidateQueries({ queryKey: key });
-        return { version: theirs.version, changed: [], removed: [change.cellId] };
+        return { version: theirs.version, changed: [], reevaluated: [], removed: [change.cellId] };
       }
       if (change.type === 'move' && !target) throw new EditConflict(null);
       return apply(change, attempt + 1);

@@ -19,7 +19,10 @@ describe('useCellDraft', () => {
       'fetch',
       vi.fn(
         async () =>
-          new Response(JSON.stringify({ version: 5, changed: [cell('x = 2')], removed: [] }), { status: 200, headers: { 'Content-Type': 'application/json' } }),
+          new Response(JSON.stringify({ version: 5, changed: [cell('x = 2')], reevaluated: [], removed: [] }), {
+            status: 200,
+            headers: { 'Content-Type': 'application/json' },
+          }),
       ),
     );
     const client = new QueryClient({ defaultOptions: { mutations: { retry: false } } });
