@@ -6,6 +6,7 @@
 import { EntityRepository } from '@mikro-orm/mariadb';
 import { revisionCode, type CellDto, type CellResult, type SheetContentsDto, type SheetDto, type SheetState } from '@ampwright/common';
 import { Sheet } from './entities/sheet.entity';
+import type { SheetViewCache } from './sheet-view-cache';
 
 /** A cell row as read for a sheet's view, without loading entities (reads are the hot path). */
 interface CellRow {
@@ -228,6 +229,30 @@ const CELL_JSON = `cast(concat('{"id":', json_quote(c.id), ',"position":', c.pos
   ',"agreedBy":', ${jsonText('cau.name')}, ',"changedAfterAgreement":', if(c.changed_after_agreement, 'true', 'false'), '}') as binary)`;
 const COMMA = Buffer.from(',');
 const EMPTY = Buffer.alloc(0);
+const CLOSE = Buffer.from(']}');
+
+/**
+ * The stamp of a sheet's cells (bound: the sheet id), as one row with one column `cells_stamp`: a SHA-256 over
+ * each cell's SHA-256 of every column CELL_JSON reads — keep the two in step — in order of place, so it
+ * changes whenever the cells' JSON would (SheetViewCache). Within a cell the parts are joined with commas:
+ * the id, place, kind, time and flag have fixed forms without commas, and every part a user writes (fields,
+ * results, names) enters as its own SHA-256, with '-' for NULL, so no two cells' parts join alike. Null when
+ * GROUP_CONCAT was cut at group_concat_max_len (then nothing is kept). SHA-256, not a shorter or weaker hash:
+ * the content is the users', and two contents made to share a stamp would show a reader the other.
+ */
+const CELLS_STAMP = `select if(length(coalesce(g.stamps, '')) = 64 * g.n, sha2(coalesce(g.stamps, ''), 256), null) as cells_stamp
+  from (select group_concat(sha2(concat_ws(',', c.id, c.position, c.kind, c.changed_at, c.changed_after_agreement, ${[
+    'c.fields',
+    'c.results',
+    'ccu.name',
+    'cau.name',
+  ]
+    .map((part) => `coalesce(sha2(${part}, 256), '-')`)
+    .join(', ')}), 256) order by c.position separator '') as stamps, count(*) as n
+          from cell c ${CELL_PEOPLE} where c.sheet_id = ?) g`;
+
+/** The JSON of a sheet's heading, up to the opening bracket of its cells. */
+const headingJson = (row: SheetRow) => Buffer.from(`${JSON.stringify({ ...viewHeading(row), cells: null }).slice(0, -'null}'.length)}[`);
 
 /** The columns of a cell as a save changes it (aliases: c for cell, ccu and cau for who changed and agreed it). */
 const CELL_RECORD_COLUMNS =
@@ -330,27 +355,42 @@ export class SheetRepository extends EntityRepository<Sheet> {
   }
 
   /**
-   * A sheet of a firm as the API shows it, as JSON bytes in one statement (null: not this firm's). The read of a
-   * sheet is the hot path: MariaDB writes each cell's JSON itself (CELL_JSON), passing its fields and results
-   * through as it holds them (the text JSON.stringify wrote), so the app only joins bytes — nothing is parsed
-   * and written again. The heading is the first row, the cells the rows after it, in order.
+   * A sheet of a firm as the API shows it, as JSON bytes (null: not this firm's). The read of a sheet is the hot
+   * path: MariaDB writes each cell's JSON itself (CELL_JSON), passing its fields and results through as it holds
+   * them (the text JSON.stringify wrote), so the app only joins bytes — nothing is parsed and written again.
+   * With a `cache`, a first statement reads the heading and the stamp of the cells as they are now
+   * (CELLS_STAMP); when the cache holds the cells' JSON of that stamp, that is the answer with the fresh
+   * heading, and the cells are not read. Otherwise one statement reads all: the heading with the stamp as the
+   * first row, the cells the rows after it, in order — one snapshot, so the JSON kept is that stamp's.
    */
-  async viewJson(firmId: string, id: string): Promise<Buffer | null> {
-    const rows = await this.em.execute<(Partial<SheetRow> & { part: number; place: number; cell_json: Buffer | null })[]>(
-      `select 0 as part, -1 as place, ${VIEW_HEADING_COLUMNS}, null as cell_json ${SHEET_OF_FIRM}
+  async viewJson(firmId: string, id: string, cache?: SheetViewCache): Promise<Buffer | null> {
+    if (cache) {
+      const [row] = await this.em.execute<(SheetRow & { cells_stamp: string | null })[]>(
+        `select ${VIEW_HEADING_COLUMNS}, x.cells_stamp ${SHEET_JOINS} join (${CELLS_STAMP}) x ${OF_FIRM}`,
+        [id, id, firmId],
+      );
+      if (!row) return null;
+      const cells = row.cells_stamp ? cache.get(id, row.cells_stamp) : undefined;
+      if (cells) return Buffer.concat([headingJson(row), cells, CLOSE]);
+    }
+    const rows = await this.em.execute<(Partial<SheetRow> & { part: number; place: number; cell_json: Buffer | null; cells_stamp: string | null })[]>(
+      `select 0 as part, -1 as place, ${VIEW_HEADING_COLUMNS}, null as cell_json, ${cache ? 'x.cells_stamp' : 'null'} as cells_stamp
+         ${SHEET_JOINS} ${cache ? `join (${CELLS_STAMP}) x` : ''} ${OF_FIRM}
        union all
-       select 1, c.position, ${HEADING_NULLS}, ${CELL_JSON} as cell_json
+       select 1, c.position, ${HEADING_NULLS}, ${CELL_JSON} as cell_json, null
          from cell c join sheet s on s.id = c.sheet_id join project p on p.id = s.project_id ${CELL_PEOPLE}
         where c.sheet_id = ? and p.firm_id = ?`,
-      [id, firmId, id, firmId],
+      cache ? [id, id, firmId, id, firmId] : [id, firmId, id, firmId],
     );
     // In order by hand: an ORDER BY over the union would copy every cell's JSON into a temporary table to sort it.
     rows.sort((a, b) => a.part - b.part || a.place - b.place);
     if (rows[0]?.part !== 0) return null;
-    const parts: Buffer[] = [Buffer.from(`${JSON.stringify({ ...viewHeading(rows[0] as SheetRow), cells: null }).slice(0, -'null}'.length)}[`)];
+    const parts: Buffer[] = [];
     for (let k = 1; k < rows.length; k++) parts.push(k > 1 ? COMMA : EMPTY, rows[k].cell_json!);
-    parts.push(Buffer.from(']}'));
-    return Buffer.concat(parts);
+    const cells = Buffer.concat(parts);
+    const stamp = rows[0].cells_stamp;
+    if (cache && stamp) cache.set(id, stamp, cells);
+    return Buffer.concat([headingJson(rows[0] as SheetRow), cells, CLOSE]);
   }
 
   /** What an editor needs to merge after its save was refused as stale: the version and the cells' content now. */

@@ -8,11 +8,12 @@ import { TemplatesModule } from '../templates/templates.module';
 import { TemplatesController } from '../templates/templates.controller';
 import { SheetsController } from './sheets.controller';
 import { SheetsService } from './sheets.service';
+import { SheetViewCache } from './sheet-view-cache';
 
 @Module({
   imports: [MikroOrmModule.forFeature([Sheet, Cell]), ProjectsModule, TemplatesModule, EvaluationModule],
   controllers: [SheetsController, TemplatesController],
-  providers: [SheetsService],
+  providers: [SheetsService, SheetViewCache],
   exports: [SheetsService],
 })
 export class SheetsModule {}

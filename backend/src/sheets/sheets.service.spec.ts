@@ -15,6 +15,7 @@ import type { ChangeOptions, ChangeOutcome, EditOptions, SheetEvaluator } from '
 import type { ProjectsService } from '../projects/projects.service';
 import type { TemplatesService } from '../templates/templates.service';
 import type { CellRecord, ChangeToStore, SaveLock, SheetRepository } from './sheet.repository';
+import { SheetViewCache } from './sheet-view-cache';
 import { SheetsService } from './sheets.service';
 
 const author = { id: 'u-1', name: 'Ada Preparer' };
@@ -123,6 +124,7 @@ function setup(
     evaluator as unknown as SheetEvaluator,
     repository as unknown as SheetRepository,
     audit as unknown as AuditService,
+    new SheetViewCache(),
   );
   return { service, repository, evaluator, cells, em, authors };
 }

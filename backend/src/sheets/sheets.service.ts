@@ -38,6 +38,7 @@ import { actorOf, enforce } from '../core/errors/refusal';
 import { sheetFromFile } from './sheet-file';
 import { AuditService } from '../audit/audit.service';
 import { sheetSaves } from '../metrics/metrics';
+import { SheetViewCache } from './sheet-view-cache';
 import { SheetErrorCode } from '@ampwright/common';
 
 export { SheetErrorCode };
@@ -133,6 +134,7 @@ export class SheetsService {
     private readonly evaluator: SheetEvaluator,
     private readonly repository: SheetRepository,
     private readonly audit: AuditService,
+    private readonly viewCache: SheetViewCache,
   ) {}
 
   /** A sheet of the caller's firm (members only); another firm's id is 404. */
@@ -257,7 +259,7 @@ export class SheetsService {
 
   /** The sheet as `get` gives it, as JSON bytes with the stored results passed through unparsed (the read of GET /sheets/:id). */
   async getJson(auth: AuthContext, id: string): Promise<Buffer> {
-    const json = await this.repository.viewJson(auth.firm.id, id);
+    const json = await this.repository.viewJson(auth.firm.id, id, this.viewCache);
     if (!json) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
     return json;
   }
