@@ -6,6 +6,7 @@ import { EvaluationException } from '../core/errors/app-exception';
 import type { CertificateFacts } from '../packages/signing';
 import { evaluationDuration, evaluations, measureEvaluationQueue } from '../metrics/metrics';
 import { EvaluationPool, type PoolFailure, type PoolOutcome, type Reservation } from './evaluation-pool';
+import { RefusalLog } from './refusal-log';
 import type { TaskKind, TaskOf, TaskResults } from './sandbox-protocol';
 import { EvaluationErrorCode } from '@ampwright/common';
 
@@ -29,6 +30,7 @@ const CODES: Record<PoolFailure, EvaluationErrorCode> = {
 export class EvaluationService implements OnModuleDestroy {
   private readonly pool: EvaluationPool;
   private readonly logger = new Logger('Evaluation');
+  private readonly busyRefusals = new RefusalLog();
   private readonly limits: { timeoutMs: number; waitMs: number; memoryMb: number };
 
   constructor(config: ConfigService<Environment, true>) {
@@ -89,7 +91,19 @@ export class EvaluationService implements OnModuleDestroy {
     evaluationDuration.observe({ kind: task.kind, outcome: result }, Number(process.hrtime.bigint() - started) / 1e9);
     // A stopped evaluation is an operator's business (a runaway sheet, a full queue): one line, with the
     // request's id (core/logger.ts), never the sheet's content.
-    if (!outcome.ok) this.logger.warn({ event: 'evaluation stopped', kind: task.kind, reason: outcome.reason, firm: options.tenant });
+    if (!outcome.ok) {
+      // A busy evaluator's refusals are logged once a minute per firm, with how many were not (a flood must
+      // not flood the log); every other stop is logged.
+      const logged = outcome.reason === 'busy' ? this.busyRefusals.take(options.tenant) : { unlogged: 0 };
+      if (logged)
+        this.logger.warn({
+          event: 'evaluation stopped',
+          kind: task.kind,
+          reason: outcome.reason,
+          firm: options.tenant,
+          ...(logged.unlogged ? { notLoggedSince: logged.unlogged } : {}),
+        });
+    }
     return outcome;
   }
 
