@@ -3,7 +3,8 @@
 // every other. Each trial is one keystroke in the first cell (a digit typed, or taken away again); times
 // are taken in the page from the key's event to:
 //   - the preview of the edited cell (the browser's engine, in the sheet page's worker),
-//   - the preview of the whole sheet (the last dependent cell changed on screen),
+//   - the preview of every cell on screen (the lowest dependent result inside the window changed),
+//   - the preview of the whole sheet (the last dependent cell changed, below the window: drawn in the background),
 //   - the stored result (the server's answer merged, the save state back to Saved, no preview left).
 // Prints p50 and p95 of each; the goal is a preview p95 of at most 100 ms. Figures, not a test.
 // BENCH_TRIALS (40) keystrokes; BENCH_PROFILE=file.cpuprofile also writes the page's CPU profile of the run.
@@ -78,7 +79,17 @@ main(async () => {
       document.addEventListener('keydown', (e) => (window.__key = e.timeStamp), true);
     });
 
-    const times = { cell: [], sheet: [], stored: [] };
+    // The lowest branch current inside the window: when it has changed, every cell the user can see has.
+    const onScreen = await page.evaluate(() => {
+      let last = 0;
+      for (let k = 0; k < 49; k++) {
+        const box = document.querySelector(`[data-testid="result-I_${k}"]`)?.getBoundingClientRect();
+        if (box && box.top >= 0 && box.bottom <= window.innerHeight) last = k;
+      }
+      return `result-I_${last}`;
+    });
+    log(`the lowest result on screen: ${onScreen}`);
+    const times = { cell: [], screen: [], sheet: [], stored: [] };
     const cdp = process.env.BENCH_PROFILE ? await page.context().newCDPSession(page) : null;
     if (cdp) {
       await cdp.send('Profiler.enable');
@@ -87,18 +98,19 @@ main(async () => {
     log(`benchmark: ${TRIALS} keystrokes in the first cell of a 100-cell sheet`);
     for (let t = 0; t < TRIALS + 3; t++) {
       const watching = page.evaluate(
-        () =>
+        (onScreen) =>
           new Promise((resolve, reject) => {
             const text = (id) => document.querySelector(`[data-testid="${id}"]`)?.textContent ?? '';
-            const before = { cell: text('result-V_s'), sheet: text('result-I_48') };
+            const before = { cell: text('result-V_s'), screen: text(onScreen), sheet: text('result-I_48') };
             const out = {};
             const check = () => {
               if (!window.__key) return;
               const now = performance.now();
               if (out.cell === undefined && text('result-V_s') !== before.cell) out.cell = now - window.__key;
+              if (out.screen === undefined && text(onScreen) !== before.screen) out.screen = now - window.__key;
               if (out.sheet === undefined && text('result-I_48') !== before.sheet) out.sheet = now - window.__key;
               const state = document.querySelector('[aria-label^="Cell 1:"][data-testid="save-state"]')?.textContent;
-              if (out.sheet !== undefined && state === 'Saved' && !document.querySelector('[data-testid="preview-mark"]')) {
+              if (out.sheet !== undefined && out.screen !== undefined && state === 'Saved' && !document.querySelector('[data-testid="preview-mark"]')) {
                 out.stored = now - window.__key;
                 observer.disconnect();
                 clearTimeout(timer);
@@ -109,6 +121,7 @@ main(async () => {
             observer.observe(document.body, { subtree: true, childList: true, characterData: true, attributes: true });
             const timer = setTimeout(() => (observer.disconnect(), reject(new Error(`no result within 10 s: ${JSON.stringify(out)}`))), 10000);
           }),
+        onScreen,
       );
       await page.evaluate(() => (window.__key = 0));
       await page.keyboard.press(t % 2 === 0 ? '1' : 'Backspace');
@@ -134,9 +147,16 @@ main(async () => {
         '',
         `keystroke → result on screen, ${TRIALS} keystrokes, 100-cell sheet, ${new Date().toISOString().slice(0, 10)}`,
         row('preview of the edited cell', times.cell),
+        row('preview of every cell on screen', times.screen),
         row('preview of the whole sheet', times.sheet),
         row('stored result (saved, evaluated)', times.stored),
-        `goal: preview p95 ≤ ${GOAL_MS} ms — edited cell ${quantile(times.cell, 0.95) <= GOAL_MS ? 'met' : 'NOT met'}, whole sheet ${quantile(times.sheet, 0.95) <= GOAL_MS ? 'met' : 'NOT met'}`,
+        `goal: preview p95 ≤ ${GOAL_MS} ms — ${[
+          ['edited cell', times.cell],
+          ['every cell on screen', times.screen],
+          ['whole sheet', times.sheet],
+        ]
+          .map(([name, xs]) => `${name} ${quantile(xs, 0.95) <= GOAL_MS ? 'met' : 'NOT met'}`)
+          .join(', ')}`,
         '',
       ].join('\n'),
     );

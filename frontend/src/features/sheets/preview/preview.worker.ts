@@ -6,14 +6,10 @@
  * one that does not even reach a check of the clock is ended by the page, which replaces the worker.
  */
 import { evaluateSheet, runWithDeadline, type EvaluationCache } from '@ampwright/common';
+import { PartialCadence } from './partial-cadence';
 import type { PreviewReply, PreviewRequest } from './preview-protocol';
 
 const PREVIEW_DEADLINE_MS = 2000;
-/**
- * An evaluation still running sends the results it has so far, once: as soon as the first cell evaluated
- * afresh (the edited one, the cells above it being reused) is done, or after this long, whichever is first.
- */
-const PARTIAL_AFTER_MS = 8;
 
 let cache: EvaluationCache | undefined;
 const reply = (message: PreviewReply) => (self as unknown as Worker).postMessage(message);
@@ -22,14 +18,11 @@ self.onmessage = (event: MessageEvent<PreviewRequest>) => {
   const { id, sheet } = event.data;
   const started = performance.now();
   try {
-    let sent = false;
-    let fresh = 0;
+    const cadence = new PartialCadence(started);
     const outcome = runWithDeadline(Date.now() + PREVIEW_DEADLINE_MS, () =>
       // Called before each cell evaluated afresh, with the results done so far.
       evaluateSheet(sheet, cache, (_index, done) => {
-        if (sent || (++fresh < 2 && performance.now() - started < PARTIAL_AFTER_MS)) return;
-        sent = true;
-        reply({ id, partial: true, results: done.slice() });
+        if (cadence.due(done.length, performance.now())) reply({ id, partial: true, results: done.slice() });
       }),
     );
     if (outcome.passed) {
