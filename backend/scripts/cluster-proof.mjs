@@ -127,12 +127,14 @@ main(async () => {
   at('waiting for the last requests of the load');
   await Promise.all(load);
 
-  // The sign-in limit is one count whichever app and node take the attempts: HAProxy alternates the apps,
-  // and five wrong passwords for an account use up its five a minute, so the sixth is refused.
+  // The sign-in limit is one count whichever app and node take the attempts: they go to the apps in turn,
+  // straight to their ports (HAProxy sends one path to one app), and five wrong passwords for an account use
+  // up its five a minute, so the sixth is refused.
   at('checking the sign-in limit');
+  const apps = CLUSTER.appPorts.map((port) => apiClient(`http://127.0.0.1:${port}/api`).call);
   const attempts = [];
   for (let k = 0; k < 6; k++)
-    attempts.push((await call('POST', '/auth/login', { body: { email: 'checker@northfold.example', password: 'not the password' } })).status);
+    attempts.push((await apps[k % apps.length]('POST', '/auth/login', { body: { email: 'checker@northfold.example', password: 'not the password' } })).status);
   const limitExact = attempts.slice(0, 5).every((status) => status === 401) && attempts[5] === 429;
 
   // Every node in sync, then each asked for every acknowledged save, and for a checksum of the tables.
