@@ -12,11 +12,14 @@ import { sheetFingerprint } from './sheet-fingerprint';
 import type { SandboxReply, SandboxRequest, SandboxTask, SheetEvaluated, TaskOf, TaskResults } from './sandbox-protocol';
 
 const KEPT = 64;
-/**
- * By sheet id: the last evaluation of that sheet — its cache, the sheet evaluated and that sheet's
- * fingerprint. Kept only when the evaluation finished.
- */
-const caches = new Map<string, { fingerprint: string; sheet: SheetFile; cache: EvaluationCache }>();
+/** The last evaluation of a sheet: its cache, the sheet evaluated and that sheet's fingerprint. */
+interface Kept {
+  fingerprint: string;
+  sheet: SheetFile;
+  cache: EvaluationCache;
+}
+/** By sheet id; kept only when the evaluation finished. */
+const caches = new Map<string, Kept>();
 
 /** The evaluation stopped at its deadline while evaluating cell `cell` (an index). */
 class Stopped extends Error {
@@ -24,8 +27,6 @@ class Stopped extends Error {
     super('stopped at its deadline');
   }
 }
-
-type Kept = typeof caches extends Map<string, infer V> ? V : never;
 
 /**
  * Evaluates `sheet` reusing `kept` (the evaluation of the sheet before it, if any) and keeps the new one
@@ -40,8 +41,9 @@ function evaluateKept(sheet: SheetFile, timeoutMs: number, kept: Kept | undefine
   if (outcome.passed) throw new Stopped(at);
   const engineMs = performance.now() - started;
   const evaluation = outcome.value;
-  const fingerprint = key ? sheetFingerprint(sheet) : undefined;
-  if (key && fingerprint) {
+  let fingerprint: string | undefined;
+  if (key) {
+    fingerprint = sheetFingerprint(sheet);
     caches.set(key, { fingerprint, sheet, cache: evaluation.cache });
     if (caches.size > KEPT) caches.delete(caches.keys().next().value as string);
   }

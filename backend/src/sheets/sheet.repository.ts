@@ -313,19 +313,20 @@ export class SheetRepository extends EntityRepository<Sheet> {
       cell_count?: number | string | null;
       cell_ids_length?: number | string | null;
     };
+    const oneCell = options.cell !== undefined && !options.cells;
     const columns = `s.id, s.state, s.version, s.revision_number, s.title, s.settings, s.extra, s.results_version, s.engine_version, s.results_fingerprint, ${PEOPLE_COLUMNS}`;
     const rows = await this.em.execute<(Row & Partial<CellRecordRow>)[]>(
       options.cells
         ? `select ${columns}, c.id as cell_id, ${CELL_RECORD_COLUMNS} ${SHEET_JOINS} left join cell c on c.sheet_id = s.id ${CELL_PEOPLE}
              ${OF_FIRM} order by c.position`
-        : options.cell !== undefined
+        : oneCell
           ? `select ${columns}, x.cell_ids, x.cell_count, x.cell_ids_length, c.id as cell_id, ${CELL_RECORD_COLUMNS} ${SHEET_JOINS}
                left join (select sheet_id, group_concat(id order by position separator ',') as cell_ids, count(*) as cell_count,
                                  sum(char_length(id)) + count(*) - 1 as cell_ids_length
                             from cell where sheet_id = ? group by sheet_id) x on x.sheet_id = s.id
                left join cell c on c.sheet_id = s.id and c.id = ? ${CELL_PEOPLE} ${OF_FIRM}`
           : `select ${columns} ${SHEET_OF_FIRM}`,
-      options.cell !== undefined && !options.cells ? [id, options.cell, id, firmId] : [id, firmId],
+      oneCell ? [id, options.cell, id, firmId] : [id, firmId],
     );
     const [s] = rows;
     if (!s) return null;
@@ -341,10 +342,8 @@ export class SheetRepository extends EntityRepository<Sheet> {
       resultsVersion: s.results_version,
       engineVersion: s.engine_version,
       resultsFingerprint: s.results_fingerprint,
-      ...(options.cells || options.cell !== undefined
-        ? { cells: rows.filter((r) => r.cell_id).map((r) => cellRecord({ ...(r as CellRecordRow), id: r.cell_id! })) }
-        : {}),
-      ...(options.cell !== undefined && !options.cells ? { cellIds: idList(s) } : {}),
+      ...(options.cells || oneCell ? { cells: rows.filter((r) => r.cell_id).map((r) => cellRecord({ ...(r as CellRecordRow), id: r.cell_id! })) } : {}),
+      ...(oneCell ? { cellIds: idList(s) } : {}),
     };
   }
 

@@ -497,12 +497,8 @@ export class SheetsService {
     options: { firm: string; reservation: Reservation },
   ): Promise<void> {
     const outcome = await this.evaluator.evaluate(file, { ...options, key: sheetId });
-    const results = outcome.ok
-      ? new Map(cells.map((c, i) => [c.id, outcome.results[i]]))
-      : this.unevaluated(
-          cells.map((c) => c.id),
-          outcome.message,
-        );
+    const ids = cells.map((c) => c.id);
+    const results = outcome.ok ? new Map(ids.map((id, i) => [id, outcome.results[i]])) : this.unevaluated(ids, outcome.message);
     await this.repository.storeResults(sheetId, {
       version,
       results,
