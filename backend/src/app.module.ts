@@ -57,6 +57,7 @@ const staticFrontEnd = ServeStaticModule.forRootAsync({
           DB_NAME: config.get('DB_NAME', { infer: true }),
           DB_USER: config.get('DB_USER', { infer: true }),
           DB_PASSWORD: config.get('DB_PASSWORD', { infer: true }),
+          DB_POOL_SIZE: config.get('DB_POOL_SIZE', { infer: true }),
         }),
     }),
     ThrottlerModule.forRootAsync({

@@ -52,7 +52,7 @@ describe('the kept cells of a sheet read', () => {
   /** The sheet as a read that keeps nothing gives it. */
   const uncached = async () => {
     const repository = app.get(EntityManager).fork().getRepository(Sheet) as SheetRepository;
-    return (await repository.viewJson(engineer.firm.id, sheetId))!.toString('utf8');
+    return Buffer.concat((await repository.viewJson(engineer.firm.id, sheetId))!).toString('utf8');
   };
   const read = async () => (await as(app, engineer, 'get', `/api/sheets/${sheetId}`).expect(200)).text;
 

@@ -51,6 +51,8 @@ function writeConfig(node) {
       'skip-name-resolve',
       'character-set-server=utf8mb4',
       'collation-server=utf8mb4_unicode_ci',
+      // Statements of many connections on a thread per core, not a thread per connection fighting for two cores.
+      'thread_handling=pool-of-threads',
       // What Galera requires: row-based replication, InnoDB, interleaved auto-increment locks.
       'binlog_format=ROW',
       'default_storage_engine=InnoDB',

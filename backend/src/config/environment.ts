@@ -63,6 +63,17 @@ export class Environment {
   @IsNotEmpty({ message: 'DB_PASSWORD must be set (npm start sets a local one)' })
   DB_PASSWORD: string;
 
+  /**
+   * Connections the app keeps open to MariaDB at most. Requests beyond it wait for one in the app, where a
+   * short read queues behind a save; MariaDB's thread pool (thread_handling=pool-of-threads, which our
+   * scripts set) runs the statements of many connections on a thread per core.
+   */
+  @Type(() => Number)
+  @IsInt()
+  @Min(1)
+  @Max(200)
+  DB_POOL_SIZE = 25;
+
   @IsString()
   @IsNotEmpty()
   SMTP_HOST = '127.0.0.1';

@@ -9,7 +9,7 @@ import type { Environment } from '../config/environment';
  * the committed migrations (src/database/migrations); there is no schema sync at runtime.
  * MariaDB cannot mix DDL and transactions, hence the non-transactional migrations.
  */
-export function ormConfig(env: Pick<Environment, 'DB_HOST' | 'DB_PORT' | 'DB_SOCKET' | 'DB_NAME' | 'DB_USER' | 'DB_PASSWORD'>) {
+export function ormConfig(env: Pick<Environment, 'DB_HOST' | 'DB_PORT' | 'DB_SOCKET' | 'DB_NAME' | 'DB_USER' | 'DB_PASSWORD' | 'DB_POOL_SIZE'>) {
   return defineConfig({
     host: env.DB_HOST,
     port: env.DB_PORT,
@@ -20,7 +20,7 @@ export function ormConfig(env: Pick<Environment, 'DB_HOST' | 'DB_PORT' | 'DB_SOC
     extensions: [Migrator],
     allowGlobalContext: false,
     forceUtcTimezone: true,
-    pool: { min: 0, max: 10 },
+    pool: { min: 0, max: env.DB_POOL_SIZE },
     // Through the Unix socket when there is one (a database on this machine); host and port otherwise.
     driverOptions: { connection: { connectTimeout: 3000, ...(env.DB_SOCKET ? { socketPath: env.DB_SOCKET } : {}) } },
     migrations: {

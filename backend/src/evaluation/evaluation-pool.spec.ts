@@ -84,6 +84,28 @@ describe('EvaluationPool (child processes from dist/)', () => {
     expect(again.ok && !('held' in again.value) && again.value.evaluated).toEqual([2]);
   });
 
+  it('keeps a one-cell edit for the process that keeps its sheet while that process is busy, rather than sending it where it is not held', async () => {
+    const patient = new EvaluationPool({ processes: 3, timeoutMs: 20_000, waitMs: 20_000, memoryMb: 256, perTenantRunning: 2, perTenantQueued: 4 });
+    try {
+      await patient.ready();
+      // A sheet whose evaluation takes a while, kept as s3 by the process that evaluates it; while it runs an
+      // edit of it is sent, with two other processes free — neither of which keeps s3.
+      const slow = sheet('x = 2 V', [{ kind: 'calc', source: 'M = ones(150, 150)\nP = M * M' }]);
+      const order: string[] = [];
+      const busy = patient.run({ kind: 'evaluate', sheet: slow, key: 's3' }, { tenant: 'a', key: 's3' }).then((r) => (order.push('evaluate'), r));
+      const edit = patient
+        .run({ kind: 'edit', key: 's3', base: sheetFingerprint(slow), index: 0, cell: { kind: 'calc', source: 'x = 8 V' } }, { tenant: 'a', key: 's3' })
+        .then((r) => (order.push('edit'), r));
+      const [evaluated, edited] = await Promise.all([busy, edit]);
+      expect(evaluated.ok).toBe(true);
+      // It waited for that process (500 ms at most, EDIT_AFFINITY_WAIT_MS) and was evaluated there: cell 0 afresh, the rest as kept.
+      expect(order).toEqual(['evaluate', 'edit']);
+      expect(edited.ok && !('held' in edited.value) && edited.value.evaluated).toEqual([0]);
+    } finally {
+      await patient.close();
+    }
+  }, 30_000);
+
   it('stops a task at its deadline, saying at which cell when it stopped itself, and the process lives on', async () => {
     expect(await pool.run({ kind: 'evaluate', sheet: RUNAWAY }, { tenant: 'a' })).toMatchObject({ ok: false, reason: 'timeout' });
     // Many cells, each quick: the evaluation stops itself between them and says at which.

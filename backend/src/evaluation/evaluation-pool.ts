@@ -55,6 +55,12 @@ interface Child {
 
 /** How long a sheet's evaluation may wait for the process holding its cache (a fresh one costs more). */
 const AFFINITY_WAIT_MS = 50;
+/**
+ * How long a one-cell edit may wait for the process holding its sheet: anywhere else it is answered "not
+ * held" and the save sends the whole sheet to be evaluated afresh — many times the work of the edit, which
+ * under load makes the queue longer still.
+ */
+const EDIT_AFFINITY_WAIT_MS = 500;
 /** The longest a task waits for the first evaluator to finish starting. */
 const STARTING_GRACE_MS = 30_000;
 /**
@@ -292,6 +298,11 @@ export class EvaluationPool {
     }
   }
 
+  /** How long a job may wait for the process that keeps its sheet's evaluation. */
+  private affinityWait(job: Job): number {
+    return job.task.kind === 'edit' ? EDIT_AFFINITY_WAIT_MS : AFFINITY_WAIT_MS;
+  }
+
   /** How many tasks a tenant may run at once: one while it is penalised for tasks that had to be stopped. */
   private runningCap(tenant: string): number {
     const until = this.penalised.get(tenant);
@@ -310,7 +321,7 @@ export class EvaluationPool {
       if (running >= this.runningCap(job.tenant)) continue;
       if (best && running >= (this.running.get(best.tenant) ?? 0)) continue;
       const home = job.key ? this.lastChild.get(job.key) : undefined;
-      if (home && home.job && this.children.has(home) && Date.now() - job.queuedAt < AFFINITY_WAIT_MS) {
+      if (home && home.job && this.children.has(home) && Date.now() - job.queuedAt < this.affinityWait(job)) {
         waiting = true;
         continue;
       }

@@ -350,7 +350,7 @@ export class SheetRepository extends EntityRepository<Sheet> {
   /** A sheet of a firm as the API shows it (its JSON view parsed: for the answers of the other routes, not the hot read). */
   async view(firmId: string, id: string): Promise<SheetDto | null> {
     const json = await this.viewJson(firmId, id);
-    return json && (JSON.parse(json.toString('utf8')) as SheetDto);
+    return json && (JSON.parse(Buffer.concat(json).toString('utf8')) as SheetDto);
   }
 
   /**
@@ -362,7 +362,7 @@ export class SheetRepository extends EntityRepository<Sheet> {
    * heading, and the cells are not read. Otherwise one statement reads all: the heading with the stamp as the
    * first row, the cells the rows after it, in order — one snapshot, so the JSON kept is that stamp's.
    */
-  async viewJson(firmId: string, id: string, cache?: SheetViewCache): Promise<Buffer | null> {
+  async viewJson(firmId: string, id: string, cache?: SheetViewCache): Promise<Buffer[] | null> {
     if (cache) {
       const [row] = await this.em.execute<(SheetRow & { cells_stamp: string | null })[]>(
         `select ${VIEW_HEADING_COLUMNS}, x.cells_stamp ${SHEET_JOINS} join (${CELLS_STAMP}) x ${OF_FIRM}`,
@@ -370,7 +370,7 @@ export class SheetRepository extends EntityRepository<Sheet> {
       );
       if (!row) return null;
       const cells = row.cells_stamp ? cache.get(id, row.cells_stamp) : undefined;
-      if (cells) return Buffer.concat([headingJson(row), cells, CLOSE]);
+      if (cells) return [headingJson(row), cells, CLOSE];
     }
     const rows = await this.em.execute<(Partial<SheetRow> & { part: number; place: number; cell_json: Buffer | null; cells_stamp: string | null })[]>(
       `select 0 as part, -1 as place, ${VIEW_HEADING_COLUMNS}, null as cell_json, ${cache ? 'x.cells_stamp' : 'null'} as cells_stamp
@@ -389,7 +389,7 @@ export class SheetRepository extends EntityRepository<Sheet> {
     const cells = Buffer.concat(parts);
     const stamp = rows[0].cells_stamp;
     if (cache && stamp) cache.set(id, stamp, cells);
-    return Buffer.concat([headingJson(rows[0] as SheetRow), cells, CLOSE]);
+    return [headingJson(rows[0] as SheetRow), cells, CLOSE];
   }
 
   /** What an editor needs to merge after its save was refused as stale: the version and the cells' content now. */

@@ -1,3 +1,4 @@
+import { Readable } from 'node:stream';
 import {
   Body,
   Controller,
@@ -49,8 +50,9 @@ export class SheetsController {
   @Roles(...MEMBER_ROLES)
   @Get('sheets/:id')
   async get(@CurrentAuth() auth: AuthContext, @Param('id', ParseUUIDPipe) id: string): Promise<StreamableFile> {
-    const json = await this.sheets.getJson(auth, id);
-    return new StreamableFile(json, { type: 'application/json; charset=utf-8', length: json.length });
+    const parts = await this.sheets.getJson(auth, id);
+    // Sent part by part: joining them would copy the kept cells into a new buffer on every read.
+    return new StreamableFile(Readable.from(parts), { type: 'application/json; charset=utf-8', length: parts.reduce((n, p) => n + p.length, 0) });
   }
 
   /** The sheet in the ampwright.sheet/1 file format. */

@@ -257,8 +257,11 @@ export class SheetsService {
     return this.view(auth, id);
   }
 
-  /** The sheet as `get` gives it, as JSON bytes with the stored results passed through unparsed (the read of GET /sheets/:id). */
-  async getJson(auth: AuthContext, id: string): Promise<Buffer> {
+  /**
+   * The sheet as `get` gives it, as JSON bytes in parts — the heading, the cells (kept, and shared by every read
+   * of them), the close — with the stored results passed through unparsed (the read of GET /sheets/:id).
+   */
+  async getJson(auth: AuthContext, id: string): Promise<Buffer[]> {
     const json = await this.repository.viewJson(auth.firm.id, id, this.viewCache);
     if (!json) throw new RequestException(ErrorCode.NotFound, 'No such sheet.');
     return json;
