@@ -106,6 +106,28 @@ describe('EvaluationPool (child processes from dist/)', () => {
     }
   }, 30_000);
 
+  it("does not keep a firm's edit waiting behind another firm's task", async () => {
+    const two = new EvaluationPool({ processes: 2, timeoutMs: 20_000, waitMs: 20_000, memoryMb: 256, perTenantRunning: 1, perTenantQueued: 4 });
+    try {
+      await two.ready();
+      // The first process keeps s5, the second z (a new sheet goes to the process keeping the fewest).
+      const stored = sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 2 ohm' }]);
+      const first = await two.run({ kind: 'evaluate', sheet: stored, key: 's5' }, { tenant: 'a', key: 's5' });
+      await two.run({ kind: 'evaluate', sheet: stored, key: 'z' }, { tenant: 'a', key: 'z' });
+      // Another firm's long task takes the first process (both keep one sheet: the first free one)…
+      const other = two.run({ kind: 'evaluate', sheet: sheet('M = ones(150, 150)\nP = M * M * M') }, { tenant: 'b' });
+      // …so an edit of s5 goes after 50 ms to the other process, which does not keep s5, and the save would send the whole sheet.
+      const edited = await two.run(
+        { kind: 'edit', key: 's5', base: first.ok ? first.value.fingerprint! : '', index: 0, cell: { kind: 'calc', source: 'x = 8 V' } },
+        { tenant: 'a', key: 's5' },
+      );
+      expect(edited).toEqual({ ok: true, value: { held: false } });
+      expect((await other).ok).toBe(true);
+    } finally {
+      await two.close();
+    }
+  }, 30_000);
+
   it('stops a task at its deadline, saying at which cell when it stopped itself, and the process lives on', async () => {
     expect(await pool.run({ kind: 'evaluate', sheet: RUNAWAY }, { tenant: 'a' })).toMatchObject({ ok: false, reason: 'timeout' });
     // Many cells, each quick: the evaluation stops itself between them and says at which.

@@ -56,9 +56,10 @@ interface Child {
 /** How long a sheet's evaluation may wait for the process holding its cache (a fresh one costs more). */
 const AFFINITY_WAIT_MS = 50;
 /**
- * How long a one-cell edit may wait for the process holding its sheet: anywhere else it is answered "not
- * held" and the save sends the whole sheet to be evaluated afresh — many times the work of the edit, which
- * under load makes the queue longer still.
+ * How long a one-cell edit may wait for the process holding its sheet while that process runs a task of the
+ * same firm: anywhere else it is answered "not held" and the save sends the whole sheet to be evaluated
+ * afresh — many times the work of the edit, which under load makes the queue longer still. Behind another
+ * firm's task (which may run to its deadline) it waits only AFFINITY_WAIT_MS: one firm never holds up another's saves.
  */
 const EDIT_AFFINITY_WAIT_MS = 500;
 /** The longest a task waits for the first evaluator to finish starting. */
@@ -298,9 +299,9 @@ export class EvaluationPool {
     }
   }
 
-  /** How long a job may wait for the process that keeps its sheet's evaluation. */
-  private affinityWait(job: Job): number {
-    return job.task.kind === 'edit' ? EDIT_AFFINITY_WAIT_MS : AFFINITY_WAIT_MS;
+  /** How long a job may wait for the process that keeps its sheet's evaluation, which is running `running`. */
+  private affinityWait(job: Job, running: Job): number {
+    return job.task.kind === 'edit' && running.tenant === job.tenant ? EDIT_AFFINITY_WAIT_MS : AFFINITY_WAIT_MS;
   }
 
   /** How many tasks a tenant may run at once: one while it is penalised for tasks that had to be stopped. */
@@ -321,7 +322,7 @@ export class EvaluationPool {
       if (running >= this.runningCap(job.tenant)) continue;
       if (best && running >= (this.running.get(best.tenant) ?? 0)) continue;
       const home = job.key ? this.lastChild.get(job.key) : undefined;
-      if (home && home.job && this.children.has(home) && Date.now() - job.queuedAt < this.affinityWait(job)) {
+      if (home && home.job && this.children.has(home) && Date.now() - job.queuedAt < this.affinityWait(job, home.job)) {
         waiting = true;
         continue;
       }

@@ -16,13 +16,28 @@ import { evaluateTransientCell } from './transient';
 import { evaluateTableCell, tableColumnNames } from './table';
 import { evaluateNetworkCell, networkNames } from './network';
 
+/**
+ * What the scope held for a name when a cell was evaluated: its print (printOf), and the objects behind it —
+ * the value (frozen, so the same object always prints the same), where it was defined or failed, and every
+ * place the sheet defines it — so that a later pass can tell "unchanged" by identity, printing only otherwise.
+ */
+interface Seen {
+  name: string;
+  print: string;
+  present: boolean;
+  value: unknown;
+  origin: Place | undefined;
+  failed: Place | undefined;
+  definitions: Place[] | undefined;
+}
+
 interface CacheEntry {
   key: string;
   /**
    * The names the cell depends on — those it read from above, and those it defines or fails (whose
-   * earlier definition its warnings name) — each with a print of what the scope held for it before.
+   * earlier definition its warnings name) — each with what the scope held for it before.
    */
-  reads: [string, string][];
+  reads: Seen[];
   defined: [string, unknown, Place][];
   /** How the defined values were shown where defined (with their `to` unit), for later workings. */
   shown: [string, unknown, string][];
@@ -75,6 +90,25 @@ function printOf(
     failed.get(name) ?? null,
     definitions.get(name) ?? [],
   ]);
+}
+
+const samePlace = (a: Place | undefined, b: Place | undefined) => a === b || (a !== undefined && b !== undefined && a.cell === b.cell && a.line === b.line);
+const samePlaces = (a: Place[] | undefined, b: Place[] | undefined) =>
+  a === b || (a !== undefined && b !== undefined && a.length === b.length && a.every((p, k) => samePlace(p, b[k])));
+
+/** Whether the scope holds for a name what it held when `seen` was taken: the same objects, or failing that the same print. */
+function unchanged(seen: Seen, scope: SheetScope): boolean {
+  const { name } = seen;
+  const present = scope.values.has(name);
+  if (
+    present === seen.present &&
+    (!present || scope.values.get(name) === seen.value) &&
+    samePlace(scope.origin.get(name), seen.origin) &&
+    samePlace(scope.failed.get(name), seen.failed) &&
+    samePlaces(scope.definitions.get(name), seen.definitions)
+  )
+    return true;
+  return printOf(name, scope.values, scope.origin, scope.failed, scope.definitions) === seen.print;
 }
 
 /** Where every name of the sheet is defined, for "used before it is defined" errors. */
@@ -152,10 +186,7 @@ export function evaluateSheet(
   sheet.cells.forEach((cell, index) => {
     const key = `${settingsKey}|${index}|${JSON.stringify(cell)}`;
     const cached = previous?.entries[index];
-    const reusable =
-      cached &&
-      cached.key === key &&
-      cached.reads.every(([name, print]) => printOf(name, scope.values, scope.origin, scope.failed, scope.definitions) === print);
+    const reusable = cached && cached.key === key && cached.reads.every((seen) => unchanged(seen, scope));
     if (reusable && cached) {
       for (const [name, value, place] of cached.defined) scope.define(name, value, place);
       for (const [name, value, text] of cached.shown) scope.rememberDisplay(name, value, text);
@@ -176,7 +207,15 @@ export function evaluateSheet(
     const failed: [string, Place][] = [...scope.failed].filter(([, place]) => place.cell === index);
     // Names looked up but absent count too: defining one above must re-evaluate this cell.
     const names = new Set([...reads, ...defined.map(([name]) => name), ...failed.map(([name]) => name)]);
-    const outerReads: [string, string][] = [...names].map((name) => [name, printOf(name, before, beforeOrigin, beforeFailed, scope.definitions)]);
+    const outerReads: Seen[] = [...names].map((name) => ({
+      name,
+      print: printOf(name, before, beforeOrigin, beforeFailed, scope.definitions),
+      present: before.has(name),
+      value: before.get(name),
+      origin: beforeOrigin.get(name),
+      failed: beforeFailed.get(name),
+      definitions: scope.definitions.get(name),
+    }));
     const shown: [string, unknown, string][] = [];
     for (const [name, value] of defined) {
       const text = scope.rememberedDisplay(name);
