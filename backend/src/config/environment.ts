@@ -166,12 +166,17 @@ export class Environment {
   @Max(100_000)
   THROTTLE_FAILED_SIGN_INS_PER_ADDRESS = 30;
 
-  /** Warm evaluation processes (sheets, CSV uploads and certificate files are worked through there). */
+  /**
+   * Warm evaluation processes (sheets, CSV uploads and certificate files are worked through there). A firm may
+   * run one fewer at once, so another always finds one free. Four on a 2-core machine: a one-cell edit takes a
+   * process about 2 ms of CPU but, under load, tens of ms waiting for a core and for its answer to be read, so
+   * three of one firm's edits in flight keep its saves moving (README, "Performance").
+   */
   @Type(() => Number)
   @IsInt()
   @Min(2)
   @Max(64)
-  EVALUATION_PROCESSES = 3;
+  EVALUATION_PROCESSES = 4;
 
   /** The longest one evaluation may run, in ms. */
   @Type(() => Number)
