@@ -8,7 +8,7 @@ import type { Cell, CellKind, SheetFile } from '../sheet/sheet-format';
 import { DEFAULT_DISPLAY, formatValue, type DisplayOptions } from '../units/display';
 import { evaluateCalcCell } from './calc';
 import { evaluateCheckCell } from './check';
-import { assignedName, SheetScope, type Place } from './scope';
+import { assignedName, SheetScope, type Held, type Place } from './scope';
 import type { CellOf, ResultOf } from './kinds';
 import type { CellResult, PlainResult } from './types';
 import { evaluateSweepCell } from './sweep';
@@ -77,19 +77,8 @@ const fingerprint = (v: unknown): string => {
  * What a cell can see of a name: its value, where it was defined, where it failed, and every place the
  * sheet defines it (for "defined later" and "defined before" messages).
  */
-function printOf(
-  name: string,
-  values: Map<string, unknown>,
-  origin: Map<string, Place>,
-  failed: Map<string, Place>,
-  definitions: Map<string, Place[]>,
-): string {
-  return JSON.stringify([
-    values.has(name) ? fingerprint(values.get(name)) : '',
-    origin.get(name) ?? null,
-    failed.get(name) ?? null,
-    definitions.get(name) ?? [],
-  ]);
+function printOf(held: Held, definitions: Place[] | undefined): string {
+  return JSON.stringify([held.present ? fingerprint(held.value) : '', held.origin ?? null, held.failed ?? null, definitions ?? []]);
 }
 
 const samePlace = (a: Place | undefined, b: Place | undefined) => a === b || (a !== undefined && b !== undefined && a.cell === b.cell && a.line === b.line);
@@ -108,7 +97,7 @@ function unchanged(seen: Seen, scope: SheetScope): boolean {
     samePlaces(scope.definitions.get(name), seen.definitions)
   )
     return true;
-  return printOf(name, scope.values, scope.origin, scope.failed, scope.definitions) === seen.print;
+  return printOf(scope.held(name), scope.definitions.get(name)) === seen.print;
 }
 
 /** Where every name of the sheet is defined, for "used before it is defined" errors. */
@@ -196,26 +185,24 @@ export function evaluateSheet(
       return;
     }
     onCell?.(index, results);
-    const before = new Map(scope.values);
-    const beforeOrigin = new Map(scope.origin);
-    const beforeFailed = new Map(scope.failed);
-    const { result, reads } = scope.tracking(() => evaluateCell(cell, index, scope, display));
+    const {
+      result: { result, reads },
+      before,
+    } = scope.journaling(() => scope.tracking(() => evaluateCell(cell, index, scope, display)));
     const defined: [string, unknown, Place][] = [];
     for (const [name, place] of scope.origin) {
-      if (beforeOrigin.get(name) !== place) defined.push([name, scope.values.get(name), place]);
+      const held = before.get(name);
+      if (held && held.origin !== place) defined.push([name, scope.values.get(name), place]);
     }
     const failed: [string, Place][] = [...scope.failed].filter(([, place]) => place.cell === index);
     // Names looked up but absent count too: defining one above must re-evaluate this cell.
     const names = new Set([...reads, ...defined.map(([name]) => name), ...failed.map(([name]) => name)]);
-    const outerReads: Seen[] = [...names].map((name) => ({
-      name,
-      print: printOf(name, before, beforeOrigin, beforeFailed, scope.definitions),
-      present: before.has(name),
-      value: before.get(name),
-      origin: beforeOrigin.get(name),
-      failed: beforeFailed.get(name),
-      definitions: scope.definitions.get(name),
-    }));
+    const outerReads: Seen[] = [...names].map((name) => {
+      // A name the cell did not change holds now what it held before the cell.
+      const held = before.get(name) ?? scope.held(name);
+      const definitions = scope.definitions.get(name);
+      return { name, print: printOf(held, definitions), ...held, definitions };
+    });
     const shown: [string, unknown, string][] = [];
     for (const [name, value] of defined) {
       const text = scope.rememberedDisplay(name);

@@ -41,12 +41,22 @@ export function freezeValue<T>(value: T): T {
   return value;
 }
 
+/** What the scope held for a name: whether it had a value, the value, and where it was defined or failed. */
+export interface Held {
+  present: boolean;
+  value: unknown;
+  origin: Place | undefined;
+  failed: Place | undefined;
+}
+
 export class SheetScope {
   readonly values = new Map<string, unknown>();
   readonly origin = new Map<string, Place>();
   /** Names whose definition failed, with where: using one says so instead of "unknown". */
   readonly failed = new Map<string, Place>();
   private reads: Set<string> | undefined;
+  /** While `journaling`: for each name changed so far, what it held before its first change. */
+  private journal: Map<string, Held> | undefined;
   /** Display text of values, remembered for the working of the lines that use them. */
   private readonly shown = new Map<string, { value: unknown; text: string }>();
 
@@ -83,14 +93,26 @@ export class SheetScope {
     return this.values.get(name);
   }
 
+  /** What the scope holds for a name now. */
+  held(name: string): Held {
+    return { present: this.values.has(name), value: this.values.get(name), origin: this.origin.get(name), failed: this.failed.get(name) };
+  }
+
+  /** Notes what a name held before it first changes (every change of the three maps passes here). */
+  private changing(name: string): void {
+    if (this.journal && !this.journal.has(name)) this.journal.set(name, this.held(name));
+  }
+
   /** Binds a name; the value is frozen, so nothing a later cell does can change what this one showed. */
   define(name: string, value: unknown, place: Place): void {
+    this.changing(name);
     this.values.set(name, freezeValue(value));
     this.origin.set(name, place);
     this.failed.delete(name);
   }
 
   markFailed(name: string, place: Place): void {
+    this.changing(name);
     this.values.delete(name);
     this.origin.delete(name);
     this.failed.set(name, place);
@@ -113,6 +135,22 @@ export class SheetScope {
     }
   }
 
+  /**
+   * Runs fn and returns, for each name it changed, what that name held before — so a caller learns what a
+   * cell defined and what it saw without copying the scope.
+   */
+  journaling<T>(fn: () => T): { result: T; before: Map<string, Held> } {
+    const outer = this.journal;
+    const before = new Map<string, Held>();
+    this.journal = before;
+    try {
+      return { result: fn(), before };
+    } finally {
+      this.journal = outer;
+      if (outer) for (const [name, held] of before) if (!outer.has(name)) outer.set(name, held);
+    }
+  }
+
   /** A Map-like view for mathjs that records reads. */
   asMathScope(): Map<string, unknown> {
     // eslint-disable-next-line @typescript-eslint/no-this-alias
@@ -125,6 +163,7 @@ export class SheetScope {
         return scope.has(key);
       }
       set(key: string, value: unknown) {
+        scope.changing(key);
         scope.values.set(key, value);
         return this;
       }
