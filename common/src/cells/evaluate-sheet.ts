@@ -21,13 +21,9 @@ import { evaluateNetworkCell, networkNames } from './network';
  * the value (frozen, so the same object always prints the same), where it was defined or failed, and every
  * place the sheet defines it — so that a later pass can tell "unchanged" by identity, printing only otherwise.
  */
-interface Seen {
+interface Seen extends Held {
   name: string;
   print: string;
-  present: boolean;
-  value: unknown;
-  origin: Place | undefined;
-  failed: Place | undefined;
   definitions: Place[] | undefined;
 }
 
@@ -87,17 +83,15 @@ const samePlaces = (a: Place[] | undefined, b: Place[] | undefined) =>
 
 /** Whether the scope holds for a name what it held when `seen` was taken: the same objects, or failing that the same print. */
 function unchanged(seen: Seen, scope: SheetScope): boolean {
-  const { name } = seen;
-  const present = scope.values.has(name);
-  if (
-    present === seen.present &&
-    (!present || scope.values.get(name) === seen.value) &&
-    samePlace(scope.origin.get(name), seen.origin) &&
-    samePlace(scope.failed.get(name), seen.failed) &&
-    samePlaces(scope.definitions.get(name), seen.definitions)
-  )
-    return true;
-  return printOf(scope.held(name), scope.definitions.get(name)) === seen.print;
+  const now = scope.held(seen.name);
+  const definitions = scope.definitions.get(seen.name);
+  const same =
+    now.present === seen.present &&
+    now.value === seen.value &&
+    samePlace(now.origin, seen.origin) &&
+    samePlace(now.failed, seen.failed) &&
+    samePlaces(definitions, seen.definitions);
+  return same || printOf(now, definitions) === seen.print;
 }
 
 /** Where every name of the sheet is defined, for "used before it is defined" errors. */
@@ -189,6 +183,7 @@ export function evaluateSheet(
       result: { result, reads },
       before,
     } = scope.journaling(() => scope.tracking(() => evaluateCell(cell, index, scope, display)));
+    // In the scope's order, as a reuse of this entry defines them again.
     const defined: [string, unknown, Place][] = [];
     for (const [name, place] of scope.origin) {
       const held = before.get(name);
