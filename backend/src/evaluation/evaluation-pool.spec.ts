@@ -106,6 +106,63 @@ describe('EvaluationPool (child processes from dist/)', () => {
     }
   }, 30_000);
 
+  it("hands a one-cell edit to the process that keeps its sheet while that process runs another of the firm's edits, however long that edit takes", async () => {
+    const patient = new EvaluationPool({ processes: 3, timeoutMs: 20_000, waitMs: 20_000, memoryMb: 256, perTenantRunning: 2, perTenantQueued: 4 });
+    try {
+      await patient.ready();
+      const stored = sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 2 ohm' }]);
+      const base = sheetFingerprint(stored);
+      const first = await patient.run({ kind: 'evaluate', sheet: stored, key: 's6' }, { tenant: 'a', key: 's6' });
+      expect(first.ok).toBe(true);
+      // An edit of s6 that computes for well over EDIT_AFFINITY_WAIT_MS (500 ms) runs in the process keeping s6…
+      const heavy = { kind: 'calc' as const, source: 'x = 2 V\nM = ones(220, 220)\nP = M * M * M * M * M * M' };
+      const order: string[] = [];
+      const started = Date.now();
+      const long = patient.run({ kind: 'edit', key: 's6', base, index: 0, cell: heavy }, { tenant: 'a', key: 's6' }).then((r) => (order.push('long'), r));
+      await new Promise((r) => setTimeout(r, 20));
+      // …and the next edit, based on what the first leaves kept, is handed to that process at once: it runs there
+      // after the first, however long that takes, and is not sent after 500 ms to a free process that keeps nothing.
+      const next = patient.run(
+        {
+          kind: 'edit',
+          key: 's6',
+          base: sheetFingerprint({ ...stored, cells: [heavy, stored.cells[1]] }),
+          index: 1,
+          cell: { kind: 'calc', source: 'y = x / 4 ohm' },
+        },
+        { tenant: 'a', key: 's6' },
+      );
+      const [ran, edited] = await Promise.all([long, next.then((r) => (order.push('next'), r))]);
+      expect(Date.now() - started).toBeGreaterThan(500);
+      // (y reads x, which is still 2 V: kept as it was.)
+      expect(ran.ok && !('held' in ran.value) && ran.value.evaluated).toEqual([0]);
+      expect(order).toEqual(['long', 'next']);
+      expect(edited.ok && !('held' in edited.value) && edited.value.evaluated).toEqual([1]);
+      expect(edited.ok && !('held' in edited.value) && (edited.value.results[0][1] as { values: Record<string, { si: number }> }).values.y.si).toBe(0.5);
+    } finally {
+      await patient.close();
+    }
+  }, 60_000);
+
+  it('puts a handed-over edit back in the queue when the process dies under the edit before it, and answers it', async () => {
+    const roomy = new EvaluationPool({ processes: 2, timeoutMs: 20_000, waitMs: 20_000, memoryMb: 128, perTenantRunning: 1, perTenantQueued: 4 });
+    try {
+      await roomy.ready();
+      const stored = sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 2 ohm' }]);
+      const base = sheetFingerprint(stored);
+      expect((await roomy.run({ kind: 'evaluate', sheet: stored, key: 's7' }, { tenant: 'a', key: 's7' })).ok).toBe(true);
+      // An edit that passes the memory cap, and behind it, handed over, an ordinary edit of the same sheet.
+      const hog = roomy.run({ kind: 'edit', key: 's7', base, index: 0, cell: HOG.cells[0] }, { tenant: 'a', key: 's7' });
+      await new Promise((r) => setTimeout(r, 20));
+      const next = roomy.run({ kind: 'edit', key: 's7', base, index: 1, cell: { kind: 'calc', source: 'y = x / 4 ohm' } }, { tenant: 'a', key: 's7' });
+      expect(await hog).toMatchObject({ ok: false, reason: 'memory' });
+      // The process and what it kept are gone: the edit, queued again, is answered "not held" (the save then sends the whole sheet).
+      expect(await next).toEqual({ ok: true, value: { held: false } });
+    } finally {
+      await roomy.close();
+    }
+  }, 60_000);
+
   it("does not keep a firm's edit waiting behind another firm's task", async () => {
     const two = new EvaluationPool({ processes: 2, timeoutMs: 20_000, waitMs: 20_000, memoryMb: 256, perTenantRunning: 1, perTenantQueued: 4 });
     try {

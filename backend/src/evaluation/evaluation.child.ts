@@ -97,17 +97,23 @@ async function run(task: SandboxTask, timeoutMs: number): Promise<TaskResults[Sa
   }
 }
 
-const reply = (message: SandboxReply) => process.send?.(message);
+const reply = (message: SandboxReply): void => {
+  process.send?.(message);
+};
 
+/** Tasks run one after another, in the order sent: the pool may send the next while one runs. */
+let turn: Promise<void> = Promise.resolve();
 process.on('message', (message: SandboxRequest) => {
-  run(message.task, message.timeoutMs).then(
-    (value) => reply({ id: message.id, ok: true, value }),
-    (err: Error) =>
-      reply(
-        err instanceof Stopped
-          ? { id: message.id, ok: false, message: err.message, timeout: true, cell: err.cell }
-          : { id: message.id, ok: false, message: err.message },
-      ),
+  turn = turn.then(() =>
+    run(message.task, message.timeoutMs).then(
+      (value) => reply({ id: message.id, ok: true, value }),
+      (err: Error) =>
+        reply(
+          err instanceof Stopped
+            ? { id: message.id, ok: false, message: err.message, timeout: true, cell: err.cell }
+            : { id: message.id, ok: false, message: err.message },
+        ),
+    ),
   );
 });
 // The server went away (or was killed): nothing is left running.
