@@ -68,6 +68,25 @@ describe('the kept cells of a sheet read', () => {
     await as(app, outsider, 'get', `/api/sheets/${sheetId}`).expect(404);
   });
 
+  it('reads every author of the revision, one heading row each, alike whether the cells are kept or not', async () => {
+    const named = [await makeCaller(app, ['engineer'], engineer.firm), await makeCaller(app, ['engineer'], engineer.firm)];
+    await sql('update app_user set name = ? where id = ?', ['Zora Second', named[0].user.id]);
+    await sql('update app_user set name = ? where id = ?', ['Abel First', named[1].user.id]);
+    await as(app, engineer, 'put', `/api/sheets/${sheetId}/co-preparers`)
+      .send({ userIds: named.map((c) => c.user.id) })
+      .expect(200);
+    await read(); // kept
+    const body = await read();
+    expect(body).toBe(await uncached());
+    const sheet = JSON.parse(body) as { coPreparers: { name: string }[]; authorIds: string[]; cells: unknown[] };
+    expect(sheet.coPreparers.map((c) => c.name)).toEqual(['Abel First', 'Zora Second']);
+    expect(sheet.authorIds).toEqual([engineer.user.id, ...named.map((c) => c.user.id).sort()]);
+    // Each cell once, whatever the number of heading rows.
+    expect(sheet.cells).toHaveLength(cellIds.length);
+    await as(app, engineer, 'put', `/api/sheets/${sheetId}/co-preparers`).send({ userIds: [] }).expect(200);
+    expect(JSON.parse(await read()).coPreparers).toEqual([]);
+  });
+
   it('shows every change to a column of the cells, made by any path, at the next read', async () => {
     const changes: [string, string, unknown[], (body: { cells: Record<string, unknown>[]; title: string }) => unknown, unknown][] = [
       [
