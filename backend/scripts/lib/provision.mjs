@@ -79,9 +79,14 @@ export async function startMariadb() {
   }
   await requireFreePort(settings.dbPort, 'MariaDB');
   log(`starting MariaDB on 127.0.0.1:${settings.dbPort}`);
+  // As a batch task (SCHED_BATCH, util-linux's chrt): its threads, woken by each statement the app sends, then
+  // do not preempt the app's one event-loop thread on the cores they share; they still get their fair share.
+  // On this 2-core machine that is 10-13 % more reads and saves a second at saturation (README, Performance).
+  const [command, ...asBatch] = commandExists('chrt') ? ['chrt', '--batch', '0', 'mariadbd'] : ['mariadbd'];
   const child = startChild(
-    'mariadbd',
+    command,
     [
+      ...asBatch,
       '--no-defaults',
       `--datadir=${MARIADB.dir}`,
       `--socket=${MARIADB.socket}`,
