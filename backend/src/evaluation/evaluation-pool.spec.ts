@@ -132,7 +132,10 @@ describe('EvaluationPool (child processes from dist/)', () => {
         },
         { tenant: 'a', key: 's6' },
       );
+      // Counted as waiting (the queue's metric) while it waits in that process.
+      expect(patient.waiting).toBe(1);
       const [ran, edited] = await Promise.all([long, next.then((r) => (order.push('next'), r))]);
+      expect(patient.waiting).toBe(0);
       expect(Date.now() - started).toBeGreaterThan(500);
       // (y reads x, which is still 2 V: kept as it was.)
       expect(ran.ok && !('held' in ran.value) && ran.value.evaluated).toEqual([0]);

@@ -127,9 +127,11 @@ export class EvaluationPool {
     this.watch.unref();
   }
 
-  /** Tasks waiting for a free process. */
+  /** Tasks waiting for a free process, or handed over to one and waiting for the edit before them there. */
   get waiting(): number {
-    return this.queue.length;
+    let handedOver = 0;
+    for (const child of this.children) if (child.next) handedOver += 1;
+    return this.queue.length + handedOver;
   }
 
   /** Resolves once every process has loaded the engine (a task's deadline starts only then anyway). */
