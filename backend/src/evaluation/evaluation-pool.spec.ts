@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { SheetFile } from '@ampwright/common';
-import { EvaluationPool } from './evaluation-pool';
+import { EvaluationPool, type PoolLimits } from './evaluation-pool';
 import { sheetFingerprint } from './sheet-fingerprint';
 
 const sheet = (source: string, more: SheetFile['cells'] = []): SheetFile => ({
@@ -15,6 +15,17 @@ const MANY: SheetFile = {
   cells: Array.from({ length: 2000 }, (_, k) => ({ kind: 'calc' as const, source: `M_${k} = ones(120, 120) * ones(120, 120)` })),
 };
 const HOG = sheet(Array.from({ length: 600 }, (_, k) => `a_${k} = ones(100000)`).join('\n'));
+
+/** Runs `work` with a pool of its own, ready, and closes the pool after. */
+async function withPool(limits: PoolLimits, work: (pool: EvaluationPool) => Promise<void>): Promise<void> {
+  const pool = new EvaluationPool(limits);
+  try {
+    await pool.ready();
+    await work(pool);
+  } finally {
+    await pool.close();
+  }
+}
 
 describe('EvaluationPool (child processes from dist/)', () => {
   let pool: EvaluationPool;
@@ -85,9 +96,7 @@ describe('EvaluationPool (child processes from dist/)', () => {
   });
 
   it('keeps a one-cell edit for the process that keeps its sheet while that process is busy, rather than sending it where it is not held', async () => {
-    const patient = new EvaluationPool({ processes: 3, timeoutMs: 20_000, waitMs: 20_000, memoryMb: 256, perTenantRunning: 2, perTenantQueued: 4 });
-    try {
-      await patient.ready();
+    await withPool({ processes: 3, timeoutMs: 20_000, waitMs: 20_000, memoryMb: 256, perTenantRunning: 2, perTenantQueued: 4 }, async (patient) => {
       // A sheet whose evaluation takes a while, kept as s3 by the process that evaluates it; while it runs an
       // edit of it is sent, with two other processes free — neither of which keeps s3.
       const slow = sheet('x = 2 V', [{ kind: 'calc', source: 'M = ones(150, 150)\nP = M * M' }]);
@@ -101,15 +110,11 @@ describe('EvaluationPool (child processes from dist/)', () => {
       // It waited for that process (500 ms at most, EDIT_AFFINITY_WAIT_MS) and was evaluated there: cell 0 afresh, the rest as kept.
       expect(order).toEqual(['evaluate', 'edit']);
       expect(edited.ok && !('held' in edited.value) && edited.value.evaluated).toEqual([0]);
-    } finally {
-      await patient.close();
-    }
+    });
   }, 30_000);
 
   it("hands a one-cell edit to the process that keeps its sheet while that process runs another of the firm's edits, however long that edit takes", async () => {
-    const patient = new EvaluationPool({ processes: 3, timeoutMs: 20_000, waitMs: 20_000, memoryMb: 256, perTenantRunning: 2, perTenantQueued: 4 });
-    try {
-      await patient.ready();
+    await withPool({ processes: 3, timeoutMs: 20_000, waitMs: 20_000, memoryMb: 256, perTenantRunning: 2, perTenantQueued: 4 }, async (patient) => {
       const stored = sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 2 ohm' }]);
       const base = sheetFingerprint(stored);
       const first = await patient.run({ kind: 'evaluate', sheet: stored, key: 's6' }, { tenant: 'a', key: 's6' });
@@ -142,15 +147,11 @@ describe('EvaluationPool (child processes from dist/)', () => {
       expect(order).toEqual(['long', 'next']);
       expect(edited.ok && !('held' in edited.value) && edited.value.evaluated).toEqual([1]);
       expect(edited.ok && !('held' in edited.value) && (edited.value.results[0][1] as { values: Record<string, { si: number }> }).values.y.si).toBe(0.5);
-    } finally {
-      await patient.close();
-    }
+    });
   }, 60_000);
 
   it('puts a handed-over edit back in the queue when the process dies under the edit before it, and answers it', async () => {
-    const roomy = new EvaluationPool({ processes: 2, timeoutMs: 20_000, waitMs: 20_000, memoryMb: 128, perTenantRunning: 1, perTenantQueued: 4 });
-    try {
-      await roomy.ready();
+    await withPool({ processes: 2, timeoutMs: 20_000, waitMs: 20_000, memoryMb: 128, perTenantRunning: 1, perTenantQueued: 4 }, async (roomy) => {
       const stored = sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 2 ohm' }]);
       const base = sheetFingerprint(stored);
       expect((await roomy.run({ kind: 'evaluate', sheet: stored, key: 's7' }, { tenant: 'a', key: 's7' })).ok).toBe(true);
@@ -161,15 +162,11 @@ describe('EvaluationPool (child processes from dist/)', () => {
       expect(await hog).toMatchObject({ ok: false, reason: 'memory' });
       // The process and what it kept are gone: the edit, queued again, is answered "not held" (the save then sends the whole sheet).
       expect(await next).toEqual({ ok: true, value: { held: false } });
-    } finally {
-      await roomy.close();
-    }
+    });
   }, 60_000);
 
   it("does not keep a firm's edit waiting behind another firm's task", async () => {
-    const two = new EvaluationPool({ processes: 2, timeoutMs: 20_000, waitMs: 20_000, memoryMb: 256, perTenantRunning: 1, perTenantQueued: 4 });
-    try {
-      await two.ready();
+    await withPool({ processes: 2, timeoutMs: 20_000, waitMs: 20_000, memoryMb: 256, perTenantRunning: 1, perTenantQueued: 4 }, async (two) => {
       // The first process keeps s5, the second z (a new sheet goes to the process keeping the fewest).
       const stored = sheet('x = 2 V', [{ kind: 'calc', source: 'y = x / 2 ohm' }]);
       const first = await two.run({ kind: 'evaluate', sheet: stored, key: 's5' }, { tenant: 'a', key: 's5' });
@@ -183,9 +180,7 @@ describe('EvaluationPool (child processes from dist/)', () => {
       );
       expect(edited).toEqual({ ok: true, value: { held: false } });
       expect((await other).ok).toBe(true);
-    } finally {
-      await two.close();
-    }
+    });
   }, 30_000);
 
   it('stops a task at its deadline, saying at which cell when it stopped itself, and the process lives on', async () => {
@@ -200,15 +195,11 @@ describe('EvaluationPool (child processes from dist/)', () => {
 
   it('replaces a process that passes its memory cap, and carries on', async () => {
     // A deadline far away, so that on a busy machine the cap, not the clock, is what stops the sheet.
-    const roomy = new EvaluationPool({ processes: 2, timeoutMs: 20_000, waitMs: 1000, memoryMb: 128, perTenantRunning: 1, perTenantQueued: 2 });
-    try {
-      await roomy.ready();
+    await withPool({ processes: 2, timeoutMs: 20_000, waitMs: 1000, memoryMb: 128, perTenantRunning: 1, perTenantQueued: 2 }, async (roomy) => {
       expect(await roomy.run({ kind: 'evaluate', sheet: HOG }, { tenant: 'a' })).toMatchObject({ ok: false, reason: 'memory' });
       const after = await roomy.run({ kind: 'evaluate', sheet: sheet('x = 1 + 1') }, { tenant: 'a' });
       expect(after.ok && after.value.results[0][1].status).toBe('ok');
-    } finally {
-      await roomy.close();
-    }
+    });
   }, 60_000);
 
   it('keeps a process free for another tenant while one floods, and tells the flooder it is busy', async () => {

@@ -367,13 +367,14 @@ export class SheetRepository extends EntityRepository<Sheet> {
   }
 
   /**
-   * A sheet of a firm as the API shows it, as JSON bytes (null: not this firm's). The read of a sheet is the hot
-   * path: MariaDB writes each cell's JSON itself (CELL_JSON), passing its fields and results through as it holds
-   * them (the text JSON.stringify wrote), so the app only joins bytes — nothing is parsed and written again.
+   * A sheet of a firm as the API shows it, as JSON bytes in three parts: heading, cells, close (null: not this
+   * firm's). The read of a sheet is the hot path: MariaDB writes each cell's JSON itself (CELL_JSON), passing its
+   * fields and results through as it holds them (the text JSON.stringify wrote), so the app only joins bytes —
+   * nothing is parsed and written again.
    * With a `cache`, a first statement reads the heading and the stamp of the cells as they are now
    * (CELLS_STAMP); when the cache holds the cells' JSON of that stamp, that is the answer with the fresh
-   * heading, and the cells are not read. Otherwise one statement reads all: the heading with the stamp as the
-   * first row, the cells the rows after it, in order — one snapshot, so the JSON kept is that stamp's.
+   * heading, and the cells are not read. Otherwise one statement reads all: the heading with the stamp first (a
+   * row per author), the cells the rows after it, in order — one snapshot, so the JSON kept is that stamp's.
    */
   async viewJson(firmId: string, id: string, cache?: SheetViewCache): Promise<Buffer[] | null> {
     if (cache) {
