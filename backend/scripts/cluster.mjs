@@ -114,17 +114,30 @@ export async function startClusterStack({ seed = true, appEnv = {} } = {}) {
   buildAll();
   await startCluster();
   startNodeChecks();
+  // HAProxy counts a server as up until its first check fails, and a failed first check takes it down at once:
+  // started before the checks answer, it would take node1 down, let the migration open on a standby, and close
+  // that connection when node1 came back (on-marked-up shutdown-backup-sessions). So the checks answer first.
+  await waitFor(async () => (await Promise.all(CLUSTER.checkPorts.map((port) => fetchText(`http://127.0.0.1:${port}/`)))).every((t) => t === 'synced\n'), {
+    timeoutMs: 30000,
+    what: "each node's check to answer that it is Synced",
+  });
   for (const port of [CLUSTER.dbPort, CLUSTER.frontPort, CLUSTER.statsPort]) await requireFreePort(port, 'HAProxy');
   log(`starting HAProxy: database on 127.0.0.1:${CLUSTER.dbPort}, apps on 127.0.0.1:${CLUSTER.frontPort}, its statistics on :${CLUSTER.statsPort}`);
   startChild('haproxy', ['-f', haproxyConfig(), '-db'], { stdio: ['ignore', 'inherit', 'inherit'], detached: true });
   await startFakes({ ...CLUSTER.fakes, s3Dir: join(CLUSTER_DIR, 's3') });
-  // HAProxy's own view (its statistics as CSV: proxy, server, …, status): a node it sends queries to.
+  // HAProxy's own view (its statistics as CSV: proxy, server, …, status in column 17, the last check's result in
+  // column 36): every node up by a check that passed (L7OK), not by the state HAProxy assumes at start, so the
+  // migration's connection goes to node1 and stays there.
   await waitFor(
     async () => {
       const csv = await fetchText(`http://127.0.0.1:${CLUSTER.statsPort}/;csv`);
-      return csv.split('\n').some((line) => line.startsWith('galera,node') && line.split(',')[17] === 'UP');
+      const nodes = csv
+        .split('\n')
+        .filter((line) => line.startsWith('galera,node'))
+        .map((line) => line.split(','));
+      return nodes.length === NODES.length && nodes.every((f) => f[17] === 'UP' && f[36] === 'L7OK');
     },
-    { timeoutMs: 30000, what: 'HAProxy to see a Synced database node' },
+    { timeoutMs: 30000, what: 'HAProxy to see every database node pass its check' },
   );
   migrateAndSeed(clusterAppEnvironment(0, appEnv), { seed });
   const apps = [];
