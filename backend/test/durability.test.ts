@@ -10,6 +10,7 @@ import { EntityManager } from '@mikro-orm/core';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { ready as readyAt, startApp as startAppProcess } from './support/app-process';
 import { makeCaller, type Caller } from './support/sessions';
+import { savedResults } from './support/stored-results';
 import { createTestApp } from './support/test-app';
 
 const PORT = 3390;
@@ -50,14 +51,20 @@ describe('durability', () => {
       body: body ? JSON.stringify(body) : undefined,
     });
 
+  /** A project of its own with one sheet of `cells`, made through the spawned instance. */
+  const newSheet = async (number: string, title: string, cells: unknown[]) => {
+    const project = await (await call('/projects', 'POST', { jobNumber: number, title, clientOrganisation: 'C', site: 'S' })).json();
+    return (await call(`/projects/${project.id}/sheets`, 'POST', { number, sheet: { format: 'ampwright.sheet/1', title, cells } })).json();
+  };
+
   it('keeps every acknowledged save when the app is killed -9 during a burst of saves', async () => {
     child = startApp();
     await ready();
-    const project = await (await call('/projects', 'POST', { jobNumber: 'D-1', title: 'Durability', clientOrganisation: 'C', site: 'S' })).json();
-    const cells = Array.from({ length: 8 }, (_, k) => ({ kind: 'calc', source: `x_${k} = 0` }));
-    const sheet = await (
-      await call(`/projects/${project.id}/sheets`, 'POST', { number: 'D-1', sheet: { format: 'ampwright.sheet/1', title: 'Burst', cells } })
-    ).json();
+    const sheet = await newSheet(
+      'D-1',
+      'Burst',
+      Array.from({ length: 8 }, (_, k) => ({ kind: 'calc', source: `x_${k} = 0` })),
+    );
     // Eight writers, one per cell, each saving as fast as it can; the app is killed part-way.
     const acknowledged = new Map<string, number>();
     let version = sheet.version as number;
@@ -100,17 +107,33 @@ describe('durability', () => {
     expect(after.cells).toHaveLength(8);
   }, 120_000);
 
+  it('answers the save in flight, evaluated, when stopped cleanly (SIGTERM), then exits', async () => {
+    child?.kill('SIGKILL');
+    // A deadline far past this sheet's evaluation (about a second), so only the stop can cut it short.
+    child = startAppProcess(PORT, { env: { EVALUATION_TIMEOUT_MS: '60000' } });
+    await ready();
+    const sheet = await newSheet('D-4', 'Clean stop', [{ kind: 'calc', source: 'x = 1 V' }]);
+    const slow = `M = ones(316, 316)\nP = ${Array(8).fill('M').join(' * ')}\nx = 5 V`;
+    const saving = call(`/sheets/${sheet.id}/cells/${sheet.cells[0].id}`, 'PATCH', { version: sheet.version, cell: { kind: 'calc', source: slow } });
+    await new Promise((r) => setTimeout(r, 400));
+    const exited = new Promise<string>((resolve) => child!.once('exit', (code, signal) => resolve(signal ?? `exit code ${code}`)));
+    child.kill('SIGTERM');
+    const saved = await saving;
+    expect(saved.status).toBe(200);
+    const results = savedResults(await saved.json(), sheet.cells[0].id) as { values: Record<string, { si: number }>; errors: unknown[] };
+    // Evaluated, not stored with "the server is stopping" in place of its values.
+    expect(results.errors).toEqual([]);
+    expect(results.values.x.si).toBe(5);
+    // Nest's shutdown hooks, done, raise the signal again (the process ends as killed by SIGTERM, not by a crash).
+    expect(await exited).toBe('SIGTERM');
+    child = undefined;
+  }, 120_000);
+
   it('reports itself unhealthy while MariaDB is down, recovers by itself when it returns, and loses nothing acknowledged', async () => {
     child?.kill('SIGKILL');
     child = startApp();
     await ready();
-    const project = await (await call('/projects', 'POST', { jobNumber: 'D-2', title: 'Outage', clientOrganisation: 'C', site: 'S' })).json();
-    const sheet = await (
-      await call(`/projects/${project.id}/sheets`, 'POST', {
-        number: 'D-2',
-        sheet: { format: 'ampwright.sheet/1', title: 'Outage', cells: [{ kind: 'calc', source: 'x = 1' }] },
-      })
-    ).json();
+    const sheet = await newSheet('D-2', 'Outage', [{ kind: 'calc', source: 'x = 1' }]);
     const saved = await call(`/sheets/${sheet.id}/cells/${sheet.cells[0].id}`, 'PATCH', { version: sheet.version, cell: { kind: 'calc', source: 'x = 2' } });
     expect(saved.status).toBe(200);
     const version = (await saved.json()).version;

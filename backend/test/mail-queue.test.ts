@@ -35,8 +35,8 @@ describe('the mail queue', () => {
     up = worker();
   });
   afterAll(async () => {
-    down?.onModuleDestroy();
-    up?.onModuleDestroy();
+    down?.onApplicationShutdown();
+    up?.onApplicationShutdown();
     await app?.close();
   });
 

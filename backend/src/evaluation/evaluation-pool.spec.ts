@@ -230,4 +230,16 @@ describe('EvaluationPool (child processes from dist/)', () => {
     for (const r of held) r?.release();
     expect(pool.reserve('r')).toBeDefined();
   });
+
+  it('answers the work it has not done, running or waiting, with "shutdown" when closed, and any work asked after', async () => {
+    const own = new EvaluationPool({ processes: 1, timeoutMs: 5000, waitMs: 5000, memoryMb: 128, perTenantRunning: 1, perTenantQueued: 4 });
+    await own.ready();
+    const running = own.run({ kind: 'evaluate', sheet: RUNAWAY }, { tenant: 'a' });
+    const waiting = own.run({ kind: 'evaluate', sheet: sheet('x = 1') }, { tenant: 'a' });
+    await new Promise((r) => setTimeout(r, 200));
+    await own.close();
+    expect(await running).toMatchObject({ ok: false, reason: 'shutdown' });
+    expect(await waiting).toMatchObject({ ok: false, reason: 'shutdown' });
+    expect(await own.run({ kind: 'evaluate', sheet: sheet('x = 1') }, { tenant: 'a' })).toMatchObject({ ok: false, reason: 'shutdown' });
+  });
 });

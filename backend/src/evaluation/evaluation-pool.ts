@@ -20,7 +20,9 @@ export interface PoolLimits {
   nodeEnv?: string;
 }
 
-export type PoolFailure = 'timeout' | 'memory' | 'crash' | 'busy';
+/** Why a task was not done: its deadline, its memory, its process died, the tenant's queue was full, or the pool was closed. */
+export type PoolFailure = 'timeout' | 'memory' | 'crash' | 'busy' | 'shutdown';
+const SHUTTING_DOWN = 'the server is stopping';
 /** `cell`: for a task stopped at its deadline, the index of the cell it was evaluating, when known. */
 export type PoolOutcome<T> = { ok: true; value: T } | { ok: false; reason: PoolFailure; message: string; cell?: number };
 
@@ -161,7 +163,7 @@ export class EvaluationPool {
    */
   run<K extends TaskKind>(task: TaskOf<K>, options: { tenant: string; key?: string; reservation?: Reservation }): Promise<PoolOutcome<TaskResults[K]>> {
     const { tenant, key } = options;
-    if (this.closed) return Promise.resolve({ ok: false, reason: 'crash', message: 'the evaluation service is shutting down' });
+    if (this.closed) return Promise.resolve({ ok: false, reason: 'shutdown', message: SHUTTING_DOWN });
     const reservation = options.reservation ?? this.reserve(tenant);
     if (!reservation)
       return Promise.resolve({ ok: false, reason: 'busy', message: `this firm already has ${this.limits.perTenantQueued} evaluations running or waiting` });
@@ -185,15 +187,16 @@ export class EvaluationPool {
     });
   }
 
+  /** Kills the processes; work not done by then, running or waiting, is answered `shutdown`. */
   async close(): Promise<void> {
     this.closed = true;
     clearTimeout(this.retry);
     clearInterval(this.watch);
-    for (const job of this.queue.splice(0)) job.resolve({ ok: false, reason: 'crash', message: 'the evaluation service is shutting down' });
+    for (const job of this.queue.splice(0)) job.resolve({ ok: false, reason: 'shutdown', message: SHUTTING_DOWN });
     const exits: Promise<void>[] = [];
     for (const child of this.children) {
       clearTimeout(child.timer);
-      for (const job of [child.job, child.next]) job?.resolve({ ok: false, reason: 'crash', message: 'the evaluation service is shutting down' });
+      for (const job of [child.job, child.next]) job?.resolve({ ok: false, reason: 'shutdown', message: SHUTTING_DOWN });
       child.job = child.next = undefined;
       if (child.proc.exitCode === null && child.proc.signalCode === null) {
         exits.push(new Promise((r) => child.proc.once('exit', () => r())));

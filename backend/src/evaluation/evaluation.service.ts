@@ -1,4 +1,4 @@
-import { Injectable, Logger, OnModuleDestroy } from '@nestjs/common';
+import { Injectable, Logger, OnApplicationShutdown } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import type { CsvTableResult } from '@ampwright/common';
 import type { Environment } from '../config/environment';
@@ -19,6 +19,7 @@ const CODES: Record<PoolFailure, EvaluationErrorCode> = {
   memory: EvaluationErrorCode.TooLarge,
   crash: EvaluationErrorCode.Failed,
   busy: EvaluationErrorCode.Busy,
+  shutdown: EvaluationErrorCode.Unavailable,
 };
 
 /**
@@ -27,7 +28,7 @@ const CODES: Record<PoolFailure, EvaluationErrorCode> = {
  * cannot be evaluated gets a sentence that says why; the server keeps serving.
  */
 @Injectable()
-export class EvaluationService implements OnModuleDestroy {
+export class EvaluationService implements OnApplicationShutdown {
   private readonly pool: EvaluationPool;
   private readonly logger = new Logger('Evaluation');
   private readonly busyRefusals = new RefusalLog();
@@ -62,6 +63,8 @@ export class EvaluationService implements OnModuleDestroy {
         return `The evaluator is busy with this firm's other work (${detail}). Try again in a moment.`;
       case 'crash':
         return `This ${what} could not be worked through: ${detail}.`;
+      case 'shutdown':
+        return `The server is restarting, so this ${what} was not worked through. Try again in a moment.`;
     }
   }
 
@@ -91,7 +94,8 @@ export class EvaluationService implements OnModuleDestroy {
     evaluationDuration.observe({ kind: task.kind, outcome: result }, Number(process.hrtime.bigint() - started) / 1e9);
     // A stopped evaluation is an operator's business (a runaway sheet, a full queue): one line, with the
     // request's id (core/logger.ts), never the sheet's content.
-    if (!outcome.ok) {
+    // A stop for the server's own shutdown is no one's fault and is not logged.
+    if (!outcome.ok && outcome.reason !== 'shutdown') {
       // A busy evaluator's refusals are logged once a minute per firm, with how many were not (a flood must
       // not flood the log); every other stop is logged.
       const logged = outcome.reason === 'busy' ? this.busyRefusals.take(options.tenant) : { unlogged: 0 };
@@ -128,7 +132,12 @@ export class EvaluationService implements OnModuleDestroy {
     return new EvaluationException(CODES[reason], message);
   }
 
-  async onModuleDestroy(): Promise<void> {
+  /**
+   * The processes stop last: Nest calls this after the HTTP server has answered the requests it had (and the
+   * package and mail workers have finished the job in hand), so a save in flight at a clean stop is evaluated,
+   * not stored with "the server is stopping" in every cell.
+   */
+  async onApplicationShutdown(): Promise<void> {
     await this.pool.close();
   }
 }

@@ -1,11 +1,11 @@
 import { CreateBucketCommand, DeleteObjectCommand, GetObjectCommand, HeadBucketCommand, PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
-import { Injectable, Logger, OnModuleDestroy, OnModuleInit } from '@nestjs/common';
+import { Injectable, Logger, OnApplicationShutdown, OnModuleInit } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import type { Environment } from '../config/environment';
 
 /** The private bucket behind attachments and packages; nothing in it is served without the API. */
 @Injectable()
-export class ObjectStoreService implements OnModuleInit, OnModuleDestroy {
+export class ObjectStoreService implements OnModuleInit, OnApplicationShutdown {
   private readonly logger = new Logger(ObjectStoreService.name);
   private readonly client: S3Client;
   readonly bucket: string;
@@ -60,7 +60,8 @@ export class ObjectStoreService implements OnModuleInit, OnModuleDestroy {
     }
   }
 
-  onModuleDestroy(): void {
+  /** Last, after the requests in flight and the package worker's upload in hand (onModuleDestroy would be before them). */
+  onApplicationShutdown(): void {
     this.client.destroy();
   }
 }

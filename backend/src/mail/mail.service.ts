@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { EntityManager, MikroORM } from '@mikro-orm/core';
-import { BeforeApplicationShutdown, Injectable, Logger, OnApplicationBootstrap, OnModuleDestroy } from '@nestjs/common';
+import { BeforeApplicationShutdown, Injectable, Logger, OnApplicationBootstrap, OnApplicationShutdown } from '@nestjs/common';
 import { ConfigService } from '@nestjs/config';
 import { createTransport, Transporter } from 'nodemailer';
 import type { Environment } from '../config/environment';
@@ -29,7 +29,7 @@ const BATCH = 10;
  * MAIL_MAX_ATTEMPTS with the reason kept.
  */
 @Injectable()
-export class MailService implements OnApplicationBootstrap, BeforeApplicationShutdown, OnModuleDestroy {
+export class MailService implements OnApplicationBootstrap, BeforeApplicationShutdown, OnApplicationShutdown {
   private readonly logger = new Logger(MailService.name);
   private readonly transporter: Transporter;
   private readonly from: string;
@@ -124,7 +124,8 @@ export class MailService implements OnApplicationBootstrap, BeforeApplicationShu
     while (this.busy && Date.now() < until) await new Promise((r) => setTimeout(r, 50));
   }
 
-  onModuleDestroy(): void {
+  /** Last, after the batch in hand and the requests in flight (onModuleDestroy would be before them). */
+  onApplicationShutdown(): void {
     this.transporter.close();
   }
 }

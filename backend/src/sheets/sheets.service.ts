@@ -22,7 +22,7 @@ import {
 import { ErrorCode, RequestException, SheetException } from '../core/errors/app-exception';
 import type { AuthContext } from '../core/guards/auth.guard';
 import { EvaluationService, type Reservation } from '../evaluation/evaluation.service';
-import { SheetEvaluator, type ChangeOutcome } from '../evaluation/sheet-evaluator';
+import { SheetEvaluator, type ChangeOutcome, type SheetOutcome } from '../evaluation/sheet-evaluator';
 import { addTiming, timed } from '../core/timing/server-timing';
 import { SheetRepository, type CellRecord, type CellWrites, type ChangeToStore, type SheetHeadingRow } from './sheet.repository';
 import { Membership } from '../firms/entities/membership.entity';
@@ -456,10 +456,12 @@ export class SheetsService {
    * What an evaluation gives to store, by cell id (`ids`: the sheet's cells in order): only the results that
    * differ from the stored ones (`partial`) when the process held the evaluation of the stored content, every
    * cell's otherwise. A sheet that cannot be evaluated at all (deadline, memory) gets, in every cell, the
-   * reason instead of a number: no result of an older state stays on screen. The change itself is saved.
+   * reason instead of a number: no result of an older state stays on screen. The change itself is saved —
+   * unless the server is stopping: then nothing is written and the answer is 503, to be sent again.
    */
   private storable(ids: readonly string[], outcome: ChangeOutcome, base?: string): Evaluated {
     addTiming('eval', outcome.totalMs);
+    this.refuseIfStopping(outcome);
     if (!outcome.ok) return { results: this.unevaluated(ids, outcome.message), partial: false, engineVersion: null, fingerprint: null };
     addTiming('engine', outcome.engineMs);
     const results = new Map<string, CellResult>();
@@ -471,6 +473,11 @@ export class SheetsService {
       base: outcome.complete ? undefined : base,
       fingerprint: outcome.fingerprint ?? null,
     };
+  }
+
+  /** A sheet not evaluated because the server is stopping is not stored with that sentence: 503, nothing written. */
+  private refuseIfStopping(outcome: ChangeOutcome | SheetOutcome): void {
+    if (!outcome.ok && outcome.reason === 'shutdown') throw this.evaluation.failure(outcome.reason, outcome.message, true);
   }
 
   private unevaluated(ids: readonly string[], message: string): Map<string, CellResult> {
@@ -500,6 +507,7 @@ export class SheetsService {
     options: { firm: string; reservation: Reservation },
   ): Promise<void> {
     const outcome = await this.evaluator.evaluate(file, { ...options, key: sheetId });
+    this.refuseIfStopping(outcome);
     const ids = cells.map((c) => c.id);
     const results = outcome.ok ? new Map(ids.map((id, i) => [id, outcome.results[i]])) : this.unevaluated(ids, outcome.message);
     await this.repository.storeResults(sheetId, {

@@ -73,4 +73,6 @@ export enum EvaluationErrorCode {
   TooLarge = 'EVALUATION_TOO_LARGE',
   Failed = 'EVALUATION_FAILED',
   Busy = 'EVALUATION_BUSY',
+  /** The server is stopping; another instance (or this one, restarted) will do it. */
+  Unavailable = 'EVALUATION_UNAVAILABLE',
 }

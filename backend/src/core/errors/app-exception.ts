@@ -74,8 +74,18 @@ function featureException<C extends string>(statuses: Record<C, HttpStatus>) {
   };
 }
 
-const { BAD_REQUEST, UNAUTHORIZED, FORBIDDEN, NOT_FOUND, CONFLICT, PAYLOAD_TOO_LARGE, UNSUPPORTED_MEDIA_TYPE, UNPROCESSABLE_ENTITY, TOO_MANY_REQUESTS } =
-  HttpStatus;
+const {
+  BAD_REQUEST,
+  UNAUTHORIZED,
+  FORBIDDEN,
+  NOT_FOUND,
+  CONFLICT,
+  PAYLOAD_TOO_LARGE,
+  UNSUPPORTED_MEDIA_TYPE,
+  UNPROCESSABLE_ENTITY,
+  TOO_MANY_REQUESTS,
+  SERVICE_UNAVAILABLE,
+} = HttpStatus;
 
 /** Errors of the request itself, any feature: bad input, not signed in, not found, too many, … */
 export class RequestException extends featureException<ErrorCode>({
@@ -90,7 +100,7 @@ export class RequestException extends featureException<ErrorCode>({
   [ErrorCode.PayloadTooLarge]: PAYLOAD_TOO_LARGE,
   [ErrorCode.UnsupportedMediaType]: UNSUPPORTED_MEDIA_TYPE,
   [ErrorCode.TooManyRequests]: TOO_MANY_REQUESTS,
-  [ErrorCode.ServiceUnavailable]: HttpStatus.SERVICE_UNAVAILABLE,
+  [ErrorCode.ServiceUnavailable]: SERVICE_UNAVAILABLE,
   [ErrorCode.Internal]: HttpStatus.INTERNAL_SERVER_ERROR,
 }) {}
 
@@ -139,6 +149,7 @@ export class EvaluationException extends featureException<EvaluationErrorCode>({
   [EvaluationErrorCode.TooLarge]: UNPROCESSABLE_ENTITY,
   [EvaluationErrorCode.Failed]: UNPROCESSABLE_ENTITY,
   [EvaluationErrorCode.Busy]: TOO_MANY_REQUESTS,
+  [EvaluationErrorCode.Unavailable]: SERVICE_UNAVAILABLE,
 }) {}
 
 const REFUSAL_STATUS: Record<Refusal['kind'], HttpStatus> = { conflict: CONFLICT, forbidden: FORBIDDEN, invalid: BAD_REQUEST };
