@@ -1,12 +1,13 @@
 /**
  * Independent general-purpose libraries as oracles (neither is used by mathjs or by the engine):
  * js-quantities 1.8.0 for unit conversions, numeric 1.2.6 (numeric.dopri, Dormand–Prince RK45) for
- * the RLC transient, which the engine solves with odex 2.0.4 and in closed form.
+ * the RLC transient, which the engine solves with odex 2.0.4 and in closed form. js-quantities also keeps
+ * absolute temperatures apart from temperature differences, the reference for the °C and °F scales.
  */
 import Qty from 'js-quantities';
 import numeric from 'numeric';
 import { describe, expect, it } from 'vitest';
-import { evaluateSheet, type CalcResult, type TransientResult } from '../common/src/index';
+import { evaluateSheet, type CalcResult, type CheckResult, type TransientResult } from '../common/src/index';
 
 const valueOf = (source: string) => {
   const r = evaluateSheet({ cells: [{ kind: 'calc', source }] }).cells[0] as CalcResult;
@@ -35,6 +36,57 @@ describe('unit conversions against js-quantities 1.8.0', () => {
     const ours = valueOf(`x = ${value} ${unit}`);
     const theirs = Qty(value, qtyUnit).to(qtySi).scalar;
     expect(Math.abs(ours - theirs)).toBeLessThanOrEqual(tol * Math.abs(theirs));
+  });
+});
+
+describe('temperatures against js-quantities 1.8.0 (absolute: tempC, tempF, tempK; differences: degK)', () => {
+  // Plain mathjs 15.2.0 compares and subtracts degC and degF by the numbers on their own scales (75 degC < 300 K
+  // is true there); js-quantities keeps an absolute temperature apart from a difference, as the SI does.
+  const sheet = (source: string) => {
+    const r = evaluateSheet({ cells: [{ kind: 'calc', source }] }).cells[0] as CalcResult;
+    expect(r.errors).toEqual([]);
+    return r.values;
+  };
+  const close = (ours: unknown, theirs: number) => expect(Math.abs((ours as number) - theirs)).toBeLessThanOrEqual(1e-12 * Math.abs(theirs));
+
+  it('gives a temperature on the °C or °F scale in kelvin, and shows it on its own scale', () => {
+    const v = sheet('T = 75 degC\nT_F = 100 degF\nT_2 = T + 10 K\nT_F2 = T_F to degC');
+    close(v.T.si, Qty('75 tempC').to('tempK').scalar);
+    close(v.T_F.si, Qty('100 tempF').to('tempK').scalar);
+    close(v.T_2.si, Qty('75 tempC').add(Qty('10 degK')).to('tempK').scalar);
+    close(v.T_F2.si, Qty('100 tempF').to('tempK').scalar);
+    expect([v.T.display, v.T_F.display, v.T_2.display, v.T_F2.display]).toEqual(['75.00 °C', '100.0 °F', '85.00 °C', '37.78 °C']);
+    expect(v.T.siUnit).toBe('K');
+  });
+
+  it('takes one temperature from another as a difference in K', () => {
+    const v = sheet('d = 75 degC - 20 degC\nd_2 = 100 degF - 0 degC\nd_3 = 75 degC - 20 K');
+    close(v.d.si, Qty('75 tempC').sub(Qty('20 tempC')).to('degK').scalar);
+    close(v.d_2.si, Qty('100 tempF').sub(Qty('0 tempC')).to('degK').scalar);
+    expect([v.d.display, v.d.unit]).toEqual(['55.00 K', 'K']);
+    // A temperature less a difference is a temperature.
+    close(v.d_3.si, Qty('75 tempC').sub(Qty('20 degK')).to('tempK').scalar);
+  });
+
+  it.each([
+    ['75 degC', '<', '300 K', '75 tempC', '300 tempK'],
+    ['75 degC', '>', '300 K', '75 tempC', '300 tempK'],
+    ['100 degF', '>', '37 degC', '100 tempF', '37 tempC'],
+    ['100 degF', '<=', '311 K', '100 tempF', '311 tempK'],
+    ['75 degC', '<=', '90 degC', '75 tempC', '90 tempC'],
+    ['348.15 K', '==', '75 degC', '348.15 tempK', '75 tempC'],
+  ])('compares %s %s %s in kelvin', (a, op, b, qa, qb) => {
+    const c = Qty(qa).compareTo(Qty(qb));
+    const expected = { '<': c < 0, '>': c > 0, '<=': c <= 0, '==': c === 0 }[op];
+    expect(sheet(`b = ${a} ${op} ${b}`).b.si).toBe(expected);
+    const check = evaluateSheet({ cells: [{ kind: 'check', condition: `${a} ${op} ${b}`, basis: 'oracle' }] }).cells[0] as CheckResult;
+    expect(check.pass).toBe(expected);
+  });
+
+  it('gives no utilisation for a temperature limit on the °C scale (its ratio depends on the zero), and says so', () => {
+    const check = evaluateSheet({ cells: [{ kind: 'check', condition: '75 degC <= 90 degC', basis: 'oracle' }] }).cells[0] as CheckResult;
+    expect([check.pass, check.utilization, check.margin]).toEqual([true, null, null]);
+    expect(check.warnings[0].message).toMatch(/no utilisation is given for a temperature on the °C or °F scale/);
   });
 });
 

@@ -1,6 +1,10 @@
 declare module 'js-quantities' {
   interface Qty {
     to(unit: string): Qty;
+    add(other: Qty): Qty;
+    sub(other: Qty): Qty;
+    /** -1, 0 or 1. */
+    compareTo(other: Qty): number;
     scalar: number;
   }
   function Qty(value: number | string, unit?: string): Qty;

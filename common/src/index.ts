@@ -9,6 +9,7 @@ export { analyticSolution, numericSolution, dampingOf } from './circuits/transie
 export { toContractJson, type ContractOutput } from './cells/contract';
 export { gridValue, readPastedBlock, type GridValue, type PastedBlock } from './sheet/pasted-block';
 export { readDecimal, type DecimalMark } from './sheet/decimal';
+export { cellJson, sealCell } from './sheet/sealed-cells';
 export { csvToTableCell, describeDetected, type CsvDetected, type CsvTableResult } from './sheet/csv-table';
 export type {
   AttachmentDto,

@@ -6,7 +6,7 @@
  * so a cold or lost cache gives the same results, just later (common/src/cells/incremental.spec.ts).
  * The process holds no secret of the server (its environment is emptied) and exits with its parent.
  */
-import { csvToTableCell, ENGINE_VERSION, evaluateSheet, runWithDeadline, type EvaluationCache, type SheetFile } from '@ampwright/common';
+import { csvToTableCell, ENGINE_VERSION, evaluateSheet, runWithDeadline, sealCell, type EvaluationCache, type SheetFile } from '@ampwright/common';
 import { isPlainText } from '../files/plain-text';
 import { sheetFingerprint } from './sheet-fingerprint';
 import type { SandboxReply, SandboxRequest, SandboxTask, SheetEvaluated, TaskOf, TaskResults } from './sandbox-protocol';
@@ -34,7 +34,11 @@ class Stopped extends Error {
  * cells evaluated afresh and of those `want` lists: the caller holds the others already.
  */
 function evaluateKept(sheet: SheetFile, timeoutMs: number, kept: Kept | undefined, key?: string, base?: string, want: number[] = []): SheetEvaluated {
-  if (key) caches.delete(key); // kept again only if this evaluation finishes
+  if (key) {
+    caches.delete(key); // kept again only if this evaluation finishes
+    // Kept cells never change (an edit replaces one), so each cell's JSON is written once, not at every edit.
+    sheet.cells.forEach(sealCell);
+  }
   let at: number | undefined;
   const started = performance.now();
   const outcome = runWithDeadline(Date.now() + timeoutMs, () => evaluateSheet(sheet, kept?.cache, (index) => (at = index)));

@@ -1,5 +1,5 @@
 import { createHash } from 'node:crypto';
-import type { SheetFile } from '@ampwright/common';
+import { cellJson, type SheetFile } from '@ampwright/common';
 
 /**
  * What a sheet's results depend on — its settings and its cells, in order — as one hash: the evaluation
@@ -8,7 +8,9 @@ import type { SheetFile } from '@ampwright/common';
  * equal fingerprints; anything else only costs a complete answer, never a wrong one.
  */
 export function sheetFingerprint(sheet: Pick<SheetFile, 'settings' | 'cells'>): string {
-  return createHash('sha256')
-    .update(JSON.stringify([sheet.settings ?? null, sheet.cells]))
-    .digest('base64');
+  // The hash of JSON.stringify([settings, cells]), written a cell at a time so that a sealed cell's JSON
+  // (common's sealed-cells.ts) is not written again.
+  const hash = createHash('sha256').update(`[${JSON.stringify(sheet.settings ?? null)},[`);
+  sheet.cells.forEach((cell, k) => hash.update(k ? `,${cellJson(cell)}` : cellJson(cell)));
+  return hash.update(']]').digest('base64');
 }

@@ -10,6 +10,7 @@ import { isComplex, isUnit } from '../language/math';
 import { displayTex, expressionTex } from '../tex/tex';
 import { formatValue, type DisplayOptions } from '../units/display';
 import { dropRidingAngle } from '../units/quantities';
+import { offsetScaleOf } from '../units/temperature';
 import type { SheetScope } from './scope';
 import type { CheckResult } from './types';
 
@@ -63,7 +64,14 @@ export function evaluateCheckCell(cell: CheckCell, cellIndex: number, scope: She
       result.actual = formatValue(actual, display);
       result.limit = formatValue(limit, display);
       const kind = RELATIONS[relation].utilization;
-      if (kind) {
+      const offsetScale = [actual, limit].some((x) => isUnit(x) && offsetScaleOf(x));
+      if (kind && offsetScale)
+        result.warnings.push({
+          line: 1,
+          column: 1,
+          message: "no utilisation is given for a temperature on the °C or °F scale: a ratio of such temperatures depends on where the scale's zero is",
+        });
+      else if (kind) {
         const a = siNumber(actual, 'left side', 1);
         const l = siNumber(limit, 'right side', 1);
         const u = kind === 'actual/limit' ? a / l : l / a;

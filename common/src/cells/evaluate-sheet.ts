@@ -5,6 +5,7 @@
  */
 import { checkDeadline } from '../language/deadline';
 import type { Cell, CellKind, SheetFile } from '../sheet/sheet-format';
+import { cellJson } from '../sheet/sealed-cells';
 import { DEFAULT_DISPLAY, formatValue, type DisplayOptions } from '../units/display';
 import { evaluateCalcCell } from './calc';
 import { evaluateCheckCell } from './check';
@@ -65,7 +66,11 @@ const fingerprint = (v: unknown): string => {
     const value = u.value as { re?: number; im?: number } | number | null;
     return `u:${typeof value === 'number' ? value : value ? `${value.re},${value.im}` : 'null'}:${u.dimensions.join(',')}:${u.units.map((x) => `${x.prefix.name}${x.unit.name}^${x.power}`).join(' ')}`;
   }
-  if (u && typeof u.toArray === 'function') return `m:${u.toArray().map(fingerprint).join(';')}`;
+  if (u && typeof u.toArray === 'function') {
+    // A mathjs matrix's valueOf is its own nested arrays, read here without the copy toArray makes.
+    const data = (u as { valueOf(): unknown }).valueOf();
+    return `m:${(Array.isArray(data) ? data : u.toArray()).map(fingerprint).join(';')}`;
+  }
   return `x:${JSON.stringify(formatValue(v, { significantDigits: 17, complexForm: 'rectangular' }).si)}`;
 };
 
@@ -167,7 +172,7 @@ export function evaluateSheet(
   const evaluated: number[] = [];
   const settingsKey = JSON.stringify(display);
   sheet.cells.forEach((cell, index) => {
-    const key = `${settingsKey}|${index}|${JSON.stringify(cell)}`;
+    const key = `${settingsKey}|${index}|${cellJson(cell)}`;
     const cached = previous?.entries[index];
     const reusable = cached && cached.key === key && cached.reads.every((seen) => unchanged(seen, scope));
     if (reusable && cached) {

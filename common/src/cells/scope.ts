@@ -23,11 +23,11 @@ export function assignedName(line: string): string | undefined {
  * an attempt fails instead of silently changing an earlier result.
  */
 export function freezeValue<T>(value: T): T {
-  const seen = new Set<object>();
+  // Frozen on the way down, so an object met again (shared, or a cycle) is seen frozen and not visited twice.
   const visit = (v: unknown): void => {
-    if (v === null || typeof v !== 'object' || Object.isFrozen(v) || seen.has(v)) return;
-    seen.add(v);
+    if (v === null || typeof v !== 'object' || Object.isFrozen(v)) return;
     if (ArrayBuffer.isView(v)) return; // typed arrays cannot be frozen; the engine's own series only
+    Object.freeze(v);
     if (Array.isArray(v)) {
       for (let k = 0; k < v.length; k++) if (typeof v[k] === 'object') visit(v[k]);
     } else {
@@ -35,7 +35,6 @@ export function freezeValue<T>(value: T): T {
       const record = v as Record<string, unknown>;
       for (const key of Object.keys(record)) if (typeof record[key] === 'object') visit(record[key]);
     }
-    Object.freeze(v);
   };
   visit(value);
   return value;

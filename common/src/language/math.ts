@@ -13,6 +13,7 @@
 import { all, create, type MathJsInstance, type MathNode, type Unit as MathUnit } from 'mathjs';
 import { circuitFunctions, useInstance as handToFunctions } from '../circuits/functions';
 import { asFrequencyKind, dropRidingAngle, frequencyKind, isAnglePower, useInstance as handToQuantities, withValue } from '../units/quantities';
+import { onOneScale, temperatureDifference } from '../units/temperature';
 import { checkDeadline } from './deadline';
 
 export const math: MathJsInstance = create(all, { number: 'number', precision: 64 });
@@ -23,7 +24,8 @@ handToFunctions(math);
 // Host references, taken before the expression-level functions are disabled.
 export const parse = math.parse.bind(math) as (expr: string) => MathNode;
 export const Unit = math.Unit as unknown as {
-  new (value: unknown, name?: string): MathUnit;
+  /** `unit`: a unit's name, or a valueless Unit whose units the new one takes (no parsing). */
+  new (value: unknown, unit?: string | MathUnit): MathUnit;
   isValuelessUnit(name: string): boolean;
   BASE_DIMENSIONS: string[];
   PREFIXES: Record<string, Record<string, { name: string; value: number; scientific: boolean }>>;
@@ -333,7 +335,11 @@ const withRidingAngleDropped = (name: 'add' | 'subtract' | 'smaller' | 'larger' 
       if (isAnglePower(a) || isAnglePower(b)) return (math[name] as (x: unknown, y: unknown) => unknown)(plainIfAnglePower(a), plainIfAnglePower(b));
       if (isPureAngle(a) && isDimensionless(b)) return original(a, asRadians((b as unknown as { value: unknown }).value));
       if (isPureAngle(b) && isDimensionless(a)) return original(asRadians((a as unknown as { value: unknown }).value), b);
-      return original(dropRidingAngle(a), dropRidingAngle(b));
+      const [x, y] = [dropRidingAngle(a), dropRidingAngle(b)];
+      // Temperatures on offset scales (degC, degF): a difference is in K, a comparison across scales in kelvin.
+      if (name === 'subtract') return temperatureDifference(x, y, isUnit, original) ?? original(x, y);
+      if (name !== 'add') return original(...onOneScale(x, y, isUnit));
+      return original(x, y);
     },
     'number | Complex, Unit': (a: unknown, b: MathUnit) => (isAnglePower(b) ? original(a, plainIfAnglePower(b)) : original(plainAsAngle(a, b), b)),
     'Unit, number | Complex': (a: MathUnit, b: unknown) => (isAnglePower(a) ? original(plainIfAnglePower(a), b) : original(a, plainAsAngle(b, a))),

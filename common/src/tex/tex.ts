@@ -139,6 +139,7 @@ function displayTexUncached(display: string): string {
         .replace(/µ/g, '\\mu ')
         .replace(/Ω/g, '\\Omega ')
         .replace(/·/g, '\\cdot ')
+        .replace(/°/g, '{}^{\\circ}')
         .replace(/⁻?[¹²³⁴⁵⁶⁷⁸⁹⁰]+/g, (p) => `^{${p.replace('⁻', '-').replace(/[¹²³⁴⁵⁶⁷⁸⁹⁰]/g, (c) => String('⁰¹²³⁴⁵⁶⁷⁸⁹'.indexOf(c)))}}`)
         .trim();
       return `\\,\\mathrm{${t}}`;

@@ -6,6 +6,7 @@
 import type { Unit as MathUnit } from 'mathjs';
 import { isComplex, isUnit, math } from '../language/math';
 import { frequencyKind, isAnglePower } from './quantities';
+import { kelvinOf, offsetScaleOf } from './temperature';
 
 export type SiValue = number | boolean | string | { re: number; im: number } | SiValue[];
 
@@ -144,7 +145,8 @@ export function prettyUnit(unit: string): string {
     .replace(/ohm/g, 'Ω')
     .replace(/\^(-?\d+)/g, (_, p: string) => p.replace(/-/g, '⁻').replace(/\d/g, (c) => '⁰¹²³⁴⁵⁶⁷⁸⁹'[Number(c)]))
     .replace(/ /g, '·')
-    .replace(/^deg$/, '°');
+    .replace(/^deg$/, '°')
+    .replace(/^deg([CF])$/, '°$1');
 }
 
 function chooseEngineering(magnitude: number, base: string): { unit: string; factor: number } {
@@ -157,11 +159,14 @@ function chooseEngineering(magnitude: number, base: string): { unit: string; fac
   return { unit: `${p}${base}`, factor: 10 ** e };
 }
 
+/** A matrix's own nested arrays, to read only (toArray copies every element: a 200 000-value column was copied to be shown). */
+const matrixData = (m: unknown): unknown[] => (m as { valueOf(): unknown[] }).valueOf();
+
 function siForm(value: unknown): SiValue {
   if (typeof value === 'number' || typeof value === 'boolean' || typeof value === 'string') return value;
   if (isComplex(value)) return value.im === 0 ? value.re : { re: value.re, im: value.im };
-  if (isUnit(value)) return siForm(unitValue(value));
-  if (math.isMatrix(value)) return siForm((value as { toArray(): unknown[] }).toArray());
+  if (isUnit(value)) return siForm(offsetScaleOf(value) ? kelvinOf(value) : unitValue(value));
+  if (math.isMatrix(value)) return siForm(matrixData(value));
   if (Array.isArray(value)) return value.map(siForm);
   if (typeof value === 'bigint') return Number(value);
   if (value && typeof value === 'object' && 'valueOf' in value) {
@@ -210,7 +215,12 @@ export function formatValue(value: unknown, options: DisplayOptions = DEFAULT_DI
     const baseName = siUnitName(u) ?? '';
     let shownUnit: string;
     let factor: number;
-    if (target) {
+    const scale = offsetScaleOf(u);
+    if (scale && !target) {
+      // A temperature on an offset scale is shown on it (75.00 °C); its SI value is in kelvin (siForm).
+      shownUnit = `${scale.prefix.name}${scale.unit.name}`;
+      factor = Number(scale.unit.value) * scale.prefix.value;
+    } else if (target) {
       shownUnit = target;
       factor = unitFactor(target);
     } else if (baseName) {
@@ -234,7 +244,12 @@ export function formatValue(value: unknown, options: DisplayOptions = DEFAULT_DI
       return { si: siForm(raw), siUnit, display, displayAlt, unit: shownUnit };
     }
     const n = Number(raw);
-    return { si: siForm(raw), siUnit, display: `${formatNumber(n / factor, digits)}${unitText === '°' ? '' : ' '}${unitText}`.trim(), unit: shownUnit };
+    return {
+      si: siForm(scale ? u : raw),
+      siUnit,
+      display: `${formatNumber(n / factor, digits)}${unitText === '°' ? '' : ' '}${unitText}`.trim(),
+      unit: shownUnit,
+    };
   }
   if (isComplex(value)) {
     const { polar, rect } = complexTexts(value.re, value.im, '', digits);
@@ -245,7 +260,7 @@ export function formatValue(value: unknown, options: DisplayOptions = DEFAULT_DI
   if (typeof value === 'number') return { si: value, siUnit: '', display: formatNumber(value, digits), unit: '' };
   if (typeof value === 'boolean') return { si: value, siUnit: '', display: value ? 'true' : 'false', unit: '' };
   if (math.isMatrix(value) || Array.isArray(value)) {
-    const arr = math.isMatrix(value) ? (value as { toArray(): unknown[] }).toArray() : (value as unknown[]);
+    const arr = math.isMatrix(value) ? matrixData(value) : (value as unknown[]);
     const shown = arr.length > 12 ? [...arr.slice(0, 12), '…'] : arr;
     const inner = (x: unknown): string => (Array.isArray(x) ? `[${x.map(inner).join(', ')}]` : x === '…' ? '…' : formatValue(x, options).display);
     return { si: siForm(arr), siUnit: '', display: `[${shown.map(inner).join(', ')}]`, unit: '' };

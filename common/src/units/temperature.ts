@@ -1,0 +1,48 @@
+/**
+ * Temperatures on a scale whose zero is not absolute zero: degC and degF. mathjs 15 keeps such a value on
+ * its own scale (75 degC holds 75, not 348.15), and its comparisons and subtraction take the numbers as they
+ * are: in plain mathjs 15.2.0, `75 degC < 300 K` is true and `75 degC - 20 degC` is 55 degC. The engine reads
+ * them as the SI does (SI Brochure, 9th edition, 2019, section 2.3.1: t/°C = T/K − 273.15; from memory):
+ * - a comparison of temperatures on different scales compares kelvin (`75 degC < 300 K` is false);
+ * - one temperature minus another on the same offset scale is a difference, in K (`75 degC - 20 degC` = 55 K);
+ * - a value is shown on its own scale (75.00 °C), and its SI value is in kelvin (348.15).
+ * Sums and products keep mathjs's reading (a degC value plus 10 K is 10 degrees warmer; a product uses the
+ * number on the value's scale), which is what temperature-rise and resistance-correction formulas expect.
+ */
+import type { Unit as MathUnit } from 'mathjs';
+
+interface UnitPart {
+  unit: { name: string; value: unknown; offset: number };
+  prefix: { name: string; value: number };
+  power: number;
+}
+
+const partsOf = (u: MathUnit) => (u as unknown as { units: UnitPart[] }).units;
+
+/** The single unit of a temperature on an offset scale (degC, degF), or undefined for any other value. */
+export function offsetScaleOf(u: MathUnit): UnitPart | undefined {
+  const parts = partsOf(u);
+  return parts.length === 1 && parts[0].power === 1 && parts[0].unit.offset !== 0 ? parts[0] : undefined;
+}
+
+/** The value in kelvin of a temperature on an offset scale, as mathjs converts it (`to K`). */
+export function kelvinOf(u: MathUnit): unknown {
+  return (u.to('K') as unknown as { value: unknown }).value;
+}
+
+/** Both sides in kelvin when they are temperatures on different scales (one at least with an offset); as they are otherwise. */
+export function onOneScale(a: unknown, b: unknown, isUnit: (x: unknown) => x is MathUnit): [unknown, unknown] {
+  if (!isUnit(a) || !isUnit(b)) return [a, b];
+  const sa = offsetScaleOf(a);
+  const sb = offsetScaleOf(b);
+  if (!sa && !sb) return [a, b];
+  if (sa && sb && sa.unit.name === sb.unit.name) return [a, b];
+  if (!a.equalBase(b)) return [a, b]; // mathjs says the units do not match
+  return [a.to('K'), b.to('K')];
+}
+
+/** One temperature minus another on the same offset scale, as a difference in K; undefined for anything else. */
+export function temperatureDifference(a: unknown, b: unknown, isUnit: (x: unknown) => x is MathUnit, subtract: (x: unknown, y: unknown) => unknown): unknown {
+  if (!isUnit(a) || !isUnit(b) || !offsetScaleOf(a) || !offsetScaleOf(b) || !a.equalBase(b)) return undefined;
+  return subtract(a.to('K'), b.to('K'));
+}
