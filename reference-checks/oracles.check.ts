@@ -7,7 +7,7 @@
 import Qty from 'js-quantities';
 import numeric from 'numeric';
 import { describe, expect, it } from 'vitest';
-import { evaluateSheet, type CalcResult, type CheckResult, type TransientResult } from '../common/src/index';
+import { evaluateSheet, type CalcResult, type CheckResult, type SweepResult, type TransientResult } from '../common/src/index';
 
 const valueOf = (source: string) => {
   const r = evaluateSheet({ cells: [{ kind: 'calc', source }] }).cells[0] as CalcResult;
@@ -81,6 +81,23 @@ describe('temperatures against js-quantities 1.8.0 (absolute: tempC, tempF, temp
     expect(sheet(`b = ${a} ${op} ${b}`).b.si).toBe(expected);
     const check = evaluateSheet({ cells: [{ kind: 'check', condition: `${a} ${op} ${b}`, basis: 'oracle' }] }).cells[0] as CheckResult;
     expect(check.pass).toBe(expected);
+  });
+
+  it('sweeps a temperature on its own scale, its differences in K', () => {
+    const cell = {
+      kind: 'sweep' as const,
+      variable: 'T',
+      from: '20 degC',
+      to: '90 degC',
+      points: 3,
+      spacing: 'linear' as const,
+      outputs: ['1 ohm * (1 + 0.00393 / K * (T - 20 degC))', 'T + 10 K'],
+    };
+    const r = evaluateSheet({ cells: [cell] }).cells[0] as SweepResult;
+    expect(r.errors).toEqual([]);
+    expect(r.variable).toEqual({ name: 'T', unit: 'degC', values: [20, 55, 90] });
+    [20, 55, 90].forEach((t, k) => close(r.outputs[0].values[k], 1 + 0.00393 * Qty(`${t} tempC`).sub(Qty('20 tempC')).to('degK').scalar));
+    expect(r.outputs[1]).toMatchObject({ unit: 'degC', values: [30, 65, 100] });
   });
 
   it('gives no utilisation for a temperature limit on the °C scale (its ratio depends on the zero), and says so', () => {

@@ -11,6 +11,7 @@ import { checkNames, evaluateNode, parseExpression, valueNames } from '../langua
 import { isComplex, isUnit, math, Unit } from '../language/math';
 import { siUnitName, type DisplayOptions } from '../units/display';
 import { withNumericMode } from '../units/quantities';
+import { offsetScaleOf } from '../units/temperature';
 import { compileNumeric, NumericFallback } from '../language/numeric';
 import { compileSweepKernel, KERNEL_FALLBACK } from '../language/numeric-codegen';
 import type { SheetScope } from './scope';
@@ -24,6 +25,16 @@ const siOf = (v: unknown): unknown => {
   if (math.isMatrix(v)) return (v as { map(f: (x: unknown) => unknown): unknown }).map(siOf);
   return v;
 };
+
+/**
+ * The unit a series' numbers are in: the coherent SI unit, or for a temperature on an offset scale that scale
+ * (the numbers are on it: a sweep from 20 degC runs 20, 25, ...; see units/temperature.ts).
+ */
+function seriesUnit(v: unknown): string {
+  if (!isUnit(v)) return '';
+  const scale = offsetScaleOf(v);
+  return scale ? `${scale.prefix.name}${scale.unit.name}` : (siUnitName(v as never) ?? '');
+}
 
 /** A copy of the expression with every unit replaced by its SI factor, for numeric evaluation. */
 function stripUnits(node: MathNode, isVariable: (n: string) => boolean): MathNode {
@@ -77,7 +88,7 @@ export function evaluateSweepCell(cell: SweepCell, cellIndex: number, scope: She
     const log = cell.spacing === 'log';
     if (log && !(a > 0 && b > 0)) throw new EngineError('a logarithmic sweep needs a start and end greater than zero', 1, 1);
     const points = Array.from({ length: n }, (_, k) => (log ? a * (b / a) ** (k / (n - 1)) : a + ((b - a) * k) / (n - 1)));
-    const variableUnit = isUnit(from) ? (siUnitName(from as never) ?? '') : '';
+    const variableUnit = seriesUnit(from);
     const template = isUnit(from) ? from : undefined;
     const atPoint = (x: number) => {
       if (!template) return x;
@@ -99,7 +110,7 @@ export function evaluateSweepCell(cell: SweepCell, cellIndex: number, scope: She
       const unitScope = new Map(scope.values);
       unitScope.set(variable, atPoint(points[0]));
       const first = evaluateNode(node, node.compile(), unitScope, text, o + 1);
-      const unit = isUnit(first) ? (siUnitName(first as never) ?? '') : '';
+      const unit = seriesUnit(first);
       const stripped = stripUnits(node, isVariable);
       const viaMathjs = () => {
         const compiled = stripped.compile();
