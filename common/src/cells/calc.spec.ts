@@ -20,6 +20,13 @@ describe('calc cells', () => {
     expect(r.values.I.si).toBeCloseTo(0.0125, 15);
   });
 
+  it('writes a unit with no SI name of its own as one unit: kg/s³, not kg·/·s³', () => {
+    // 1 W/m² = 1 kg/s³ (SI Brochure, 9th ed., table 4; from memory); mathjs formats it "kg / s^3".
+    const r = cell(calc('h = 10 W / (m^2 K) * 5 K\nk = 3 W / (m K)'));
+    expect(r.values.h.display).toBe('50.00 kg/s³');
+    expect(r.values.k.display).toBe('3.000 W/(m·K)');
+  });
+
   it('takes the comment as the line description', () => {
     const r = cell(calc('f = 50 Hz # supply frequency'));
     expect(r.lines[0].description).toBe('supply frequency');

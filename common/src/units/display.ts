@@ -144,6 +144,7 @@ export function prettyUnit(unit: string): string {
     .replace(/\bu(?=[A-Za-zΩ])/g, 'µ')
     .replace(/ohm/g, 'Ω')
     .replace(/\^(-?\d+)/g, (_, p: string) => p.replace(/-/g, '⁻').replace(/\d/g, (c) => '⁰¹²³⁴⁵⁶⁷⁸⁹'[Number(c)]))
+    .replace(/ \/ /g, '/')
     .replace(/ /g, '·')
     .replace(/^deg$/, '°')
     .replace(/^deg([CF])$/, '°$1');
