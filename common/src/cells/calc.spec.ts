@@ -20,11 +20,23 @@ describe('calc cells', () => {
     expect(r.values.I.si).toBeCloseTo(0.0125, 15);
   });
 
-  it('writes a unit with no SI name of its own as one unit: kg/s³, not kg·/·s³', () => {
-    // 1 W/m² = 1 kg/s³ (SI Brochure, 9th ed., table 4; from memory); mathjs formats it "kg / s^3".
-    const r = cell(calc('h = 10 W / (m^2 K) * 5 K\nk = 3 W / (m K)'));
-    expect(r.values.h.display).toBe('50.00 kg/s³');
-    expect(r.values.k.display).toBe('3.000 W/(m·K)');
+  it('shows the units of heat and current density by their usual names, and any other as one unit (not kg·/·s³)', () => {
+    // 1 W/m² = 1 kg/s³ (SI Brochure, 9th ed., table 4; from memory); mathjs simplifies a product to "kg / s^3".
+    const r = cell(
+      calc(
+        'h = 10 W / (m^2 K) * 5 K\nk = 3 W / (m K)\nP = 25 W / m^2 * 2 m\nrho = 1.2 K / W * 1 m\nJ = 300 A / (100 mm^2)\nJ_2 = J to A/mm^2\nx = 2 kg / (s^3 A^2) * 3 m',
+      ),
+    );
+    expect([r.values.h.display, r.values.k.display, r.values.P.display, r.values.rho.display, r.values.J.display]).toEqual([
+      '50.00 W/m²',
+      '3.000 W/(m·K)',
+      '50.00 W/m',
+      '1.200 K·m/W',
+      '3.000e6 A/m²',
+    ]);
+    expect(r.values.J.si).toBeCloseTo(3e6, 6);
+    expect(r.values.J_2.display).toBe('3.000 A/mm²');
+    expect(r.values.x.display).toBe('6.000 (kg·m)/(s³·A²)');
   });
 
   it('takes the comment as the line description', () => {

@@ -61,6 +61,12 @@ const PREFERRED = [
   'ohm m',
   'F/m',
   'H/m',
+  // The heat of a cable or a busbar: flux, loss per metre, conductivity and resistivity; and current density.
+  'W/m^2',
+  'W/m',
+  'W/(m K)',
+  'K m/W',
+  'A/m^2',
 ];
 const POWER_UNITS = new Set(['W', 'VA', 'var', 'VAR']);
 const NO_PREFIX = new Set(['kg', 'K', 'rad', 'deg', 'mol', 'cd', 'm^2', 'm^3', 'm/s', 'ohm m']);
