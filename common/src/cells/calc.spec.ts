@@ -39,6 +39,19 @@ describe('calc cells', () => {
     expect(r.values.x.display).toBe('6.000 (kg·m)/(s³·A²)');
   });
 
+  it('warns where a temperature on the °C or °F scale meets a product, quotient or power, and nowhere else', () => {
+    const r = cell(
+      calc(
+        'T = 75 degC\nq = 5.670374419e-8 W / (m^2 K^4) * T^4\nq_K = 5.670374419e-8 W / (m^2 K^4) * (T to K)^4\nR_T = 1 ohm * (1 + 0.00393 / K * (T - 20 degC))\nT_2 = T + 10 K\nk = 2 * 100 degF',
+      ),
+    );
+    expect(r.warnings.map((w) => w.line)).toEqual([2, 6]);
+    expect(r.warnings[0].message).toMatch(/^a temperature on the °C scale counts by its number on that scale .* convert it first: \(T to K\)$/);
+    expect(r.warnings[1].message).toMatch(/°F scale/);
+    // σT⁴ with T in kelvin: 5.670374419e-8 × 348.15⁴ W/m² (CODATA 2018 Stefan–Boltzmann constant).
+    expect(r.values.q_K.si).toBeCloseTo(5.670374419e-8 * 348.15 ** 4, 9);
+  });
+
   it('takes the comment as the line description', () => {
     const r = cell(calc('f = 50 Hz # supply frequency'));
     expect(r.lines[0].description).toBe('supply frequency');

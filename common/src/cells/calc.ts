@@ -10,6 +10,7 @@ import { checkNames, evaluateNode, normalizeSource, parseExpression, valueNames 
 import { displayTex, expressionTex, variableTex } from '../tex/tex';
 import { formatValue, type DisplayOptions } from '../units/display';
 import { asFrequencyKind, frequencyKind } from '../units/quantities';
+import { collectingNotes } from '../units/temperature';
 import { convertTo } from './convert';
 import { calledFunction, RESULT_CONVENTIONS, rmsWarnings } from '../circuits/conventions';
 import { circuitFunctions } from '../circuits/functions';
@@ -116,7 +117,9 @@ export function evaluateCalcCell(cell: CalcCell, cellIndex: number, scope: Sheet
       const warnings = checkNames(expression, exprSource, scope, place, exprOffset);
       result.warnings.push(...warnings);
       if (code.includes('_power')) for (const message of rmsWarnings(expression)) result.warnings.push({ line: lineNo, column: exprOffset + 1, message });
-      let value = evaluateNode(expression, expression.compile(), mathScope, exprSource, lineNo, exprOffset);
+      const evaluated = collectingNotes(() => evaluateNode(expression, expression.compile(), mathScope, exprSource, lineNo, exprOffset));
+      for (const message of evaluated.notes) result.warnings.push({ line: lineNo, column: exprOffset + 1, message });
+      let value = evaluated.value;
       if (typeof value === 'function' || value === undefined) throw new EngineError('this expression has no value', lineNo, exprOffset + 1);
       if (target) {
         try {

@@ -10,7 +10,7 @@ import { isComplex, isUnit } from '../language/math';
 import { displayTex, expressionTex } from '../tex/tex';
 import { formatValue, type DisplayOptions } from '../units/display';
 import { dropRidingAngle } from '../units/quantities';
-import { offsetScaleOf } from '../units/temperature';
+import { collectingNotes, offsetScaleOf } from '../units/temperature';
 import type { SheetScope } from './scope';
 import type { CheckResult } from './types';
 
@@ -55,8 +55,12 @@ export function evaluateCheckCell(cell: CheckCell, cellIndex: number, scope: She
     }
     if (sides && relation) {
       const [lhsNode, rhsNode] = sides;
-      const actual = evaluateNode(lhsNode, lhsNode.compile(), mathScope, source, 1);
-      const limit = evaluateNode(rhsNode, rhsNode.compile(), mathScope, source, 1);
+      const both = collectingNotes(() => [
+        evaluateNode(lhsNode, lhsNode.compile(), mathScope, source, 1),
+        evaluateNode(rhsNode, rhsNode.compile(), mathScope, source, 1),
+      ]);
+      const [actual, limit] = both.value;
+      for (const message of both.notes) result.warnings.push({ line: 1, column: 1, message });
       const pass = evaluateNode(node, node.compile(), mathScope, source, 1);
       if (typeof pass !== 'boolean') throw new EngineError('the condition does not give true or false', 1, 1);
       result.pass = pass;

@@ -13,7 +13,7 @@
 import { all, create, type MathJsInstance, type MathNode, type Unit as MathUnit } from 'mathjs';
 import { circuitFunctions, useInstance as handToFunctions } from '../circuits/functions';
 import { asFrequencyKind, dropRidingAngle, frequencyKind, isAnglePower, useInstance as handToQuantities, withValue } from '../units/quantities';
-import { onOneScale, temperatureDifference } from '../units/temperature';
+import { noteOffsetProduct, onOneScale, temperatureDifference } from '../units/temperature';
 import { checkDeadline } from './deadline';
 
 export const math: MathJsInstance = create(all, { number: 'number', precision: 64 });
@@ -230,17 +230,22 @@ math.import(
  */
 export const operatorRules: { multiply?: (a: unknown, b: unknown, out: unknown) => unknown; divide?: (a: unknown, b: unknown, out: unknown) => unknown } = {};
 
+/** Operations in which a temperature on an offset scale counts by its number on that scale (units/temperature.ts). */
+const PRODUCTS = new Set<string>(['multiply', 'divide', 'dotMultiply', 'dotDivide', 'pow', 'dotPow']);
+
 // Checked before the operation, whatever the operands' types; everything else passes straight through.
 math.import(
   Object.fromEntries(
     COMBINING.map((name) => {
       const original = math[name] as (...a: unknown[]) => unknown;
       const rule = name === 'multiply' || name === 'divide' ? name : undefined;
+      const notesOffset = PRODUCTS.has(name);
       return [
         name,
         typed(name, {
           'any, any': (a: unknown, b: unknown) => {
             checkCombined([a, b]);
+            if (notesOffset) noteOffsetProduct(a, b);
             const out = original(a, b);
             return rule && operatorRules[rule] ? operatorRules[rule](a, b, out) : out;
           },

@@ -46,3 +46,39 @@ export function temperatureDifference(a: unknown, b: unknown, isUnit: (x: unknow
   if (!isUnit(a) || !isUnit(b) || !offsetScaleOf(a) || !offsetScaleOf(b) || !a.equalBase(b)) return undefined;
   return subtract(a.to('K'), b.to('K'));
 }
+
+/** A temperature with a value on an offset scale (not the valueless degC of `75 degC` being made). */
+function isOffsetTemperature(x: unknown): x is MathUnit {
+  if (x === null || typeof x !== 'object' || (x as { isUnit?: boolean }).isUnit !== true) return false;
+  return (x as { value: unknown }).value !== null && offsetScaleOf(x as MathUnit) !== undefined;
+}
+
+/** Where a calc line or a check collects what `noteOffsetProduct` finds; undefined elsewhere (a sweep's points). */
+let sink: Set<string> | undefined;
+
+/** Runs `fn`, gathering the notes of temperatures on an offset scale met in a product, quotient or power. */
+export function collectingNotes<T>(fn: () => T): { value: T; notes: string[] } {
+  const outer = sink;
+  sink = new Set();
+  try {
+    const value = fn();
+    return { value, notes: [...sink] };
+  } finally {
+    sink = outer;
+  }
+}
+
+/**
+ * Called by the language's multiply, divide and power: a temperature on the °C or °F scale counts there by
+ * its number on that scale (mathjs's reading, which the copper formula (234.5 + t)/(234.5 + 20) relies on),
+ * which is wrong for an absolute temperature such as the T of σT⁴: the line says so.
+ */
+export function noteOffsetProduct(a: unknown, b: unknown): void {
+  if (!sink) return;
+  const t = isOffsetTemperature(a) ? a : isOffsetTemperature(b) ? b : undefined;
+  if (!t) return;
+  const scale = offsetScaleOf(t)!.unit.name === 'degF' ? '°F' : '°C';
+  sink.add(
+    `a temperature on the ${scale} scale counts by its number on that scale in a product, quotient or power (20 ${scale} as 20, not as a temperature in kelvin); for an absolute temperature, as in σT⁴, convert it first: (T to K)`,
+  );
+}
