@@ -4,7 +4,7 @@
  * are: in plain mathjs 15.2.0, `75 degC < 300 K` is true and `75 degC - 20 degC` is 55 degC. The engine reads
  * them as the SI does (SI Brochure, 9th edition, 2019, section 2.3.1: t/°C = T/K − 273.15; from memory):
  * - a comparison of temperatures on different scales compares kelvin (`75 degC < 300 K` is false);
- * - one temperature minus another on the same offset scale is a difference, in K (`75 degC - 20 degC` = 55 K);
+ * - one temperature on an offset scale minus another is a difference, in K (`75 degC - 20 degC` = 55 K);
  * - a value is shown on its own scale (75.00 °C), and its SI value is in kelvin (348.15).
  * Sums and products keep mathjs's reading (a degC value plus 10 K is 10 degrees warmer; a product uses the
  * number on the value's scale), which is what temperature-rise and resistance-correction formulas expect.
@@ -41,7 +41,7 @@ export function onOneScale(a: unknown, b: unknown, isUnit: (x: unknown) => x is 
   return [a.to('K'), b.to('K')];
 }
 
-/** One temperature minus another on the same offset scale, as a difference in K; undefined for anything else. */
+/** One temperature on an offset scale minus another (the same scale or not), as a difference in K; undefined for anything else. */
 export function temperatureDifference(a: unknown, b: unknown, isUnit: (x: unknown) => x is MathUnit, subtract: (x: unknown, y: unknown) => unknown): unknown {
   if (!isUnit(a) || !isUnit(b) || !offsetScaleOf(a) || !offsetScaleOf(b) || !a.equalBase(b)) return undefined;
   return subtract(a.to('K'), b.to('K'));
