@@ -27,7 +27,7 @@ describe('the package of a network study', () => {
     expect(text).toMatch(/Voltage distortion at each node/);
     expect(text).toMatch(/Extremes over 40\.00 ms/);
     // The charts: the scan's impedance against frequency, the bars against the IEEE 519 limit, the time response.
-    expect(text).toContain('|Z(LV)| [ohm]');
+    expect(text).toContain('|Z(LV)| [Ω]');
     expect(text).toContain('limit 5 %');
     expect(text).toContain('t [s]');
     expect(text).toMatch(/qualified engineers/);

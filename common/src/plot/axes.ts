@@ -1,5 +1,6 @@
 /** Chart frames and axes with ticks and unit labels, on d3 scales. */
 import { scaleLinear, scaleLog, type ScaleContinuousNumeric } from 'd3-scale';
+import { prettyUnit } from '../units/pretty-unit';
 import { el, PLOT_COLOURS, text } from './svg';
 
 export type Scale = ScaleContinuousNumeric<number, number>;
@@ -92,4 +93,4 @@ export function drawAxes(frame: Frame, x: Scale, y: Scale, xLabel: string, yLabe
   return out;
 }
 
-export const axisLabel = (name: string, unit: string): string => (unit ? `${name} [${unit}]` : name);
+export const axisLabel = (name: string, unit: string): string => (unit ? `${name} [${prettyUnit(unit)}]` : name);

@@ -6,6 +6,7 @@
 import type { Unit as MathUnit } from 'mathjs';
 import { isComplex, isUnit, math } from '../language/math';
 import { frequencyKind, isAnglePower } from './quantities';
+import { prettyUnit } from './pretty-unit';
 import { kelvinOf, offsetScaleOf } from './temperature';
 
 export type SiValue = number | boolean | string | { re: number; im: number } | SiValue[];
@@ -142,18 +143,6 @@ export function formatNumber(x: number, digits: number): string {
     text = `${mantissa}e${exponent.replace('+', '')}`;
   }
   return (x < 0 ? '−' : '') + text;
-}
-
-/** A unit in mathjs syntax ("uF", "kohm", "m/s^2") as shown to a reader ("µF", "kΩ", "m/s²"). */
-export function prettyUnit(unit: string): string {
-  return unit
-    .replace(/\bu(?=[A-Za-zΩ])/g, 'µ')
-    .replace(/ohm/g, 'Ω')
-    .replace(/\^(-?\d+)/g, (_, p: string) => p.replace(/-/g, '⁻').replace(/\d/g, (c) => '⁰¹²³⁴⁵⁶⁷⁸⁹'[Number(c)]))
-    .replace(/ \/ /g, '/')
-    .replace(/ /g, '·')
-    .replace(/^deg$/, '°')
-    .replace(/^deg([CF])$/, '°$1');
 }
 
 function chooseEngineering(magnitude: number, base: string): { unit: string; factor: number } {
