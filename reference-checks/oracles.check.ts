@@ -83,6 +83,20 @@ describe('temperatures against js-quantities 1.8.0 (absolute: tempC, tempF, temp
     expect(check.pass).toBe(expected);
   });
 
+  it("does the same element by element in a table's column", () => {
+    const [, calc] = evaluateSheet({
+      cells: [
+        { kind: 'table', columns: [{ name: 'T_a', unit: 'degC' }], rows: [[25], [40]] },
+        { kind: 'calc', source: 'd = T_a - 20 degC\nhot = T_a > 300 K' },
+      ],
+    }).cells as [unknown, CalcResult];
+    expect(calc.errors).toEqual([]);
+    const d = calc.values.d.si as number[];
+    [25, 40].forEach((t, k) => close(d[k], Qty(`${t} tempC`).sub(Qty('20 tempC')).to('degK').scalar));
+    expect(calc.values.d.display).toBe('[5.000 K, 20.00 K]');
+    expect(calc.values.hot.si).toEqual([25, 40].map((t) => Qty(`${t} tempC`).compareTo(Qty('300 tempK')) > 0));
+  });
+
   it('sweeps a temperature on its own scale, its differences in K', () => {
     const cell = {
       kind: 'sweep' as const,

@@ -48,6 +48,14 @@ describe('calc cells', () => {
     expect(r.warnings.map((w) => w.line)).toEqual([2, 6]);
     expect(r.warnings[0].message).toMatch(/^a temperature on the °C scale counts by its number on that scale .* convert it first: \(T to K\)$/);
     expect(r.warnings[1].message).toMatch(/°F scale/);
+    // A table's column of such temperatures too.
+    const column = evaluateSheet({
+      cells: [
+        { kind: 'table', columns: [{ name: 'T_a', unit: 'degC' }], rows: [[25], [40]] },
+        { kind: 'calc', source: 'p = 2 * T_a\nd = T_a - 20 degC' },
+      ],
+    }).cells[1] as CalcResult;
+    expect(column.warnings.map((w) => w.line)).toEqual([1]);
     // σT⁴ with T in kelvin: 5.670374419e-8 × 348.15⁴ W/m² (CODATA 2018 Stefan–Boltzmann constant).
     expect(r.values.q_K.si).toBeCloseTo(5.670374419e-8 * 348.15 ** 4, 9);
   });

@@ -335,22 +335,21 @@ const withRidingAngleDropped = (name: 'add' | 'subtract' | 'smaller' | 'larger' 
   const plainAsAngle = (x: unknown, other: MathUnit) => (isPureAngle(other) ? asRadians(x) : x);
   // rad², rad⁻¹, ... alone (the (2 pi f)² L C of a filter) is a plain number.
   const plainIfAnglePower = (u: MathUnit): unknown => (isAnglePower(u) ? (u as unknown as { value: unknown }).value : u);
+  // Temperatures on offset scales (degC, degF), alone or in matrices: a difference is in K, a comparison in kelvin.
+  const onTemperatures = (x: unknown, y: unknown): unknown =>
+    name === 'subtract' ? (temperatureDifference(x, y, original) ?? original(x, y)) : name === 'add' ? original(x, y) : original(...onOneScale(x, y));
   return typed(name, {
     'Unit, Unit': (a: MathUnit, b: MathUnit) => {
       if (isAnglePower(a) || isAnglePower(b)) return (math[name] as (x: unknown, y: unknown) => unknown)(plainIfAnglePower(a), plainIfAnglePower(b));
       if (isPureAngle(a) && isDimensionless(b)) return original(a, asRadians((b as unknown as { value: unknown }).value));
       if (isPureAngle(b) && isDimensionless(a)) return original(asRadians((a as unknown as { value: unknown }).value), b);
-      const [x, y] = [dropRidingAngle(a), dropRidingAngle(b)];
-      // Temperatures on offset scales (degC, degF): a difference is in K, a comparison across scales in kelvin.
-      if (name === 'subtract') return temperatureDifference(x, y, isUnit, original) ?? original(x, y);
-      if (name !== 'add') return original(...onOneScale(x, y, isUnit));
-      return original(x, y);
+      return onTemperatures(dropRidingAngle(a), dropRidingAngle(b));
     },
     'number | Complex, Unit': (a: unknown, b: MathUnit) => (isAnglePower(b) ? original(a, plainIfAnglePower(b)) : original(plainAsAngle(a, b), b)),
     'Unit, number | Complex': (a: MathUnit, b: unknown) => (isAnglePower(a) ? original(plainIfAnglePower(a), b) : original(a, plainAsAngle(b, a))),
     'any, any': (a: unknown, b: unknown) => {
       checkCombined([a, b]);
-      return original(a, b);
+      return onTemperatures(a, b);
     },
   });
 };

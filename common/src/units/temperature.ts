@@ -30,27 +30,43 @@ export function kelvinOf(u: MathUnit): unknown {
   return (u.to('K') as unknown as { value: unknown }).value;
 }
 
-/** Both sides in kelvin when they are temperatures on different scales (one at least with an offset); as they are otherwise. */
-export function onOneScale(a: unknown, b: unknown, isUnit: (x: unknown) => x is MathUnit): [unknown, unknown] {
-  if (!isUnit(a) || !isUnit(b)) return [a, b];
-  const sa = offsetScaleOf(a);
-  const sb = offsetScaleOf(b);
-  if (!sa && !sb) return [a, b];
-  if (sa && sb && sa.unit.name === sb.unit.name) return [a, b];
-  if (!a.equalBase(b)) return [a, b]; // mathjs says the units do not match
-  return [a.to('K'), b.to('K')];
-}
-
-/** One temperature on an offset scale minus another (the same scale or not), as a difference in K; undefined for anything else. */
-export function temperatureDifference(a: unknown, b: unknown, isUnit: (x: unknown) => x is MathUnit, subtract: (x: unknown, y: unknown) => unknown): unknown {
-  if (!isUnit(a) || !isUnit(b) || !offsetScaleOf(a) || !offsetScaleOf(b) || !a.equalBase(b)) return undefined;
-  return subtract(a.to('K'), b.to('K'));
-}
-
 /** A temperature with a value on an offset scale (not the valueless degC of `75 degC` being made). */
 function isOffsetTemperature(x: unknown): x is MathUnit {
   if (x === null || typeof x !== 'object' || (x as { isUnit?: boolean }).isUnit !== true) return false;
   return (x as { value: unknown }).value !== null && offsetScaleOf(x as MathUnit) !== undefined;
+}
+
+const isMatrix = (x: unknown): x is { valueOf(): unknown; map(f: (v: unknown) => unknown): unknown } =>
+  x !== null && typeof x === 'object' && (x as { isMatrix?: boolean }).isMatrix === true;
+
+/** The first element of a matrix or an array, or the value itself: the elements share one kind, as a table column's do. */
+function sample(x: unknown): unknown {
+  let v = x;
+  for (;;) {
+    if (Array.isArray(v)) v = v[0];
+    else if (isMatrix(v)) v = v.valueOf();
+    else return v;
+  }
+}
+
+const holdsOffsetTemperature = (x: unknown) => isOffsetTemperature(sample(x));
+
+/** The value with every temperature on an offset scale in it — itself, or a matrix's or array's elements — in kelvin. */
+function inKelvin(x: unknown): unknown {
+  if (isOffsetTemperature(x)) return x.to('K');
+  if (Array.isArray(x)) return x.map(inKelvin);
+  if (isMatrix(x)) return x.map((v) => inKelvin(v));
+  return x;
+}
+
+/** Both sides in kelvin when either holds a temperature on an offset scale (comparing in kelvin is right whatever the scales); as they are otherwise. */
+export function onOneScale(a: unknown, b: unknown): [unknown, unknown] {
+  return holdsOffsetTemperature(a) || holdsOffsetTemperature(b) ? [inKelvin(a), inKelvin(b)] : [a, b];
+}
+
+/** One temperature on an offset scale minus another (the same scale or not; element by element in matrices), as a difference in K; undefined for anything else. */
+export function temperatureDifference(a: unknown, b: unknown, subtract: (x: unknown, y: unknown) => unknown): unknown {
+  return holdsOffsetTemperature(a) && holdsOffsetTemperature(b) ? subtract(inKelvin(a), inKelvin(b)) : undefined;
 }
 
 /** Where a calc line or a check collects what `noteOffsetProduct` finds; undefined elsewhere (a sweep's points). */
@@ -75,7 +91,7 @@ export function collectingNotes<T>(fn: () => T): { value: T; notes: string[] } {
  */
 export function noteOffsetProduct(a: unknown, b: unknown): void {
   if (!sink) return;
-  const t = isOffsetTemperature(a) ? a : isOffsetTemperature(b) ? b : undefined;
+  const t = [sample(a), sample(b)].find(isOffsetTemperature);
   if (!t) return;
   const scale = offsetScaleOf(t)!.unit.name === 'degF' ? '°F' : '°C';
   sink.add(
